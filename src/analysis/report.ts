@@ -1,0 +1,48 @@
+import { AnalysisOptions, AnalysisRecord, analyzeTable, Warning } from './analyzeTable.js';
+import { TwoWayTable } from '../table/twoWayTable.js';
+
+export const TOOL_VERSION = '0.1.0';
+
+export interface InputSummary {
+  file: string;
+  delimiter: string;
+  /** Data records read (after the header). */
+  rowsRead: number;
+  blankLines: number;
+  /** Records skipped for a wrong number of fields (--skip-bad-rows). */
+  badRowsSkipped: number;
+}
+
+export interface PairReport extends AnalysisRecord {
+  tool: { name: 'tabsight'; version: string };
+  command: 'pair';
+  input: InputSummary;
+  settings: { ordinal: boolean; confidence: number; exact: string; simulations: number; seed: number };
+}
+
+export function pairReport(
+  table: TwoWayTable,
+  excluded: number,
+  input: InputSummary,
+  options: AnalysisOptions,
+  extraWarnings: Warning[] = [],
+): PairReport {
+  const record = analyzeTable(table, excluded, options);
+  const { rows, cols, n, ...rest } = record;
+  return {
+    tool: { name: 'tabsight', version: TOOL_VERSION },
+    command: 'pair',
+    input,
+    rows,
+    cols,
+    n,
+    ...rest,
+    warnings: [...extraWarnings, ...record.warnings],
+    settings: { ordinal: options.ordinal, confidence: options.confidence, exact: options.exact, simulations: options.simulations, seed: options.seed },
+  };
+}
+
+export function unknownOrderWarnings(option: string, unknown: readonly string[]): Warning[] {
+  if (unknown.length === 0) return [];
+  return [{ code: 'unknown-level', message: `${option} names ${unknown.map((l) => `"${l}"`).join(', ')}, which never occur${unknown.length === 1 ? 's' : ''} in the counted rows; left out of the order` }];
+}

@@ -1,0 +1,158 @@
+import { adjustPValues, Adjustment } from '../stats/multipleTesting.js';
+import { equalFrequencyBins, naturalRanks } from '../table/bins.js';
+import { CodedColumn, crossCount } from '../table/crossCount.js';
+import { AnalysisOptions, AnalysisRecord, analyzeTable } from './analyzeTable.js';
+import type { InputSummary } from './report.js';
+import { TOOL_VERSION } from './report.js';
+
+/** What the screening needs to know of each candidate column. */
+export interface ScanColumn {
+  name: string;
+  labels: string[];
+  codes: Uint16Array | Uint32Array | null;
+  missing: number;
+  distinct: number;
+  distinctCapped: boolean;
+  numeric: boolean;
+  integer: boolean;
+  values: Float64Array | null;
+}
+
+export interface ScanOptions {
+  maxLevels: number;
+  bins: number | null;
+  adjustment: Adjustment;
+  alpha: number;
+  top: number | null;
+  full: boolean;
+  analysis: AnalysisOptions;
+}
+
+export interface SkippedColumn {
+  column: string;
+  reason: string;
+  code: 'no-values' | 'single-level' | 'identifier' | 'numeric' | 'too-many-levels';
+}
+
+export interface ScanPair extends Omit<AnalysisRecord, 'counts' | 'expected' | 'residuals' | 'contributions' | 'percentages'> {
+  rank: number;
+  pAdjusted: number;
+  passes: boolean;
+  counts?: number[][];
+  expected?: number[][];
+  residuals?: AnalysisRecord['residuals'];
+  contributions?: number[][];
+  percentages?: AnalysisRecord['percentages'];
+}
+
+export interface UntestablePair {
+  rows: string;
+  cols: string;
+  reason: string;
+}
+
+export interface ScanReport {
+  tool: { name: 'tabsight'; version: string };
+  command: 'scan';
+  input: InputSummary;
+  n: number;
+  adjustment: Adjustment;
+  alpha: number;
+  columnsScored: string[];
+  pairsTested: number;
+  pairsPassing: number;
+  pairs: ScanPair[];
+  skipped: SkippedColumn[];
+  untestable: UntestablePair[];
+}
+
+const IDENTIFIER_SHARE = 0.9;
+
+/** Screening: decides which candidates take part, with the reason for each one left out. */
+export function screenColumn(column: ScanColumn, rows: number, options: Pick<ScanOptions, 'maxLevels' | 'bins'>): SkippedColumn | null {
+  const present = rows - column.missing;
+  const distinct = column.distinctCapped ? `more than ${column.distinct.toLocaleString('en-US')}` : column.distinct.toLocaleString('en-US');
+  if (present === 0) return { column: column.name, code: 'no-values', reason: 'every value is missing' };
+  if (column.distinct === 1) return { column: column.name, code: 'single-level', reason: `a single level ("${column.labels[0]}")` };
+  const looksLikeIdentifier = column.distinct >= IDENTIFIER_SHARE * present && column.distinct > 10 && (!column.numeric || column.integer);
+  if (looksLikeIdentifier) {
+    return { column: column.name, code: 'identifier', reason: `an identifier: ${distinct} distinct values in ${present.toLocaleString('en-US')} rows` };
+  }
+  if (column.codes === null) {
+    if (column.numeric && options.bins !== null) return null; // binned below
+    if (column.numeric) {
+      return { column: column.name, code: 'numeric', reason: `numeric with ${distinct} distinct values; --bins 5 cuts it into 5 equal-frequency groups` };
+    }
+    return { column: column.name, code: 'too-many-levels', reason: `${distinct} distinct values, more than --max-levels ${options.maxLevels}` };
+  }
+  return null;
+}
+
+/** Turns a screened column into codes in report order (natural order, or bins lowest first). */
+export function codedColumn(column: ScanColumn, bins: number | null): CodedColumn {
+  if (column.codes === null) {
+    const binning = equalFrequencyBins(column.values as Float64Array, bins as number);
+    return { name: column.name, labels: binning.labels, codes: binning.codes };
+  }
+  const rank = naturalRanks(column.labels);
+  const labels = new Array<string>(column.labels.length);
+  column.labels.forEach((l, code) => (labels[rank[code]] = l));
+  const remap = new Uint32Array(column.labels.length + 1);
+  for (let code = 1; code <= column.labels.length; code++) remap[code] = rank[code - 1] + 1;
+  const codes = column.codes instanceof Uint32Array ? new Uint32Array(column.codes.length) : new Uint16Array(column.codes.length);
+  for (let k = 0; k < codes.length; k++) codes[k] = remap[column.codes[k]];
+  return { name: column.name, labels, codes };
+}
+
+/**
+ * Scores every pair of the screened columns with the same analysis as a
+ * single pair, adjusts the Pearson p-values for the number of pairs tested,
+ * and ranks the pairs by bias-corrected V (ties by p-value).
+ */
+export function scanColumns(columns: ScanColumn[], rows: number, input: InputSummary, options: ScanOptions): ScanReport {
+  const skipped: SkippedColumn[] = [];
+  const coded: CodedColumn[] = [];
+  for (const column of columns) {
+    const reason = screenColumn(column, rows, options);
+    if (reason) skipped.push(reason);
+    else coded.push(codedColumn(column, options.bins));
+  }
+  const untestable: UntestablePair[] = [];
+  const records: AnalysisRecord[] = [];
+  for (let a = 0; a < coded.length; a++) {
+    for (let b = a + 1; b < coded.length; b++) {
+      const { table, excluded } = crossCount(coded[a], coded[b]);
+      if (table.rowLevels.length < 2 || table.colLevels.length < 2) {
+        const side = table.rowLevels.length < 2 ? table.rowName : table.colName;
+        untestable.push({ rows: table.rowName, cols: table.colName, reason: `"${side}" has fewer than two levels where "${side === table.rowName ? table.colName : table.rowName}" has a value` });
+        continue;
+      }
+      records.push(analyzeTable(table, excluded, options.analysis));
+    }
+  }
+  const adjusted = adjustPValues(records.map((r) => r.tests.pearson.pValue), options.adjustment);
+  let pairs: ScanPair[] = records.map((record, k) => {
+    const { counts, expected, residuals, contributions, percentages, ...rest } = record;
+    const pair: ScanPair = { ...rest, rank: 0, pAdjusted: adjusted[k], passes: adjusted[k] <= options.alpha };
+    if (options.full) Object.assign(pair, { counts, expected, residuals, contributions, percentages });
+    return pair;
+  });
+  pairs.sort((x, y) => (y.measures.biasCorrectedV ?? -1) - (x.measures.biasCorrectedV ?? -1) || x.tests.pearson.pValue - y.tests.pearson.pValue);
+  pairs.forEach((p, k) => (p.rank = k + 1));
+  const pairsPassing = pairs.filter((p) => p.passes).length;
+  if (options.top !== null) pairs = pairs.slice(0, options.top);
+  return {
+    tool: { name: 'tabsight', version: TOOL_VERSION },
+    command: 'scan',
+    input,
+    n: rows,
+    adjustment: options.adjustment,
+    alpha: options.alpha,
+    columnsScored: coded.map((c) => c.name),
+    pairsTested: records.length,
+    pairsPassing,
+    pairs,
+    skipped,
+    untestable,
+  };
+}

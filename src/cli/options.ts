@@ -1,0 +1,85 @@
+import { Command, Option } from 'commander';
+import { usageError } from '../errors.js';
+import { parseDelimiterOption, ReaderOptions } from '../io/readRecords.js';
+import { AnalysisOptions, DEFAULT_ANALYSIS_OPTIONS, ExactPolicy } from '../analysis/analyzeTable.js';
+
+/** Options every reading command shares, declared once. */
+export function addReaderOptions(command: Command): Command {
+  return command
+    .option('--delimiter <char>', 'field separator (default: detected from the header among , ; tab |)')
+    .option('--missing <tokens>', 'comma-separated values that count as missing, besides empty fields (e.g. "NA,n/a,-")')
+    .option('--skip-bad-rows', 'count and skip rows with the wrong number of fields instead of stopping')
+    .option('--encoding <name>', 'text encoding when not UTF-8 (latin1, windows-1252, utf-16le, …)')
+    .option('--no-header', 'the first line is data; columns are named 1, 2, 3, …')
+    .option('--max-levels <n>', 'refuse a column with more distinct values than this', '50');
+}
+
+export function addAnalysisOptions(command: Command): Command {
+  return command
+    .option('--ordinal', 'both variables are ordered, in the level order in force: adds ordinal measures and the linear-by-linear test')
+    .addOption(new Option('--exact <when>', 'exact p-values: auto (when counts are small), always, never').choices(['auto', 'always', 'never']).default('auto'))
+    .option('--simulations <n>', 'random tables for the simulated exact p-value', String(DEFAULT_ANALYSIS_OPTIONS.simulations))
+    .option('--seed <n>', 'seed of the random tables, so runs repeat', String(DEFAULT_ANALYSIS_OPTIONS.seed))
+    .option('--confidence <level>', 'confidence level of the intervals', '0.95');
+}
+
+export function positiveInteger(value: string, option: string, min = 1): number {
+  if (!/^\d+$/.test(value.trim())) throw usageError(`${option} "${value}": expected a whole number`);
+  const n = Number(value);
+  if (n < min || !Number.isSafeInteger(n)) throw usageError(`${option} "${value}": expected a whole number of at least ${min}`);
+  return n;
+}
+
+export function probability(value: string, option: string): number {
+  const x = Number(value);
+  if (value.trim() === '' || !(x > 0 && x < 1)) throw usageError(`${option} "${value}": expected a number between 0 and 1 (exclusive)`);
+  return x;
+}
+
+/** Splits a comma-separated option value, trimming each item; empty items are dropped. */
+export function splitList(value: string | undefined): string[] | undefined {
+  if (value === undefined) return undefined;
+  return value
+    .split(',')
+    .map((s) => s.trim())
+    .filter((s) => s !== '');
+}
+
+export interface RawReaderOptions {
+  delimiter?: string;
+  missing?: string;
+  skipBadRows?: boolean;
+  encoding?: string;
+  header: boolean;
+  maxLevels: string;
+}
+
+export function readerPlan(raw: RawReaderOptions): ReaderOptions & { maxLevels: number } {
+  return {
+    delimiter: raw.delimiter === undefined ? undefined : parseDelimiterOption(raw.delimiter),
+    encoding: raw.encoding,
+    missing: splitList(raw.missing) ?? [],
+    skipBadRows: raw.skipBadRows === true,
+    header: raw.header !== false,
+    maxLevels: positiveInteger(raw.maxLevels, '--max-levels', 2),
+  };
+}
+
+export interface RawAnalysisOptions {
+  ordinal?: boolean;
+  exact: string;
+  simulations: string;
+  seed: string;
+  confidence: string;
+}
+
+export function analysisPlan(raw: RawAnalysisOptions): AnalysisOptions {
+  return {
+    ordinal: raw.ordinal === true,
+    exact: raw.exact as ExactPolicy,
+    simulations: positiveInteger(raw.simulations, '--simulations', 0),
+    seed: positiveInteger(raw.seed, '--seed', 0),
+    confidence: probability(raw.confidence, '--confidence'),
+    exactWorkLimit: DEFAULT_ANALYSIS_OPTIONS.exactWorkLimit,
+  };
+}

@@ -1,0 +1,106 @@
+import { Command, Option } from 'commander';
+import { scanColumns } from '../analysis/scan.js';
+import { encodeColumns } from '../io/encodeColumns.js';
+import { checkReadable, inputSource } from '../io/source.js';
+import { toJson } from '../render/json.js';
+import { renderScanDelimited, renderScanMarkdown, renderScanText } from '../render/scanTable.js';
+import type { Adjustment } from '../stats/multipleTesting.js';
+import { addAnalysisOptions, addReaderOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, readerPlan, splitList } from './options.js';
+import { painter, writeOut } from './output.js';
+
+interface RawScanOptions extends RawReaderOptions, RawAnalysisOptions {
+  columns?: string;
+  exclude?: string;
+  bins?: string;
+  adjust: Adjustment;
+  alpha: string;
+  top?: string;
+  full?: boolean;
+  format: 'text' | 'json' | 'csv' | 'tsv' | 'markdown';
+  color?: boolean;
+}
+
+/** Progress on stderr, only for a terminal and only once the work takes more than a moment. */
+function progressReporter(): { tick: (rows: number) => void; done: () => void } {
+  const started = Date.now();
+  let shown = false;
+  const active = process.stderr.isTTY === true;
+  return {
+    tick: (rows) => {
+      if (!active) return;
+      const seconds = (Date.now() - started) / 1000;
+      if (seconds < 1) return;
+      shown = true;
+      process.stderr.write(`\rreading: ${rows.toLocaleString('en-US')} rows (${Math.round(rows / seconds).toLocaleString('en-US')} rows/s)   `);
+    },
+    done: () => {
+      if (shown) process.stderr.write('\r\x1b[K');
+    },
+  };
+}
+
+export function scanCommand(): Command {
+  const command = new Command('scan')
+    .description('score every pair of columns in one read, strongest first, with multiple-testing control')
+    .argument('[file]', 'CSV file, or - (or nothing) for standard input')
+    .option('--columns <names>', 'comma-separated candidate columns (default: all)')
+    .option('--exclude <names>', 'comma-separated columns to leave out')
+    .option('--bins <k>', 'cut numeric columns with many values into k equal-frequency bins')
+    .addOption(new Option('--adjust <method>', 'multiple-testing adjustment of the p-values').choices(['bh', 'holm', 'bonferroni', 'none']).default('bh'))
+    .option('--alpha <level>', 'a pair passes when its adjusted p-value is at most this', '0.05')
+    .option('--top <k>', 'keep only the k strongest pairs')
+    .option('--full', 'include each pair\'s counts, expected counts, residuals and percentages (json)')
+    .addOption(new Option('--format <format>', 'output format').choices(['text', 'json', 'csv', 'tsv', 'markdown']).default('text'))
+    .option('--no-color', 'plain text without colour');
+  addReaderOptions(command);
+  addAnalysisOptions(command);
+  command.action(async (file: string | undefined, raw: RawScanOptions) => {
+    const source = inputSource(file);
+    const reader = readerPlan(raw);
+    const analysis = analysisPlan(raw);
+    const bins = raw.bins === undefined ? null : positiveInteger(raw.bins, '--bins', 2);
+    const alpha = probability(raw.alpha, '--alpha');
+    const top = raw.top === undefined ? null : positiveInteger(raw.top, '--top');
+    checkReadable(source);
+    const progress = progressReporter();
+    const encoded = await encodeColumns(source, reader, {
+      columns: splitList(raw.columns),
+      exclude: splitList(raw.exclude),
+      maxLevels: reader.maxLevels,
+      keepNumeric: bins !== null,
+      progress: raw.format === 'text' ? progress.tick : undefined,
+    });
+    progress.done();
+    const report = scanColumns(
+      encoded.columns,
+      encoded.rows,
+      {
+        file: source.label,
+        delimiter: encoded.summary.delimiter,
+        rowsRead: encoded.summary.records,
+        blankLines: encoded.summary.blankLines,
+        badRowsSkipped: encoded.summary.badRows,
+      },
+      { maxLevels: reader.maxLevels, bins, adjustment: raw.adjust, alpha, top, full: raw.full === true, analysis },
+    );
+    let text: string;
+    switch (raw.format) {
+      case 'json':
+        text = toJson(report);
+        break;
+      case 'csv':
+        text = renderScanDelimited(report, ',');
+        break;
+      case 'tsv':
+        text = renderScanDelimited(report, '\t');
+        break;
+      case 'markdown':
+        text = renderScanMarkdown(report);
+        break;
+      default:
+        text = renderScanText(report, painter(raw.color));
+    }
+    await writeOut(text);
+  });
+  return command;
+}

@@ -1,0 +1,31 @@
+/**
+ * The one error type for failures a user can act on. It carries the exit
+ * status and a one-line message; the CLI prints the message once and exits.
+ * Anything else thrown is a bug.
+ */
+export const ExitStatus = {
+  ok: 0,
+  /** The data cannot be read or analysed (unknown file, malformed CSV, one-level column). */
+  dataError: 1,
+  /** Bad usage: unknown option, unknown column, invalid option value. */
+  usageError: 2,
+} as const;
+
+export type ExitStatusCode = (typeof ExitStatus)[keyof typeof ExitStatus];
+
+export class TabsightError extends Error {
+  readonly exitStatus: ExitStatusCode;
+  constructor(message: string, exitStatus: ExitStatusCode = ExitStatus.dataError) {
+    super(message.replace(/\s*\n\s*/g, ' '));
+    this.name = 'TabsightError';
+    this.exitStatus = exitStatus;
+  }
+}
+
+export function usageError(message: string): TabsightError {
+  return new TabsightError(message, ExitStatus.usageError);
+}
+
+export function dataError(message: string): TabsightError {
+  return new TabsightError(message, ExitStatus.dataError);
+}

@@ -1,0 +1,252 @@
+import { dataError } from '../errors.js';
+
+/**
+ * A byte-level tokenizer for RFC 4180 CSV (Shafranovich 2005): fields split
+ * by a one-byte delimiter, records ended by LF, CRLF or a lone CR, fields
+ * optionally quoted with '"', a quote inside a quoted field written twice,
+ * delimiters and line breaks allowed inside quotes. Strict where RFC 4180 is:
+ * a quote inside an unquoted field, or anything but a delimiter or line end
+ * after a closing quote, is an error naming the line.
+ *
+ * It works on a sliding window of bytes so that memory does not grow with
+ * the file, decodes only the fields a caller asked for, and counts physical
+ * lines so that errors can name them. Blank lines are skipped and counted.
+ */
+
+export interface TokenizerHandlers {
+  /** The first record. Returns, for each field index, the slot to decode it into (or −1 to skip). */
+  header(fields: string[], line: number): Int32Array;
+  /** A record: values by slot (undefined for fields the record did not have), its field count and first line. */
+  record(values: (string | undefined)[], fieldCount: number, line: number): void;
+}
+
+const QUOTE = 0x22;
+const LF = 0x0a;
+const CR = 0x0d;
+
+export class CsvTokenizer {
+  private window = new Uint8Array(1 << 16);
+  private view = Buffer.from(this.window.buffer, 0, this.window.length);
+  private start = 0;
+  private end = 0;
+  private line = 1;
+  private slots: Int32Array | null = null;
+  private values: (string | undefined)[] = [];
+  private retryAt = 0;
+  /** Blank (empty or whitespace-only) lines skipped. */
+  blankLines = 0;
+  /** Records seen after the header. */
+  records = 0;
+
+  constructor(
+    private readonly delimiter: number,
+    private readonly handlers: TokenizerHandlers,
+    private readonly label: string,
+  ) {}
+
+  push(chunk: Uint8Array): void {
+    this.append(chunk);
+    // A long partial record is only re-scanned once the window has grown
+    // enough, so one huge field costs linear, not quadratic, time.
+    if (this.end - this.start < this.retryAt) return;
+    this.parse(false);
+  }
+
+  finish(): void {
+    this.parse(true);
+  }
+
+  private append(chunk: Uint8Array): void {
+    const pending = this.end - this.start;
+    if (this.end + chunk.length > this.window.length) {
+      if (pending + chunk.length <= this.window.length && this.start > 0) {
+        this.window.copyWithin(0, this.start, this.end);
+      } else {
+        const grown = new Uint8Array(Math.max(this.window.length * 2, pending + chunk.length));
+        grown.set(this.window.subarray(this.start, this.end));
+        this.window = grown;
+        this.view = Buffer.from(grown.buffer, 0, grown.length);
+      }
+      this.start = 0;
+      this.end = pending;
+    }
+    this.window.set(chunk, this.end);
+    this.end += chunk.length;
+  }
+
+  private fail(message: string, line: number): never {
+    throw dataError(`${this.label}, line ${line}: ${message}`);
+  }
+
+  /** Parses as many complete records as the window holds. */
+  private parse(final: boolean): void {
+    const buf = this.window;
+    const end = this.end;
+    const delimiter = this.delimiter;
+    let p = this.start;
+    while (p < end) {
+      const recordStart = p;
+      const recordLine = this.line;
+      let line = this.line;
+      // Blank line
+      if (buf[p] === LF || buf[p] === CR) {
+        if (buf[p] === CR) {
+          if (p + 1 >= end && !final) break;
+          p += buf[p + 1] === LF ? 2 : 1;
+        } else p++;
+        this.line = line + 1;
+        this.blankLines++;
+        this.start = p;
+        continue;
+      }
+      const slots = this.slots;
+      const values = this.values;
+      if (slots !== null) for (let k = 0; k < values.length; k++) values[k] = undefined;
+      const headerFields: string[] = [];
+      let field = 0;
+      let complete = false;
+      let onlyWhitespace = true;
+      for (;;) {
+        let value: string | undefined;
+        const wanted = slots === null || (field < slots.length && slots[field] >= 0);
+        if (p < end && buf[p] === QUOTE) {
+          // Quoted field
+          const quoteLine = line;
+          let q = p + 1;
+          let segmentStart = q;
+          let text = '';
+          let closed = false;
+          while (q < end) {
+            const b = buf[q];
+            if (b === QUOTE) {
+              if (q + 1 < end && buf[q + 1] === QUOTE) {
+                if (wanted) text += this.view.toString('utf8', segmentStart, q + 1);
+                q += 2;
+                segmentStart = q;
+                continue;
+              }
+              if (q + 1 >= end && !final) break; // cannot tell yet
+              if (wanted) text += this.view.toString('utf8', segmentStart, q);
+              q++;
+              closed = true;
+              break;
+            }
+            if (b === LF) line++;
+            q++;
+          }
+          if (!closed) {
+            if (final) this.fail(`a quoted field opened here (column ${field + 1}) is never closed`, quoteLine);
+            break; // need more data
+          }
+          p = q;
+          if (p < end && buf[p] !== delimiter && buf[p] !== LF && buf[p] !== CR) {
+            this.fail(`unexpected character after the closing quote of field ${field + 1}; a quote inside a quoted field must be doubled ("")`, line);
+          }
+          value = wanted ? text : undefined;
+          onlyWhitespace = false;
+        } else {
+          const s = p;
+          while (p < end) {
+            const b = buf[p];
+            if (b === delimiter || b === LF || b === CR) break;
+            if (b === QUOTE) this.fail(`a quote inside the unquoted field ${field + 1}; quote the whole field and double the inner quotes`, line);
+            p++;
+          }
+          if (p >= end && !final) break;
+          if (wanted) value = this.view.toString('utf8', s, p);
+          if (onlyWhitespace) {
+            for (let k = s; k < p; k++) {
+              const b = buf[k];
+              if (b !== 0x20 && b !== 0x09) {
+                onlyWhitespace = false;
+                break;
+              }
+            }
+          }
+        }
+        if (slots === null) headerFields.push(value as string);
+        else if (wanted && value !== undefined) values[slots[field]] = value;
+        field++;
+        if (p >= end) {
+          if (!final) break;
+          complete = true;
+          break;
+        }
+        const b = buf[p];
+        if (b === delimiter) {
+          p++;
+          onlyWhitespace = false;
+          continue;
+        }
+        if (b === LF) {
+          p++;
+          line++;
+          complete = true;
+          break;
+        }
+        // CR
+        if (p + 1 >= end && !final) break;
+        p += buf[p + 1] === LF ? 2 : 1;
+        line++;
+        complete = true;
+        break;
+      }
+      if (!complete) {
+        this.retryAt = end - recordStart > 1 << 20 ? 2 * (end - recordStart) : 0;
+        p = recordStart;
+        break;
+      }
+      this.retryAt = 0;
+      this.line = line;
+      this.start = p;
+      if (field === 1 && onlyWhitespace) {
+        this.blankLines++;
+        continue;
+      }
+      if (this.slots === null) {
+        this.slots = this.handlers.header(headerFields, recordLine);
+        let maxSlot = -1;
+        for (const s of this.slots) if (s > maxSlot) maxSlot = s;
+        this.values = new Array(maxSlot + 1).fill(undefined);
+      } else {
+        this.records++;
+        this.handlers.record(values, field, recordLine);
+      }
+    }
+    this.start = p;
+    if (final && this.start < this.end) {
+      this.fail('the file ends inside a record', this.line);
+    }
+  }
+}
+
+/** Counts a delimiter candidate's occurrences outside quotes in a line. */
+function countOutsideQuotes(line: string, ch: string): number {
+  let inQuotes = false;
+  let count = 0;
+  for (const c of line) {
+    if (c === '"') inQuotes = !inQuotes;
+    else if (c === ch && !inQuotes) count++;
+  }
+  return count;
+}
+
+export const DELIMITER_CANDIDATES = [',', ';', '\t', '|'];
+
+/**
+ * Picks the delimiter from the header line: the candidate among , ; tab |
+ * that occurs most often outside quotes (ties go to the earlier candidate);
+ * a comma when none occurs (a one-column file).
+ */
+export function detectDelimiter(headerLine: string): string {
+  let best = ',';
+  let bestCount = 0;
+  for (const candidate of DELIMITER_CANDIDATES) {
+    const count = countOutsideQuotes(headerLine, candidate);
+    if (count > bestCount) {
+      best = candidate;
+      bestCount = count;
+    }
+  }
+  return best;
+}

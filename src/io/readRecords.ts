@@ -1,0 +1,136 @@
+import { dataError, usageError } from '../errors.js';
+import { validateHeader } from './columns.js';
+import { CsvTokenizer, detectDelimiter } from './csvTokenizer.js';
+import { InputSource, utf8Chunks } from './source.js';
+
+export interface ReaderOptions {
+  /** One character; detected from the header line when absent. */
+  delimiter?: string;
+  /** A legacy encoding name for TextDecoder; UTF-8/UTF-16 with a BOM need none. */
+  encoding?: string;
+  /** Values (after trimming) that count as missing, besides the empty string. */
+  missing: readonly string[];
+  /** Count and skip records with the wrong number of fields instead of failing. */
+  skipBadRows: boolean;
+  /** False when the first record is data; columns are then named 1, 2, 3, … */
+  header: boolean;
+}
+
+export interface ReadSummary {
+  header: string[];
+  delimiter: string;
+  /** Data records seen (after the header, blank lines not counted). */
+  records: number;
+  blankLines: number;
+  /** Records skipped for a wrong field count (with --skip-bad-rows). */
+  badRows: number;
+}
+
+/** A value as the analysis sees it: trimmed, or null when missing. */
+export type Cell = string | null;
+
+export type ColumnSelector = (header: string[]) => number[];
+export type RowHandler = (values: Cell[], line: number) => void;
+
+const SAMPLE_LIMIT = 1 << 20;
+
+export function parseDelimiterOption(value: string): string {
+  const named: Record<string, string> = { tab: '\t', '\\t': '\t', comma: ',', semicolon: ';', pipe: '|' };
+  const delimiter = named[value.toLowerCase()] ?? value;
+  if (delimiter.length !== 1 || delimiter === '"' || delimiter === '\n' || delimiter === '\r' || delimiter.charCodeAt(0) > 0x7f) {
+    throw usageError(`--delimiter "${value}": give one ASCII character other than a quote or line break (or tab, comma, semicolon, pipe)`);
+  }
+  return delimiter;
+}
+
+/**
+ * Streams the records of a CSV source, handing each selected column's value
+ * (trimmed; null when missing) to onRow. Only the selected columns are
+ * decoded and nothing is kept, so memory does not grow with the file.
+ */
+export async function readRecords(source: InputSource, options: ReaderOptions, select: ColumnSelector, onRow: RowHandler): Promise<ReadSummary> {
+  const missing = new Set(options.missing.map((m) => m.trim()));
+  let header: string[] = [];
+  let selected: number[] = [];
+  let delimiter = options.delimiter;
+  let tokenizer: CsvTokenizer | null = null;
+  let badRows = 0;
+  const buffered: Uint8Array[] = [];
+  let bufferedLength = 0;
+  const out: Cell[] = [];
+
+  const toCell = (raw: string | undefined): Cell => {
+    if (raw === undefined) return null;
+    const value = raw.trim();
+    return value === '' || missing.has(value) ? null : value;
+  };
+
+  const start = (sample: Uint8Array) => {
+    if (delimiter === undefined) {
+      const text = Buffer.from(sample.buffer, sample.byteOffset, Math.min(sample.length, SAMPLE_LIMIT)).toString('utf8');
+      const firstLine = text.split(/\r\n|\n|\r/).find((l) => l.trim() !== '') ?? '';
+      delimiter = detectDelimiter(firstLine);
+    }
+    tokenizer = new CsvTokenizer(
+      delimiter.charCodeAt(0),
+      {
+        header: (fields, line) => {
+          if (options.header) {
+            header = fields.map((f) => f.trim());
+            validateHeader(header, source.label, line);
+          } else {
+            header = fields.map((_f, i) => String(i + 1));
+          }
+          selected = select(header);
+          const slots = new Int32Array(header.length).fill(-1);
+          selected.forEach((column, slot) => (slots[column] = slot));
+          out.length = selected.length;
+          if (!options.header) {
+            // The first record is data: deliver it too.
+            selected.forEach((column, slot) => (out[slot] = toCell(fields[column])));
+            onRow(out, line);
+          }
+          return slots;
+        },
+        record: (values, fieldCount, line) => {
+          if (fieldCount !== header.length) {
+            if (options.skipBadRows) {
+              badRows++;
+              return;
+            }
+            throw dataError(
+              `${source.label}, line ${line}: ${fieldCount} field${fieldCount === 1 ? '' : 's'} where the header has ${header.length}; fix the row or pass --skip-bad-rows to count and skip such rows`,
+            );
+          }
+          for (let k = 0; k < values.length; k++) out[k] = toCell(values[k]);
+          onRow(out, line);
+        },
+      },
+      source.label,
+    );
+  };
+
+  for await (const chunk of utf8Chunks(source, options.encoding)) {
+    if (tokenizer === null) {
+      buffered.push(chunk);
+      bufferedLength += chunk.length;
+      const joined = Buffer.concat(buffered);
+      if (joined.indexOf(0x0a) < 0 && bufferedLength < SAMPLE_LIMIT) continue;
+      start(joined);
+      (tokenizer as unknown as CsvTokenizer).push(joined);
+      continue;
+    }
+    (tokenizer as CsvTokenizer).push(chunk);
+  }
+  if (tokenizer === null) {
+    if (bufferedLength === 0) throw dataError(`${source.label}: the file is empty`);
+    const joined = Buffer.concat(buffered);
+    start(joined);
+    (tokenizer as unknown as CsvTokenizer).push(joined);
+  }
+  const t = tokenizer as unknown as CsvTokenizer;
+  t.finish();
+  if (header.length === 0) throw dataError(`${source.label}: no header line (the file holds only blank lines)`);
+  const records = options.header ? t.records : t.records + 1;
+  return { header, delimiter: delimiter as string, records, blankLines: t.blankLines, badRows };
+}

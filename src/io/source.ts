@@ -1,0 +1,199 @@
+import { createReadStream, promises as fs } from 'node:fs';
+import { isUtf8 } from 'node:buffer';
+import { TextDecoder } from 'node:util';
+import { dataError, usageError } from '../errors.js';
+
+/** Where the CSV comes from: a path, or '-' for standard input. */
+export interface InputSource {
+  path: string;
+  /** How the file is named in messages. */
+  label: string;
+}
+
+export function inputSource(path: string | undefined): InputSource {
+  if (path === undefined || path === '-') return { path: '-', label: 'standard input' };
+  return { path, label: path };
+}
+
+function describeOpenError(source: InputSource, error: NodeJS.ErrnoException): Error {
+  switch (error.code) {
+    case 'ENOENT':
+      return dataError(`${source.label}: no such file`);
+    case 'EISDIR':
+      return dataError(`${source.label}: is a directory, not a CSV file`);
+    case 'EACCES':
+    case 'EPERM':
+      return dataError(`${source.label}: permission denied`);
+    default:
+      return dataError(`${source.label}: cannot read (${error.code ?? error.message})`);
+  }
+}
+
+/**
+ * Streams the raw bytes of the source. Files are checked first so that a
+ * directory or a missing file gives a clear message before any work.
+ */
+export async function* rawChunks(source: InputSource): AsyncGenerator<Buffer> {
+  let stream: NodeJS.ReadableStream;
+  if (source.path === '-') {
+    stream = process.stdin;
+  } else {
+    try {
+      const stat = await fs.stat(source.path);
+      if (stat.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
+      await fs.access(source.path, fs.constants.R_OK);
+    } catch (error) {
+      throw describeOpenError(source, error as NodeJS.ErrnoException);
+    }
+    stream = createReadStream(source.path, { highWaterMark: 1 << 20 });
+  }
+  try {
+    for await (const chunk of stream) yield chunk as Buffer;
+  } catch (error) {
+    throw describeOpenError(source, error as NodeJS.ErrnoException);
+  }
+}
+
+export type Encoding = 'utf-8' | 'utf-16le' | 'utf-16be';
+
+/** The byte offset and line of the first invalid UTF-8 sequence in bytes, or −1. */
+export function firstInvalidUtf8(bytes: Uint8Array): number {
+  let i = 0;
+  while (i < bytes.length) {
+    const b = bytes[i];
+    let extra: number;
+    let min: number;
+    if (b < 0x80) {
+      i++;
+      continue;
+    } else if (b >= 0xc2 && b <= 0xdf) {
+      extra = 1;
+      min = 0x80;
+    } else if (b >= 0xe0 && b <= 0xef) {
+      extra = 2;
+      min = 0x800;
+    } else if (b >= 0xf0 && b <= 0xf4) {
+      extra = 3;
+      min = 0x10000;
+    } else return i;
+    if (i + extra > bytes.length - 1) return i;
+    let code = b & (0x3f >> extra);
+    for (let k = 1; k <= extra; k++) {
+      const c = bytes[i + k];
+      if ((c & 0xc0) !== 0x80) return i;
+      code = (code << 6) | (c & 0x3f);
+    }
+    if (code < min || code > 0x10ffff || (code >= 0xd800 && code <= 0xdfff)) return i;
+    i += extra + 1;
+  }
+  return -1;
+}
+
+function lineAt(bytesBefore: Uint8Array[], offsetInLast: number): number {
+  let line = 1;
+  bytesBefore.forEach((chunk, k) => {
+    const limit = k === bytesBefore.length - 1 ? offsetInLast : chunk.length;
+    for (let i = 0; i < limit; i++) if (chunk[i] === 0x0a) line++;
+  });
+  return line;
+}
+
+/**
+ * Decodes the source to UTF-8 bytes: a UTF-8 byte-order mark is dropped,
+ * UTF-16 (LE or BE, recognised by its mark) is transcoded, and anything
+ * else must be valid UTF-8 without NUL bytes; otherwise one line names the
+ * byte offset and line.
+ */
+export async function* utf8Chunks(source: InputSource, encoding?: string): AsyncGenerator<Uint8Array> {
+  if (encoding !== undefined && !/^utf-?8$/i.test(encoding)) {
+    yield* transcodedChunks(source, encoding);
+    return;
+  }
+  let first = true;
+  let carry: Buffer = Buffer.alloc(0);
+  let offset = 0; // bytes of the source consumed before the current chunk
+  let newlinesBefore = 0;
+  let decoder: TextDecoder | null = null;
+  for await (const raw of rawChunks(source)) {
+    let chunk = raw;
+    if (first) {
+      first = false;
+      if (chunk[0] === 0xff && chunk[1] === 0xfe) decoder = new TextDecoder('utf-16le', { fatal: true });
+      else if (chunk[0] === 0xfe && chunk[1] === 0xff) decoder = new TextDecoder('utf-16be', { fatal: true });
+      else if (chunk[0] === 0xef && chunk[1] === 0xbb && chunk[2] === 0xbf) {
+        chunk = chunk.subarray(3);
+        offset = 3;
+      }
+    }
+    if (decoder) {
+      let text: string;
+      try {
+        text = decoder.decode(chunk, { stream: true });
+      } catch {
+        throw dataError(`${source.label}: invalid UTF-16 near byte ${offset}`);
+      }
+      offset += chunk.length;
+      if (text.length > 0) yield Buffer.from(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text, 'utf8');
+      continue;
+    }
+    let bytes = carry.length > 0 ? Buffer.concat([carry, chunk]) : chunk;
+    // Hold back an incomplete multi-byte sequence at the end for the next chunk.
+    let cut = bytes.length;
+    for (let k = 1; k <= 3 && k <= bytes.length; k++) {
+      const b = bytes[bytes.length - k];
+      if ((b & 0xc0) === 0x80) continue;
+      const needed = b >= 0xf0 ? 4 : b >= 0xe0 ? 3 : b >= 0xc0 ? 2 : 1;
+      if (needed > k) cut = bytes.length - k;
+      break;
+    }
+    carry = Buffer.from(bytes.subarray(cut));
+    bytes = bytes.subarray(0, cut);
+    const nul = bytes.indexOf(0);
+    if (nul >= 0) {
+      throw dataError(`${source.label}: NUL byte at byte offset ${offset + nul} (line ${newlinesBefore + lineAt([bytes], nul)}); this looks like a binary file or UTF-16 without a byte-order mark`);
+    }
+    if (!isUtf8(bytes)) {
+      const bad = firstInvalidUtf8(bytes);
+      throw dataError(
+        `${source.label}: invalid UTF-8 at byte offset ${offset + bad} (line ${newlinesBefore + lineAt([bytes], bad)}); pass --encoding (for example latin1 or windows-1252)`,
+      );
+    }
+    for (let i = bytes.indexOf(0x0a); i >= 0; i = bytes.indexOf(0x0a, i + 1)) newlinesBefore++;
+    offset += bytes.length;
+    yield bytes;
+  }
+  if (carry.length > 0) {
+    throw dataError(`${source.label}: invalid UTF-8 at byte offset ${offset} (the file ends inside a character); pass --encoding`);
+  }
+  if (decoder) {
+    const rest = decoder.decode();
+    if (rest.length > 0) yield Buffer.from(rest, 'utf8');
+  }
+}
+
+export function checkReadable(source: InputSource): void {
+  if (source.path === '-' && process.stdin.isTTY) {
+    throw usageError('no input: give a CSV file, or pipe one in and use - for standard input');
+  }
+}
+
+/** Decodes a source in a named legacy encoding (latin1, windows-1252, utf-16le, …) to UTF-8. */
+async function* transcodedChunks(source: InputSource, encoding: string): AsyncGenerator<Uint8Array> {
+  let decoder: TextDecoder;
+  try {
+    decoder = new TextDecoder(encoding);
+  } catch {
+    throw usageError(`--encoding ${encoding}: not an encoding this Node.js knows (try latin1, windows-1252, utf-16le, utf-16be)`);
+  }
+  let first = true;
+  for await (const raw of rawChunks(source)) {
+    let text = decoder.decode(raw, { stream: true });
+    if (first) {
+      first = false;
+      if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
+    }
+    if (text.length > 0) yield Buffer.from(text, 'utf8');
+  }
+  const rest = decoder.decode();
+  if (rest.length > 0) yield Buffer.from(rest, 'utf8');
+}

@@ -1,0 +1,58 @@
+/** A two-way table of counts: counts[i][j] for row level i and column level j. */
+export type CountMatrix = readonly (readonly number[])[];
+
+export interface Margins {
+  rowTotals: number[];
+  colTotals: number[];
+  total: number;
+}
+
+/** Neumaier's compensated sum (Neumaier 1974), stable for large n. */
+export function compensatedSum(values: Iterable<number>): number {
+  let sum = 0;
+  let compensation = 0;
+  for (const v of values) {
+    const t = sum + v;
+    if (Math.abs(sum) >= Math.abs(v)) compensation += sum - t + v;
+    else compensation += v - t + sum;
+    sum = t;
+  }
+  return sum + compensation;
+}
+
+/** Row totals n_i., column totals n_.j and the grand total n. */
+export function margins(counts: CountMatrix): Margins {
+  const r = counts.length;
+  const c = r === 0 ? 0 : counts[0].length;
+  const rowTotals = counts.map((row) => compensatedSum(row));
+  const colTotals: number[] = [];
+  for (let j = 0; j < c; j++) colTotals.push(compensatedSum(counts.map((row) => row[j])));
+  return { rowTotals, colTotals, total: compensatedSum(rowTotals) };
+}
+
+/**
+ * Expected counts under independence, E_ij = n_i. n_.j / n
+ * (Pearson 1904; Agresti 2013, Categorical Data Analysis, 3rd ed., §3.2.1).
+ */
+export function expectedCounts(counts: CountMatrix): number[][] {
+  const { rowTotals, colTotals, total } = margins(counts);
+  return rowTotals.map((ri) => colTotals.map((cj) => (ri * cj) / total));
+}
+
+/** Degrees of freedom of the independence test, (r − 1)(c − 1). */
+export function degreesOfFreedom(counts: CountMatrix): number {
+  const r = counts.length;
+  const c = r === 0 ? 0 : counts[0].length;
+  return Math.max(0, (r - 1) * (c - 1));
+}
+
+export function isTwoByTwo(counts: CountMatrix): boolean {
+  return counts.length === 2 && counts[0].length === 2;
+}
+
+export function transpose(counts: CountMatrix): number[][] {
+  const c = counts.length === 0 ? 0 : counts[0].length;
+  const out: number[][] = [];
+  for (let j = 0; j < c; j++) out.push(counts.map((row) => row[j]));
+  return out;
+}

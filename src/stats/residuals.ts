@@ -1,0 +1,47 @@
+import { CountMatrix, margins } from './contingency.js';
+
+/** Pearson residuals e_ij = (n_ij − E_ij) / √E_ij (Agresti 2013 §2.4.5). */
+export function pearsonResiduals(counts: CountMatrix, expected: CountMatrix): number[][] {
+  return counts.map((row, i) => row.map((nij, j) => (nij - expected[i][j]) / Math.sqrt(expected[i][j])));
+}
+
+/**
+ * Adjusted (standardised) residuals
+ *   r_ij = (n_ij − E_ij) / √(E_ij (1 − n_i./n)(1 − n_.j/n)),
+ * approximately standard normal under independence (Haberman 1973,
+ * Biometrics 29, 205–220; Agresti 2013 §2.4.5). null where a margin is the
+ * whole sample (the variance is zero).
+ */
+export function adjustedResiduals(counts: CountMatrix, expected: CountMatrix): (number | null)[][] {
+  const { rowTotals, colTotals, total } = margins(counts);
+  return counts.map((row, i) =>
+    row.map((nij, j) => {
+      const variance = expected[i][j] * (1 - rowTotals[i] / total) * (1 - colTotals[j] / total);
+      return variance > 0 ? (nij - expected[i][j]) / Math.sqrt(variance) : null;
+    }),
+  );
+}
+
+/** Each cell's share of Pearson's X²: ((n_ij − E_ij)²/E_ij) / X². Zero everywhere when X² = 0. */
+export function chiSquareContributions(counts: CountMatrix, expected: CountMatrix, chiSquare: number): number[][] {
+  return counts.map((row, i) =>
+    row.map((nij, j) => (chiSquare > 0 ? ((nij - expected[i][j]) ** 2 / expected[i][j]) / chiSquare : 0)),
+  );
+}
+
+export interface Percentages {
+  row: number[][];
+  col: number[][];
+  total: number[][];
+}
+
+/** Row, column and total percentages (0–100); a zero margin gives 0. */
+export function percentages(counts: CountMatrix): Percentages {
+  const { rowTotals, colTotals, total } = margins(counts);
+  const share = (v: number, d: number) => (d > 0 ? (100 * v) / d : 0);
+  return {
+    row: counts.map((row, i) => row.map((v) => share(v, rowTotals[i]))),
+    col: counts.map((row) => row.map((v, j) => share(v, colTotals[j]))),
+    total: counts.map((row) => row.map((v) => share(v, total))),
+  };
+}

@@ -1,0 +1,96 @@
+import { CountMatrix, isTwoByTwo } from './contingency.js';
+
+/**
+ * Strength-of-association measures built on Pearson's X². Each returns null
+ * (never NaN) when the table leaves it undefined.
+ */
+
+/** phi = √(X²/n) (Yule 1912; Agresti 2013 §3.2). Unbounded above 1 for tables larger than 2×2. */
+export function phiCoefficient(chiSquare: number, n: number): number | null {
+  if (!(n > 0)) return null;
+  return Math.sqrt(chiSquare / n);
+}
+
+/** Pearson's contingency coefficient C = √(X² / (X² + n)) (Pearson 1904). */
+export function contingencyCoefficient(chiSquare: number, n: number): number | null {
+  if (!(n > 0)) return null;
+  return Math.sqrt(chiSquare / (chiSquare + n));
+}
+
+/**
+ * Corrected contingency coefficient C* = C / C_max with C_max = √((m−1)/m),
+ * m = min(r, c), so that C* reaches 1 under perfect association
+ * (Sakoda 1977; see also Blaikie 2003, Analyzing Quantitative Data, §5).
+ */
+export function correctedContingencyCoefficient(chiSquare: number, n: number, r: number, c: number): number | null {
+  const C = contingencyCoefficient(chiSquare, n);
+  const m = Math.min(r, c);
+  if (C === null || m < 2) return null;
+  return C * Math.sqrt(m / (m - 1));
+}
+
+/** Cramér's V = √(X² / (n · (min(r, c) − 1))) (Cramér 1946, Mathematical Methods of Statistics, §21.9). */
+export function cramersV(chiSquare: number, n: number, r: number, c: number): number | null {
+  const m = Math.min(r, c);
+  if (!(n > 0) || m < 2) return null;
+  return Math.sqrt(chiSquare / (n * (m - 1)));
+}
+
+/** Tschuprow's T = √(X² / (n √((r−1)(c−1)))) (Tschuprow 1939, Principles of the Mathematical Theory of Correlation). */
+export function tschuprowT(chiSquare: number, n: number, r: number, c: number): number | null {
+  if (!(n > 0) || r < 2 || c < 2) return null;
+  return Math.sqrt(chiSquare / (n * Math.sqrt((r - 1) * (c - 1))));
+}
+
+/**
+ * Bias-corrected Cramér's V (Bergsma 2013, J. Korean Stat. Soc. 42, 323–328):
+ *   φ̃² = max(0, φ² − (r−1)(c−1)/(n−1)),
+ *   r̃ = r − (r−1)²/(n−1),  c̃ = c − (c−1)²/(n−1),
+ *   Ṽ = √(φ̃² / min(r̃ − 1, c̃ − 1)).
+ */
+export function biasCorrectedCramersV(chiSquare: number, n: number, r: number, c: number): number | null {
+  if (!(n > 1) || r < 2 || c < 2) return null;
+  const phiSquared = chiSquare / n;
+  const phiSquaredCorrected = Math.max(0, phiSquared - ((r - 1) * (c - 1)) / (n - 1));
+  const rCorrected = r - ((r - 1) * (r - 1)) / (n - 1);
+  const cCorrected = c - ((c - 1) * (c - 1)) / (n - 1);
+  const denominator = Math.min(rCorrected - 1, cCorrected - 1);
+  if (!(denominator > 0)) return null;
+  return Math.sqrt(phiSquaredCorrected / denominator);
+}
+
+/**
+ * Yule's Q = (ad − bc) / (ad + bc) for the 2×2 table [[a, b], [c, d]]
+ * (Yule 1900, Phil. Trans. R. Soc. A 194, 257–319). Signed: positive when the
+ * main diagonal (first row with first column, second with second) dominates.
+ */
+export function yulesQ(counts: CountMatrix): number | null {
+  if (!isTwoByTwo(counts)) return null;
+  const [[a, b], [c, d]] = counts;
+  const concordant = a * d;
+  const discordant = b * c;
+  if (concordant + discordant === 0) return null;
+  return (concordant - discordant) / (concordant + discordant);
+}
+
+/** Yule's Y (coefficient of colligation) = (√(ad) − √(bc)) / (√(ad) + √(bc)) (Yule 1912). */
+export function yulesY(counts: CountMatrix): number | null {
+  if (!isTwoByTwo(counts)) return null;
+  const [[a, b], [c, d]] = counts;
+  const s = Math.sqrt(a * d);
+  const t = Math.sqrt(b * c);
+  if (s + t === 0) return null;
+  return (s - t) / (s + t);
+}
+
+/**
+ * Signed phi for a 2×2 table, (ad − bc)/√(n1. n2. n.1 n.2): the same size as
+ * phi, with the direction of the association (Yule 1912).
+ */
+export function signedPhi(counts: CountMatrix): number | null {
+  if (!isTwoByTwo(counts)) return null;
+  const [[a, b], [c, d]] = counts;
+  const denominator = Math.sqrt((a + b) * (c + d) * (a + c) * (b + d));
+  if (denominator === 0) return null;
+  return (a * d - b * c) / denominator;
+}
