@@ -152,8 +152,10 @@ export function renderPairText(report: PairReport, paint: ChalkInstance, width =
     const rr = measures.relativeRisk;
     out.push(row(`risk ratio of ${clip(rr.outcome, 12)}`, formatStatistic(rr.estimate, 3), `${clip(rr.exposed, 12)} vs ${clip(rr.reference, 12)}, interval ${formatStatistic(rr.lower, 3)} to ${formatStatistic(rr.upper, 3)}`));
   }
-  out.push(paint.dim(`  predicting ${report.cols.name} from ${report.rows.name}: lambda ${formatMeasure(measures.lambdaColsGivenRows)}, tau ${formatMeasure(measures.gkTauColsGivenRows)}, uncertainty ${formatMeasure(measures.uncertaintyColsGivenRows)}`));
-  out.push(paint.dim(`  predicting ${report.rows.name} from ${report.cols.name}: lambda ${formatMeasure(measures.lambdaRowsGivenCols)}, tau ${formatMeasure(measures.gkTauRowsGivenCols)}, uncertainty ${formatMeasure(measures.uncertaintyRowsGivenCols)}`));
+  const predicting = (target: string, from: string, lambda: number | null, tau: number | null, u: number | null) =>
+    wrap(`predicting ${target} from ${from}: lambda ${formatMeasure(lambda)}, tau ${formatMeasure(tau)}, uncertainty ${formatMeasure(u)}`, width, '  ').map((l, k) => paint.dim(k === 0 ? l : '  ' + l));
+  out.push(...predicting(report.cols.name, report.rows.name, measures.lambdaColsGivenRows, measures.gkTauColsGivenRows, measures.uncertaintyColsGivenRows));
+  out.push(...predicting(report.rows.name, report.cols.name, measures.lambdaRowsGivenCols, measures.gkTauRowsGivenCols, measures.uncertaintyRowsGivenCols));
 
   if (report.ordinal) {
     heading('Order', 'both variables declared ordered (--ordinal), in the level order shown');
@@ -168,7 +170,7 @@ export function renderPairText(report: PairReport, paint: ChalkInstance, width =
     out.push(paint.dim('  Ordinal measures only make sense when the categories have a real order.'));
   }
 
-  heading('Where', 'adjusted residuals: ▲ above, ▼ below independence beyond ±2, doubled beyond ±3');
+  heading('Where', 'adjusted residuals: ▲ above, ▼ below independence past ±2, ▲▲ ▼▼ past ±3');
   out.push(...residualGrid(report, paint, width));
 
   heading('In words');

@@ -1,4 +1,4 @@
-import { CountMatrix, isTwoByTwo, margins, transpose } from './contingency.js';
+import { compensatedSum, CountMatrix, isTwoByTwo, margins, transpose } from './contingency.js';
 import { logFactorial } from './gamma.js';
 
 /**
@@ -45,16 +45,11 @@ export function fisherExact2x2(counts: CountMatrix): FisherResult | null {
   for (let k = mode; k > low; k--) {
     weights[k - 1 - low] = (weights[k - low] * (k * (n - row1 - col1 + k))) / ((row1 - k + 1) * (col1 - k + 1));
   }
-  // Total mass, summed from the smallest terms up.
-  const sorted = Array.from(weights).sort((x, y) => x - y);
-  let total = 0;
-  for (const w of sorted) total += w;
+  // Total mass and the two-sided tail, with compensated sums (Neumaier 1974)
+  // so that a support of a million values keeps its last digits.
   const threshold = weights[a - low] * (1 + EXACT_RELATIVE_TOLERANCE);
-  let tail = 0;
-  for (const w of sorted) {
-    if (w > threshold) break;
-    tail += w;
-  }
+  const total = compensatedSum(weights);
+  const tail = compensatedSum(weights.filter((w) => w <= threshold));
   return { pValue: Math.min(1, tail / total), method: 'hypergeometric-2x2' };
 }
 

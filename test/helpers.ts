@@ -1,0 +1,55 @@
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { dirname, join } from 'node:path';
+import { expect } from 'vitest';
+
+export const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
+
+export interface ReferenceTable {
+  name: string;
+  counts: number[][];
+  expected: number[][];
+  pearson: { statistic: number; pValue: number; df: number; pValueMpmath: number };
+  likelihoodRatio: { statistic: number; pValue: number };
+  yates?: { statistic: number; pValue: number };
+  fisher?: { pValue: number; pValueMpmath: number };
+  oddsRatio?: { estimate: number; lower: number; upper: number };
+  relativeRisk?: { estimate: number; lower: number; upper: number };
+  cramersV: number;
+  tschuprowT: number;
+  contingencyC: number;
+  somersDColsGivenRows?: number;
+  somersDRowsGivenCols?: number;
+  kendallTauB?: number;
+  kendallTauC?: number;
+}
+
+export interface Reference {
+  recordedWith: Record<string, string>;
+  chi2Sf: { x: number; df: number; scipy: number; mpmath: number }[];
+  tables: ReferenceTable[];
+  exactRxC: { counts: number[][]; pValue: number }[];
+  ncx2: { x: number; df: number; lambda: number; upper: number; lower: number }[];
+  multipleTesting: { p: number[]; bh: number[]; holm: number[]; bonferroni: number[] }[];
+  normalQuantiles: { p: number; z: number }[];
+}
+
+/** Values recorded by scripts/record_reference.py (scipy, statsmodels, mpmath, exact fractions). */
+export const reference: Reference = JSON.parse(readFileSync(join(ROOT, 'fixtures/reference/reference.json'), 'utf8'));
+
+/** |actual − expected| ≤ tolerance · |expected| (absolute near zero). */
+export function expectClose(actual: number | null | undefined, expected: number, tolerance = 1e-10): void {
+  expect(actual).not.toBeNull();
+  expect(actual).not.toBeUndefined();
+  const a = actual as number;
+  const scale = Math.max(Math.abs(expected), Number.MIN_VALUE);
+  const error = expected === 0 ? Math.abs(a) : Math.abs(a - expected) / scale;
+  if (!(error <= tolerance)) {
+    throw new Error(`expected ${a} to be within ${tolerance} (relative) of ${expected}; relative error ${error}`);
+  }
+}
+
+export function expectMatrixClose(actual: readonly (readonly (number | null)[])[], expected: readonly (readonly number[])[], tolerance = 1e-10): void {
+  expect(actual.length).toBe(expected.length);
+  actual.forEach((row, i) => row.forEach((v, j) => expectClose(v, expected[i][j], tolerance)));
+}

@@ -1,0 +1,122 @@
+import { parse } from 'csv-parse/sync';
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { CsvTokenizer, detectDelimiter } from '../../src/io/csvTokenizer.js';
+import { TabsightError } from '../../src/errors.js';
+
+/** Runs the tokenizer over a document cut into the given chunk sizes; returns every record. */
+function tokenize(document: string, delimiter: string, cuts: number[] = []): string[][] {
+  const out: string[][] = [];
+  let width = 0;
+  const tokenizer = new CsvTokenizer(
+    delimiter.charCodeAt(0),
+    {
+      header: (fields) => {
+        out.push(fields);
+        width = fields.length;
+        return Int32Array.from({ length: width }, (_v, i) => i);
+      },
+      record: (values, fieldCount) => out.push(values.slice(0, fieldCount) as string[]),
+    },
+    'test.csv',
+  );
+  const bytes = Buffer.from(document, 'utf8');
+  let at = 0;
+  for (const cut of cuts) {
+    const end = Math.min(bytes.length, at + cut);
+    tokenizer.push(bytes.subarray(at, end));
+    at = end;
+  }
+  tokenizer.push(bytes.subarray(at));
+  tokenizer.finish();
+  return out;
+}
+
+const fieldText = fc.array(fc.constantFrom('a', 'b', 'Z', '1', ' ', ',', ';', '\t', '|', '"', '\n', '\r\n', 'é', '日', '😀', 'x y'), { maxLength: 6 }).map((parts) => parts.join(''));
+
+const documentArbitrary = fc
+  .record({
+    delimiter: fc.constantFrom(',', ';', '\t', '|'),
+    width: fc.integer({ min: 2, max: 5 }),
+    rows: fc.integer({ min: 1, max: 8 }),
+    crlf: fc.boolean(),
+    finalNewline: fc.boolean(),
+    quoteAll: fc.boolean(),
+  })
+  .chain((shape) =>
+    fc.record({
+      shape: fc.constant(shape),
+      cells: fc.array(fc.array(fieldText, { minLength: shape.width, maxLength: shape.width }), { minLength: shape.rows, maxLength: shape.rows }),
+      cuts: fc.array(fc.integer({ min: 1, max: 7 }), { maxLength: 30 }),
+    }),
+  );
+
+function encodeField(value: string, delimiter: string, quoteAll: boolean): string {
+  const needs = value.includes(delimiter) || value.includes('"') || value.includes('\n') || value.includes('\r') || value === '';
+  return quoteAll || needs ? `"${value.replace(/"/g, '""')}"` : value;
+}
+
+describe('CSV tokenizer', () => {
+  it('equals csv-parse field for field on random RFC 4180 documents (random quoting, delimiters, CRLF, embedded newlines, chunk cuts)', () => {
+    fc.assert(
+      fc.property(documentArbitrary, ({ shape, cells, cuts }) => {
+        const eol = shape.crlf ? '\r\n' : '\n';
+        const document = cells.map((row) => row.map((v) => encodeField(v, shape.delimiter, shape.quoteAll)).join(shape.delimiter)).join(eol) + (shape.finalNewline ? eol : '');
+        const ours = tokenize(document, shape.delimiter, cuts);
+        const theirs = parse(document, { delimiter: shape.delimiter, relax_column_count: true, skip_empty_lines: false, bom: true }) as string[][];
+        expect(ours).toEqual(theirs);
+      }),
+      { numRuns: 500 },
+    );
+  });
+
+  it('reads a quoted field holding the delimiter, doubled quotes and a newline (RFC 4180 §2)', () => {
+    expect(tokenize('a,b\n"x, ""y""\nz",2\n', ',')).toEqual([
+      ['a', 'b'],
+      ['x, "y"\nz', '2'],
+    ]);
+  });
+
+  it('skips blank lines and counts them', () => {
+    const out: string[][] = [];
+    const t = new CsvTokenizer(44, { header: (f) => (out.push(f), Int32Array.from([0, 1])), record: (v, n) => out.push(v.slice(0, n) as string[]) }, 'x');
+    t.push(Buffer.from('a,b\n\n1,2\r\n   \n3,4'));
+    t.finish();
+    expect(out).toEqual([['a', 'b'], ['1', '2'], ['3', '4']]);
+    expect(t.blankLines).toBe(2);
+  });
+
+  it('names the line of an unterminated quote, a quote inside an unquoted field, and text after a closing quote', () => {
+    const message = (doc: string) => {
+      try {
+        tokenize(doc, ',');
+      } catch (error) {
+        expect(error).toBeInstanceOf(TabsightError);
+        return (error as Error).message;
+      }
+      return 'no error';
+    };
+    expect(message('a,b\n1,2\n3,"open\n')).toMatch(/test\.csv, line 3: a quoted field .* never closed/);
+    expect(message('a,b\n1,x"y\n')).toMatch(/line 2: a quote inside the unquoted field 2/);
+    expect(message('a,b\n"x"y,1\n')).toMatch(/line 2: unexpected character after the closing quote/);
+  });
+
+  it('handles one field far larger than its window in linear time', () => {
+    const big = 'x'.repeat(5_000_000);
+    const started = Date.now();
+    const out = tokenize(`a,b\n"${big}",1\n`, ',', Array.from({ length: 80 }, () => 65536));
+    expect(out[1][0].length).toBe(5_000_000);
+    expect(Date.now() - started).toBeLessThan(5000);
+  });
+});
+
+describe('delimiter detection from the header line', () => {
+  it('picks the most frequent of , ; tab | outside quotes', () => {
+    expect(detectDelimiter('a,b,c')).toBe(',');
+    expect(detectDelimiter('a;b;c')).toBe(';');
+    expect(detectDelimiter('a\tb\tc')).toBe('\t');
+    expect(detectDelimiter('a|b|c')).toBe('|');
+    expect(detectDelimiter('"x,y";b;c')).toBe(';');
+    expect(detectDelimiter('single')).toBe(',');
+  });
+});

@@ -1,0 +1,61 @@
+import { describe, expect, it } from 'vitest';
+import { normalQuantile, upperTailNormal } from '../../src/stats/normalDistribution.js';
+import { cramersVInterval, lowerTailNoncentralChiSquare, noncentralityInterval, upperTailNoncentralChiSquare } from '../../src/stats/noncentralChiSquare.js';
+import { oddsRatio, relativeRisk } from '../../src/stats/riskMeasures.js';
+import { expectClose, reference } from '../helpers.js';
+
+describe('normal distribution', () => {
+  for (const { p, z } of reference.normalQuantiles) {
+    it(`quantile at p = ${p} matches mpmath (recorded)`, () => expectClose(normalQuantile(p), z, 1e-12));
+  }
+  it('upper tail at 1.959964 is 0.025 (A&S table 26.1)', () => expectClose(upperTailNormal(1.959963984540054), 0.025, 1e-12));
+});
+
+describe('odds ratio and relative risk', () => {
+  for (const table of reference.tables.filter((t) => t.oddsRatio)) {
+    it(`${table.name}: odds ratio with Woolf interval and relative risk with Katz interval match scipy.stats.contingency (recorded)`, () => {
+      const or = oddsRatio(table.counts, 0.95);
+      expectClose(or?.estimate, table.oddsRatio!.estimate, 1e-10);
+      expectClose(or?.lower, table.oddsRatio!.lower, 1e-9);
+      expectClose(or?.upper, table.oddsRatio!.upper, 1e-9);
+      const rr = relativeRisk(table.counts, 0.95);
+      expectClose(rr?.estimate, table.relativeRisk!.estimate, 1e-10);
+      expectClose(rr?.lower, table.relativeRisk!.lower, 1e-9);
+      expectClose(rr?.upper, table.relativeRisk!.upper, 1e-9);
+    });
+  }
+
+  it('adds ½ to every cell when a cell is zero (Haldane 1956) and says so', () => {
+    const or = oddsRatio([[0, 5], [7, 2]]);
+    expect(or?.haldaneCorrection).toBe(true);
+    expectClose(or?.estimate, (0.5 * 2.5) / (5.5 * 7.5), 1e-14);
+    expect(oddsRatio([[1, 5], [7, 2]])?.haldaneCorrection).toBe(false);
+  });
+});
+
+describe('noncentral chi-square and the interval for Cramér’s V', () => {
+  for (const point of reference.ncx2) {
+    it(`tails at x=${point.x}, df=${point.df}, λ=${point.lambda} match mpmath's Poisson mixture (recorded)`, () => {
+      expectClose(upperTailNoncentralChiSquare(point.x, point.df, point.lambda), point.upper, 1e-9);
+      expectClose(lowerTailNoncentralChiSquare(point.x, point.df, point.lambda), point.lower, 1e-9);
+    });
+  }
+
+  it('inverts the distribution: the limits put α/2 in each tail (Smithson 2003)', () => {
+    const { lower, upper } = noncentralityInterval(40, 6, 0.95);
+    expect(lower).toBeGreaterThan(0);
+    expectClose(upperTailNoncentralChiSquare(40, 6, lower), 0.025, 1e-6);
+    expectClose(lowerTailNoncentralChiSquare(40, 6, upper), 0.025, 1e-6);
+  });
+
+  it('the V interval has lower limit 0 when the test is not significant, and narrows as n grows', () => {
+    const weak = cramersVInterval(3, 4, 200, 3, 3, 0.95);
+    expect(weak?.lower).toBe(0);
+    const small = cramersVInterval(40, 4, 400, 3, 3, 0.95)!;
+    const large = cramersVInterval(400, 4, 4000, 3, 3, 0.95)!;
+    expect(large.upper - large.lower).toBeLessThan(small.upper - small.lower);
+    const v = Math.sqrt(400 / (4000 * 2));
+    expect(large.lower).toBeLessThan(v);
+    expect(large.upper).toBeGreaterThan(v);
+  });
+});

@@ -1,0 +1,117 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { linearByLinear, ordinalMeasures } from '../../src/stats/ordinal.js';
+import {
+  goodmanKruskalTauColsGivenRows,
+  goodmanKruskalTauRowsGivenCols,
+  lambdaColsGivenRows,
+  lambdaRowsGivenCols,
+  lambdaSymmetric,
+  uncertaintyColsGivenRows,
+  uncertaintyRowsGivenCols,
+  uncertaintySymmetric,
+} from '../../src/stats/predictive.js';
+import { expectClose, reference } from '../helpers.js';
+
+const jobSatisfaction = [
+  [1, 2, 1, 0],
+  [3, 3, 6, 1],
+  [10, 10, 14, 9],
+  [6, 7, 12, 11],
+];
+
+describe('ordinal measures', () => {
+  it('job satisfaction by income: gamma 0.221 with ASE 0.117 (Agresti, Categorical Data Analysis; from memory of the textbook)', () => {
+    const m = ordinalMeasures(jobSatisfaction);
+    expect(m.gamma.estimate).toBeCloseTo(0.221, 3);
+    expect(m.gamma.standardError).toBeCloseTo(0.117, 3);
+  });
+
+  for (const table of reference.tables.filter((t) => t.somersDColsGivenRows !== undefined)) {
+    it(`${table.name}: Somers' d both ways and Kendall's tau-b, tau-c agree with scipy (recorded)`, () => {
+      const m = ordinalMeasures(table.counts);
+      expectClose(m.somersDColsGivenRows.estimate, table.somersDColsGivenRows!, 1e-10);
+      expectClose(m.somersDRowsGivenCols.estimate, table.somersDRowsGivenCols!, 1e-10);
+      expectClose(m.kendallTauB.estimate, table.kendallTauB!, 1e-10);
+      expectClose(m.kendallTauC.estimate, table.kendallTauC!, 1e-10);
+    });
+  }
+
+  it('linear-by-linear M² = (n − 1) r² (Mantel 1963) for integer scores', () => {
+    const t = [
+      [10, 5],
+      [5, 10],
+    ];
+    // r for a 2×2 table is signed phi = (ad − bc)/√(product of margins)
+    const r = (100 - 25) / Math.sqrt(15 * 15 * 15 * 15);
+    expectClose(linearByLinear(t)?.statistic, 29 * r * r, 1e-12);
+  });
+
+  const ordered = fc
+    .tuple(fc.integer({ min: 2, max: 5 }), fc.integer({ min: 2, max: 5 }))
+    .chain(([r, c]) => fc.array(fc.array(fc.integer({ min: 0, max: 30 }), { minLength: c, maxLength: c }), { minLength: r, maxLength: r }))
+    .filter((t) => t.every((row) => row.some((v) => v > 0)) && t[0].every((_v, j) => t.some((row) => row[j] > 0)));
+
+  it('gamma and tau-b lie in [−1, 1]; reversing one variable flips the sign of every ordinal measure (property)', () => {
+    fc.assert(
+      fc.property(ordered, (t) => {
+        const m = ordinalMeasures(t);
+        const flipped = ordinalMeasures([...t].reverse());
+        for (const key of ['gamma', 'kendallTauB', 'kendallTauC', 'somersDColsGivenRows', 'somersDRowsGivenCols'] as const) {
+          const e = m[key].estimate;
+          if (e === null) continue;
+          expect(Math.abs(e)).toBeLessThanOrEqual(1 + 1e-12);
+          expect(Math.abs((flipped[key].estimate as number) + e)).toBeLessThan(1e-12);
+        }
+      }),
+      { numRuns: 200 },
+    );
+  });
+});
+
+describe('predictive (proportional reduction in error) measures', () => {
+  it('lambda by hand (Goodman & Kruskal 1954): rows [[30,10],[5,25]]', () => {
+    const t = [
+      [30, 10],
+      [5, 25],
+    ];
+    // predicting columns: without rows guess col 1 (35) → errors 35; with rows 10 + 5 = 15 errors
+    expectClose(lambdaColsGivenRows(t), (35 - 15) / 35, 1e-15);
+    expectClose(lambdaRowsGivenCols(t), (40 - 15 - 30 + 30) / 30 - (40 - 30 - 15 + 15) / 30 + (55 - 40) / 30 - (55 - 40) / 30 + (55 - 40) / 30 - (55 - 40) / 30 + ((30 + 25) - 40) / 30 - (55 - 40) / 30, 1e-15);
+    expectClose(lambdaSymmetric(t), (55 + 55 - 35 - 40) / (140 - 35 - 40), 1e-15);
+  });
+
+  it('Goodman–Kruskal tau and the uncertainty coefficient are 0 under independence and 1 under perfect prediction', () => {
+    const independent = [
+      [10, 20],
+      [20, 40],
+    ];
+    const perfect = [
+      [10, 0],
+      [0, 20],
+    ];
+    expect(Math.abs(goodmanKruskalTauColsGivenRows(independent) as number)).toBeLessThan(1e-12);
+    expect(Math.abs(uncertaintySymmetric(independent) as number)).toBeLessThan(1e-12);
+    expectClose(goodmanKruskalTauRowsGivenCols(perfect), 1, 1e-12);
+    expectClose(uncertaintyColsGivenRows(perfect), 1, 1e-12);
+    expectClose(uncertaintyRowsGivenCols(perfect), 1, 1e-12);
+  });
+
+  it('lambda, tau and U lie in [0, 1] on random tables (property)', () => {
+    const tables = fc
+      .tuple(fc.integer({ min: 2, max: 5 }), fc.integer({ min: 2, max: 5 }))
+      .chain(([r, c]) => fc.array(fc.array(fc.integer({ min: 0, max: 40 }), { minLength: c, maxLength: c }), { minLength: r, maxLength: r }))
+      .filter((t) => t.every((row) => row.some((v) => v > 0)) && t[0].every((_v, j) => t.some((row) => row[j] > 0)));
+    fc.assert(
+      fc.property(tables, (t) => {
+        for (const f of [lambdaColsGivenRows, lambdaRowsGivenCols, lambdaSymmetric, goodmanKruskalTauColsGivenRows, goodmanKruskalTauRowsGivenCols, uncertaintyColsGivenRows, uncertaintyRowsGivenCols, uncertaintySymmetric]) {
+          const v = f(t);
+          if (v === null) continue;
+          expect(v).toBeGreaterThanOrEqual(-1e-12);
+          expect(v).toBeLessThanOrEqual(1 + 1e-12);
+        }
+      }),
+      { numRuns: 200 },
+    );
+  });
+});

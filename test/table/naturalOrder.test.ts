@@ -1,0 +1,31 @@
+import { describe, expect, it } from 'vitest';
+import { compareNatural } from '../../src/table/naturalOrder.js';
+import { orderLevels, TableCounter } from '../../src/table/twoWayTable.js';
+import { TabsightError } from '../../src/errors.js';
+
+describe('natural level order (common practice, locale-free)', () => {
+  it('orders numbers numerically, "item 2" before "item 10", others by code point', () => {
+    const levels = ['item 10', '10', 'item 2', '2', 'b', 'B', '-1.5', 'item 1', 'Ä', 'a'];
+    expect([...levels].sort(compareNatural)).toEqual(['-1.5', '2', '10', 'B', 'a', 'b', 'item 1', 'item 2', 'item 10', 'Ä']);
+  });
+  it('keeps a requested order and appends the rest naturally; reports unknown levels', () => {
+    expect(orderLevels(['low', 'high', 'mid', 'other'], ['low', 'mid', 'high', 'typo'])).toEqual({ order: ['low', 'mid', 'high', 'other'], unknown: ['typo'] });
+  });
+});
+
+describe('table counter', () => {
+  it('counts pairs into a table in natural order', () => {
+    const counter = new TableCounter('r', 'c', 50);
+    for (const [a, b] of [['x', '2'], ['y', '10'], ['x', '10'], ['x', '2']]) counter.add(a, b);
+    const { table } = counter.finish();
+    expect(table.rowLevels).toEqual(['x', 'y']);
+    expect(table.colLevels).toEqual(['2', '10']);
+    expect(table.counts).toEqual([[2, 1], [0, 1]]);
+  });
+  it('refuses a side with more levels than the cap and says how many it has', () => {
+    const counter = new TableCounter('id', 'c', 5);
+    for (let i = 0; i < 120; i++) counter.add(`v${i}`, 'a');
+    expect(() => counter.finish()).toThrow(TabsightError);
+    expect(() => counter.finish()).toThrow(/"id" has 120 distinct values, more than --max-levels 5/);
+  });
+});
