@@ -14,11 +14,11 @@ export function addReaderOptions(command: Command): Command {
     .option('--max-levels <n>', 'refuse a column with more distinct values than this', '50');
 }
 
-export function addAnalysisOptions(command: Command): Command {
+export function addAnalysisOptions(command: Command, defaultSimulations = DEFAULT_ANALYSIS_OPTIONS.simulations): Command {
   return command
     .option('--ordinal', 'both variables are ordered, in the level order in force: adds ordinal measures and the linear-by-linear test')
     .addOption(new Option('--exact <when>', 'exact p-values: auto (when counts are small), always, never').choices(['auto', 'always', 'never']).default('auto'))
-    .option('--simulations <n>', 'random tables for the simulated exact p-value', String(DEFAULT_ANALYSIS_OPTIONS.simulations))
+    .option('--simulations <n>', 'random tables for the simulated exact p-value', String(defaultSimulations))
     .option('--seed <n>', 'seed of the random tables, so runs repeat', String(DEFAULT_ANALYSIS_OPTIONS.seed))
     .option('--confidence <level>', 'confidence level of the intervals', '0.95');
 }
@@ -73,13 +73,13 @@ export interface RawAnalysisOptions {
   confidence: string;
 }
 
-export function analysisPlan(raw: RawAnalysisOptions): AnalysisOptions {
+export function analysisPlan(raw: RawAnalysisOptions, exactWorkLimit = DEFAULT_ANALYSIS_OPTIONS.exactWorkLimit): AnalysisOptions {
   return {
     ordinal: raw.ordinal === true,
     exact: raw.exact as ExactPolicy,
     simulations: positiveInteger(raw.simulations, '--simulations', 0),
     seed: positiveInteger(raw.seed, '--seed', 0),
     confidence: probability(raw.confidence, '--confidence'),
-    exactWorkLimit: DEFAULT_ANALYSIS_OPTIONS.exactWorkLimit,
+    exactWorkLimit,
   };
 }

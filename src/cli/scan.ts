@@ -20,6 +20,10 @@ interface RawScanOptions extends RawReaderOptions, RawAnalysisOptions {
   color?: boolean;
 }
 
+/** A scan runs many tables: a smaller exact-test budget and fewer random tables per sparse pair. */
+export const SCAN_SIMULATIONS = 10_000;
+export const SCAN_EXACT_WORK = 100_000;
+
 /** Progress on stderr, only for a terminal and only once the work takes more than a moment. */
 function progressReporter(): { tick: (rows: number) => void; done: () => void } {
   const started = Date.now();
@@ -53,11 +57,11 @@ export function scanCommand(): Command {
     .addOption(new Option('--format <format>', 'output format').choices(['text', 'json', 'csv', 'tsv', 'markdown']).default('text'))
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
-  addAnalysisOptions(command);
+  addAnalysisOptions(command, SCAN_SIMULATIONS);
   command.action(async (file: string | undefined, raw: RawScanOptions) => {
     const source = inputSource(file);
     const reader = readerPlan(raw);
-    const analysis = analysisPlan(raw);
+    const analysis = analysisPlan(raw, SCAN_EXACT_WORK);
     const bins = raw.bins === undefined ? null : positiveInteger(raw.bins, '--bins', 2);
     const alpha = probability(raw.alpha, '--alpha');
     const top = raw.top === undefined ? null : positiveInteger(raw.top, '--top');

@@ -3,6 +3,7 @@ import { TableCounter, TwoWayTable } from '../table/twoWayTable.js';
 import { resolveColumn } from './columns.js';
 import { readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
 import { InputSource } from './source.js';
+import { MISSING_ID } from './fieldInterner.js';
 
 export interface PairRequest {
   rows: string;
@@ -35,18 +36,18 @@ export async function countPair(source: InputSource, reader: ReaderOptions, requ
     source,
     reader,
     (header) => [resolveColumn(request.rows, header, '--rows', source.label), resolveColumn(request.cols, header, '--cols', source.label)],
-    (values) => {
-      const rowValue = values[0];
-      const colValue = values[1];
-      if (rowValue === null || colValue === null) {
+    (ids) => {
+      const rowId = ids[0];
+      const colId = ids[1];
+      if (rowId === MISSING_ID || colId === MISSING_ID) {
         excluded++;
         return;
       }
-      counter.add(rowValue, colValue);
+      counter.add(rowId, colId);
     },
   );
   if (summary.records === 0) throw dataError(`${source.label}: the header has no data rows under it`);
-  const { table, unknownRowLevels, unknownColLevels } = counter.finish(request.rowOrder, request.colOrder);
+  const { table, unknownRowLevels, unknownColLevels } = counter.finish(summary.interners[0].labels, summary.interners[1].labels, request.rowOrder, request.colOrder);
   for (const [name, levels] of [
     [request.rows, table.rowLevels],
     [request.cols, table.colLevels],

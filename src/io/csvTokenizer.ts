@@ -14,10 +14,14 @@ import { dataError } from '../errors.js';
  */
 
 export interface TokenizerHandlers {
-  /** The first record. Returns, for each field index, the slot to decode it into (or −1 to skip). */
+  /** The first record. Returns, for each field index, the slot to deliver it to (or −1 to skip). */
   header(fields: string[], line: number): Int32Array;
-  /** A record: values by slot (undefined for fields the record did not have), its field count and first line. */
-  record(values: (string | undefined)[], fieldCount: number, line: number): void;
+  /** A wanted field as raw bytes buf[start, end) (unquoted, or quoted without doubled quotes). */
+  fieldBytes(slot: number, buf: Uint8Array, view: Buffer, start: number, end: number): void;
+  /** A wanted field that had to be unescaped. */
+  fieldText(slot: number, value: string): void;
+  /** The end of a record: how many fields it had, and the line it started on. */
+  record(fieldCount: number, line: number): void;
 }
 
 const QUOTE = 0x22;
@@ -31,7 +35,6 @@ export class CsvTokenizer {
   private end = 0;
   private line = 1;
   private slots: Int32Array | null = null;
-  private values: (string | undefined)[] = [];
   private retryAt = 0;
   /** Blank (empty or whitespace-only) lines skipped. */
   blankLines = 0;
@@ -100,33 +103,37 @@ export class CsvTokenizer {
         continue;
       }
       const slots = this.slots;
-      const values = this.values;
-      if (slots !== null) for (let k = 0; k < values.length; k++) values[k] = undefined;
+      const handlers = this.handlers;
       const headerFields: string[] = [];
       let field = 0;
       let complete = false;
       let onlyWhitespace = true;
       for (;;) {
-        let value: string | undefined;
-        const wanted = slots === null || (field < slots.length && slots[field] >= 0);
+        const slot = slots === null ? -1 : field < slots.length ? slots[field] : -1;
+        const wanted = slots === null || slot >= 0;
         if (p < end && buf[p] === QUOTE) {
           // Quoted field
           const quoteLine = line;
           let q = p + 1;
+          const contentStart = q;
           let segmentStart = q;
           let text = '';
+          let escaped = false;
+          let contentEnd = q;
           let closed = false;
           while (q < end) {
             const b = buf[q];
             if (b === QUOTE) {
               if (q + 1 < end && buf[q + 1] === QUOTE) {
                 if (wanted) text += this.view.toString('utf8', segmentStart, q + 1);
+                escaped = true;
                 q += 2;
                 segmentStart = q;
                 continue;
               }
               if (q + 1 >= end && !final) break; // cannot tell yet
-              if (wanted) text += this.view.toString('utf8', segmentStart, q);
+              if (wanted && escaped) text += this.view.toString('utf8', segmentStart, q);
+              contentEnd = q;
               q++;
               closed = true;
               break;
@@ -142,7 +149,11 @@ export class CsvTokenizer {
           if (p < end && buf[p] !== delimiter && buf[p] !== LF && buf[p] !== CR) {
             this.fail(`unexpected character after the closing quote of field ${field + 1}; a quote inside a quoted field must be doubled ("")`, line);
           }
-          value = wanted ? text : undefined;
+          if (slots === null) headerFields.push(escaped ? text : this.view.toString('utf8', contentStart, contentEnd));
+          else if (wanted) {
+            if (escaped) handlers.fieldText(slot, text);
+            else handlers.fieldBytes(slot, buf, this.view, contentStart, contentEnd);
+          }
           onlyWhitespace = false;
         } else {
           const s = p;
@@ -153,7 +164,8 @@ export class CsvTokenizer {
             p++;
           }
           if (p >= end && !final) break;
-          if (wanted) value = this.view.toString('utf8', s, p);
+          if (slots === null) headerFields.push(this.view.toString('utf8', s, p));
+          else if (wanted) handlers.fieldBytes(slot, buf, this.view, s, p);
           if (onlyWhitespace) {
             for (let k = s; k < p; k++) {
               const b = buf[k];
@@ -164,8 +176,6 @@ export class CsvTokenizer {
             }
           }
         }
-        if (slots === null) headerFields.push(value as string);
-        else if (wanted && value !== undefined) values[slots[field]] = value;
         field++;
         if (p >= end) {
           if (!final) break;
@@ -205,12 +215,9 @@ export class CsvTokenizer {
       }
       if (this.slots === null) {
         this.slots = this.handlers.header(headerFields, recordLine);
-        let maxSlot = -1;
-        for (const s of this.slots) if (s > maxSlot) maxSlot = s;
-        this.values = new Array(maxSlot + 1).fill(undefined);
       } else {
         this.records++;
-        this.handlers.record(values, field, recordLine);
+        this.handlers.record(field, recordLine);
       }
     }
     this.start = p;

@@ -3,6 +3,7 @@ import { isNumericLabel } from '../table/naturalOrder.js';
 import { resolveColumn } from './columns.js';
 import { readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
 import { InputSource } from './source.js';
+import { MISSING_ID } from './fieldInterner.js';
 
 /** One candidate column of a scan, dictionary-encoded in the single pass. */
 export interface EncodedColumn {
@@ -35,53 +36,42 @@ export interface EncodeRequest {
   progress?: (rows: number) => void;
 }
 
+/** Distinct values tracked per column for screening (beyond it a column is "more than" that). */
 const DISTINCT_TRACKING_LIMIT = 1_000_000;
 
-class GrowableCodes {
-  array: Uint16Array | Uint32Array;
-  constructor(wide: boolean) {
-    this.array = wide ? new Uint32Array(1 << 14) : new Uint16Array(1 << 14);
-  }
+/** A typed array of codes that grows as rows arrive; unwritten rows stay 0 (missing). */
+class GrowableCodes<T extends Uint16Array | Uint32Array> {
+  constructor(public array: T) {}
   set(index: number, code: number): void {
-    if (index >= this.array.length) {
-      const grown = this.array instanceof Uint32Array ? new Uint32Array(this.array.length * 2) : new Uint16Array(this.array.length * 2);
-      grown.set(this.array);
-      this.array = grown;
-    }
+    if (index >= this.array.length) this.reserve(index + 1);
     this.array[index] = code;
   }
-}
-
-class GrowableNumbers {
-  array = new Float64Array(1 << 14);
-  set(index: number, value: number): void {
-    if (index >= this.array.length) {
-      const grown = new Float64Array(this.array.length * 2);
-      grown.set(this.array);
-      this.array = grown;
-    }
-    this.array[index] = value;
+  reserve(length: number): void {
+    if (length <= this.array.length) return;
+    const grown = new (this.array.constructor as new (n: number) => T)(Math.max(this.array.length * 2, length));
+    grown.set(this.array);
+    this.array = grown;
+  }
+  take(length: number): T {
+    this.reserve(length);
+    return this.array.subarray(0, length) as T;
   }
 }
 
 interface ColumnState {
   name: string;
-  dictionary: Map<string, number>;
-  labels: string[];
-  codes: GrowableCodes | null;
-  overflow: Set<string> | null;
-  distinctCapped: boolean;
+  codes: GrowableCodes<Uint16Array | Uint32Array> | null;
+  /** Every row's value id, kept only for numeric columns when binning was asked for. */
+  allIds: GrowableCodes<Uint32Array> | null;
   missing: number;
-  numeric: boolean;
-  integer: boolean;
-  values: GrowableNumbers | null;
 }
 
 /**
  * Reads the file once and dictionary-encodes every candidate column into an
  * array of small integer codes (2 bytes a cell while levels fit in 16 bits),
  * so that every pair's table can be counted from the codes without reading
- * again.
+ * again. The reader's ids are the codes: 0 missing, 1.. in order of first
+ * appearance.
  */
 export async function encodeColumns(source: InputSource, reader: ReaderOptions, request: EncodeRequest): Promise<EncodedFile> {
   const states: ColumnState[] = [];
@@ -101,65 +91,61 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
       for (const i of chosen) {
         states.push({
           name: header[i],
-          dictionary: new Map(),
-          labels: [],
-          codes: new GrowableCodes(wide),
-          overflow: null,
-          distinctCapped: false,
+          codes: new GrowableCodes(wide ? new Uint32Array(1 << 14) : new Uint16Array(1 << 14)),
+          allIds: request.keepNumeric ? new GrowableCodes(new Uint32Array(1 << 14)) : null,
           missing: 0,
-          numeric: true,
-          integer: true,
-          values: request.keepNumeric ? new GrowableNumbers() : null,
         });
       }
       return chosen;
     },
-    (values) => {
+    (ids) => {
       const row = rows++;
       for (let k = 0; k < states.length; k++) {
         const state = states[k];
-        const value = values[k];
-        if (value === null) {
+        const id = ids[k];
+        if (id === MISSING_ID) {
           state.missing++;
-          if (state.values) state.values.set(row, Number.NaN);
-          if (state.codes) state.codes.set(row, 0);
           continue;
         }
-        let code = state.dictionary.get(value);
-        if (code === undefined) {
-          if (state.numeric && !isNumericLabel(value)) {
-            state.numeric = false;
-            state.integer = false;
-            state.values = null;
-          } else if (state.integer && !/^[+-]?\d+$/.test(value)) state.integer = false;
-          if (state.labels.length < request.maxLevels) {
-            state.labels.push(value);
-            code = state.labels.length;
-            state.dictionary.set(value, code);
-          } else {
-            state.codes = null;
-            state.overflow ??= new Set();
-            if (state.overflow.size < DISTINCT_TRACKING_LIMIT) state.overflow.add(value);
-            else state.distinctCapped = true;
-          }
+        if (state.codes !== null) {
+          if (id > request.maxLevels || id < 0) state.codes = null;
+          else state.codes.set(row, id);
         }
-        if (state.codes && code !== undefined) state.codes.set(row, code);
-        if (state.values) state.values.set(row, Number(value));
+        if (state.allIds !== null) {
+          if (id < 0) state.allIds = null;
+          else state.allIds.set(row, id);
+        }
       }
       if (request.progress && (rows & 0xffff) === 0) request.progress(rows);
     },
+    () => DISTINCT_TRACKING_LIMIT,
   );
   if (rows === 0) throw dataError(`${source.label}: the header has no data rows under it`);
-  const columns = states.map<EncodedColumn>((s) => ({
-    name: s.name,
-    labels: s.labels,
-    codes: s.codes ? s.codes.array.subarray(0, rows) : null,
-    missing: s.missing,
-    distinct: s.labels.length + (s.overflow?.size ?? 0),
-    distinctCapped: s.distinctCapped,
-    numeric: s.numeric && s.labels.length > 0,
-    integer: s.integer && s.labels.length > 0,
-    values: s.values ? s.values.array.subarray(0, rows) : null,
-  }));
+  const columns = states.map<EncodedColumn>((state, k) => {
+    const interner = summary.interners[k];
+    const labels = interner.labels;
+    const numeric = labels.length > 0 && labels.every(isNumericLabel);
+    const integer = numeric && labels.every((l) => /^[+-]?\d+$/.test(l));
+    let values: Float64Array | null = null;
+    if (numeric && state.allIds !== null) {
+      const numberOf = new Float64Array(labels.length + 1);
+      numberOf[0] = Number.NaN;
+      labels.forEach((l, i) => (numberOf[i + 1] = Number(l)));
+      const idsOfRows = state.allIds.take(rows);
+      values = new Float64Array(rows);
+      for (let r = 0; r < rows; r++) values[r] = numberOf[idsOfRows[r]];
+    }
+    return {
+      name: state.name,
+      labels: state.codes !== null ? labels : [],
+      codes: state.codes !== null ? state.codes.take(rows) : null,
+      missing: state.missing,
+      distinct: labels.length,
+      distinctCapped: interner.overflowed > 0,
+      numeric,
+      integer,
+      values,
+    };
+  });
   return { columns, rows, summary };
 }

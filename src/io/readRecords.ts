@@ -2,6 +2,7 @@ import { dataError, usageError } from '../errors.js';
 import { validateHeader } from './columns.js';
 import { CsvTokenizer, detectDelimiter } from './csvTokenizer.js';
 import { InputSource, utf8Chunks } from './source.js';
+import { FieldInterner } from './fieldInterner.js';
 
 export interface ReaderOptions {
   /** One character; detected from the header line when absent. */
@@ -26,11 +27,15 @@ export interface ReadSummary {
   badRows: number;
 }
 
-/** A value as the analysis sees it: trimmed, or null when missing. */
-export type Cell = string | null;
-
 export type ColumnSelector = (header: string[]) => number[];
-export type RowHandler = (values: Cell[], line: number) => void;
+/**
+ * A data row: for each selected column, the id of its value in that column's
+ * interner (0 missing, −1 past the interner's limit). The array is reused.
+ */
+export type RowHandler = (ids: Int32Array, line: number) => void;
+
+/** Distinct values one selected column may hold before new ones get the overflow id. */
+export const DEFAULT_DISTINCT_LIMIT = 1_000_000;
 
 const SAMPLE_LIMIT = 1 << 20;
 
@@ -48,8 +53,16 @@ export function parseDelimiterOption(value: string): string {
  * (trimmed; null when missing) to onRow. Only the selected columns are
  * decoded and nothing is kept, so memory does not grow with the file.
  */
-export async function readRecords(source: InputSource, options: ReaderOptions, select: ColumnSelector, onRow: RowHandler): Promise<ReadSummary> {
+export async function readRecords(
+  source: InputSource,
+  options: ReaderOptions,
+  select: ColumnSelector,
+  onRow: RowHandler,
+  distinctLimit: (slot: number) => number = () => DEFAULT_DISTINCT_LIMIT,
+): Promise<ReadSummary & { interners: FieldInterner[] }> {
   const missing = new Set(options.missing.map((m) => m.trim()));
+  let interners: FieldInterner[] = [];
+  let ids = new Int32Array(0);
   let header: string[] = [];
   let selected: number[] = [];
   let delimiter = options.delimiter;
@@ -57,13 +70,6 @@ export async function readRecords(source: InputSource, options: ReaderOptions, s
   let badRows = 0;
   const buffered: Uint8Array[] = [];
   let bufferedLength = 0;
-  const out: Cell[] = [];
-
-  const toCell = (raw: string | undefined): Cell => {
-    if (raw === undefined) return null;
-    const value = raw.trim();
-    return value === '' || missing.has(value) ? null : value;
-  };
 
   const start = (sample: Uint8Array) => {
     if (delimiter === undefined) {
@@ -84,26 +90,34 @@ export async function readRecords(source: InputSource, options: ReaderOptions, s
           selected = select(header);
           const slots = new Int32Array(header.length).fill(-1);
           selected.forEach((column, slot) => (slots[column] = slot));
-          out.length = selected.length;
+          interners = selected.map((_c, slot) => new FieldInterner(missing, distinctLimit(slot)));
+          ids = new Int32Array(selected.length);
           if (!options.header) {
             // The first record is data: deliver it too.
-            selected.forEach((column, slot) => (out[slot] = toCell(fields[column])));
-            onRow(out, line);
+            selected.forEach((column, slot) => (ids[slot] = interners[slot].internString(fields[column])));
+            onRow(ids, line);
           }
           return slots;
         },
-        record: (values, fieldCount, line) => {
+        fieldBytes: (slot, buf, view, begin, end) => {
+          ids[slot] = interners[slot].intern(buf, view, begin, end);
+        },
+        fieldText: (slot, value) => {
+          ids[slot] = interners[slot].internString(value);
+        },
+        record: (fieldCount, line) => {
           if (fieldCount !== header.length) {
             if (options.skipBadRows) {
               badRows++;
+              ids.fill(0);
               return;
             }
             throw dataError(
               `${source.label}, line ${line}: ${fieldCount} field${fieldCount === 1 ? '' : 's'} where the header has ${header.length}; fix the row or pass --skip-bad-rows to count and skip such rows`,
             );
           }
-          for (let k = 0; k < values.length; k++) out[k] = toCell(values[k]);
-          onRow(out, line);
+          onRow(ids, line);
+          ids.fill(0);
         },
       },
       source.label,
@@ -132,5 +146,5 @@ export async function readRecords(source: InputSource, options: ReaderOptions, s
   t.finish();
   if (header.length === 0) throw dataError(`${source.label}: no header line (the file holds only blank lines)`);
   const records = options.header ? t.records : t.records + 1;
-  return { header, delimiter: delimiter as string, records, blankLines: t.blankLines, badRows };
+  return { header, delimiter: delimiter as string, records, blankLines: t.blankLines, badRows, interners };
 }

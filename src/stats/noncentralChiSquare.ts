@@ -1,41 +1,68 @@
 import { lowerTailChiSquare, upperTailChiSquare } from './chiSquareDistribution.js';
-import { poissonDensityRaw } from './gamma.js';
+import { poissonDensityRaw, regularizedGammaLower, regularizedGammaUpper } from './gamma.js';
 
 /**
  * Noncentral chi-square tails as Poisson mixtures of central ones
  * (Johnson, Kotz & Balakrishnan 1995, Continuous Univariate Distributions 2,
  * ch. 29, eq. 29.2):
- *   P(X ≥ x; k, λ) = Σ_j e^{−λ/2} (λ/2)^j / j! · P(χ²_{k+2j} ≥ x).
- * Summed from the Poisson mode outwards until the weights no longer matter.
+ *   P(X ≥ x; k, λ) = Σ_j e^{−λ/2} (λ/2)^j / j! · Q(k/2 + j, x/2).
+ * Only the j where the Poisson weight matters are summed (the mode ± 12
+ * standard deviations, widened until the weights fall below 1e-20 of the
+ * largest). Along j the central tails follow the recurrence
+ *   Q(a + 1, y) = Q(a, y) + y^a e^{−y} / Γ(a + 1)   (A&S 6.5.21),
+ * run upwards for the upper tail and downwards for the lower tail, the
+ * directions in which it only adds, so each term costs O(1).
  */
-function mixture(x: number, df: number, lambda: number, tail: (x: number, df: number) => number): number {
-  if (lambda === 0) return tail(x, df);
-  const half = lambda / 2;
+function weightRange(half: number): { first: number; last: number } {
   const mode = Math.floor(half);
-  const weight = (j: number) => (j === 0 ? Math.exp(-half) : poissonDensityRaw(j, half));
+  const spread = Math.ceil(12 * Math.sqrt(half) + 20);
+  return { first: Math.max(0, mode - spread), last: mode + spread };
+}
+
+function poissonWeight(j: number, half: number): number {
+  return j === 0 ? Math.exp(-half) : poissonDensityRaw(j, half);
+}
+
+export function upperTailNoncentralChiSquare(x: number, df: number, lambda: number): number {
+  if (lambda === 0) return upperTailChiSquare(x, df);
+  if (x <= 0) return 1;
+  const half = lambda / 2;
+  const y = x / 2;
+  const { first, last } = weightRange(half);
+  let a = df / 2 + first;
+  let q = regularizedGammaUpper(a, y);
+  let density = poissonDensityRaw(a, y); // y^a e^{−y} / Γ(a + 1)
+  let weight = poissonWeight(first, half);
   let sum = 0;
-  let weightSeen = 0;
-  for (let j = mode; ; j++) {
-    const w = weight(j);
-    sum += w * tail(x, df + 2 * j);
-    weightSeen += w;
-    if (w < 1e-17 * Math.max(sum, 1e-300) || (w < 1e-17 && j > mode + 10)) break;
-  }
-  for (let j = mode - 1; j >= 0; j--) {
-    const w = weight(j);
-    sum += w * tail(x, df + 2 * j);
-    weightSeen += w;
-    if (w < 1e-17 * Math.max(sum, 1e-300)) break;
+  for (let j = first; j <= last; j++) {
+    sum += weight * q;
+    q += density;
+    a += 1;
+    density *= y / a;
+    weight *= half / (j + 1);
   }
   return Math.min(1, sum);
 }
 
-export function upperTailNoncentralChiSquare(x: number, df: number, lambda: number): number {
-  return mixture(x, df, lambda, upperTailChiSquare);
-}
-
 export function lowerTailNoncentralChiSquare(x: number, df: number, lambda: number): number {
-  return mixture(x, df, lambda, lowerTailChiSquare);
+  if (lambda === 0) return lowerTailChiSquare(x, df);
+  if (x <= 0) return 0;
+  const half = lambda / 2;
+  const y = x / 2;
+  const { first, last } = weightRange(half);
+  let a = df / 2 + last;
+  let p = regularizedGammaLower(a, y);
+  let weight = poissonWeight(last, half);
+  let sum = 0;
+  for (let j = last; j >= first; j--) {
+    sum += weight * p;
+    // P(a − 1, y) = P(a, y) + y^{a−1} e^{−y} / Γ(a)
+    a -= 1;
+    if (a <= 0) break;
+    p += poissonDensityRaw(a, y);
+    weight *= j / half;
+  }
+  return Math.min(1, sum);
 }
 
 /**

@@ -16,38 +16,35 @@ export interface CodedColumn {
 export function crossCount(rowColumn: CodedColumn, colColumn: CodedColumn): { table: TwoWayTable; excluded: number } {
   const a = rowColumn.codes;
   const b = colColumn.codes;
-  const width = colColumn.labels.length;
-  const cells = new Float64Array(rowColumn.labels.length * width);
-  let excluded = 0;
+  // Code 0 (missing) gets row 0 / column 0 of a padded grid, so the loop has
+  // no branch; the padding is the excluded count.
+  const width = colColumn.labels.length + 1;
+  const height = rowColumn.labels.length + 1;
+  const grid = new Float64Array(height * width);
   const rows = a.length;
-  for (let k = 0; k < rows; k++) {
-    const x = a[k];
-    const y = b[k];
-    if (x === 0 || y === 0) {
-      excluded++;
-      continue;
-    }
-    cells[(x - 1) * width + (y - 1)]++;
-  }
+  for (let k = 0; k < rows; k++) grid[a[k] * width + b[k]]++;
+  let excluded = 0;
+  for (let j = 0; j < width; j++) excluded += grid[j];
+  for (let i = 1; i < height; i++) excluded += grid[i * width];
   const rowKeep: number[] = [];
   const colKeep: number[] = [];
-  for (let i = 0; i < rowColumn.labels.length; i++) {
+  for (let i = 1; i < height; i++) {
     let s = 0;
-    for (let j = 0; j < width; j++) s += cells[i * width + j];
+    for (let j = 1; j < width; j++) s += grid[i * width + j];
     if (s > 0) rowKeep.push(i);
   }
-  for (let j = 0; j < width; j++) {
+  for (let j = 1; j < width; j++) {
     let s = 0;
-    for (let i = 0; i < rowColumn.labels.length; i++) s += cells[i * width + j];
+    for (let i = 1; i < height; i++) s += grid[i * width + j];
     if (s > 0) colKeep.push(j);
   }
   return {
     table: {
       rowName: rowColumn.name,
       colName: colColumn.name,
-      rowLevels: rowKeep.map((i) => rowColumn.labels[i]),
-      colLevels: colKeep.map((j) => colColumn.labels[j]),
-      counts: rowKeep.map((i) => colKeep.map((j) => cells[i * width + j])),
+      rowLevels: rowKeep.map((i) => rowColumn.labels[i - 1]),
+      colLevels: colKeep.map((j) => colColumn.labels[j - 1]),
+      counts: rowKeep.map((i) => colKeep.map((j) => grid[i * width + j])),
     },
     excluded,
   };

@@ -4,22 +4,31 @@ import { describe, expect, it } from 'vitest';
 import { CsvTokenizer, detectDelimiter } from '../../src/io/csvTokenizer.js';
 import { TabsightError } from '../../src/errors.js';
 
+/** Handlers that collect every field as a string, record by record. */
+function stringSink(out: string[][]) {
+  let values: string[] = [];
+  return {
+    header: (fields: string[]) => {
+      out.push(fields);
+      return Int32Array.from({ length: fields.length }, (_v, i) => i);
+    },
+    fieldBytes: (slot: number, _buf: Uint8Array, view: Buffer, start: number, end: number) => {
+      values[slot] = view.toString('utf8', start, end);
+    },
+    fieldText: (slot: number, value: string) => {
+      values[slot] = value;
+    },
+    record: (fieldCount: number) => {
+      out.push(values.slice(0, fieldCount));
+      values = [];
+    },
+  };
+}
+
 /** Runs the tokenizer over a document cut into the given chunk sizes; returns every record. */
 function tokenize(document: string, delimiter: string, cuts: number[] = []): string[][] {
   const out: string[][] = [];
-  let width = 0;
-  const tokenizer = new CsvTokenizer(
-    delimiter.charCodeAt(0),
-    {
-      header: (fields) => {
-        out.push(fields);
-        width = fields.length;
-        return Int32Array.from({ length: width }, (_v, i) => i);
-      },
-      record: (values, fieldCount) => out.push(values.slice(0, fieldCount) as string[]),
-    },
-    'test.csv',
-  );
+  const tokenizer = new CsvTokenizer(delimiter.charCodeAt(0), stringSink(out), 'test.csv');
   const bytes = Buffer.from(document, 'utf8');
   let at = 0;
   for (const cut of cuts) {
@@ -79,7 +88,7 @@ describe('CSV tokenizer', () => {
 
   it('skips blank lines and counts them', () => {
     const out: string[][] = [];
-    const t = new CsvTokenizer(44, { header: (f) => (out.push(f), Int32Array.from([0, 1])), record: (v, n) => out.push(v.slice(0, n) as string[]) }, 'x');
+    const t = new CsvTokenizer(44, stringSink(out), 'x');
     t.push(Buffer.from('a,b\n\n1,2\r\n   \n3,4'));
     t.finish();
     expect(out).toEqual([['a', 'b'], ['1', '2'], ['3', '4']]);

@@ -15,17 +15,21 @@ describe('natural level order (common practice, locale-free)', () => {
 
 describe('table counter', () => {
   it('counts pairs into a table in natural order', () => {
+    // ids as the reader gives them: labels[id − 1]
+    const rowLabels = ['x', 'y'];
+    const colLabels = ['10', '2'];
     const counter = new TableCounter('r', 'c', 50);
-    for (const [a, b] of [['x', '2'], ['y', '10'], ['x', '10'], ['x', '2']]) counter.add(a, b);
-    const { table } = counter.finish();
+    for (const [a, b] of [[1, 2], [2, 1], [1, 1], [1, 2]]) counter.add(a, b);
+    const { table } = counter.finish(rowLabels, colLabels);
     expect(table.rowLevels).toEqual(['x', 'y']);
     expect(table.colLevels).toEqual(['2', '10']);
     expect(table.counts).toEqual([[2, 1], [0, 1]]);
   });
   it('refuses a side with more levels than the cap and says how many it has', () => {
     const counter = new TableCounter('id', 'c', 5);
-    for (let i = 0; i < 120; i++) counter.add(`v${i}`, 'a');
-    expect(() => counter.finish()).toThrow(TabsightError);
-    expect(() => counter.finish()).toThrow(/"id" has 120 distinct values, more than --max-levels 5/);
+    const labels = Array.from({ length: 120 }, (_v, i) => `v${i}`);
+    for (let i = 1; i <= 120; i++) counter.add(i, 1);
+    expect(() => counter.finish(labels, ['a'])).toThrow(TabsightError);
+    expect(() => counter.finish(labels, ['a'])).toThrow(/"id" has 120 distinct values, more than --max-levels 5/);
   });
 });

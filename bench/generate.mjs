@@ -1,0 +1,87 @@
+// Seeded benchmark files (kept out of git, in bench/data/).
+//   scan-200k.csv : 200,000 rows x 30 categorical columns (2 to 9 levels; some columns depend on others)
+//   pair-1m.csv   : 1,000,000 rows x 8 columns (about 60 MB)
+//   pair-10m.csv  : ten times the pair file, for the streaming-memory check (only with --large)
+import { createWriteStream, existsSync, mkdirSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const here = dirname(fileURLToPath(import.meta.url));
+export const DATA = join(here, 'data');
+
+function mulberry32(a) {
+  return () => {
+    a |= 0;
+    a = (a + 0x6d2b79f5) | 0;
+    let t = Math.imul(a ^ (a >>> 15), 1 | a);
+    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+async function writeLines(path, header, rows, makeRow) {
+  const out = createWriteStream(path);
+  out.write(header + '\n');
+  let buffer = [];
+  for (let i = 0; i < rows; i++) {
+    buffer.push(makeRow(i));
+    if (buffer.length === 10000) {
+      if (!out.write(buffer.join('\n') + '\n')) await new Promise((r) => out.once('drain', r));
+      buffer = [];
+    }
+  }
+  if (buffer.length) out.write(buffer.join('\n') + '\n');
+  await new Promise((r) => out.end(r));
+}
+
+const LEVEL_WORDS = ['alpha', 'bravo', 'cedar', 'delta', 'ember', 'fjord', 'grove', 'heath', 'inlet'];
+
+export async function scanFile() {
+  const path = join(DATA, 'scan-200k.csv');
+  if (existsSync(path)) return path;
+  mkdirSync(DATA, { recursive: true });
+  const random = mulberry32(30);
+  const columns = 30;
+  const levels = Array.from({ length: columns }, (_v, k) => 2 + (k % 8));
+  const header = Array.from({ length: columns }, (_v, k) => `q${String(k + 1).padStart(2, '0')}`).join(',');
+  await writeLines(path, header, 200_000, () => {
+    const row = [];
+    for (let k = 0; k < columns; k++) {
+      let level;
+      if (k % 5 === 1 && random() < 0.4) level = Math.floor((row[k - 1] * levels[k]) / levels[k - 1]);
+      else level = Math.floor(random() * levels[k]);
+      row.push(level);
+    }
+    return row.map((l, k) => (random() < 0.01 ? '' : LEVEL_WORDS[l] + (k % 3 === 0 ? ' option' : ''))).join(',');
+  });
+  return path;
+}
+
+export async function pairFile(rows = 1_000_000, name = 'pair-1m.csv') {
+  const path = join(DATA, name);
+  if (existsSync(path)) return path;
+  mkdirSync(DATA, { recursive: true });
+  const random = mulberry32(8);
+  const header = 'respondent,region,segment,channel,answer,score,basket,flag';
+  await writeLines(path, header, rows, (i) => {
+    const region = Math.floor(random() * 6);
+    const segment = random() < 0.6 ? region % 4 : Math.floor(random() * 4);
+    return [
+      `U${i}`,
+      LEVEL_WORDS[region],
+      ['retail', 'trade', 'public', 'online'][segment],
+      ['store', 'phone', 'web'][Math.floor(random() * 3)],
+      ['yes', 'no', 'unsure'][Math.floor(random() * 3)],
+      String(1 + Math.floor(random() * 5)),
+      (random() * 200).toFixed(2),
+      random() < 0.5 ? 'Y' : 'N',
+    ].join(',');
+  });
+  return path;
+}
+
+if (process.argv[1] === fileURLToPath(import.meta.url)) {
+  console.log(await scanFile());
+  console.log(await pairFile());
+  if (process.argv.includes('--large')) console.log(await pairFile(10_000_000, 'pair-10m.csv'));
+}
