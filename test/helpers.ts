@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';
+import fc from 'fast-check';
 import { expect } from 'vitest';
 
 export const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
@@ -52,4 +53,12 @@ export function expectClose(actual: number | null | undefined, expected: number,
 export function expectMatrixClose(actual: readonly (readonly (number | null)[])[], expected: readonly (readonly number[])[], tolerance = 1e-10): void {
   expect(actual.length).toBe(expected.length);
   actual.forEach((row, i) => row.forEach((v, j) => expectClose(v, expected[i][j], tolerance)));
+}
+
+/** Random r×c tables of counts with no empty row or column (fast-check). */
+export function contingencyTables(maxRows: number, maxCols: number, maxCount: number, minRows = 2, minCols = 2): fc.Arbitrary<number[][]> {
+  return fc
+    .tuple(fc.integer({ min: minRows, max: maxRows }), fc.integer({ min: minCols, max: maxCols }))
+    .chain(([r, c]) => fc.array(fc.array(fc.integer({ min: 0, max: maxCount }), { minLength: c, maxLength: c }), { minLength: r, maxLength: r }))
+    .filter((t) => t.every((row) => row.some((v) => v > 0)) && t[0].every((_v, j) => t.some((row) => row[j] > 0)));
 }

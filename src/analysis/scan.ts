@@ -1,22 +1,10 @@
 import { adjustPValues, Adjustment } from '../stats/multipleTesting.js';
 import { equalFrequencyBins, naturalRanks } from '../table/bins.js';
 import { CodedColumn, crossCount } from '../table/crossCount.js';
+import type { EncodedColumn } from '../table/encodedColumn.js';
 import { AnalysisOptions, AnalysisRecord, analyzeTable } from './analyzeTable.js';
 import type { InputSummary } from './report.js';
 import { TOOL_VERSION } from './report.js';
-
-/** What the screening needs to know of each candidate column. */
-export interface ScanColumn {
-  name: string;
-  labels: string[];
-  codes: Uint16Array | Uint32Array | null;
-  missing: number;
-  distinct: number;
-  distinctCapped: boolean;
-  numeric: boolean;
-  integer: boolean;
-  values: Float64Array | null;
-}
 
 export interface ScanOptions {
   maxLevels: number;
@@ -69,7 +57,7 @@ export interface ScanReport {
 const IDENTIFIER_SHARE = 0.9;
 
 /** Screening: decides which candidates take part, with the reason for each one left out. */
-export function screenColumn(column: ScanColumn, rows: number, options: Pick<ScanOptions, 'maxLevels' | 'bins'>): SkippedColumn | null {
+export function screenColumn(column: EncodedColumn, rows: number, options: Pick<ScanOptions, 'maxLevels' | 'bins'>): SkippedColumn | null {
   const present = rows - column.missing;
   const distinct = column.distinctCapped ? `more than ${column.distinct.toLocaleString('en-US')}` : column.distinct.toLocaleString('en-US');
   if (present === 0) return { column: column.name, code: 'no-values', reason: 'every value is missing' };
@@ -89,7 +77,7 @@ export function screenColumn(column: ScanColumn, rows: number, options: Pick<Sca
 }
 
 /** Turns a screened column into codes in report order (natural order, or bins lowest first). */
-export function codedColumn(column: ScanColumn, bins: number | null): CodedColumn {
+export function codedColumn(column: EncodedColumn, bins: number | null): CodedColumn {
   if (column.codes === null) {
     const binning = equalFrequencyBins(column.values as Float64Array, bins as number);
     return { name: column.name, labels: binning.labels, codes: binning.codes };
@@ -109,7 +97,7 @@ export function codedColumn(column: ScanColumn, bins: number | null): CodedColum
  * single pair, adjusts the Pearson p-values for the number of pairs tested,
  * and ranks the pairs by bias-corrected V (ties by p-value).
  */
-export function scanColumns(columns: ScanColumn[], rows: number, input: InputSummary, options: ScanOptions): ScanReport {
+export function scanColumns(columns: EncodedColumn[], rows: number, input: InputSummary, options: ScanOptions): ScanReport {
   const skipped: SkippedColumn[] = [];
   const coded: CodedColumn[] = [];
   for (const column of columns) {

@@ -28,6 +28,17 @@ export function pairCommand(): Command {
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addAnalysisOptions(command);
+  command.addHelpText(
+    'after',
+    `
+Examples:
+  tabsight pair survey.csv --rows age_band --cols preferred_format
+  cat survey.csv | tabsight pair - --rows membership --cols visit_frequency --format json
+  tabsight pair survey.csv --rows visit_frequency --cols satisfaction --ordinal \\
+    --row-order 'rarely,a few times a year,monthly,weekly'
+
+Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage.`,
+  );
   command.action(async (file: string | undefined, raw: RawPairOptions) => {
     const source = inputSource(file);
     const reader = readerPlan(raw);

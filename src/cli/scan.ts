@@ -58,6 +58,16 @@ export function scanCommand(): Command {
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addAnalysisOptions(command, SCAN_SIMULATIONS);
+  command.addHelpText(
+    'after',
+    `
+Examples:
+  tabsight scan survey.csv
+  tabsight scan survey.csv --exclude respondent_id --bins 5 --top 20
+  tabsight scan survey.csv --format csv > weekly-pairs.csv
+
+Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage.`,
+  );
   command.action(async (file: string | undefined, raw: RawScanOptions) => {
     const source = inputSource(file);
     const reader = readerPlan(raw);

@@ -1,26 +1,12 @@
 import { usageError, dataError } from '../errors.js';
 import { isNumericLabel } from '../table/naturalOrder.js';
+import type { EncodedColumn } from '../table/encodedColumn.js';
 import { resolveColumn } from './columns.js';
 import { readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
 import { InputSource } from './source.js';
 import { MISSING_ID } from './fieldInterner.js';
 
-/** One candidate column of a scan, dictionary-encoded in the single pass. */
-export interface EncodedColumn {
-  name: string;
-  /** Level labels; code k (1-based) is labels[k − 1]; code 0 is missing. */
-  labels: string[];
-  /** Codes per data row, or null once the column passed the level cap. */
-  codes: Uint16Array | Uint32Array | null;
-  missing: number;
-  /** Distinct values seen (exact up to the tracking limit). */
-  distinct: number;
-  distinctCapped: boolean;
-  numeric: boolean;
-  integer: boolean;
-  /** Numeric values per row (NaN for missing), kept only when binning was asked for. */
-  values: Float64Array | null;
-}
+export type { EncodedColumn };
 
 export interface EncodedFile {
   columns: EncodedColumn[];

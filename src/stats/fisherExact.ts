@@ -220,7 +220,15 @@ export function fisherByEnumeration(counts: CountMatrix): number {
   const rowLeft = [...rowTotals];
   const colLeft = [...colTotals];
   let sum = 0;
-  const fill = (cell: number) => {
+  const place = (i: number, j: number, v: number, next: number) => {
+    table[i][j] = v;
+    rowLeft[i] -= v;
+    colLeft[j] -= v;
+    fill(next);
+    rowLeft[i] += v;
+    colLeft[j] += v;
+  };
+  const fill = (cell: number): void => {
     if (cell === r * c) {
       const p = Math.exp(logProbability(table));
       if (p <= threshold) sum += p;
@@ -228,38 +236,16 @@ export function fisherByEnumeration(counts: CountMatrix): number {
     }
     const i = Math.floor(cell / c);
     const j = cell % c;
-    if (j === c - 1) {
-      const v = rowLeft[i];
-      if (v > colLeft[j]) return;
-      if (i === r - 1 && v !== colLeft[j]) return;
-      table[i][j] = v;
-      rowLeft[i] -= v;
-      colLeft[j] -= v;
-      fill(cell + 1);
-      rowLeft[i] += v;
-      colLeft[j] += v;
-      return;
-    }
-    if (i === r - 1) {
-      const v = colLeft[j];
-      if (v > rowLeft[i]) return;
-      table[i][j] = v;
-      rowLeft[i] -= v;
-      colLeft[j] -= v;
-      fill(cell + 1);
-      rowLeft[i] += v;
-      colLeft[j] += v;
+    if (j === c - 1 || i === r - 1) {
+      // The last cell of a row, or of a column, is forced by its margin.
+      const v = j === c - 1 ? rowLeft[i] : colLeft[j];
+      if (v > colLeft[j] || v > rowLeft[i]) return;
+      if (i === r - 1 && j === c - 1 && rowLeft[i] !== colLeft[j]) return;
+      place(i, j, v, cell + 1);
       return;
     }
     const hi = Math.min(rowLeft[i], colLeft[j]);
-    for (let v = 0; v <= hi; v++) {
-      table[i][j] = v;
-      rowLeft[i] -= v;
-      colLeft[j] -= v;
-      fill(cell + 1);
-      rowLeft[i] += v;
-      colLeft[j] += v;
-    }
+    for (let v = 0; v <= hi; v++) place(i, j, v, cell + 1);
   };
   fill(0);
   return Math.min(1, sum);

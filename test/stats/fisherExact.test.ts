@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { fisherByEnumeration, fisherExact2x2, fisherFreemanHalton } from '../../src/stats/fisherExact.js';
 import { monteCarloExactTest, RandomTableSampler } from '../../src/stats/monteCarlo.js';
 import { SeededRandom } from '../../src/stats/random.js';
-import { expectClose, reference } from '../helpers.js';
+import { contingencyTables, expectClose, reference } from '../helpers.js';
 
 describe("Fisher's exact test, 2×2", () => {
   it("tea-tasting experiment: two-sided p = 0.4857 (Fisher 1935, The Design of Experiments; Agresti 2013 §3.5.2)", () => {
@@ -32,10 +32,7 @@ describe('Fisher–Freeman–Halton exact test, r×c', () => {
   }
 
   it('equals brute-force enumeration on random small tables (property)', () => {
-    const small = fc
-      .tuple(fc.integer({ min: 2, max: 3 }), fc.integer({ min: 2, max: 4 }))
-      .chain(([r, c]) => fc.array(fc.array(fc.integer({ min: 0, max: 5 }), { minLength: c, maxLength: c }), { minLength: r, maxLength: r }))
-      .filter((t) => t.every((row) => row.some((v) => v > 0)) && t[0].every((_v, j) => t.some((row) => row[j] > 0)));
+    const small = contingencyTables(3, 4, 5);
     fc.assert(
       fc.property(small, (t) => {
         const network = fisherFreemanHalton(t)?.pValue as number;

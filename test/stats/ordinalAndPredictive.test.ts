@@ -11,7 +11,7 @@ import {
   uncertaintyRowsGivenCols,
   uncertaintySymmetric,
 } from '../../src/stats/predictive.js';
-import { expectClose, reference } from '../helpers.js';
+import { contingencyTables, expectClose, reference } from '../helpers.js';
 
 const jobSatisfaction = [
   [1, 2, 1, 0],
@@ -47,10 +47,7 @@ describe('ordinal measures', () => {
     expectClose(linearByLinear(t)?.statistic, 29 * r * r, 1e-12);
   });
 
-  const ordered = fc
-    .tuple(fc.integer({ min: 2, max: 5 }), fc.integer({ min: 2, max: 5 }))
-    .chain(([r, c]) => fc.array(fc.array(fc.integer({ min: 0, max: 30 }), { minLength: c, maxLength: c }), { minLength: r, maxLength: r }))
-    .filter((t) => t.every((row) => row.some((v) => v > 0)) && t[0].every((_v, j) => t.some((row) => row[j] > 0)));
+  const ordered = contingencyTables(5, 5, 30);
 
   it('gamma and tau-b lie in [−1, 1]; reversing one variable flips the sign of every ordinal measure (property)', () => {
     fc.assert(
@@ -98,10 +95,7 @@ describe('predictive (proportional reduction in error) measures', () => {
   });
 
   it('lambda, tau and U lie in [0, 1] on random tables (property)', () => {
-    const tables = fc
-      .tuple(fc.integer({ min: 2, max: 5 }), fc.integer({ min: 2, max: 5 }))
-      .chain(([r, c]) => fc.array(fc.array(fc.integer({ min: 0, max: 40 }), { minLength: c, maxLength: c }), { minLength: r, maxLength: r }))
-      .filter((t) => t.every((row) => row.some((v) => v > 0)) && t[0].every((_v, j) => t.some((row) => row[j] > 0)));
+    const tables = contingencyTables(5, 5, 40);
     fc.assert(
       fc.property(tables, (t) => {
         for (const f of [lambdaColsGivenRows, lambdaRowsGivenCols, lambdaSymmetric, goodmanKruskalTauColsGivenRows, goodmanKruskalTauRowsGivenCols, uncertaintyColsGivenRows, uncertaintyRowsGivenCols, uncertaintySymmetric]) {

@@ -13,7 +13,7 @@ import {
   yulesQ,
   yulesY,
 } from '../../src/stats/strength.js';
-import { expectClose, reference } from '../helpers.js';
+import { contingencyTables, expectClose, reference } from '../helpers.js';
 
 function measuresOf(counts: number[][]) {
   const x2 = pearsonChiSquare(counts).statistic;
@@ -91,10 +91,7 @@ describe('published definitions', () => {
   });
 });
 
-const tableArbitrary = fc
-  .tuple(fc.integer({ min: 2, max: 5 }), fc.integer({ min: 2, max: 5 }))
-  .chain(([r, c]) => fc.array(fc.array(fc.integer({ min: 0, max: 60 }), { minLength: c, maxLength: c }), { minLength: r, maxLength: r }))
-  .filter((t) => t.every((row) => row.some((v) => v > 0)) && t[0].every((_v, j) => t.some((row) => row[j] > 0)));
+const tableArbitrary = contingencyTables(5, 5, 60);
 
 describe('properties on random tables (fast-check)', () => {
   it('0 ≤ V, T, corrected C, bias-corrected V ≤ 1 and |Q| ≤ 1', () => {

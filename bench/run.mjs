@@ -1,0 +1,86 @@
+#!/usr/bin/env node
+// npm run bench: tabsight against the route a data team would write instead
+// (pandas reading the CSV + scipy's chi2_contingency, bench/reference_route.py),
+// measured in the same run as whole-process wall time, median of several runs,
+// reported as ratios. Generates its seeded files in bench/data/ (not in git).
+// Options: --runs N (default 5), --quick (3 runs, no 10x memory file).
+import { spawnSync } from 'node:child_process';
+import { existsSync, statSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { pairFile, scanFile } from './generate.mjs';
+
+const here = dirname(fileURLToPath(import.meta.url));
+const root = join(here, '..');
+const bin = join(root, 'bin', 'tabsight.js');
+const args = process.argv.slice(2);
+const quick = args.includes('--quick');
+const runs = Number(args[args.indexOf('--runs') + 1]) || (quick ? 3 : 5);
+const python = '/usr/bin/python3';
+
+function ensureReference() {
+  const check = () => spawnSync(python, ['-c', 'import pandas, scipy'], { stdio: 'ignore' }).status === 0;
+  if (check()) return;
+  console.log('installing the reference route: apt-get install python3-pandas python3-scipy');
+  spawnSync('apt-get', ['update', '-qq'], { stdio: 'inherit' });
+  spawnSync('apt-get', ['install', '-y', '-qq', 'python3-pandas', 'python3-scipy'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+  if (!check()) throw new Error('the reference route (Debian python3-pandas, python3-scipy) could not be installed');
+}
+
+const hasTime = existsSync('/usr/bin/time');
+
+/** Runs a command once; returns wall seconds and peak resident memory in MB (when /usr/bin/time exists). */
+function once(command, commandArgs) {
+  const full = hasTime ? ['/usr/bin/time', ['-f', '%M', command, ...commandArgs]] : [command, commandArgs];
+  const started = process.hrtime.bigint();
+  const result = spawnSync(full[0], full[1], { encoding: 'utf8', maxBuffer: 1 << 28 });
+  const seconds = Number(process.hrtime.bigint() - started) / 1e9;
+  if (result.status !== 0) throw new Error(`${command} ${commandArgs.join(' ')} failed: ${result.stderr}`);
+  const peak = hasTime ? Number(result.stderr.trim().split('\n').pop()) / 1024 : null;
+  return { seconds, peak };
+}
+
+function median(values) {
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.floor(sorted.length / 2)];
+}
+
+/** Alternates the two routes run by run so that drift on the machine hits both alike. */
+function compare(name, ours, theirs, goal) {
+  const a = [];
+  const b = [];
+  for (let k = 0; k < runs; k++) {
+    a.push(once(...ours));
+    b.push(once(...theirs));
+  }
+  const mine = median(a.map((r) => r.seconds));
+  const reference = median(b.map((r) => r.seconds));
+  const ratio = mine / reference;
+  return { name, mine, reference, ratio, goal, met: ratio <= goal, peak: median(a.map((r) => r.peak ?? 0)) };
+}
+
+ensureReference();
+const scan = await scanFile();
+const pair = await pairFile();
+const results = [];
+results.push(compare('scan, 200,000 rows x 30 columns', [process.execPath, [bin, 'scan', scan, '--format', 'csv']], [python, [join(here, 'reference_route.py'), 'scan', scan]], 0.1));
+results.push(compare('pair, 1,000,000 rows x 8 columns', [process.execPath, [bin, 'pair', pair, '--rows', 'region', '--cols', 'segment', '--format', 'json']], [python, [join(here, 'reference_route.py'), 'pair', pair, 'region', 'segment']], 0.5));
+
+console.log(`\nwhole-process wall time, median of ${runs} runs, same machine, same run\n`);
+console.log('scenario                              tabsight   reference   ratio   goal');
+for (const r of results) {
+  console.log(`${r.name.padEnd(36)} ${r.mine.toFixed(2).padStart(8)} s ${r.reference.toFixed(2).padStart(9)} s ${r.ratio.toFixed(3).padStart(7)}   ≤ ${r.goal} ${r.met ? 'met' : 'NOT MET'}`);
+}
+const pairResult = results[1];
+const megabytes = statSync(pair).size / 1e6;
+console.log(`\npair throughput: ${(megabytes / pairResult.mine).toFixed(0)} MB/s, ${(1e6 / pairResult.mine / 1e6).toFixed(2)} million rows/s (whole process, ${megabytes.toFixed(0)} MB file)`);
+
+if (!quick && hasTime) {
+  const large = await pairFile(10_000_000, 'pair-10m.csv');
+  const small = median(Array.from({ length: 3 }, () => once(process.execPath, [bin, 'pair', pair, '--rows', 'region', '--cols', 'segment', '--format', 'json']).peak));
+  const big = median(Array.from({ length: 3 }, () => once(process.execPath, [bin, 'pair', large, '--rows', 'region', '--cols', 'segment', '--format', 'json']).peak));
+  console.log(`peak memory of pair: ${small.toFixed(0)} MB on 1M rows, ${big.toFixed(0)} MB on 10M rows: ratio ${(big / small).toFixed(2)} (goal ≤ 1.5)`);
+}
+
+const accuracy = spawnSync(process.execPath, [join(here, 'jstat-accuracy.mjs')], { encoding: 'utf8' });
+process.stdout.write('\n' + accuracy.stdout);
