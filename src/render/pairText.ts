@@ -119,8 +119,8 @@ export function renderPairText(report: PairReport, paint: ChalkInstance, width =
   };
   out.push(paint.bold(`${report.rows.name} × ${report.cols.name}`));
   const leftOut = report.excluded > 0 ? `, ${formatCount(report.excluded)} left out for a missing value` : '';
-  const skipped = input.badRowsSkipped > 0 ? `, ${formatCount(input.badRowsSkipped)} malformed rows skipped` : '';
-  out.push(paint.dim(`${input.file}: ${formatCount(input.rowsRead)} rows read, ${formatCount(report.n)} in the table${leftOut}${skipped}`));
+  const skipped = input.badRowsSkipped > 0 ? `, ${formatCount(input.badRowsSkipped)} malformed row${input.badRowsSkipped === 1 ? '' : 's'} skipped` : '';
+  out.push(...wrap(`${input.file}: ${formatCount(input.rowsRead)} rows read, ${formatCount(report.n)} in the table${leftOut}${skipped}`, width).map((l) => paint.dim(l)));
   out.push('');
   out.push(...countGrid(report, paint, width));
 

@@ -27,15 +27,17 @@ const ADJUSTMENT_NAMES = { bh: 'Benjamini–Hochberg', holm: 'Holm', bonferroni:
 
 export function renderScanText(report: ScanReport, paint: ChalkInstance, width = 80): string {
   const out: string[] = [];
-  out.push(paint.bold(`Pairs of ${report.input.file}, strongest first`));
+  out.push(...wrap(`Pairs of ${report.input.file}, strongest first`, width).map((l) => paint.bold(l)));
   out.push(
-    paint.dim(
+    ...wrap(
       `${formatCount(report.n)} rows, ${report.columnsScored.length} columns scored, ${report.pairsTested} pairs tested; ` +
         `${ADJUSTMENT_NAMES[report.adjustment]} adjustment, α ${report.alpha}: ${report.pairsPassing} pass`,
-    ),
+      width,
+    ).map((l) => paint.dim(l)),
   );
   out.push('');
-  const pairWidth = 34;
+  const flagWidth = Math.max(5, ...report.pairs.map((p) => pairFlags(p).join(' ').length));
+  const pairWidth = Math.max(20, Math.min(40, width - 35 - flagWidth));
   out.push(paint.bold(padLeft('#', 4) + '  ' + padRight('pair', pairWidth) + padRight('bias-corr. V', 18) + padLeft('adj. p', 9) + '  flags'));
   for (const pair of report.pairs) {
     const name = clip(`${pair.rows.name} × ${pair.cols.name}`, pairWidth - 1);

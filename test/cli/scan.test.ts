@@ -119,5 +119,6 @@ describe('tabsight scan', () => {
     const r = run(['scan', DEMO]);
     expect(r.stderr).toBe('');
     expect(r.stdout).not.toMatch(/\x1b\[/);
+    for (const line of r.stdout.split('\n')) expect([...line].length, line).toBeLessThanOrEqual(80);
   });
 });
