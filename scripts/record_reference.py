@@ -221,6 +221,51 @@ for p in mt_inputs:
         "bonferroni": multipletests(p, method="bonferroni")[1].tolist(),
     })
 
+# ---- stratified tables -------------------------------------------------------------
+from statsmodels.stats.contingency_tables import StratifiedTable
+
+# Graduate admissions by department (Bickel, Hammel & O'Connell 1975, Science 187, 398-404):
+# rows male/female, columns admitted/rejected, one table per department A-F.
+berkeley = [
+    [[512, 313], [89, 19]], [[353, 207], [17, 8]], [[120, 205], [202, 391]],
+    [[138, 279], [131, 244]], [[53, 138], [94, 299]], [[22, 351], [24, 317]],
+]
+st = StratifiedTable([np.array(t) for t in berkeley])
+null = st.test_null_odds(correction=False)
+eq = st.test_equal_odds(adjust=False)
+lo, hi = st.oddsratio_pooled_confint()
+stratified_2x2 = {"name": "graduate admissions by department (Bickel, Hammel & O'Connell 1975)", "strata": berkeley,
+                  "cmh": {"statistic": float(null.statistic), "pValue": float(null.pvalue)},
+                  "commonOddsRatio": {"estimate": float(st.oddsratio_pooled), "lower": float(lo), "upper": float(hi)},
+                  "breslowDay": {"statistic": float(eq.statistic), "pValue": float(eq.pvalue)}}
+
+
+def generalized_cmh(strata):
+    """Landis, Heyman & Koch (1978) general association statistic, from its published formula."""
+    strata = [np.array(t, dtype=float) for t in strata]
+    r, c = strata[0].shape
+    dev = np.zeros((r - 1) * (c - 1))
+    var = np.zeros(((r - 1) * (c - 1), (r - 1) * (c - 1)))
+    for t in strata:
+        n = t.sum()
+        if n < 2:
+            continue
+        pr = t.sum(axis=1)[:-1] / n
+        pc = t.sum(axis=0)[:-1] / n
+        dev += (t[:-1, :-1] - n * np.outer(pr, pc)).flatten()
+        var += n * n / (n - 1) * np.kron(np.diag(pr) - np.outer(pr, pr), np.diag(pc) - np.outer(pc, pc))
+    q = float(dev @ np.linalg.solve(var, dev))
+    df = (r - 1) * (c - 1)
+    return {"statistic": q, "df": df, "pValue": float(stats.chi2.sf(q, df))}
+
+
+rng2 = np.random.default_rng(7)
+generalized = []
+for shape, k, n in [((3, 3), 4, 300), ((2, 4), 3, 200), ((4, 3), 5, 800)]:
+    strata = [rng2.multinomial(n, rng2.dirichlet(np.ones(shape[0] * shape[1]) * 3)).reshape(shape).tolist() for _ in range(k)]
+    generalized.append({"strata": strata, **generalized_cmh(strata)})
+generalized.append({"strata": berkeley, **generalized_cmh(berkeley)})
+
 normal = [{"p": p, "z": float(mpmath.sqrt(2) * mpmath.erfinv(2 * mpmath.mpf(p) - 1))} for p in [0.975, 0.995, 0.95, 0.5, 0.9995, 1e-10]]
 
 OUT.parent.mkdir(parents=True, exist_ok=True)
@@ -233,5 +278,7 @@ OUT.write_text(json.dumps({
     "ncx2": ncx2,
     "multipleTesting": mt,
     "normalQuantiles": normal,
+    "stratified2x2": stratified_2x2,
+    "generalizedCmh": generalized,
 }, indent=1) + "\n")
 print(f"wrote {OUT}: {len(chi2_grid)} chi2 points, {len(records)} tables, {len(exact)} exact r x c")

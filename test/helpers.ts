@@ -33,6 +33,14 @@ export interface Reference {
   ncx2: { x: number; df: number; lambda: number; upper: number; lower: number }[];
   multipleTesting: { p: number[]; bh: number[]; holm: number[]; bonferroni: number[] }[];
   normalQuantiles: { p: number; z: number }[];
+  stratified2x2: {
+    name: string;
+    strata: number[][][];
+    cmh: { statistic: number; pValue: number };
+    commonOddsRatio: { estimate: number; lower: number; upper: number };
+    breslowDay: { statistic: number; pValue: number };
+  };
+  generalizedCmh: { strata: number[][][]; statistic: number; df: number; pValue: number }[];
 }
 
 /** Values recorded by scripts/record_reference.py (scipy, statsmodels, mpmath, exact fractions). */

@@ -1,0 +1,167 @@
+import { upperTailChiSquare } from './chiSquareDistribution.js';
+import { TestResult } from './chiSquareTests.js';
+import { CountMatrix, margins } from './contingency.js';
+import { normalQuantile } from './normalDistribution.js';
+
+/**
+ * Tests and estimates for a stack of K two-way tables with the same levels
+ * (one table per level of a third variable held fixed). Strata with fewer
+ * than two observations carry no information and are passed over.
+ */
+
+/** Solves A x = b by Gaussian elimination with partial pivoting; null when A is singular. */
+export function solveLinear(matrix: number[][], rhs: number[]): number[] | null {
+  const n = rhs.length;
+  const a = matrix.map((row, i) => [...row, rhs[i]]);
+  const scale = Math.max(...matrix.flat().map(Math.abs), 0);
+  for (let col = 0; col < n; col++) {
+    let pivot = col;
+    for (let r = col + 1; r < n; r++) if (Math.abs(a[r][col]) > Math.abs(a[pivot][col])) pivot = r;
+    if (Math.abs(a[pivot][col]) <= 1e-12 * scale) return null;
+    [a[col], a[pivot]] = [a[pivot], a[col]];
+    for (let r = col + 1; r < n; r++) {
+      const f = a[r][col] / a[col][col];
+      for (let k = col; k <= n; k++) a[r][k] -= f * a[col][k];
+    }
+  }
+  const x = new Array<number>(n).fill(0);
+  for (let r = n - 1; r >= 0; r--) {
+    let s = a[r][n];
+    for (let k = r + 1; k < n; k++) s -= a[r][k] * x[k];
+    x[r] = s / a[r][r];
+  }
+  return x;
+}
+
+/**
+ * Generalized Cochran–Mantel–Haenszel statistic of general association
+ * (Landis, Heyman & Koch 1978, Int. Stat. Rev. 46, 237–254), conditional
+ * independence of rows and columns given the strata. With n_k the vector of
+ * the first (r−1)(c−1) cells of stratum k, m_k its expectation under
+ * independence and
+ *   V_k = n_k²/(n_k − 1) · (D_{p_r} − p_r p_rᵀ) ⊗ (D_{p_c} − p_c p_cᵀ),
+ * (p_r, p_c the first r−1 and c−1 marginal proportions),
+ *   Q = (Σ(n_k − m_k))ᵀ (Σ V_k)⁻¹ (Σ(n_k − m_k)),  df = (r−1)(c−1).
+ * For 2×2×K it is the Mantel–Haenszel (1959) statistic without continuity
+ * correction. null when Σ V_k is singular.
+ */
+export function cochranMantelHaenszel(strata: readonly CountMatrix[]): TestResult | null {
+  const r = strata[0].length;
+  const c = strata[0][0].length;
+  const size = (r - 1) * (c - 1);
+  if (size === 0) return null;
+  const deviation = new Array<number>(size).fill(0);
+  const variance = Array.from({ length: size }, () => new Array<number>(size).fill(0));
+  for (const table of strata) {
+    const { rowTotals, colTotals, total: n } = margins(table);
+    if (n < 2) continue;
+    const pr = rowTotals.map((v) => v / n);
+    const pc = colTotals.map((v) => v / n);
+    const factor = (n * n) / (n - 1);
+    for (let i = 0; i < r - 1; i++) {
+      for (let j = 0; j < c - 1; j++) {
+        const u = i * (c - 1) + j;
+        deviation[u] += table[i][j] - n * pr[i] * pc[j];
+        for (let i2 = 0; i2 < r - 1; i2++) {
+          const rowPart = (i === i2 ? pr[i] : 0) - pr[i] * pr[i2];
+          for (let j2 = 0; j2 < c - 1; j2++) {
+            const colPart = (j === j2 ? pc[j] : 0) - pc[j] * pc[j2];
+            variance[u][i2 * (c - 1) + j2] += factor * rowPart * colPart;
+          }
+        }
+      }
+    }
+  }
+  const solved = solveLinear(variance, deviation);
+  if (solved === null) return null;
+  const statistic = Math.max(0, deviation.reduce((s, d, k) => s + d * solved[k], 0));
+  return { statistic, df: size, pValue: upperTailChiSquare(statistic, size) };
+}
+
+export interface CommonOddsRatio {
+  estimate: number;
+  lower: number;
+  upper: number;
+  confidence: number;
+}
+
+/**
+ * Mantel–Haenszel common odds ratio for 2×2×K tables,
+ *   θ_MH = Σ a_k d_k / n_k ÷ Σ b_k c_k / n_k  (Mantel & Haenszel 1959),
+ * with the Robins–Breslow–Greenland variance of log θ_MH
+ * (Robins, Breslow & Greenland 1986, Biometrics 42, 311–323):
+ *   Σ P_k R_k / (2R²) + Σ (P_k S_k + Q_k R_k) / (2RS) + Σ Q_k S_k / (2S²),
+ * P_k = (a_k + d_k)/n_k, Q_k = (b_k + c_k)/n_k, R_k = a_k d_k/n_k, S_k = b_k c_k/n_k.
+ */
+export function mantelHaenszelOddsRatio(strata: readonly CountMatrix[], confidence = 0.95): CommonOddsRatio | null {
+  let R = 0;
+  let S = 0;
+  let PR = 0;
+  let PSQR = 0;
+  let QS = 0;
+  for (const t of strata) {
+    const [[a, b], [c, d]] = t;
+    const n = a + b + c + d;
+    if (n < 2) continue;
+    const Rk = (a * d) / n;
+    const Sk = (b * c) / n;
+    const Pk = (a + d) / n;
+    const Qk = (b + c) / n;
+    R += Rk;
+    S += Sk;
+    PR += Pk * Rk;
+    PSQR += Pk * Sk + Qk * Rk;
+    QS += Qk * Sk;
+  }
+  if (!(R > 0 && S > 0)) return null;
+  const estimate = R / S;
+  const variance = PR / (2 * R * R) + PSQR / (2 * R * S) + QS / (2 * S * S);
+  const z = normalQuantile(0.5 + confidence / 2);
+  const half = z * Math.sqrt(variance);
+  return { estimate, lower: Math.exp(Math.log(estimate) - half), upper: Math.exp(Math.log(estimate) + half), confidence };
+}
+
+/**
+ * Breslow–Day test of homogeneous odds ratios across 2×2×K tables
+ * (Breslow & Day 1980, Statistical Methods in Cancer Research I, §4.4):
+ * for each stratum the expected a_k = A under the common odds ratio θ_MH
+ * solves A(n − r1 − c1 + A) = θ (r1 − A)(c1 − A) within the margins, and
+ *   X²_BD = Σ (a_k − A_k)² / Var_k,  Var_k = (1/A + 1/B + 1/C + 1/D)⁻¹,
+ * df = K − 1 over the strata with no empty margin (without Tarone's 1995 adjustment).
+ */
+export function breslowDay(strata: readonly CountMatrix[], commonOddsRatio: number): TestResult | null {
+  let statistic = 0;
+  let informative = 0;
+  for (const t of strata) {
+    const [[a, b], [c, d]] = t;
+    const n = a + b + c + d;
+    const r1 = a + b;
+    const c1 = a + c;
+    if (r1 === 0 || c1 === 0 || r1 === n || c1 === n) continue;
+    const expectedA = expectedCellUnderOddsRatio(r1, c1, n, commonOddsRatio);
+    const B = r1 - expectedA;
+    const C = c1 - expectedA;
+    const D = n - r1 - c1 + expectedA;
+    const variance = 1 / (1 / expectedA + 1 / B + 1 / C + 1 / D);
+    if (!(variance > 0)) continue;
+    statistic += (a - expectedA) ** 2 / variance;
+    informative++;
+  }
+  if (informative < 2) return null;
+  return { statistic, df: informative - 1, pValue: upperTailChiSquare(statistic, informative - 1) };
+}
+
+/** The root A in the feasible range of (1 − θ)A² + (n − r1 − c1 + θ(r1 + c1))A − θ r1 c1 = 0. */
+export function expectedCellUnderOddsRatio(r1: number, c1: number, n: number, theta: number): number {
+  const low = Math.max(0, r1 + c1 - n);
+  const high = Math.min(r1, c1);
+  const qa = 1 - theta;
+  const qb = n - r1 - c1 + theta * (r1 + c1);
+  const qc = -theta * r1 * c1;
+  if (Math.abs(qa) < 1e-14) return -qc / qb;
+  const disc = Math.sqrt(qb * qb - 4 * qa * qc);
+  // Numerically stable pair of roots (Press et al., Numerical Recipes §5.6).
+  const q = -0.5 * (qb + Math.sign(qb || 1) * disc);
+  const roots = [q / qa, qc / q];
+  return roots.find((x) => x >= low - 1e-9 && x <= high + 1e-9) ?? roots[0];
+}
