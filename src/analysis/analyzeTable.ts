@@ -28,6 +28,7 @@ import {
   yulesY,
 } from '../stats/strength.js';
 import { TwoWayTable } from '../table/twoWayTable.js';
+import { effectiveSampleSize, unweighted, Weighting } from '../table/weighting.js';
 
 export type ExactPolicy = 'auto' | 'always' | 'never';
 
@@ -86,8 +87,15 @@ export interface Findings {
 export interface AnalysisRecord {
   rows: NamedVariable;
   cols: NamedVariable;
+  /** Observations in the table: Σw when weighted. */
   n: number;
   excluded: number;
+  weighting: Weighting['kind'];
+  weighted: boolean;
+  /** The sample size the tests use: Kish's n_eff for sampling weights, n otherwise. */
+  effectiveN: number;
+  /** Data rows in the table. */
+  unweightedN: number;
   counts: number[][];
   expected: number[][];
   tests: {
@@ -141,7 +149,7 @@ function isIntegerTable(counts: number[][]): boolean {
 }
 
 function formatNumber(x: number): string {
-  return Number.isInteger(x) ? x.toLocaleString('en-US') : x.toPrecision(3);
+  return x.toLocaleString('en-US', { maximumFractionDigits: 1 });
 }
 
 /**
@@ -149,11 +157,20 @@ function formatNumber(x: number): string {
  * the same record every renderer reads. The table must have at least two
  * levels on each side (the caller refuses it otherwise).
  */
-export function analyzeTable(table: TwoWayTable, excluded: number, options: AnalysisOptions = DEFAULT_ANALYSIS_OPTIONS): AnalysisRecord {
-  const counts = table.counts;
-  const r = counts.length;
-  const c = counts[0].length;
-  const { total: n } = margins(counts);
+export function analyzeTable(
+  table: TwoWayTable,
+  excluded: number,
+  options: AnalysisOptions = DEFAULT_ANALYSIS_OPTIONS,
+  weighting: Weighting = unweighted(margins(table.counts).total),
+): AnalysisRecord {
+  const weightedCounts = table.counts;
+  const r = weightedCounts.length;
+  const c = weightedCounts[0].length;
+  const { total: n } = margins(weightedCounts);
+  // Sampling weights: the tests, intervals and residuals use the weighted
+  // table rescaled to Kish's effective sample size (Kish 1965), not Σw.
+  const effectiveN = weighting.kind === 'weight' ? effectiveSampleSize(weighting) : n;
+  const counts = weighting.kind === 'weight' ? weightedCounts.map((row) => row.map((v) => (v * effectiveN) / n)) : weightedCounts;
   const expected = expectedCounts(counts);
   const pearson = pearsonChiSquare(counts, expected);
   const likelihoodRatio = likelihoodRatioChiSquare(counts, expected);
@@ -202,21 +219,26 @@ export function analyzeTable(table: TwoWayTable, excluded: number, options: Anal
     });
   }
 
-  const phi = phiCoefficient(pearson.statistic, n);
-  const biasCorrectedV = biasCorrectedCramersV(pearson.statistic, n, r, c);
-  const vInterval = cramersVInterval(pearson.statistic, pearson.df, n, r, c, options.confidence);
+  const phi = phiCoefficient(pearson.statistic, effectiveN);
+  const biasCorrectedV = biasCorrectedCramersV(pearson.statistic, effectiveN, r, c);
+  const vInterval = cramersVInterval(pearson.statistic, pearson.df, effectiveN, r, c, options.confidence);
   const or = oddsRatio(counts, options.confidence);
   const rr = relativeRisk(counts, options.confidence);
   if (or?.haldaneCorrection) {
     warnings.push({ code: 'zero-cell', message: 'a cell is zero, so 0.5 was added to every cell before computing the odds ratio (Haldane) and its interval' });
   }
-  if (!integerCounts) {
+  if (weighting.kind === 'weight') {
+    warnings.push({
+      code: 'weighted',
+      message: `counts are sums of sampling weights (n = ${formatNumber(n)} from ${weighting.unweightedN.toLocaleString('en-US')} rows); tests use the table rescaled to Kish's effective sample size ${formatNumber(effectiveN)}, an approximation that ignores clustering and stratification of the survey design`,
+    });
+  } else if (!integerCounts) {
     warnings.push({ code: 'non-integer-counts', message: 'the counts are not whole numbers, so exact and simulated tests were not computed' });
   }
-  if (n >= 10_000 && pearson.pValue < 0.05 && biasCorrectedV !== null && biasCorrectedV < 0.1) {
+  if (effectiveN >= 10_000 && pearson.pValue < 0.05 && biasCorrectedV !== null && biasCorrectedV < 0.1) {
     warnings.push({
       code: 'large-sample',
-      message: `with ${formatNumber(n)} observations even a negligible association is statistically significant; judge it by its strength (bias-corrected V ${biasCorrectedV.toFixed(3)})`,
+      message: `with ${formatNumber(Math.round(effectiveN))} observations even a negligible association is statistically significant; judge it by its strength (bias-corrected V ${biasCorrectedV.toFixed(3)})`,
     });
   }
 
@@ -252,16 +274,20 @@ export function analyzeTable(table: TwoWayTable, excluded: number, options: Anal
     cols: { name: table.colName, levels: table.colLevels },
     n,
     excluded,
-    counts,
-    expected,
+    weighting: weighting.kind,
+    weighted: weighting.kind === 'weight',
+    effectiveN,
+    unweightedN: weighting.unweightedN,
+    counts: weightedCounts,
+    expected: expectedCounts(weightedCounts),
     tests: { pearson, likelihoodRatio, yates, fisher, monteCarlo, linearByLinear: lbl },
     measures: {
       phi,
-      contingencyC: contingencyCoefficient(pearson.statistic, n),
-      correctedC: correctedContingencyCoefficient(pearson.statistic, n, r, c),
-      cramersV: cramersV(pearson.statistic, n, r, c),
+      contingencyC: contingencyCoefficient(pearson.statistic, effectiveN),
+      correctedC: correctedContingencyCoefficient(pearson.statistic, effectiveN, r, c),
+      cramersV: cramersV(pearson.statistic, effectiveN, r, c),
       cramersVInterval: vInterval === null ? null : { ...vInterval, confidence: options.confidence, method: 'noncentral-chi-square inversion' },
-      tschuprowT: tschuprowT(pearson.statistic, n, r, c),
+      tschuprowT: tschuprowT(pearson.statistic, effectiveN, r, c),
       biasCorrectedV,
       yulesQ: q,
       yulesY: yulesY(counts),
@@ -282,7 +308,7 @@ export function analyzeTable(table: TwoWayTable, excluded: number, options: Anal
     ordinal,
     residuals: { pearson: pearsonResiduals(counts, expected), adjusted },
     contributions: chiSquareContributions(counts, expected, pearson.statistic),
-    percentages: percentages(counts),
+    percentages: percentages(weightedCounts),
     expectedCountRule: rule,
     findings: { strength: strengthOf(biasCorrectedV), diagonal, notableCells, primaryTest },
     warnings,

@@ -1,5 +1,7 @@
 import { AnalysisOptions, AnalysisRecord, analyzeTable, Warning } from './analyzeTable.js';
 import { TwoWayTable } from '../table/twoWayTable.js';
+import type { Weighting } from '../table/weighting.js';
+import { analyzeStrata, StratifiedSummary, StratumInput, StratumRecord } from './stratify.js';
 
 export const TOOL_VERSION = '0.1.0';
 
@@ -11,6 +13,10 @@ export interface InputSummary {
   blankLines: number;
   /** Records skipped for a wrong number of fields (--skip-bad-rows). */
   badRowsSkipped: number;
+  /** Rows left out by --where filters. */
+  filtered: number;
+  /** Rows skipped for an unusable weight or frequency (--skip-bad-rows). */
+  badWeightsSkipped: number;
 }
 
 export interface PairReport extends AnalysisRecord {
@@ -18,6 +24,8 @@ export interface PairReport extends AnalysisRecord {
   command: 'pair';
   input: InputSummary;
   settings: { ordinal: boolean; confidence: number; exact: string; simulations: number; seed: number };
+  strata?: StratumRecord[];
+  stratified?: StratifiedSummary;
 }
 
 export function pairReport(
@@ -26,8 +34,11 @@ export function pairReport(
   input: InputSummary,
   options: AnalysisOptions,
   extraWarnings: Warning[] = [],
+  weighting?: Weighting,
+  layers?: { by: string; strata: StratumInput[] },
 ): PairReport {
-  const record = analyzeTable(table, excluded, options);
+  const record = analyzeTable(table, excluded, options, weighting);
+  const layered = layers ? analyzeStrata(layers.by, record, layers.strata, options) : null;
   const { rows, cols, n, ...rest } = record;
   return {
     tool: { name: 'tabsight', version: TOOL_VERSION },
@@ -37,8 +48,9 @@ export function pairReport(
     cols,
     n,
     ...rest,
-    warnings: [...extraWarnings, ...record.warnings],
+    warnings: [...extraWarnings, ...record.warnings, ...(layered?.warnings ?? [])],
     settings: { ordinal: options.ordinal, confidence: options.confidence, exact: options.exact, simulations: options.simulations, seed: options.seed },
+    ...(layered ? { strata: layered.strata, stratified: layered.stratified } : {}),
   };
 }
 

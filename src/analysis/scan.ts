@@ -1,6 +1,8 @@
 import { adjustPValues, Adjustment } from '../stats/multipleTesting.js';
 import { equalFrequencyBins, naturalRanks } from '../table/bins.js';
 import { CodedColumn, crossCount } from '../table/crossCount.js';
+import { rareLevelMerge, relabelTable } from '../table/twoWayTable.js';
+import { analyzeStrata, StratifiedSummary, StratumRecord } from './stratify.js';
 import type { EncodedColumn } from '../table/encodedColumn.js';
 import { AnalysisOptions, AnalysisRecord, analyzeTable } from './analyzeTable.js';
 import type { InputSummary } from './report.js';
@@ -9,6 +11,12 @@ import { TOOL_VERSION } from './report.js';
 export interface ScanOptions {
   maxLevels: number;
   bins: number | null;
+  /** Recodes by column (applied to the codes before screening). */
+  recodes: Map<string, Map<string, string>>;
+  keepMissing: boolean;
+  other: { k: number; label: string } | null;
+  weights: { values: Float64Array; kind: 'weight' | 'freq' } | null;
+  layer: EncodedColumn | null;
   adjustment: Adjustment;
   alpha: number;
   top: number | null;
@@ -26,6 +34,8 @@ export interface ScanPair extends Omit<AnalysisRecord, 'counts' | 'expected' | '
   rank: number;
   pAdjusted: number;
   passes: boolean;
+  stratified?: StratifiedSummary;
+  strata?: StratumRecord[];
   counts?: number[][];
   expected?: number[][];
   residuals?: AnalysisRecord['residuals'];
@@ -52,6 +62,8 @@ export interface ScanReport {
   pairs: ScanPair[];
   skipped: SkippedColumn[];
   untestable: UntestablePair[];
+  /** The layer held fixed, when --by was given. */
+  by: string | null;
 }
 
 const IDENTIFIER_SHARE = 0.9;
@@ -74,6 +86,35 @@ export function screenColumn(column: EncodedColumn, rows: number, options: Pick<
     return { column: column.name, code: 'too-many-levels', reason: `${distinct} distinct values, more than --max-levels ${options.maxLevels}` };
   }
   return null;
+}
+
+/** The label a missing value gets with --keep-missing. */
+export const MISSING_LEVEL = '(missing)';
+
+/**
+ * Applies a column's recode (levels recoded alike are merged) and, with
+ * --keep-missing, makes missing a level of its own. Returns the column with
+ * its new labels and codes; untouched columns come back as they are.
+ */
+export function reshapeColumn(column: EncodedColumn, mapping: ReadonlyMap<string, string> | undefined, keepMissing: boolean): EncodedColumn {
+  if (column.codes === null || (!mapping && !(keepMissing && column.missing > 0))) return column;
+  const labels: string[] = [];
+  const index = new Map<string, number>();
+  const remap = new Uint32Array(column.labels.length + 1);
+  const codeOf = (label: string) => {
+    let code = index.get(label);
+    if (code === undefined) {
+      labels.push(label);
+      code = labels.length;
+      index.set(label, code);
+    }
+    return code;
+  };
+  column.labels.forEach((raw, k) => (remap[k + 1] = codeOf(mapping?.get(raw) ?? raw)));
+  if (keepMissing && column.missing > 0) remap[0] = codeOf(MISSING_LEVEL);
+  const codes = labels.length >= 65535 ? new Uint32Array(column.codes.length) : new Uint16Array(column.codes.length);
+  for (let k = 0; k < codes.length; k++) codes[k] = remap[column.codes[k]];
+  return { ...column, labels, codes, distinct: labels.length, missing: keepMissing ? 0 : column.missing };
 }
 
 /** Turns a screened column into codes in report order (natural order, or bins lowest first). */
@@ -100,29 +141,46 @@ export function codedColumn(column: EncodedColumn, bins: number | null): CodedCo
 export function scanColumns(columns: EncodedColumn[], rows: number, input: InputSummary, options: ScanOptions): ScanReport {
   const skipped: SkippedColumn[] = [];
   const coded: CodedColumn[] = [];
-  for (const column of columns) {
+  for (const original of columns) {
+    let column = reshapeColumn(original, options.recodes.get(original.name), options.keepMissing);
+    if (column.codes !== null && column.labels.length > options.maxLevels) column = { ...column, codes: null };
     const reason = screenColumn(column, rows, options);
     if (reason) skipped.push(reason);
     else coded.push(codedColumn(column, options.bins));
   }
+  const layer = options.layer ? codedColumn(reshapeColumn(options.layer, options.recodes.get(options.layer.name), options.keepMissing), null) : null;
   const untestable: UntestablePair[] = [];
-  const records: AnalysisRecord[] = [];
+  const records: (AnalysisRecord & { layered?: ReturnType<typeof analyzeStrata> })[] = [];
   for (let a = 0; a < coded.length; a++) {
     for (let b = a + 1; b < coded.length; b++) {
-      const { table, excluded } = crossCount(coded[a], coded[b]);
+      const counted = crossCount(coded[a], coded[b], { weights: options.weights ?? undefined, strata: layer ?? undefined });
+      let table = counted.table;
+      let strata = counted.strata;
+      if (options.other) {
+        const merge = rareLevelMerge(table, options.other.k, options.other.label);
+        table = relabelTable(table, merge.rowLevels, merge.colLevels, merge.rowMap, merge.colMap);
+        strata = strata?.map((s) => ({ ...s, table: relabelTable(s.table, merge.rowLevels, merge.colLevels, merge.rowMap, merge.colMap) })) ?? null;
+      }
+      const excluded = counted.excluded;
       if (table.rowLevels.length < 2 || table.colLevels.length < 2) {
         const side = table.rowLevels.length < 2 ? table.rowName : table.colName;
         untestable.push({ rows: table.rowName, cols: table.colName, reason: `"${side}" has fewer than two levels where "${side === table.rowName ? table.colName : table.rowName}" has a value` });
         continue;
       }
-      records.push(analyzeTable(table, excluded, options.analysis));
+      const record = analyzeTable(table, excluded, options.analysis, counted.weighting);
+      if (strata && layer) {
+        const aligned = strata.map((s) => ({ ...s, table: relabelTable(s.table, table.rowLevels, table.colLevels) }));
+        const layered = analyzeStrata(layer.name, record, aligned, options.analysis);
+        records.push({ ...record, warnings: [...record.warnings, ...layered.warnings], layered });
+      } else records.push(record);
     }
   }
   const adjusted = adjustPValues(records.map((r) => r.tests.pearson.pValue), options.adjustment);
   let pairs: ScanPair[] = records.map((record, k) => {
-    const { counts, expected, residuals, contributions, percentages, ...rest } = record;
+    const { counts, expected, residuals, contributions, percentages, layered, ...rest } = record;
     const pair: ScanPair = { ...rest, rank: 0, pAdjusted: adjusted[k], passes: adjusted[k] <= options.alpha };
-    if (options.full) Object.assign(pair, { counts, expected, residuals, contributions, percentages });
+    if (layered) pair.stratified = layered.stratified;
+    if (options.full) Object.assign(pair, { counts, expected, residuals, contributions, percentages }, layered ? { strata: layered.strata } : {});
     return pair;
   });
   pairs.sort((x, y) => (y.measures.biasCorrectedV ?? -1) - (x.measures.biasCorrectedV ?? -1) || x.tests.pearson.pValue - y.tests.pearson.pValue);
@@ -142,5 +200,6 @@ export function scanColumns(columns: EncodedColumn[], rows: number, input: Input
     pairs,
     skipped,
     untestable,
+    by: layer ? layer.name : null,
   };
 }

@@ -2,6 +2,7 @@ import { Command, Option } from 'commander';
 import { usageError } from '../errors.js';
 import { parseDelimiterOption, ReaderOptions } from '../io/readRecords.js';
 import { AnalysisOptions, DEFAULT_ANALYSIS_OPTIONS, ExactPolicy } from '../analysis/analyzeTable.js';
+import { parseRecode, parseWhere, Recode, WhereClause } from '../io/rowRules.js';
 
 /** Options every reading command shares, declared once. */
 export function addReaderOptions(command: Command): Command {
@@ -81,5 +82,59 @@ export function analysisPlan(raw: RawAnalysisOptions, exactWorkLimit = DEFAULT_A
     seed: positiveInteger(raw.seed, '--seed', 0),
     confidence: probability(raw.confidence, '--confidence'),
     exactWorkLimit,
+  };
+}
+
+const collect = (value: string, previous: string[] = []) => [...previous, value];
+
+/** Options that shape the rows and levels before counting (the same in pair and scan). */
+export function addSurveyOptions(command: Command, withLayer = true): Command {
+  command
+    .option('--weight <column>', "sampling weights: counts become weighted sums; tests use Kish's effective sample size")
+    .option('--freq <column>', 'frequency weights: each row stands for this many observations (aggregated files)')
+    .option('--decimal-comma', 'weights and frequencies are written with a decimal comma (1,5)');
+  if (withLayer) command.option('--by <column>', 'a layer held fixed: one table per level, plus the pooled layered tests');
+  return command
+    .option('--recode <spec>', "merge or rename levels before counting: 'column:from=to,from=to' (repeatable)", collect)
+    .option('--where <spec>', "keep rows where 'column=v1,v2' or drop them with 'column!=v' (repeatable; all must hold)", collect)
+    .option('--keep-missing', 'count missing values as a level of their own, "(missing)"')
+    .option('--other <k>', 'merge levels beyond the k most frequent into one level')
+    .option('--other-label <label>', 'name of the merged level', 'other');
+}
+
+export interface RawSurveyOptions {
+  weight?: string;
+  freq?: string;
+  decimalComma?: boolean;
+  by?: string;
+  recode?: string[];
+  where?: string[];
+  keepMissing?: boolean;
+  other?: string;
+  otherLabel: string;
+}
+
+export interface SurveyPlan {
+  weight?: { column: string; kind: 'weight' | 'freq' };
+  decimalComma: boolean;
+  by?: string;
+  recodes: Recode[];
+  where: WhereClause[];
+  keepMissing: boolean;
+  other?: { k: number; label: string };
+}
+
+export function surveyPlan(raw: RawSurveyOptions): SurveyPlan {
+  if (raw.weight !== undefined && raw.freq !== undefined) throw usageError('--weight and --freq cannot be combined: a row carries either a sampling weight or a count');
+  const weight = raw.weight !== undefined ? { column: raw.weight, kind: 'weight' as const } : raw.freq !== undefined ? { column: raw.freq, kind: 'freq' as const } : undefined;
+  if (raw.otherLabel.trim() === '') throw usageError('--other-label: give a non-empty label');
+  return {
+    weight,
+    decimalComma: raw.decimalComma === true,
+    by: raw.by,
+    recodes: (raw.recode ?? []).map(parseRecode),
+    where: (raw.where ?? []).map(parseWhere),
+    keepMissing: raw.keepMissing === true,
+    other: raw.other === undefined ? undefined : { k: positiveInteger(raw.other, '--other', 1), label: raw.otherLabel.trim() },
   };
 }

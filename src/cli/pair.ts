@@ -1,13 +1,13 @@
 import { Command, Option } from 'commander';
 import { pairReport, unknownOrderWarnings } from '../analysis/report.js';
-import { countPair } from '../io/countPair.js';
+import { countTables } from '../io/countTables.js';
 import { inputSource, checkReadable } from '../io/source.js';
 import { toJson } from '../render/json.js';
 import { renderPairText } from '../render/pairText.js';
-import { addAnalysisOptions, addReaderOptions, analysisPlan, RawAnalysisOptions, RawReaderOptions, readerPlan, splitList } from './options.js';
+import { addAnalysisOptions, addReaderOptions, addSurveyOptions, analysisPlan, RawAnalysisOptions, RawReaderOptions, RawSurveyOptions, readerPlan, splitList, surveyPlan } from './options.js';
 import { painter, writeOut } from './output.js';
 
-interface RawPairOptions extends RawReaderOptions, RawAnalysisOptions {
+interface RawPairOptions extends RawReaderOptions, RawAnalysisOptions, RawSurveyOptions {
   rows: string;
   cols: string;
   rowOrder?: string;
@@ -27,6 +27,7 @@ export function pairCommand(): Command {
     .addOption(new Option('--format <format>', 'output format').choices(['text', 'json']).default('text'))
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
+  addSurveyOptions(command);
   addAnalysisOptions(command);
   command.addHelpText(
     'after',
@@ -43,10 +44,11 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage.`,
     const source = inputSource(file);
     const reader = readerPlan(raw);
     const analysis = analysisPlan(raw);
+    const survey = surveyPlan(raw);
     const rowOrder = splitList(raw.rowOrder);
     const colOrder = splitList(raw.colOrder);
     checkReadable(source);
-    const counted = await countPair(source, reader, { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, rowOrder, colOrder });
+    const counted = await countTables(source, reader, { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, rowOrder, colOrder, ...survey });
     const report = pairReport(
       counted.table,
       counted.excluded,
@@ -56,9 +58,13 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage.`,
         rowsRead: counted.summary.records,
         blankLines: counted.summary.blankLines,
         badRowsSkipped: counted.summary.badRows,
+        filtered: counted.filtered,
+        badWeightsSkipped: counted.badWeights,
       },
       analysis,
       [...unknownOrderWarnings('--row-order', counted.unknownRowLevels), ...unknownOrderWarnings('--col-order', counted.unknownColLevels)],
+      counted.weighting,
+      counted.strata && counted.byName ? { by: counted.byName, strata: counted.strata } : undefined,
     );
     await writeOut(raw.format === 'json' ? toJson(report) : renderPairText(report, painter(raw.color)));
   });

@@ -5,10 +5,11 @@ import { checkReadable, inputSource } from '../io/source.js';
 import { toJson } from '../render/json.js';
 import { renderScanDelimited, renderScanMarkdown, renderScanText } from '../render/scanTable.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
-import { addAnalysisOptions, addReaderOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, readerPlan, splitList } from './options.js';
+import { addAnalysisOptions, addReaderOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawSurveyOptions, readerPlan, splitList, surveyPlan } from './options.js';
+import { recodesByColumn } from '../io/rowRules.js';
 import { painter, writeOut } from './output.js';
 
-interface RawScanOptions extends RawReaderOptions, RawAnalysisOptions {
+interface RawScanOptions extends RawReaderOptions, RawAnalysisOptions, RawSurveyOptions {
   columns?: string;
   exclude?: string;
   bins?: string;
@@ -57,6 +58,7 @@ export function scanCommand(): Command {
     .addOption(new Option('--format <format>', 'output format').choices(['text', 'json', 'csv', 'tsv', 'markdown']).default('text'))
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
+  addSurveyOptions(command);
   addAnalysisOptions(command, SCAN_SIMULATIONS);
   command.addHelpText(
     'after',
@@ -75,6 +77,8 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage.`,
     const bins = raw.bins === undefined ? null : positiveInteger(raw.bins, '--bins', 2);
     const alpha = probability(raw.alpha, '--alpha');
     const top = raw.top === undefined ? null : positiveInteger(raw.top, '--top');
+    const survey = surveyPlan(raw);
+    const recodes = recodesByColumn(survey.recodes);
     checkReadable(source);
     const progress = progressReporter();
     const encoded = await encodeColumns(source, reader, {
@@ -83,6 +87,10 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage.`,
       maxLevels: reader.maxLevels,
       keepNumeric: bins !== null,
       progress: raw.format === 'text' ? progress.tick : undefined,
+      where: survey.where,
+      recodes,
+      weight: survey.weight ? { ...survey.weight, decimalComma: survey.decimalComma } : undefined,
+      by: survey.by,
     });
     progress.done();
     const report = scanColumns(
@@ -94,8 +102,23 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage.`,
         rowsRead: encoded.summary.records,
         blankLines: encoded.summary.blankLines,
         badRowsSkipped: encoded.summary.badRows,
+        filtered: encoded.filtered,
+        badWeightsSkipped: encoded.badWeights,
       },
-      { maxLevels: reader.maxLevels, bins, adjustment: raw.adjust, alpha, top, full: raw.full === true, analysis },
+      {
+        maxLevels: reader.maxLevels,
+        bins,
+        adjustment: raw.adjust,
+        alpha,
+        top,
+        full: raw.full === true,
+        analysis,
+        recodes,
+        keepMissing: survey.keepMissing,
+        other: survey.other ?? null,
+        weights: encoded.weights && survey.weight ? { values: encoded.weights, kind: survey.weight.kind } : null,
+        layer: encoded.layer,
+      },
     );
     let text: string;
     switch (raw.format) {

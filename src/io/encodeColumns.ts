@@ -5,6 +5,7 @@ import { resolveColumn } from './columns.js';
 import { readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
 import { InputSource } from './source.js';
 import { MISSING_ID } from './fieldInterner.js';
+import { RecodedLabels, RowGate, WeightKind, WhereClause } from './rowRules.js';
 
 export type { EncodedColumn };
 
@@ -12,6 +13,14 @@ export interface EncodedFile {
   columns: EncodedColumn[];
   rows: number;
   summary: ReadSummary;
+  /** Per stored row: its weight or frequency, when one was asked for. */
+  weights: Float64Array | null;
+  /** The layer column, encoded like a candidate, when --by was given. */
+  layer: EncodedColumn | null;
+  /** Rows left out by --where. */
+  filtered: number;
+  /** Rows skipped for an unusable weight (with --skip-bad-rows). */
+  badWeights: number;
 }
 
 export interface EncodeRequest {
@@ -20,7 +29,15 @@ export interface EncodeRequest {
   maxLevels: number;
   keepNumeric: boolean;
   progress?: (rows: number) => void;
+  where?: WhereClause[];
+  /** Recodes by column: filters see recoded values; recoded columns may hold more raw levels than the cap. */
+  recodes?: Map<string, Map<string, string>>;
+  weight?: { column: string; kind: WeightKind; decimalComma: boolean };
+  by?: string;
 }
+
+/** Raw levels a recoded column may hold while reading (the cap applies after recoding). */
+const RECODED_READING_CAP = 65534;
 
 /** Distinct values tracked per column for screening (beyond it a column is "more than" that). */
 const DISTINCT_TRACKING_LIMIT = 1_000_000;
@@ -44,8 +61,27 @@ class GrowableCodes<T extends Uint16Array | Uint32Array> {
   }
 }
 
+/** A Float64Array that grows as rows arrive. */
+class GrowableNumbers {
+  array = new Float64Array(1 << 14);
+  set(index: number, value: number): void {
+    if (index >= this.array.length) {
+      const grown = new Float64Array(Math.max(this.array.length * 2, index + 1));
+      grown.set(this.array);
+      this.array = grown;
+    }
+    this.array[index] = value;
+  }
+  take(length: number): Float64Array {
+    if (length > this.array.length) this.set(length - 1, 0);
+    return this.array.subarray(0, length);
+  }
+}
+
 interface ColumnState {
   name: string;
+  /** Raw levels the column may hold while reading. */
+  cap: number;
   codes: GrowableCodes<Uint16Array | Uint32Array> | null;
   /** Every row's value id, kept only for numeric columns when binning was asked for. */
   allIds: GrowableCodes<Uint32Array> | null;
@@ -63,6 +99,13 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
   const states: ColumnState[] = [];
   const wide = request.maxLevels >= 65535;
   let rows = 0;
+  let layerSlot = -1;
+  let layerState: ColumnState | null = null;
+  let weightSlot = -1;
+  let gate: RowGate | null = null;
+  let internerLabels: (readonly string[])[] = [];
+  const textSlots = new Set<number>();
+  const weights = request.weight ? new GrowableNumbers() : null;
   const summary = await readRecords(
     source,
     reader,
@@ -72,20 +115,60 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
         const dropped = new Set(request.exclude.map((c) => resolveColumn(c, header, '--exclude', source.label)));
         chosen = chosen.filter((i) => !dropped.has(i));
       }
-      chosen = [...new Set(chosen)];
+      for (const column of request.recodes?.keys() ?? []) resolveColumn(column, header, '--recode', source.label);
+      const roleColumns = new Set<number>();
+      if (request.weight) roleColumns.add(resolveColumn(request.weight.column, header, request.weight.kind === 'freq' ? '--freq' : '--weight', source.label));
+      if (request.by !== undefined) roleColumns.add(resolveColumn(request.by, header, '--by', source.label));
+      chosen = [...new Set(chosen)].filter((i) => !roleColumns.has(i));
       if (chosen.length < 2) throw usageError(`scan needs at least two candidate columns; ${chosen.length} left after --columns/--exclude`);
+      const slots = [...chosen];
+      const slotOf = (index: number) => {
+        const at = slots.indexOf(index);
+        if (at >= 0) return at;
+        slots.push(index);
+        return slots.length - 1;
+      };
       for (const i of chosen) {
         states.push({
           name: header[i],
           codes: new GrowableCodes(wide ? new Uint32Array(1 << 14) : new Uint16Array(1 << 14)),
           allIds: request.keepNumeric ? new GrowableCodes(new Uint32Array(1 << 14)) : null,
           missing: 0,
+          cap: request.recodes?.has(header[i]) ? Math.max(RECODED_READING_CAP, request.maxLevels) : request.maxLevels,
         });
       }
-      return chosen;
+      if (request.by !== undefined) {
+        const index = resolveColumn(request.by, header, '--by', source.label);
+        layerSlot = slotOf(index);
+        layerState = { name: header[index], codes: new GrowableCodes(new Uint16Array(1 << 14)), allIds: null, missing: 0, cap: RECODED_READING_CAP };
+      }
+      if (request.weight) weightSlot = slotOf(resolveColumn(request.weight.column, header, request.weight.kind === 'freq' ? '--freq' : '--weight', source.label));
+      const whereSlots = (request.where ?? []).map((w) => slotOf(resolveColumn(w.column, header, '--where', source.label)));
+      gate = new RowGate(
+        (request.where ?? []).map((clause, k) => ({
+          clause,
+          slot: whereSlots[k],
+          labels: new RecodedLabels(() => internerLabels[whereSlots[k]], request.recodes?.get(header[slots[whereSlots[k]]]), ''),
+        })),
+        request.weight && weightSlot >= 0 ? { slot: weightSlot, kind: request.weight.kind, column: request.weight.column, decimalComma: request.weight.decimalComma } : null,
+        reader.skipBadRows,
+        source.label,
+      );
+      if (weightSlot >= 0) textSlots.add(weightSlot);
+      return slots;
     },
-    (ids) => {
+    (ids, line, texts, interners) => {
+      if (internerLabels.length === 0) internerLabels = interners.map((i) => i.labels);
+      const w = gate!.admit(ids, texts, line);
+      if (w < 0) return;
       const row = rows++;
+      if (weights) weights.set(row, w);
+      if (layerState && layerState.codes) {
+        const id = ids[layerSlot];
+        if (id === MISSING_ID) layerState.missing++;
+        else if (id < 0 || id > layerState.cap) layerState.codes = null;
+        else layerState.codes.set(row, id);
+      }
       for (let k = 0; k < states.length; k++) {
         const state = states[k];
         const id = ids[k];
@@ -94,7 +177,7 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
           continue;
         }
         if (state.codes !== null) {
-          if (id > request.maxLevels || id < 0) state.codes = null;
+          if (id > state.cap || id < 0) state.codes = null;
           else state.codes.set(row, id);
         }
         if (state.allIds !== null) {
@@ -105,6 +188,7 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
       if (request.progress && (rows & 0xffff) === 0) request.progress(rows);
     },
     () => DISTINCT_TRACKING_LIMIT,
+    textSlots,
   );
   if (rows === 0) throw dataError(`${source.label}: the header has no data rows under it`);
   const columns = states.map<EncodedColumn>((state, k) => {
@@ -133,5 +217,13 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
       values,
     };
   });
-  return { columns, rows, summary };
+  let layer: EncodedColumn | null = null;
+  const finalLayer = layerState as ColumnState | null;
+  if (finalLayer) {
+    layerState = finalLayer;
+    const labels = summary.interners[layerSlot].labels;
+    if (layerState.codes === null) throw dataError(`--by "${layerState.name}" has more than ${RECODED_READING_CAP.toLocaleString('en-US')} distinct values; a layer needs few levels`);
+    layer = { name: layerState.name, labels, codes: layerState.codes.take(rows), missing: layerState.missing, distinct: labels.length, distinctCapped: false, numeric: false, integer: false, values: null };
+  }
+  return { columns, rows, summary, weights: weights ? weights.take(rows) : null, layer, filtered: (gate as RowGate | null)?.filtered ?? 0, badWeights: (gate as RowGate | null)?.badWeights ?? 0 };
 }

@@ -32,7 +32,7 @@ export type ColumnSelector = (header: string[]) => number[];
  * A data row: for each selected column, the id of its value in that column's
  * interner (0 missing, −1 past the interner's limit). The array is reused.
  */
-export type RowHandler = (ids: Int32Array, line: number) => void;
+export type RowHandler = (ids: Int32Array, line: number, texts: (string | undefined)[], interners: readonly FieldInterner[]) => void;
 
 /** Distinct values one selected column may hold before new ones get the overflow id. */
 export const DEFAULT_DISTINCT_LIMIT = 1_000_000;
@@ -59,10 +59,13 @@ export async function readRecords(
   select: ColumnSelector,
   onRow: RowHandler,
   distinctLimit: (slot: number) => number = () => DEFAULT_DISTINCT_LIMIT,
+  /** Slots delivered as raw text (trimmed) instead of interned ids, such as a weight column. */
+  textSlots: ReadonlySet<number> = new Set(),
 ): Promise<ReadSummary & { interners: FieldInterner[] }> {
   const missing = new Set(options.missing.map((m) => m.trim()));
   let interners: FieldInterner[] = [];
   let ids = new Int32Array(0);
+  let texts: (string | undefined)[] = [];
   let header: string[] = [];
   let selected: number[] = [];
   let delimiter = options.delimiter;
@@ -92,32 +95,41 @@ export async function readRecords(
           selected.forEach((column, slot) => (slots[column] = slot));
           interners = selected.map((_c, slot) => new FieldInterner(missing, distinctLimit(slot)));
           ids = new Int32Array(selected.length);
+          texts = new Array(selected.length).fill(undefined);
           if (!options.header) {
             // The first record is data: deliver it too.
-            selected.forEach((column, slot) => (ids[slot] = interners[slot].internString(fields[column])));
-            onRow(ids, line);
+            selected.forEach((column, slot) => {
+              if (textSlots.has(slot)) texts[slot] = fields[column];
+              else ids[slot] = interners[slot].internString(fields[column]);
+            });
+            onRow(ids, line, texts, interners);
+            texts.fill(undefined);
           }
           return slots;
         },
         fieldBytes: (slot, buf, view, begin, end) => {
-          ids[slot] = interners[slot].intern(buf, view, begin, end);
+          if (textSlots.size > 0 && textSlots.has(slot)) texts[slot] = view.toString('utf8', begin, end);
+          else ids[slot] = interners[slot].intern(buf, view, begin, end);
         },
         fieldText: (slot, value) => {
-          ids[slot] = interners[slot].internString(value);
+          if (textSlots.size > 0 && textSlots.has(slot)) texts[slot] = value;
+          else ids[slot] = interners[slot].internString(value);
         },
         record: (fieldCount, line) => {
           if (fieldCount !== header.length) {
             if (options.skipBadRows) {
               badRows++;
               ids.fill(0);
+              if (textSlots.size > 0) texts.fill(undefined);
               return;
             }
             throw dataError(
               `${source.label}, line ${line}: ${fieldCount} field${fieldCount === 1 ? '' : 's'} where the header has ${header.length}; fix the row or pass --skip-bad-rows to count and skip such rows`,
             );
           }
-          onRow(ids, line);
+          onRow(ids, line, texts, interners);
           ids.fill(0);
+          if (textSlots.size > 0) texts.fill(undefined);
         },
       },
       source.label,

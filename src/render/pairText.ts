@@ -110,6 +110,58 @@ function row(label: string, value: string, detail = ''): string {
   return '  ' + padRight(label, 26) + padLeft(value, 10) + (detail ? '   ' + detail : '');
 }
 
+/** What was read and what was left out, with the reason for each row left out. */
+export function inputLine(report: PairReport): string {
+  const { input } = report;
+  const plural = (n: number, word: string) => `${formatCount(n)} ${word}${n === 1 ? '' : 's'}`;
+  const parts = [`${input.file}: ${plural(input.rowsRead, 'row')} read`];
+  if (report.weighting === 'weight') {
+    parts.push(`${formatCount(report.unweightedN)} in the table, weighted n ${formatCount(report.n)} (effective sample ${formatCount(Math.round(report.effectiveN * 10) / 10)})`);
+  } else if (report.weighting === 'freq') {
+    parts.push(`${formatCount(report.unweightedN)} in the table standing for ${formatCount(report.n)} observations`);
+  } else parts.push(`${formatCount(report.n)} in the table`);
+  if (report.excluded > 0) parts.push(`${formatCount(report.excluded)} left out for a missing value`);
+  if (input.filtered > 0) parts.push(`${formatCount(input.filtered)} filtered out by --where`);
+  if (input.badRowsSkipped > 0) parts.push(`${plural(input.badRowsSkipped, 'malformed row')} skipped`);
+  if (input.badWeightsSkipped > 0) parts.push(`${plural(input.badWeightsSkipped, 'row')} with an unusable weight skipped`);
+  return parts.join(', ');
+}
+
+function layerLines(report: PairReport, paint: ChalkInstance, width: number): string[] {
+  const out: string[] = [];
+  const { stratified, strata } = report;
+  if (!stratified || !strata) return out;
+  const twoByTwo = stratified.commonOddsRatio !== null || (report.rows.levels.length === 2 && report.cols.levels.length === 2);
+  out.push(paint.bold(padRight(clip(stratified.by, LABEL_WIDTH - 1), LABEL_WIDTH) + padLeft('n', 9) + padLeft('chi-square', 12) + padLeft('p', 10) + padLeft('bias-corr. V', 14) + (twoByTwo ? padLeft('odds ratio', 12) : '')));
+  for (const s of strata) {
+    if (!s.testable) {
+      out.push(padRight(clip(s.level, LABEL_WIDTH - 1), LABEL_WIDTH) + padLeft(formatCount(s.n), 9) + paint.dim(`   not testable: ${s.reason}`));
+      continue;
+    }
+    out.push(
+      padRight(clip(s.level, LABEL_WIDTH - 1), LABEL_WIDTH) +
+        padLeft(formatCount(s.n), 9) +
+        padLeft(formatStatistic(s.tests.pearson.statistic), 12) +
+        padLeft(formatP(s.findings.primaryTest.pValue), 10) +
+        padLeft(formatMeasure(s.measures.biasCorrectedV), 14) +
+        (twoByTwo ? padLeft(formatStatistic(s.measures.oddsRatio?.estimate, 3), 12) : ''),
+    );
+  }
+  if (stratified.cmh) {
+    out.push(row(`layered test (CMH)`, formatStatistic(stratified.cmh.statistic), `df ${stratified.cmh.df}   p ${formatP(stratified.cmh.pValue)}`));
+  } else out.push(paint.dim('  layered test (CMH): not computable for these layers'));
+  if (stratified.commonOddsRatio) {
+    const o = stratified.commonOddsRatio;
+    out.push(row('common odds ratio', formatStatistic(o.estimate, 3), `${Math.round(o.confidence * 100)}% interval ${formatStatistic(o.lower, 3)} to ${formatStatistic(o.upper, 3)}`));
+  }
+  if (stratified.pooledOddsRatio !== null) out.push(row('pooled-table odds ratio', formatStatistic(stratified.pooledOddsRatio, 3)));
+  if (stratified.breslowDay) {
+    out.push(row('same odds in every layer?', formatStatistic(stratified.breslowDay.statistic), `Breslow–Day df ${stratified.breslowDay.df}   p ${formatP(stratified.breslowDay.pValue)}`));
+  }
+  out.push(...wrap(`The layered test asks whether ${report.rows.name} and ${report.cols.name} are related once ${stratified.by} is held fixed.`, width, '  ').map((l) => paint.dim(l)));
+  return out;
+}
+
 export function renderPairText(report: PairReport, paint: ChalkInstance, width = 80): string {
   const out: string[] = [];
   const { tests, measures, findings, input } = report;
@@ -118,9 +170,7 @@ export function renderPairText(report: PairReport, paint: ChalkInstance, width =
     out.push(paint.bold.underline(title) + (note ? paint.dim('  ' + note) : ''));
   };
   out.push(paint.bold(`${report.rows.name} × ${report.cols.name}`));
-  const leftOut = report.excluded > 0 ? `, ${formatCount(report.excluded)} left out for a missing value` : '';
-  const skipped = input.badRowsSkipped > 0 ? `, ${formatCount(input.badRowsSkipped)} malformed row${input.badRowsSkipped === 1 ? '' : 's'} skipped` : '';
-  out.push(...wrap(`${input.file}: ${formatCount(input.rowsRead)} rows read, ${formatCount(report.n)} in the table${leftOut}${skipped}`, width).map((l) => paint.dim(l)));
+  out.push(...wrap(inputLine(report), width).map((l) => paint.dim(l)));
   out.push('');
   out.push(...countGrid(report, paint, width));
 
@@ -168,6 +218,11 @@ export function renderPairText(report: PairReport, paint: ChalkInstance, width =
     out.push(ordinalRow(`Somers' d, ${clip(report.cols.name, 10)} dep.`, o.somersDColsGivenRows));
     out.push(ordinalRow(`Somers' d, ${clip(report.rows.name, 10)} dep.`, o.somersDRowsGivenCols));
     out.push(paint.dim('  Ordinal measures only make sense when the categories have a real order.'));
+  }
+
+  if (report.stratified) {
+    heading('Layers', `${report.stratified.by} held fixed`);
+    out.push(...layerLines(report, paint, width));
   }
 
   heading('Where', 'adjusted residuals: ▲ above, ▼ below independence past ±2, ▲▲ ▼▼ past ±3');

@@ -1,51 +1,132 @@
+import { compareNatural } from './naturalOrder.js';
 import { TwoWayTable } from './twoWayTable.js';
+import { Weighting } from './weighting.js';
 
 export interface CodedColumn {
   name: string;
   /** Labels in report order. */
   labels: string[];
   /** Per row: 1-based index into labels, 0 for missing. */
-  codes: ArrayLike<number>;
+  codes: Uint16Array | Uint32Array;
+}
+
+export interface CrossCountOptions {
+  /** Per-row weights (sampling weights or frequencies). */
+  weights?: { values: Float64Array; kind: 'weight' | 'freq' };
+  /** A layer: one table per level of this column. */
+  strata?: CodedColumn;
+}
+
+export interface CrossCounted {
+  table: TwoWayTable;
+  excluded: number;
+  weighting: Weighting;
+  strata: { level: string; table: TwoWayTable; weighting: Weighting }[] | null;
 }
 
 /**
- * Counts the table of two coded columns over their complete rows, one pass
- * of integer increments, then drops levels that occur only beside a missing
- * value in the other column.
+ * Counts the table of two coded columns over their complete rows (and, with
+ * a layer, one table per layer level) in one pass of increments on a padded
+ * grid: code 0 (missing) lands in row 0 / column 0 / layer 0, so the loop has
+ * no branch and the padding is the excluded count. Levels that occur only
+ * beside a missing value are dropped.
  */
-export function crossCount(rowColumn: CodedColumn, colColumn: CodedColumn): { table: TwoWayTable; excluded: number } {
+export function crossCount(rowColumn: CodedColumn, colColumn: CodedColumn, options: CrossCountOptions = {}): CrossCounted {
   const a = rowColumn.codes;
   const b = colColumn.codes;
-  // Code 0 (missing) gets row 0 / column 0 of a padded grid, so the loop has
-  // no branch; the padding is the excluded count.
   const width = colColumn.labels.length + 1;
   const height = rowColumn.labels.length + 1;
-  const grid = new Float64Array(height * width);
+  const plane = width * height;
+  const layers = options.strata ? options.strata.labels.length + 1 : 1;
+  const layerCodes = options.strata?.codes;
   const rows = a.length;
-  for (let k = 0; k < rows; k++) grid[a[k] * width + b[k]]++;
-  let excluded = 0;
-  for (let j = 0; j < width; j++) excluded += grid[j];
-  for (let i = 1; i < height; i++) excluded += grid[i * width];
+  const counts = new Float64Array(layers * plane);
+  const weights = options.weights?.values;
+  const sums = weights ? new Float64Array(layers * plane) : counts;
+  const squares = weights ? new Float64Array(layers * plane) : counts;
+  if (weights && layerCodes) {
+    for (let k = 0; k < rows; k++) {
+      const at = layerCodes[k] * plane + a[k] * width + b[k];
+      const w = weights[k];
+      counts[at]++;
+      sums[at] += w;
+      squares[at] += w * w;
+    }
+  } else if (weights) {
+    for (let k = 0; k < rows; k++) {
+      const at = a[k] * width + b[k];
+      const w = weights[k];
+      counts[at]++;
+      sums[at] += w;
+      squares[at] += w * w;
+    }
+  } else if (layerCodes) {
+    for (let k = 0; k < rows; k++) counts[layerCodes[k] * plane + a[k] * width + b[k]]++;
+  } else {
+    for (let k = 0; k < rows; k++) counts[a[k] * width + b[k]]++;
+  }
+  const firstLayer = layerCodes ? 1 : 0;
+  // Pooled over the (non-missing) layers.
+  const pooledCounts = new Float64Array(plane);
+  const pooledSums = weights ? new Float64Array(plane) : pooledCounts;
+  const pooledSquares = weights ? new Float64Array(plane) : pooledCounts;
+  for (let s = firstLayer; s < layers; s++) {
+    for (let i = 0; i < plane; i++) {
+      pooledCounts[i] += counts[s * plane + i];
+      if (weights) {
+        pooledSums[i] += sums[s * plane + i];
+        pooledSquares[i] += squares[s * plane + i];
+      }
+    }
+  }
+  let excluded = rows;
+  for (let i = 1; i < height; i++) for (let j = 1; j < width; j++) excluded -= pooledCounts[i * width + j];
   const rowKeep: number[] = [];
   const colKeep: number[] = [];
   for (let i = 1; i < height; i++) {
     let s = 0;
-    for (let j = 1; j < width; j++) s += grid[i * width + j];
+    for (let j = 1; j < width; j++) s += pooledCounts[i * width + j];
     if (s > 0) rowKeep.push(i);
   }
   for (let j = 1; j < width; j++) {
     let s = 0;
-    for (let i = 1; i < height; i++) s += grid[i * width + j];
+    for (let i = 1; i < height; i++) s += pooledCounts[i * width + j];
     if (s > 0) colKeep.push(j);
   }
-  return {
-    table: {
+  const kind: Weighting['kind'] = options.weights ? options.weights.kind : 'none';
+  const build = (values: Float64Array, n: Float64Array, w2: Float64Array, offset: number) => {
+    let sumWeights = 0;
+    let sumSquaredWeights = 0;
+    let unweightedN = 0;
+    const tableCounts = rowKeep.map((i) =>
+      colKeep.map((j) => {
+        const at = offset + i * width + j;
+        sumWeights += values[at];
+        sumSquaredWeights += w2[at];
+        unweightedN += n[at];
+        return values[at];
+      }),
+    );
+    const table: TwoWayTable = {
       rowName: rowColumn.name,
       colName: colColumn.name,
       rowLevels: rowKeep.map((i) => rowColumn.labels[i - 1]),
       colLevels: colKeep.map((j) => colColumn.labels[j - 1]),
-      counts: rowKeep.map((i) => colKeep.map((j) => grid[i * width + j])),
-    },
-    excluded,
+      counts: tableCounts,
+    };
+    const weighting: Weighting = { kind, sumWeights, sumSquaredWeights: kind === 'none' ? sumWeights : sumSquaredWeights, unweightedN };
+    return { table, weighting };
   };
+  const pooled = build(pooledSums, pooledCounts, pooledSquares, 0);
+  let strata: CrossCounted['strata'] = null;
+  if (options.strata) {
+    const labels = options.strata.labels;
+    strata = [];
+    for (let s = 1; s < layers; s++) {
+      const layer = build(sums, counts, squares, s * plane);
+      if (layer.weighting.unweightedN > 0) strata.push({ level: labels[s - 1], ...layer });
+    }
+    strata.sort((x, y) => compareNatural(x.level, y.level));
+  }
+  return { table: pooled.table, excluded, weighting: pooled.weighting, strata };
 }

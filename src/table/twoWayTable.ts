@@ -107,24 +107,29 @@ export class TableCounter {
     );
   }
 
-  /** The finished table with labels from the reader, in the requested or natural level order. */
+  /**
+   * The finished table, labels given by the caller for each value id (after
+   * any recode, so that levels recoded to the same label are merged), in the
+   * requested or natural level order.
+   */
   finish(
-    rowLabels: readonly string[],
-    colLabels: readonly string[],
+    rowLabelOf: (id: number) => string,
+    colLabelOf: (id: number) => string,
     rowOrder?: readonly string[],
     colOrder?: readonly string[],
   ): { table: TwoWayTable; unknownRowLevels: string[]; unknownColLevels: string[] } {
     this.checkCap(this.rowName, this.rowSide);
     this.checkCap(this.colName, this.colSide);
-    const rowLevelNames = this.rowSide.ids.map((id) => rowLabels[id - 1]);
-    const colLevelNames = this.colSide.ids.map((id) => colLabels[id - 1]);
-    const rowSlot = new Map(rowLevelNames.map((l, k) => [l, k]));
-    const colSlot = new Map(colLevelNames.map((l, k) => [l, k]));
-    const rows = orderLevels(rowLevelNames, rowOrder);
-    const cols = orderLevels(colLevelNames, colOrder);
-    const counts = rows.order.map((rl) => {
-      const source = this.cells[rowSlot.get(rl) as number] ?? [];
-      return cols.order.map((cl) => source[colSlot.get(cl) as number] ?? 0);
+    const rowNames = this.rowSide.ids.map(rowLabelOf);
+    const colNames = this.colSide.ids.map(colLabelOf);
+    const rows = orderLevels([...new Set(rowNames)], rowOrder);
+    const cols = orderLevels([...new Set(colNames)], colOrder);
+    const rowIndex = new Map(rows.order.map((l, k) => [l, k]));
+    const colIndex = new Map(cols.order.map((l, k) => [l, k]));
+    const counts = rows.order.map(() => new Array<number>(cols.order.length).fill(0));
+    this.cells.forEach((row, r) => {
+      const i = rowIndex.get(rowNames[r]) as number;
+      row.forEach((v, c) => (counts[i][colIndex.get(colNames[c]) as number] += v));
     });
     return {
       table: { rowName: this.rowName, colName: this.colName, rowLevels: rows.order, colLevels: cols.order, counts },
@@ -132,4 +137,64 @@ export class TableCounter {
       unknownColLevels: cols.unknown,
     };
   }
+}
+
+/**
+ * The table with each level renamed by the maps (levels renamed alike are
+ * added together) and laid out on the given level lists; a target level
+ * that no source level maps to gets zero counts.
+ */
+export function relabelTable(
+  table: TwoWayTable,
+  rowLevels: readonly string[],
+  colLevels: readonly string[],
+  rowMap: (level: string) => string = (l) => l,
+  colMap: (level: string) => string = (l) => l,
+): TwoWayTable {
+  const rowIndex = new Map(rowLevels.map((l, k) => [l, k]));
+  const colIndex = new Map(colLevels.map((l, k) => [l, k]));
+  const counts = rowLevels.map(() => new Array<number>(colLevels.length).fill(0));
+  table.counts.forEach((row, i) => {
+    const target = rowIndex.get(rowMap(table.rowLevels[i]));
+    if (target === undefined) return;
+    row.forEach((v, j) => {
+      const col = colIndex.get(colMap(table.colLevels[j]));
+      if (col !== undefined) counts[target][col] += v;
+    });
+  });
+  return { ...table, rowLevels: [...rowLevels], colLevels: [...colLevels], counts };
+}
+
+/** Drops levels whose margin is zero (possible with zero weights). */
+export function dropEmptyLevels(table: TwoWayTable): TwoWayTable {
+  const rowKeep = table.rowLevels.filter((_l, i) => table.counts[i].some((v) => v > 0));
+  const colKeep = table.colLevels.filter((_l, j) => table.counts.some((row) => row[j] > 0));
+  if (rowKeep.length === table.rowLevels.length && colKeep.length === table.colLevels.length) return table;
+  return relabelTable(table, rowKeep, colKeep);
+}
+
+export interface RareLevelMerge {
+  rowLevels: string[];
+  colLevels: string[];
+  rowMap: (level: string) => string;
+  colMap: (level: string) => string;
+}
+
+/**
+ * Keeps the k most frequent levels of each side (by table margin; ties keep
+ * the earlier level) and maps the rest to one level named `label`, placed
+ * last. A side with at most k + 1 levels is left as it is.
+ */
+export function rareLevelMerge(table: TwoWayTable, k: number, label: string): RareLevelMerge {
+  const side = (levels: string[], totals: number[]) => {
+    if (levels.length <= k + 1) return { levels: [...levels], map: (l: string) => l };
+    const ranked = levels.map((_l, i) => i).sort((a, b) => totals[b] - totals[a] || a - b);
+    const kept = new Set(ranked.slice(0, k).map((i) => levels[i]));
+    const map = (l: string) => (kept.has(l) ? l : label);
+    const order = [...new Set(levels.map(map))].filter((l) => l !== label);
+    return { levels: [...order, label], map };
+  };
+  const rows = side(table.rowLevels, table.counts.map((row) => row.reduce((s, v) => s + v, 0)));
+  const cols = side(table.colLevels, table.colLevels.map((_l, j) => table.counts.reduce((s, row) => s + row[j], 0)));
+  return { rowLevels: rows.levels, colLevels: cols.levels, rowMap: rows.map, colMap: cols.map };
 }

@@ -20,7 +20,7 @@ describe('table counter', () => {
     const colLabels = ['10', '2'];
     const counter = new TableCounter('r', 'c', 50);
     for (const [a, b] of [[1, 2], [2, 1], [1, 1], [1, 2]]) counter.add(a, b);
-    const { table } = counter.finish(rowLabels, colLabels);
+    const { table } = counter.finish((id) => rowLabels[id - 1], (id) => colLabels[id - 1]);
     expect(table.rowLevels).toEqual(['x', 'y']);
     expect(table.colLevels).toEqual(['2', '10']);
     expect(table.counts).toEqual([[2, 1], [0, 1]]);
@@ -29,7 +29,7 @@ describe('table counter', () => {
     const counter = new TableCounter('id', 'c', 5);
     const labels = Array.from({ length: 120 }, (_v, i) => `v${i}`);
     for (let i = 1; i <= 120; i++) counter.add(i, 1);
-    expect(() => counter.finish(labels, ['a'])).toThrow(TabsightError);
-    expect(() => counter.finish(labels, ['a'])).toThrow(/"id" has 120 distinct values, more than --max-levels 5/);
+    expect(() => counter.finish((id) => labels[id - 1], () => 'a')).toThrow(TabsightError);
+    expect(() => counter.finish((id) => labels[id - 1], () => 'a')).toThrow(/"id" has 120 distinct values, more than --max-levels 5/);
   });
 });

@@ -1,0 +1,156 @@
+import { dataError, usageError } from '../errors.js';
+
+/** `--where 'column=v1,v2'` keeps rows whose value is one of the values; `'column!=v'` drops them. */
+export interface WhereClause {
+  column: string;
+  negate: boolean;
+  values: Set<string>;
+  text: string;
+}
+
+/** `--recode 'column:from=to,from=to'` renames or merges levels before counting. */
+export interface Recode {
+  column: string;
+  mapping: Map<string, string>;
+}
+
+export function parseWhere(spec: string): WhereClause {
+  const match = /^([^!=]+?)\s*(!=|=)\s*(.*)$/s.exec(spec);
+  if (!match || match[1].trim() === '') throw usageError(`--where "${spec}": expected column=value[,value…] or column!=value[,value…]`);
+  const values = match[3].split(',').map((v) => v.trim()).filter((v) => v !== '');
+  if (values.length === 0) throw usageError(`--where "${spec}": no value after ${match[2]}`);
+  return { column: match[1].trim(), negate: match[2] === '!=', values: new Set(values), text: spec };
+}
+
+export function parseRecode(spec: string): Recode {
+  const colon = spec.indexOf(':');
+  if (colon <= 0) throw usageError(`--recode "${spec}": expected column:from=to[,from=to…]`);
+  const column = spec.slice(0, colon).trim();
+  const mapping = new Map<string, string>();
+  for (const part of spec.slice(colon + 1).split(',')) {
+    if (part.trim() === '') continue;
+    const eq = part.indexOf('=');
+    if (eq <= 0) throw usageError(`--recode "${spec}": "${part.trim()}" is not from=to`);
+    const from = part.slice(0, eq).trim();
+    const to = part.slice(eq + 1).trim();
+    if (from === '' || to === '') throw usageError(`--recode "${spec}": "${part.trim()}" needs a level on both sides of =`);
+    mapping.set(from, to);
+  }
+  if (mapping.size === 0) throw usageError(`--recode "${spec}": no from=to pair`);
+  return { column, mapping };
+}
+
+/** Joins several --recode options for the same column into one mapping (later ones win). */
+export function recodesByColumn(recodes: readonly Recode[]): Map<string, Map<string, string>> {
+  const out = new Map<string, Map<string, string>>();
+  for (const r of recodes) {
+    const existing = out.get(r.column) ?? new Map<string, string>();
+    for (const [from, to] of r.mapping) existing.set(from, to);
+    out.set(r.column, existing);
+  }
+  return out;
+}
+
+const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+export type WeightKind = 'weight' | 'freq';
+
+/**
+ * Parses a weight or frequency field. Weights must be finite and ≥ 0;
+ * frequencies must also be whole numbers. With decimalComma, "1,5" is 1.5.
+ * Returns the number or a one-line reason it is refused.
+ */
+export function parseWeightValue(raw: string | undefined, kind: WeightKind, decimalComma: boolean): number | string {
+  const text = (raw ?? '').trim();
+  if (text === '') return 'is empty';
+  const normalised = decimalComma ? text.replace(',', '.') : text;
+  if (!NUMBER.test(normalised)) {
+    if (/^[+-]?(inf|infinity|nan)$/i.test(normalised)) return `"${text}" is not a finite number`;
+    if (!decimalComma && /^\d+,\d+$/.test(text)) return `"${text}" is not a number (pass --decimal-comma for decimal commas)`;
+    return `"${text}" is not a number`;
+  }
+  const value = Number(normalised);
+  if (!Number.isFinite(value)) return `"${text}" is not a finite number`;
+  if (value < 0) return `"${text}" is negative`;
+  if (kind === 'freq' && !Number.isInteger(value)) return `"${text}" is not a whole number (a frequency counts rows)`;
+  return value;
+}
+
+export function weightError(label: string, line: number, option: string, column: string, reason: string): Error {
+  return dataError(`${label}, line ${line}: ${option} column "${column}" ${reason}; fix it or pass --skip-bad-rows to count and skip such rows`);
+}
+
+/** Labels of a column's value ids after its recode, cached per id. */
+export class RecodedLabels {
+  private readonly cache: (string | undefined)[] = [];
+  constructor(
+    private readonly labels: () => readonly string[],
+    private readonly mapping: ReadonlyMap<string, string> | undefined,
+    private readonly missingLabel: string,
+  ) {}
+  of(id: number): string {
+    if (id === 0) return this.missingLabel;
+    let value = this.cache[id];
+    if (value === undefined) {
+      const raw = this.labels()[id - 1];
+      value = this.mapping?.get(raw) ?? raw;
+      this.cache[id] = value;
+    }
+    return value;
+  }
+}
+
+/**
+ * The row-level rules every reading command applies before counting, in
+ * this order: --where filters (on recoded values; a missing value satisfies
+ * no filter), then the weight or frequency of the row. `admit` returns the
+ * row's weight, or −1 when the row is left out (and counts why).
+ */
+export class RowGate {
+  filtered = 0;
+  badWeights = 0;
+  private readonly whereCache: Int8Array[];
+
+  constructor(
+    private readonly where: readonly { clause: WhereClause; slot: number; labels: RecodedLabels }[],
+    private readonly weight: { slot: number; kind: WeightKind; column: string; decimalComma: boolean } | null,
+    private readonly skipBadRows: boolean,
+    private readonly sourceLabel: string,
+  ) {
+    this.whereCache = where.map(() => new Int8Array(0));
+  }
+
+  private passes(k: number, id: number): boolean {
+    if (id <= 0) return false;
+    let cache = this.whereCache[k];
+    if (id >= cache.length) {
+      const grown = new Int8Array(Math.max(cache.length * 2, id + 16));
+      grown.set(cache);
+      cache = this.whereCache[k] = grown;
+    }
+    if (cache[id] === 0) {
+      const { clause, labels } = this.where[k];
+      cache[id] = clause.values.has(labels.of(id)) !== clause.negate ? 1 : 2;
+    }
+    return cache[id] === 1;
+  }
+
+  admit(ids: Int32Array, texts: readonly (string | undefined)[], line: number): number {
+    for (let k = 0; k < this.where.length; k++) {
+      if (!this.passes(k, ids[this.where[k].slot])) {
+        this.filtered++;
+        return -1;
+      }
+    }
+    if (this.weight === null) return 1;
+    const parsed = parseWeightValue(texts[this.weight.slot], this.weight.kind, this.weight.decimalComma);
+    if (typeof parsed === 'string') {
+      if (this.skipBadRows) {
+        this.badWeights++;
+        return -1;
+      }
+      throw weightError(this.sourceLabel, line, this.weight.kind === 'freq' ? '--freq' : '--weight', this.weight.column, parsed);
+    }
+    return parsed;
+  }
+}
