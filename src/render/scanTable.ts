@@ -9,6 +9,8 @@ export function pairFlags(pair: ScanPair): string[] {
   if (!pair.expectedCountRule.passes) flags.push('sparse');
   if (pair.findings.primaryTest.test !== 'pearson') flags.push('exact-p');
   if (pair.warnings.some((w) => w.code === 'large-sample')) flags.push('large-n');
+  if (pair.warnings.some((w) => w.code === 'reversal')) flags.push('reversal');
+  else if (pair.warnings.some((w) => w.code === 'layer-explains' || w.code === 'layer-reveals')) flags.push('layer');
   return flags;
 }
 
@@ -58,7 +60,8 @@ export function renderScanText(report: ScanReport, paint: ChalkInstance, width =
   out.push('');
   const legend =
     'Dimmed pairs do not pass after adjustment. Flags: sparse = fails the expected-count rule (its exact p-value is in ' +
-    "--format json and in 'tabsight pair'); exact-p = the leading p-value is exact or simulated; large-n = significant but negligible in strength.";
+    "--format json and in 'tabsight pair'); exact-p = the leading p-value is exact or simulated; large-n = significant but negligible in strength" +
+    (report.by ? `; reversal = holding ${report.by} fixed reverses the association; layer = holding ${report.by} fixed changes whether it is significant.` : '.');
   out.push(...wrap(legend, width).map((l) => paint.dim(l)));
   if (report.skipped.length > 0) {
     out.push('');
@@ -105,6 +108,11 @@ export const SCAN_COLUMNS = [
   'cells_below_5',
   'min_expected',
   'flags',
+  'weighting',
+  'effective_n',
+  'layered_chi_square',
+  'layered_df',
+  'layered_p_value',
 ] as const;
 
 function scanRow(pair: ScanPair): (string | number | boolean | null)[] {
@@ -138,6 +146,11 @@ function scanRow(pair: ScanPair): (string | number | boolean | null)[] {
     pair.expectedCountRule.cellsBelowFive,
     pair.expectedCountRule.smallestExpected,
     pairFlags(pair).join(' '),
+    pair.weighting,
+    pair.effectiveN,
+    pair.stratified?.cmh?.statistic ?? null,
+    pair.stratified?.cmh?.df ?? null,
+    pair.stratified?.cmh?.pValue ?? null,
   ];
 }
 
