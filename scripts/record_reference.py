@@ -266,6 +266,41 @@ for shape, k, n in [((3, 3), 4, 300), ((2, 4), 3, 200), ((4, 3), 5, 800)]:
     generalized.append({"strata": strata, **generalized_cmh(strata)})
 generalized.append({"strata": berkeley, **generalized_cmh(berkeley)})
 
+# ---- numerical limits: huge counts, near independence, the level cap -----------------
+def exact_limits(counts):
+    """X² exactly in rational arithmetic, G² and p-values with mpmath at 60 digits."""
+    cells = [[Fraction(v) for v in row] for row in counts]
+    rows = [sum(r) for r in cells]
+    cols = [sum(r[j] for r in cells) for j in range(len(cells[0]))]
+    n = sum(rows)
+    x2 = Fraction(0)
+    g2 = mpmath.mpf(0)
+    with mpmath.workdps(60):
+        for i, r in enumerate(cells):
+            for j, v in enumerate(r):
+                e = rows[i] * cols[j] / n
+                x2 += (v - e) ** 2 / e
+                if v > 0:
+                    g2 += 2 * mpmath.mpf(v.numerator) / v.denominator * mpmath.log((mpmath.mpf(v.numerator) / v.denominator) / (mpmath.mpf(e.numerator) / e.denominator))
+        df = (len(rows) - 1) * (len(cols) - 1)
+        x2m = mpmath.mpf(x2.numerator) / x2.denominator
+        return {"counts": counts, "pearson": float(x2m), "pearsonP": float(mp_chi2_sf(x2m, df)),
+                "likelihoodRatio": float(g2), "likelihoodRatioP": float(mp_chi2_sf(g2, df)), "df": df}
+
+
+rng3 = np.random.default_rng(12)
+limits = [
+    [[10 ** 12 + 3, 5 * 10 ** 11 + 1], [7 * 10 ** 11 - 2, 12 * 10 ** 11 + 7]],
+    # near independence at 10^12: margins 10^12, 2*10^12 by 1.5*10^12 twice, cells moved by 3
+    [[5 * 10 ** 11 + 3, 5 * 10 ** 11 - 3], [10 ** 12 - 3, 10 ** 12 + 3]],
+    [[333333333333, 333333333334, 333333333333], [666666666667, 666666666666, 666666666668]],
+    # non-integer weighted sums (exact binary fractions) near 10^12
+    [[123456789012.25, 98765432109.5, 55555555555.75], [111111111111.125, 222222222222.0, 99999999999.5]],
+    (rng3.integers(1, 10 ** 6, size=(50, 50))).tolist(),
+    (rng3.integers(10 ** 9, 10 ** 12, size=(6, 7))).tolist(),
+]
+numerical_limits = [exact_limits(t) for t in limits]
+
 normal = [{"p": p, "z": float(mpmath.sqrt(2) * mpmath.erfinv(2 * mpmath.mpf(p) - 1))} for p in [0.975, 0.995, 0.95, 0.5, 0.9995, 1e-10]]
 
 OUT.parent.mkdir(parents=True, exist_ok=True)
@@ -280,5 +315,6 @@ OUT.write_text(json.dumps({
     "normalQuantiles": normal,
     "stratified2x2": stratified_2x2,
     "generalizedCmh": generalized,
+    "numericalLimits": numerical_limits,
 }, indent=1) + "\n")
 print(f"wrote {OUT}: {len(chi2_grid)} chi2 points, {len(records)} tables, {len(exact)} exact r x c")

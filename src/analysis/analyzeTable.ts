@@ -172,9 +172,9 @@ export function analyzeTable(
   const effectiveN = weighting.kind === 'weight' ? effectiveSampleSize(weighting) : n;
   const counts = weighting.kind === 'weight' ? weightedCounts.map((row) => row.map((v) => (v * effectiveN) / n)) : weightedCounts;
   const expected = expectedCounts(counts);
-  const pearson = pearsonChiSquare(counts, expected);
-  const likelihoodRatio = likelihoodRatioChiSquare(counts, expected);
-  const yates = yatesChiSquare(counts, expected);
+  const pearson = pearsonChiSquare(counts);
+  const likelihoodRatio = likelihoodRatioChiSquare(counts);
+  const yates = yatesChiSquare(counts);
   const rule = expectedCountRule(expected);
   const warnings: Warning[] = [];
   const integerCounts = isIntegerTable(counts);
@@ -242,7 +242,7 @@ export function analyzeTable(
     });
   }
 
-  const adjusted = adjustedResiduals(counts, expected);
+  const adjusted = adjustedResiduals(counts);
   const notableCells: NotableCell[] = [];
   adjusted.forEach((row, i) =>
     row.forEach((value, j) => {
@@ -306,8 +306,8 @@ export function analyzeTable(
       uncertaintySymmetric: uncertaintySymmetric(counts),
     },
     ordinal,
-    residuals: { pearson: pearsonResiduals(counts, expected), adjusted },
-    contributions: chiSquareContributions(counts, expected, pearson.statistic),
+    residuals: { pearson: pearsonResiduals(counts), adjusted },
+    contributions: chiSquareContributions(counts, pearson.statistic),
     percentages: percentages(weightedCounts),
     expectedCountRule: rule,
     findings: { strength: strengthOf(biasCorrectedV), diagonal, notableCells, primaryTest },

@@ -1,5 +1,5 @@
 import { upperTailChiSquare } from './chiSquareDistribution.js';
-import { CountMatrix, compensatedSum, degreesOfFreedom, expectedCounts, isTwoByTwo } from './contingency.js';
+import { CountMatrix, compensatedSum, degreesOfFreedom, deviationsFromIndependence, isTwoByTwo } from './contingency.js';
 
 export interface TestResult {
   statistic: number;
@@ -12,15 +12,11 @@ export interface TestResult {
  * df = (r−1)(c−1), referred to the upper tail of χ²(df).
  * Pearson, K. (1900). Phil. Mag. 50, 157–175; Agresti (2013) §3.2.1.
  */
-export function pearsonChiSquare(counts: CountMatrix, expected: CountMatrix = expectedCounts(counts)): TestResult {
+export function pearsonChiSquare(counts: CountMatrix): TestResult {
   const df = degreesOfFreedom(counts);
+  const { deviation, expected } = deviationsFromIndependence(counts);
   const terms: number[] = [];
-  counts.forEach((row, i) =>
-    row.forEach((nij, j) => {
-      const e = expected[i][j];
-      terms.push(((nij - e) * (nij - e)) / e);
-    }),
-  );
+  deviation.forEach((row, i) => row.forEach((d, j) => terms.push((d * d) / expected[i][j])));
   const statistic = compensatedSum(terms);
   return { statistic, df, pValue: upperTailChiSquare(statistic, df) };
 }
@@ -29,16 +25,44 @@ export function pearsonChiSquare(counts: CountMatrix, expected: CountMatrix = ex
  * Likelihood-ratio chi-square G² = 2 Σ n_ij log(n_ij / E_ij), with
  * 0·log 0 = 0 (Wilks 1938; Agresti 2013 §3.2.1), df = (r−1)(c−1).
  */
-export function likelihoodRatioChiSquare(counts: CountMatrix, expected: CountMatrix = expectedCounts(counts)): TestResult {
+export function likelihoodRatioChiSquare(counts: CountMatrix): TestResult {
   const df = degreesOfFreedom(counts);
+  const { deviation, expected } = deviationsFromIndependence(counts);
+  // G² = 2 Σ [n log(n/E) − (n − E)] (the added terms sum to zero); each term
+  // is Loader's deviance bd0(n, E), evaluated from the exact difference d = n − E
+  // so that near-independent tables keep their digits.
   const terms: number[] = [];
   counts.forEach((row, i) =>
     row.forEach((nij, j) => {
-      if (nij > 0) terms.push(nij * Math.log(nij / expected[i][j]));
+      const d = deviation[i][j];
+      const e = expected[i][j];
+      terms.push(nij === 0 ? e : devianceFromDifference(nij, e, d));
     }),
   );
   const statistic = Math.max(0, 2 * compensatedSum(terms));
   return { statistic, df, pValue: upperTailChiSquare(statistic, df) };
+}
+
+/**
+ * bd0(a, m) = a log(a/m) − (a − m) given d = a − m accurately: for |d| small
+ * against a + m the series 2a Σ v^(2j+1)/(2j+1) − d in v = d/(a+m)
+ * (Loader 2000), otherwise the direct form.
+ */
+function devianceFromDifference(a: number, m: number, d: number): number {
+  if (Math.abs(d) < 0.1 * (a + m)) {
+    const v = d / (a + m);
+    let sum = d * v; // 2a·v − d = d·v exactly, since 2a = (a + m) + d
+    let term = 2 * a * v;
+    const v2 = v * v;
+    for (let j = 1; j < 1000; j++) {
+      term *= v2;
+      const next = sum + term / (2 * j + 1);
+      if (next === sum) return next;
+      sum = next;
+    }
+    return sum;
+  }
+  return a * Math.log(a / m) - d;
 }
 
 /**
@@ -47,13 +71,14 @@ export function likelihoodRatioChiSquare(counts: CountMatrix, expected: CountMat
  * 217–235). The correction is capped at |n_ij − E_ij| so that it never
  * overshoots (the rule scipy.stats.chi2_contingency applies). null unless 2×2.
  */
-export function yatesChiSquare(counts: CountMatrix, expected: CountMatrix = expectedCounts(counts)): TestResult | null {
+export function yatesChiSquare(counts: CountMatrix): TestResult | null {
   if (!isTwoByTwo(counts)) return null;
+  const { deviation: departures, expected } = deviationsFromIndependence(counts);
   const terms: number[] = [];
   counts.forEach((row, i) =>
-    row.forEach((nij, j) => {
+    row.forEach((_nij, j) => {
       const e = expected[i][j];
-      const deviation = Math.abs(nij - e);
+      const deviation = Math.abs(departures[i][j]);
       const corrected = deviation - Math.min(0.5, deviation);
       terms.push((corrected * corrected) / e);
     }),

@@ -1,3 +1,5 @@
+import { differenceOfProducts } from './exactArithmetic.js';
+
 /** A two-way table of counts: counts[i][j] for row level i and column level j. */
 export type CountMatrix = readonly (readonly number[])[];
 
@@ -55,4 +57,17 @@ export function transpose(counts: CountMatrix): number[][] {
   const out: number[][] = [];
   for (let j = 0; j < c; j++) out.push(counts.map((row) => row[j]));
   return out;
+}
+
+/**
+ * Each cell's departure from independence, n_ij − E_ij = (n·n_ij − n_i.·n_.j)/n,
+ * with the numerator formed by error-free products so that it keeps its
+ * digits when the two products nearly cancel (large counts, near
+ * independence). Returns the departures and the expected counts.
+ */
+export function deviationsFromIndependence(counts: CountMatrix): { deviation: number[][]; expected: number[][] } {
+  const { rowTotals, colTotals, total } = margins(counts);
+  const deviation = counts.map((row, i) => row.map((nij, j) => differenceOfProducts(total, nij, rowTotals[i], colTotals[j]) / total));
+  const expected = rowTotals.map((ri) => colTotals.map((cj) => (ri * cj) / total));
+  return { deviation, expected };
 }

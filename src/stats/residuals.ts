@@ -1,8 +1,9 @@
-import { CountMatrix, margins } from './contingency.js';
+import { CountMatrix, deviationsFromIndependence, margins } from './contingency.js';
 
 /** Pearson residuals e_ij = (n_ij − E_ij) / √E_ij (Agresti 2013 §2.4.5). */
-export function pearsonResiduals(counts: CountMatrix, expected: CountMatrix): number[][] {
-  return counts.map((row, i) => row.map((nij, j) => (nij - expected[i][j]) / Math.sqrt(expected[i][j])));
+export function pearsonResiduals(counts: CountMatrix): number[][] {
+  const { deviation, expected } = deviationsFromIndependence(counts);
+  return deviation.map((row, i) => row.map((d, j) => d / Math.sqrt(expected[i][j])));
 }
 
 /**
@@ -12,21 +13,21 @@ export function pearsonResiduals(counts: CountMatrix, expected: CountMatrix): nu
  * Biometrics 29, 205–220; Agresti 2013 §2.4.5). null where a margin is the
  * whole sample (the variance is zero).
  */
-export function adjustedResiduals(counts: CountMatrix, expected: CountMatrix): (number | null)[][] {
+export function adjustedResiduals(counts: CountMatrix): (number | null)[][] {
   const { rowTotals, colTotals, total } = margins(counts);
-  return counts.map((row, i) =>
-    row.map((nij, j) => {
+  const { deviation, expected } = deviationsFromIndependence(counts);
+  return deviation.map((row, i) =>
+    row.map((d, j) => {
       const variance = expected[i][j] * (1 - rowTotals[i] / total) * (1 - colTotals[j] / total);
-      return variance > 0 ? (nij - expected[i][j]) / Math.sqrt(variance) : null;
+      return variance > 0 ? d / Math.sqrt(variance) : null;
     }),
   );
 }
 
 /** Each cell's share of Pearson's X²: ((n_ij − E_ij)²/E_ij) / X². Zero everywhere when X² = 0. */
-export function chiSquareContributions(counts: CountMatrix, expected: CountMatrix, chiSquare: number): number[][] {
-  return counts.map((row, i) =>
-    row.map((nij, j) => (chiSquare > 0 ? ((nij - expected[i][j]) ** 2 / expected[i][j]) / chiSquare : 0)),
-  );
+export function chiSquareContributions(counts: CountMatrix, chiSquare: number): number[][] {
+  const { deviation, expected } = deviationsFromIndependence(counts);
+  return deviation.map((row, i) => row.map((d, j) => (chiSquare > 0 ? (d * d) / expected[i][j] / chiSquare : 0)));
 }
 
 export interface Percentages {
