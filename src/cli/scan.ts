@@ -16,6 +16,7 @@ interface RawScanOptions extends RawReaderOptions, RawAnalysisOptions, RawSurvey
   adjust: Adjustment;
   alpha: string;
   top?: string;
+  maxColumns: string;
   full?: boolean;
   format: 'text' | 'json' | 'csv' | 'tsv' | 'markdown';
   color?: boolean;
@@ -54,6 +55,7 @@ export function scanCommand(): Command {
     .addOption(new Option('--adjust <method>', 'multiple-testing adjustment of the p-values').choices(['bh', 'holm', 'bonferroni', 'none']).default('bh'))
     .option('--alpha <level>', 'a pair passes when its adjusted p-value is at most this', '0.05')
     .option('--top <k>', 'keep only the k strongest pairs')
+    .option('--max-columns <n>', 'refuse a file with more candidate columns than this', '300')
     .option('--full', 'include each pair\'s counts, expected counts, residuals and percentages (json)')
     .addOption(new Option('--format <format>', 'output format').choices(['text', 'json', 'csv', 'tsv', 'markdown']).default('text'))
     .option('--no-color', 'plain text without colour');
@@ -86,6 +88,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage.`,
       exclude: splitList(raw.exclude),
       maxLevels: reader.maxLevels,
       keepNumeric: bins !== null,
+      maxColumns: positiveInteger(raw.maxColumns, '--max-columns', 2),
       progress: raw.format === 'text' ? progress.tick : undefined,
       where: survey.where,
       recodes,

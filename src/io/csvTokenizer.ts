@@ -147,7 +147,7 @@ export class CsvTokenizer {
             q++;
           }
           if (!closed) {
-            if (final) this.fail(`a quoted field opened here (column ${field + 1}) is never closed`, quoteLine);
+            if (final) this.fail(`a quoted field (column ${field + 1}) opens here and is never closed`, quoteLine);
             break; // need more data
           }
           p = q;

@@ -28,6 +28,8 @@ export interface EncodeRequest {
   exclude?: string[];
   maxLevels: number;
   keepNumeric: boolean;
+  /** Refuse more candidate columns than this (the pairs grow with its square). */
+  maxColumns: number;
   progress?: (rows: number) => void;
   where?: WhereClause[];
   /** Recodes by column: filters see recoded values; recoded columns may hold more raw levels than the cap. */
@@ -121,6 +123,11 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
       if (request.by !== undefined) roleColumns.add(resolveColumn(request.by, header, '--by', source.label));
       chosen = [...new Set(chosen)].filter((i) => !roleColumns.has(i));
       if (chosen.length < 2) throw usageError(`scan needs at least two candidate columns; ${chosen.length} left after --columns/--exclude`);
+      if (chosen.length > request.maxColumns) {
+        throw usageError(
+          `${source.label} has ${chosen.length.toLocaleString('en-US')} candidate columns (${((chosen.length * (chosen.length - 1)) / 2).toLocaleString('en-US')} pairs), more than --max-columns ${request.maxColumns}; choose some with --columns or --exclude, or raise --max-columns`,
+        );
+      }
       const slots = [...chosen];
       const slotOf = (index: number) => {
         const at = slots.indexOf(index);

@@ -15,12 +15,14 @@ export function inputSource(path: string | undefined): InputSource {
   return { path, label: path };
 }
 
-function describeOpenError(source: InputSource, error: NodeJS.ErrnoException): Error {
+export function describeOpenError(source: InputSource, error: NodeJS.ErrnoException): Error {
   switch (error.code) {
     case 'ENOENT':
       return dataError(`${source.label}: no such file`);
     case 'EISDIR':
       return dataError(`${source.label}: is a directory, not a CSV file`);
+    case 'ENOTDIR':
+      return dataError(`${source.label}: a part of the path is a file, not a directory`);
     case 'EACCES':
     case 'EPERM':
       return dataError(`${source.label}: permission denied`);

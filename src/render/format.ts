@@ -60,16 +60,22 @@ export function padRight(s: string, width: number): string {
 
 /** Shortens a label to a display width, marking the cut with an ellipsis. */
 export function clip(s: string, width: number): string {
-  if (displayWidth(s) <= width) return s;
+  // Look at no more than the first few characters: a label can be megabytes long.
+  const head = s.length > 4 * width + 8 ? s.slice(0, 4 * width + 8) : s;
+  if (head === s && displayWidth(s) <= width) return s;
   let out = '';
-  for (const ch of s) {
-    if (displayWidth(out + ch) > width - 1) break;
+  let used = 0;
+  for (const ch of head) {
+    const w = displayWidth(ch);
+    if (used + w > width - 1) break;
     out += ch;
+    used += w;
   }
   return out + '…';
 }
 
 /** A label shown in a sentence: quoted when it has spaces or looks numeric. */
 export function quoteLevel(level: string): string {
-  return /^[\p{L}][\p{L}\p{N}_-]*$/u.test(level) ? level : `"${level}"`;
+  const shown = level.length > 60 ? clip(level, 60) : level;
+  return /^[\p{L}][\p{L}\p{N}_-]*$/u.test(shown) ? shown : `"${shown}"`;
 }
