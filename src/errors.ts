@@ -9,6 +9,8 @@ export const ExitStatus = {
   dataError: 1,
   /** Bad usage: unknown option, unknown column, invalid option value. */
   usageError: 2,
+  /** With --exit-status: the run succeeded and found no association at --alpha. */
+  noAssociation: 3,
 } as const;
 
 export type ExitStatusCode = (typeof ExitStatus)[keyof typeof ExitStatus];

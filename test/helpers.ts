@@ -41,6 +41,7 @@ export interface Reference {
     breslowDay: { statistic: number; pValue: number };
   };
   generalizedCmh: { strata: number[][][]; statistic: number; df: number; pValue: number }[];
+  noThreeWay: { layers: number[][][]; statistic: number; df: number; pValue: number }[];
   numericalLimits: { counts: number[][]; pearson: number; pearsonP: number; likelihoodRatio: number; likelihoodRatioP: number; df: number }[];
 }
 

@@ -3,6 +3,10 @@ import { ExitStatus, TabsightError } from '../errors.js';
 import { TOOL_VERSION } from '../analysis/report.js';
 import { pairCommand } from './pair.js';
 import { scanCommand } from './scan.js';
+import { compareCommand } from './compare.js';
+import { countCommand, mergeCommand } from './counts.js';
+import { completionCommand } from './completion.js';
+import { outcome } from './outcome.js';
 
 function oneLine(text: string): string {
   return text.replace(/^error: /, '').replace(/\s*\n\s*/g, ' ').trim();
@@ -20,7 +24,7 @@ export function buildProgram(): Command {
       },
     })
     .exitOverride();
-  for (const command of [pairCommand(), scanCommand()]) {
+  for (const command of [pairCommand(), scanCommand(), compareCommand(), countCommand(), mergeCommand(), completionCommand(() => program)]) {
     command.exitOverride();
     command.configureOutput({ writeErr: (text: string) => { const line = oneLine(text); if (line !== '') process.stderr.write(`tabsight: ${line}\n`); } });
     command.showSuggestionAfterError(true);
@@ -42,7 +46,7 @@ export async function main(argv: string[]): Promise<number> {
       return ExitStatus.usageError;
     }
     await program.parseAsync(argv);
-    return ExitStatus.ok;
+    return outcome();
   } catch (error) {
     if (error instanceof CommanderError) {
       if (error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.code === 'commander.help') return ExitStatus.ok;

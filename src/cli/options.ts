@@ -138,3 +138,17 @@ export function surveyPlan(raw: RawSurveyOptions): SurveyPlan {
     other: raw.other === undefined ? undefined : { k: positiveInteger(raw.other, '--other', 1), label: raw.otherLabel.trim() },
   };
 }
+
+/** Options of every reporting command: where the report goes and what the exit status says. */
+export function addReportOptions(command: Command): Command {
+  return command
+    .option('--output <file>', 'write the report to this file (atomically: a failed run never leaves half a file)')
+    .option('--plot <file.svg>', 'also write the pictures as a standalone SVG file')
+    .option('--exit-status', 'exit with status 3 when no association is found at --alpha (0 when one is)');
+}
+
+export interface RawReportOptions {
+  output?: string;
+  plot?: string;
+  exitStatus?: boolean;
+}

@@ -4,16 +4,21 @@ import { countTables } from '../io/countTables.js';
 import { inputSource, checkReadable } from '../io/source.js';
 import { toJson } from '../render/json.js';
 import { renderPairText } from '../render/pairText.js';
-import { addAnalysisOptions, addReaderOptions, addSurveyOptions, analysisPlan, RawAnalysisOptions, RawReaderOptions, RawSurveyOptions, readerPlan, splitList, surveyPlan } from './options.js';
-import { painter, writeOut } from './output.js';
+import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, readerPlan, splitList, surveyPlan } from './options.js';
+import { emit, painter, writeFileAtomically } from './output.js';
+import { setOutcome } from './outcome.js';
+import { renderPairDelimited, renderPairMarkdown } from '../render/pairDelimited.js';
+import { renderPairHtml } from '../render/html.js';
+import { mosaicPlot, residualHeatMap, stackSvg } from '../render/svg.js';
 
-interface RawPairOptions extends RawReaderOptions, RawAnalysisOptions, RawSurveyOptions {
+interface RawPairOptions extends RawReaderOptions, RawAnalysisOptions, RawSurveyOptions, RawReportOptions {
   rows: string;
   cols: string;
   rowOrder?: string;
   colOrder?: string;
-  format: 'text' | 'json';
+  format: 'text' | 'json' | 'csv' | 'tsv' | 'markdown' | 'html';
   color?: boolean;
+  alpha: string;
 }
 
 export function pairCommand(): Command {
@@ -24,11 +29,13 @@ export function pairCommand(): Command {
     .requiredOption('--cols <column>', 'column whose levels form the columns')
     .option('--row-order <levels>', 'comma-separated order of the row levels (others follow in natural order)')
     .option('--col-order <levels>', 'comma-separated order of the column levels')
-    .addOption(new Option('--format <format>', 'output format').choices(['text', 'json']).default('text'))
+    .addOption(new Option('--format <format>', 'output format').choices(['text', 'json', 'csv', 'tsv', 'markdown', 'html']).default('text'))
+    .option('--alpha <level>', 'significance level for --exit-status', '0.05')
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addSurveyOptions(command);
   addAnalysisOptions(command);
+  addReportOptions(command);
   command.addHelpText(
     'after',
     `
@@ -38,13 +45,14 @@ Examples:
   tabsight pair survey.csv --rows visit_frequency --cols satisfaction --ordinal \\
     --row-order 'rarely,a few times a year,monthly,weekly'
 
-Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage.`,
+Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no association at --alpha (only with --exit-status).`,
   );
   command.action(async (file: string | undefined, raw: RawPairOptions) => {
     const source = inputSource(file);
     const reader = readerPlan(raw);
     const analysis = analysisPlan(raw);
     const survey = surveyPlan(raw);
+    const alpha = probability(raw.alpha, '--alpha');
     const rowOrder = splitList(raw.rowOrder);
     const colOrder = splitList(raw.colOrder);
     checkReadable(source);
@@ -66,7 +74,19 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage.`,
       counted.weighting,
       counted.strata && counted.byName ? { by: counted.byName, strata: counted.strata } : undefined,
     );
-    await writeOut(raw.format === 'json' ? toJson(report) : renderPairText(report, painter(raw.color)));
+    const text =
+      raw.format === 'json'
+        ? toJson(report)
+        : raw.format === 'csv' || raw.format === 'tsv'
+          ? renderPairDelimited(report, raw.format === 'csv' ? ',' : '\t')
+          : raw.format === 'markdown'
+            ? renderPairMarkdown(report)
+            : raw.format === 'html'
+              ? renderPairHtml(report)
+              : renderPairText(report, painter(raw.color, raw.output !== undefined));
+    if (raw.plot !== undefined) writeFileAtomically(raw.plot, stackSvg([residualHeatMap(report), mosaicPlot(report)]));
+    await emit(text, raw.output);
+    setOutcome(report.findings.primaryTest.pValue <= alpha, raw.exitStatus);
   });
   return command;
 }

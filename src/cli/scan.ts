@@ -5,11 +5,14 @@ import { checkReadable, inputSource } from '../io/source.js';
 import { toJson } from '../render/json.js';
 import { renderScanDelimited, renderScanMarkdown, renderScanText } from '../render/scanTable.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
-import { addAnalysisOptions, addReaderOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawSurveyOptions, readerPlan, splitList, surveyPlan } from './options.js';
+import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, readerPlan, splitList, surveyPlan } from './options.js';
 import { recodesByColumn } from '../io/rowRules.js';
-import { painter, writeOut } from './output.js';
+import { emit, painter, writeFileAtomically } from './output.js';
+import { setOutcome } from './outcome.js';
+import { renderScanHtml } from '../render/html.js';
+import { stackSvg, strengthChart } from '../render/svg.js';
 
-interface RawScanOptions extends RawReaderOptions, RawAnalysisOptions, RawSurveyOptions {
+interface RawScanOptions extends RawReaderOptions, RawAnalysisOptions, RawSurveyOptions, RawReportOptions {
   columns?: string;
   exclude?: string;
   bins?: string;
@@ -18,7 +21,7 @@ interface RawScanOptions extends RawReaderOptions, RawAnalysisOptions, RawSurvey
   top?: string;
   maxColumns: string;
   full?: boolean;
-  format: 'text' | 'json' | 'csv' | 'tsv' | 'markdown';
+  format: 'text' | 'json' | 'csv' | 'tsv' | 'markdown' | 'html';
   color?: boolean;
 }
 
@@ -57,11 +60,12 @@ export function scanCommand(): Command {
     .option('--top <k>', 'keep only the k strongest pairs')
     .option('--max-columns <n>', 'refuse a file with more candidate columns than this', '300')
     .option('--full', 'include each pair\'s counts, expected counts, residuals and percentages (json)')
-    .addOption(new Option('--format <format>', 'output format').choices(['text', 'json', 'csv', 'tsv', 'markdown']).default('text'))
+    .addOption(new Option('--format <format>', 'output format').choices(['text', 'json', 'csv', 'tsv', 'markdown', 'html']).default('text'))
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addSurveyOptions(command);
   addAnalysisOptions(command, SCAN_SIMULATIONS);
+  addReportOptions(command);
   command.addHelpText(
     'after',
     `
@@ -70,7 +74,7 @@ Examples:
   tabsight scan survey.csv --exclude respondent_id --bins 5 --top 20
   tabsight scan survey.csv --format csv > weekly-pairs.csv
 
-Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage.`,
+Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no pair passes at --alpha (only with --exit-status).`,
   );
   command.action(async (file: string | undefined, raw: RawScanOptions) => {
     const source = inputSource(file);
@@ -137,10 +141,15 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage.`,
       case 'markdown':
         text = renderScanMarkdown(report);
         break;
+      case 'html':
+        text = renderScanHtml(report);
+        break;
       default:
-        text = renderScanText(report, painter(raw.color));
+        text = renderScanText(report, painter(raw.color, raw.output !== undefined));
     }
-    await writeOut(text);
+    if (raw.plot !== undefined) writeFileAtomically(raw.plot, stackSvg([strengthChart(report)]));
+    await emit(text, raw.output);
+    setOutcome(report.pairsPassing > 0, raw.exitStatus);
   });
   return command;
 }

@@ -26,6 +26,8 @@ export interface CountPlan {
   maxLevels: number;
   rowOrder?: string[];
   colOrder?: string[];
+  /** Accept a table with fewer than two levels on a side (for writing counts, not testing). */
+  allowDegenerate?: boolean;
 }
 
 export type { Weighting };
@@ -174,8 +176,8 @@ export async function countTables(source: InputSource, reader: ReaderOptions, pl
     [plan.rows, table.rowLevels],
     [plan.cols, table.colLevels],
   ] as const) {
-    if (levels.length === 0) throw dataError(`column "${name}" has no value in the counted rows${leftOut ? ` (${leftOut})` : ''}`);
-    if (levels.length === 1) throw dataError(`column "${name}" has a single level ("${levels[0]}") in the counted rows; an association needs at least two`);
+    if (levels.length === 0 && !plan.allowDegenerate) throw dataError(`column "${name}" has no value in the counted rows${leftOut ? ` (${leftOut})` : ''}`);
+    if (levels.length === 1 && !plan.allowDegenerate) throw dataError(`column "${name}" has a single level ("${levels[0]}") in the counted rows; an association needs at least two`);
   }
   let strataOut: Stratum[] | null = null;
   if (bySlot >= 0) {

@@ -60,8 +60,12 @@ export async function readRecords(
   onRow: RowHandler,
   distinctLimit: (slot: number) => number = () => DEFAULT_DISTINCT_LIMIT,
   /** Slots delivered as raw text (trimmed) instead of interned ids, such as a weight column. */
-  textSlots: ReadonlySet<number> = new Set(),
+  textSlots: ReadonlySet<number> | 'all' = new Set(),
 ): Promise<ReadSummary & { interners: FieldInterner[] }> {
+  const allText = textSlots === 'all';
+  const textSet: ReadonlySet<number> = textSlots === 'all' ? new Set() : textSlots;
+  const isText = (slot: number) => allText || textSet.has(slot);
+  const anyText = allText || textSet.size > 0;
   const missing = new Set(options.missing.map((m) => m.trim()));
   let interners: FieldInterner[] = [];
   let ids = new Int32Array(0);
@@ -99,7 +103,7 @@ export async function readRecords(
           if (!options.header) {
             // The first record is data: deliver it too.
             selected.forEach((column, slot) => {
-              if (textSlots.has(slot)) texts[slot] = fields[column];
+              if (isText(slot)) texts[slot] = fields[column];
               else ids[slot] = interners[slot].internString(fields[column]);
             });
             onRow(ids, line, texts, interners);
@@ -108,11 +112,11 @@ export async function readRecords(
           return slots;
         },
         fieldBytes: (slot, buf, view, begin, end) => {
-          if (textSlots.size > 0 && textSlots.has(slot)) texts[slot] = view.toString('utf8', begin, end);
+          if (anyText && isText(slot)) texts[slot] = view.toString('utf8', begin, end);
           else ids[slot] = interners[slot].intern(buf, view, begin, end);
         },
         fieldText: (slot, value) => {
-          if (textSlots.size > 0 && textSlots.has(slot)) texts[slot] = value;
+          if (anyText && isText(slot)) texts[slot] = value;
           else ids[slot] = interners[slot].internString(value);
         },
         record: (fieldCount, line) => {
@@ -120,7 +124,7 @@ export async function readRecords(
             if (options.skipBadRows) {
               badRows++;
               ids.fill(0);
-              if (textSlots.size > 0) texts.fill(undefined);
+              if (anyText) texts.fill(undefined);
               return;
             }
             throw dataError(
@@ -129,7 +133,7 @@ export async function readRecords(
           }
           onRow(ids, line, texts, interners);
           ids.fill(0);
-          if (textSlots.size > 0) texts.fill(undefined);
+          if (anyText) texts.fill(undefined);
         },
       },
       source.label,

@@ -1,0 +1,133 @@
+import { pearsonChiSquare, TestResult } from '../stats/chiSquareTests.js';
+import { breslowDay, mantelHaenszelOddsRatio } from '../stats/stratified.js';
+import { noThreeWayInteraction } from '../stats/threeWay.js';
+import { compareNatural } from '../table/naturalOrder.js';
+import { dropEmptyLevels, relabelTable, TwoWayTable } from '../table/twoWayTable.js';
+import { Weighting } from '../table/weighting.js';
+import { AnalysisOptions, AnalysisRecord, analyzeTable, Warning } from './analyzeTable.js';
+import { InputSummary, TOOL_VERSION } from './report.js';
+
+export interface PeriodInput {
+  label: string;
+  table: TwoWayTable;
+  weighting: Weighting;
+  excluded: number;
+  input: InputSummary;
+}
+
+export type PeriodRecord = ({ label: string; testable: true; input: InputSummary } & AnalysisRecord) | { label: string; testable: false; input: InputSummary; n: number; reason: string };
+
+export interface ChangeTest extends TestResult {
+  method: 'breslow-day' | 'no-three-way-interaction';
+}
+
+export interface CompareReport {
+  tool: { name: 'tabsight'; version: string };
+  command: 'compare';
+  rows: { name: string; levels: string[] };
+  cols: { name: string; levels: string[] };
+  before: PeriodRecord;
+  after: PeriodRecord;
+  /** Did the association itself change? Breslow–Day for 2×2, the no-three-way-interaction G² otherwise. */
+  change: ChangeTest | null;
+  /** The no-three-way-interaction likelihood-ratio test, for every shape. */
+  interaction: (TestResult & { iterations: number }) | null;
+  /** Did the row distribution shift? Pearson's test of homogeneity on the period × row table. */
+  rowShift: TestResult | null;
+  colShift: TestResult | null;
+  deltaBiasCorrectedV: number | null;
+  /** Levels seen in one period only. */
+  onlyBefore: { rows: string[]; cols: string[] };
+  onlyAfter: { rows: string[]; cols: string[] };
+  warnings: Warning[];
+}
+
+function union(a: readonly string[], b: readonly string[], requested?: readonly string[]): string[] {
+  const all = [...new Set([...a, ...b])];
+  if (!requested) return all.sort(compareNatural);
+  const named = requested.filter((l) => all.includes(l));
+  return [...named, ...all.filter((l) => !named.includes(l)).sort(compareNatural)];
+}
+
+function periodRecord(p: PeriodInput, options: AnalysisOptions): PeriodRecord {
+  const own = dropEmptyLevels(p.table);
+  const n = own.counts.flat().reduce((s, v) => s + v, 0);
+  if (own.rowLevels.length < 2 || own.colLevels.length < 2) {
+    const side = own.rowLevels.length < 2 ? own.rowName : own.colName;
+    return { label: p.label, testable: false, input: p.input, n, reason: `"${side}" has fewer than two levels in this period` };
+  }
+  return { label: p.label, testable: true, input: p.input, ...analyzeTable(own, p.excluded, options, p.weighting) };
+}
+
+function homogeneity(rows: number[][]): TestResult | null {
+  const kept = rows[0].map((_v, j) => j).filter((j) => rows[0][j] + rows[1][j] > 0);
+  if (kept.length < 2) return null;
+  return pearsonChiSquare(rows.map((r) => kept.map((j) => r[j])));
+}
+
+/**
+ * Two periods of the same pair of questions: each analysed on its own, and
+ * the tests of whether the association changed (Breslow–Day across the two
+ * periods for 2×2 tables; otherwise the likelihood-ratio test of no
+ * three-way interaction period × rows × cols, fitted by IPF) and whether
+ * each margin shifted (chi-square tests of homogeneity).
+ */
+export function comparePeriods(before: PeriodInput, after: PeriodInput, options: AnalysisOptions, order: { rows?: string[]; cols?: string[] } = {}): CompareReport {
+  // Levels each period really has (a table laid out on shared levels may carry empty ones).
+  const present = [dropEmptyLevels(before.table), dropEmptyLevels(after.table)];
+  const rowLevels = union(present[0].rowLevels, present[1].rowLevels, order.rows);
+  const colLevels = union(present[0].colLevels, present[1].colLevels, order.cols);
+  const aligned = [before, after].map((p) => {
+    const t = relabelTable(p.table, rowLevels, colLevels);
+    if (p.weighting.kind !== 'weight' || p.weighting.sumWeights === 0) return t.counts;
+    const scale = (p.weighting.sumWeights / p.weighting.sumSquaredWeights);
+    return t.counts.map((row) => row.map((v) => v * scale)); // rescaled to the effective sample size
+  });
+  const warnings: Warning[] = [];
+  const only = (a: readonly string[], b: readonly string[]) => a.filter((l) => !b.includes(l));
+  const onlyBefore = { rows: only(present[0].rowLevels, present[1].rowLevels), cols: only(present[0].colLevels, present[1].colLevels) };
+  const onlyAfter = { rows: only(present[1].rowLevels, present[0].rowLevels), cols: only(present[1].colLevels, present[0].colLevels) };
+  const describe = (side: { rows: string[]; cols: string[] }, period: string) => {
+    const parts = [...side.rows.map((l) => `${before.table.rowName} "${l}"`), ...side.cols.map((l) => `${before.table.colName} "${l}"`)];
+    if (parts.length > 0) warnings.push({ code: 'level-in-one-period', message: `${parts.join(', ')} occur${parts.length === 1 ? 's' : ''} only in ${period}; counted as zero in the other period` });
+  };
+  describe(onlyBefore, before.label);
+  describe(onlyAfter, after.label);
+
+  const beforeRecord = periodRecord(before, options);
+  const afterRecord = periodRecord(after, options);
+  const interactionFit = noThreeWayInteraction(aligned);
+  const interaction = interactionFit ? { statistic: interactionFit.statistic, df: interactionFit.df, pValue: interactionFit.pValue, iterations: interactionFit.iterations } : null;
+  let change: ChangeTest | null = null;
+  if (rowLevels.length === 2 && colLevels.length === 2) {
+    const common = mantelHaenszelOddsRatio(aligned, options.confidence);
+    const bd = common ? breslowDay(aligned, common.estimate) : null;
+    if (bd) change = { ...bd, method: 'breslow-day' };
+  } else if (interaction) {
+    change = { statistic: interaction.statistic, df: interaction.df, pValue: interaction.pValue, method: 'no-three-way-interaction' };
+  }
+  const rowMargins = aligned.map((t) => t.map((row) => row.reduce((s, v) => s + v, 0)));
+  const colMargins = aligned.map((t) => t[0].map((_v, j) => t.reduce((s, row) => s + row[j], 0)));
+  const v = (r: PeriodRecord) => (r.testable ? r.measures.biasCorrectedV : null);
+  const vb = v(beforeRecord);
+  const va = v(afterRecord);
+  if (change && change.pValue < 0.05) {
+    warnings.push({ code: 'association-changed', message: `the association between ${before.table.rowName} and ${before.table.colName} changed between ${before.label} and ${after.label} (p ${change.pValue.toPrecision(3)})` });
+  }
+  return {
+    tool: { name: 'tabsight', version: TOOL_VERSION },
+    command: 'compare',
+    rows: { name: before.table.rowName, levels: rowLevels },
+    cols: { name: before.table.colName, levels: colLevels },
+    before: beforeRecord,
+    after: afterRecord,
+    change,
+    interaction,
+    rowShift: homogeneity(rowMargins),
+    colShift: homogeneity(colMargins),
+    deltaBiasCorrectedV: vb !== null && va !== null ? va - vb : null,
+    onlyBefore,
+    onlyAfter,
+    warnings,
+  };
+}

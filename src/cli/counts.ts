@@ -1,0 +1,115 @@
+import { Command } from 'commander';
+import { dataError, usageError } from '../errors.js';
+import { countTables } from '../io/countTables.js';
+import { resolveColumn } from '../io/columns.js';
+import { readRecords } from '../io/readRecords.js';
+import { parseWeightValue } from '../io/rowRules.js';
+import { checkReadable, inputSource } from '../io/source.js';
+import { compareNatural } from '../table/naturalOrder.js';
+import { delimitedField } from '../render/scanTable.js';
+import { addReaderOptions, addSurveyOptions, RawReaderOptions, RawSurveyOptions, readerPlan, surveyPlan } from './options.js';
+import { emit } from './output.js';
+
+/** The long count format that `--freq count` reads back: one line per combination. */
+function countLines(header: string[], rows: [string[], number][]): string {
+  const out = [header.map((h) => delimitedField(h, ',')).join(',')];
+  for (const [key, n] of rows) out.push([...key.map((k) => delimitedField(k, ',')), String(n)].join(','));
+  return out.join('\n') + '\n';
+}
+
+function sortKeys(rows: [string[], number][]): [string[], number][] {
+  return rows.sort((x, y) => {
+    for (let k = 0; k < x[0].length; k++) {
+      const d = compareNatural(x[0][k], y[0][k]);
+      if (d !== 0) return d;
+    }
+    return 0;
+  });
+}
+
+interface RawCountOptions extends RawReaderOptions, RawSurveyOptions {
+  rows: string;
+  cols: string;
+  output?: string;
+}
+
+export function countCommand(): Command {
+  const command = new Command('count')
+    .description('write the table as long-format counts (rows,cols,count), the format --freq count reads back')
+    .argument('[file]', 'CSV file, or - (or nothing) for standard input')
+    .requiredOption('--rows <column>', 'first column of the table')
+    .requiredOption('--cols <column>', 'second column of the table')
+    .option('--output <file>', 'write the counts to this file (atomically)');
+  addReaderOptions(command);
+  addSurveyOptions(command);
+  command.addHelpText(
+    'after',
+    `
+Counts of chunks, days or machines add up with 'tabsight merge'. Sampling
+weights are not counts: --weight is refused here (use --freq to re-count counts).
+
+Examples:
+  tabsight count survey.csv --rows branch --cols membership > counts.csv
+  tabsight pair counts.csv --rows branch --cols membership --freq count`,
+  );
+  command.action(async (file: string | undefined, raw: RawCountOptions) => {
+    const source = inputSource(file);
+    const reader = readerPlan(raw);
+    const survey = surveyPlan(raw);
+    if (survey.weight?.kind === 'weight') throw usageError('count writes whole counts; --weight is not a count (sum sampling weights in the engine that holds the data, or use --freq to re-count counts)');
+    if (survey.other) throw usageError('--other merges levels per table; apply it when analysing the counts, not when writing them');
+    checkReadable(source);
+    const counted = await countTables(source, reader, { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, ...survey, allowDegenerate: true });
+    const lines: [string[], number][] = [];
+    const add = (prefix: string[], t: typeof counted.table) =>
+      t.rowLevels.forEach((rl, i) => t.colLevels.forEach((cl, j) => t.counts[i][j] > 0 && lines.push([[...prefix, rl, cl], t.counts[i][j]])));
+    if (counted.strata) for (const s of counted.strata) add([s.level], s.table);
+    else add([], counted.table);
+    const header = [...(survey.by !== undefined ? [survey.by] : []), raw.rows, raw.cols, 'count'];
+    await emit(countLines(header, sortKeys(lines)), raw.output);
+  });
+  return command;
+}
+
+export function mergeCommand(): Command {
+  return new Command('merge')
+    .description('add count files of the same columns (from chunks, days or machines) into one')
+    .argument('<counts...>', 'count files written by tabsight count (or any CSV whose last column is a count)')
+    .option('--output <file>', 'write the merged counts to this file (atomically)')
+    .action(async (files: string[], raw: { output?: string }) => {
+      let header: string[] | null = null;
+      const totals = new Map<string, [string[], number]>();
+      for (const file of files) {
+        const source = inputSource(file);
+        let countIndex = -1;
+        let width = 0;
+        await readRecords(
+          source,
+          { missing: [], skipBadRows: false, header: true, delimiter: ',' },
+          (names) => {
+            if (header === null) header = names;
+            else if (names.join('\u0000') !== (header as string[]).join('\u0000')) {
+              throw dataError(`${source.label}: its columns (${names.join(', ')}) differ from ${files[0]} (${(header as string[]).join(', ')}); merge only counts of the same columns`);
+            }
+            countIndex = names.length - 1;
+            width = names.length;
+            resolveColumn(names[countIndex], names, 'count column', source.label);
+            return names.map((_n, i) => i);
+          },
+          (_ids, line, texts) => {
+            const parsed = parseWeightValue(texts[countIndex], 'freq', false);
+            if (typeof parsed === 'string') throw dataError(`${source.label}, line ${line}: the count ${parsed}`);
+            const key = texts.slice(0, width - 1).map((t) => (t ?? '').trim());
+            const id = key.join('\u0000');
+            const known = totals.get(id);
+            if (known) known[1] += parsed;
+            else totals.set(id, [key, parsed]);
+          },
+          undefined,
+          'all',
+        );
+      }
+      if (header === null) throw usageError('merge needs at least one count file');
+      await emit(countLines(header, sortKeys([...totals.values()])), raw.output);
+    });
+}

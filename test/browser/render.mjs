@@ -1,0 +1,93 @@
+#!/usr/bin/env node
+// Renders tabsight's HTML reports in a real browser (Debian's headless
+// Chromium, installed here when missing) and checks that the pictures are
+// laid out: every SVG and every shape in it has a non-zero box, nothing
+// sticks out of the page, and a screenshot is taken. Prints one line per
+// check and a closing "browser: N passed, N failed" line for .ci/run.
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, statSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+
+const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
+const bin = join(root, 'bin', 'tabsight.js');
+const demo = join(root, 'fixtures', 'demo', 'patron-survey.csv');
+const chromium = '/usr/bin/chromium';
+const out = mkdtempSync(join(tmpdir(), 'tabsight-browser-'));
+
+let passed = 0;
+let failed = 0;
+const check = (name, ok, detail = '') => {
+  if (ok) passed++;
+  else failed++;
+  console.log(`${ok ? 'ok  ' : 'FAIL'} ${name}${detail ? ` (${detail})` : ''}`);
+};
+
+if (!existsSync(chromium)) {
+  console.log('installing Debian chromium for the browser test');
+  spawnSync('apt-get', ['update', '-qq'], { stdio: 'inherit' });
+  spawnSync('apt-get', ['install', '-y', '-qq', 'chromium'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+}
+if (!existsSync(chromium)) {
+  check('chromium is available', false, 'apt-get install chromium failed');
+  console.log(`browser: ${passed} passed, ${failed} failed`);
+  process.exit(1);
+}
+
+const reports = [
+  ['pair', ['pair', demo, '--rows', 'age_band', '--cols', 'preferred_format', '--format', 'html']],
+  ['pair 2×2', ['pair', demo, '--rows', 'membership', '--cols', 'has_children', '--format', 'html']],
+  ['scan', ['scan', demo, '--format', 'html']],
+  ['compare', ['compare', demo, '--period', 'has_children', '--rows', 'age_band', '--cols', 'preferred_format', '--format', 'html']],
+];
+
+const { chromium: launcher } = await import('playwright-core');
+const browser = await launcher.launch({
+  executablePath: chromium,
+  args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+});
+try {
+  for (const [name, args] of reports) {
+    const file = join(out, `${name.replace(/\W+/g, '-')}.html`);
+    const run = spawnSync(process.execPath, [bin, ...args, '--output', file], { encoding: 'utf8' });
+    check(`${name}: report written`, run.status === 0 && existsSync(file), run.stderr.trim());
+    if (run.status !== 0) continue;
+    for (const width of [1200, 700]) {
+      const page = await browser.newPage({ viewport: { width, height: 900 } });
+      const requests = [];
+      page.on('request', (r) => {
+        if (!r.url().startsWith('file:')) requests.push(r.url());
+      });
+      await page.goto(pathToFileURL(file).href);
+      const layout = await page.evaluate(() => {
+        const svgs = [...document.querySelectorAll('svg')];
+        const shapes = [...document.querySelectorAll('svg rect, svg text')];
+        const box = (e) => e.getBoundingClientRect();
+        const pageWidth = document.documentElement.clientWidth;
+        return {
+          svgs: svgs.length,
+          emptySvgs: svgs.filter((s) => box(s).width <= 0 || box(s).height <= 0).length,
+          shapes: shapes.length,
+          // Tiles of zero count are legitimately empty; count only shapes that should show.
+          emptyShapes: shapes.filter((s) => (s.tagName === 'text' ? s.textContent.trim() !== '' : Number(s.getAttribute('width')) > 0 && Number(s.getAttribute('height')) > 0) && (box(s).width <= 0 || box(s).height <= 0)).length,
+          overflowing: svgs.filter((s) => box(s).right > pageWidth + 1).length,
+          scrollsSideways: document.documentElement.scrollWidth > pageWidth + 1,
+        };
+      });
+      const shot = join(out, `${name.replace(/\W+/g, '-')}-${width}.png`);
+      await page.screenshot({ path: shot, fullPage: true });
+      check(`${name} at ${width}px: has pictures`, layout.svgs >= 1 && layout.shapes > 10, `${layout.svgs} svg, ${layout.shapes} shapes`);
+      check(`${name} at ${width}px: every picture and shape has a box`, layout.emptySvgs === 0 && layout.emptyShapes === 0, `${layout.emptySvgs} empty svg, ${layout.emptyShapes} empty shapes`);
+      check(`${name} at ${width}px: nothing overflows the page`, layout.overflowing === 0 && !layout.scrollsSideways);
+      check(`${name} at ${width}px: screenshot taken`, existsSync(shot) && statSync(shot).size > 5000, shot);
+      check(`${name} at ${width}px: no network requests`, requests.length === 0, requests.join(' '));
+      await page.close();
+    }
+  }
+} finally {
+  await browser.close();
+}
+console.log(`screenshots in ${out}`);
+console.log(`browser: ${passed} passed, ${failed} failed`);
+process.exit(failed > 0 ? 1 : 0);
