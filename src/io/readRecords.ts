@@ -65,7 +65,8 @@ export async function readRecords(
   const allText = textSlots === 'all';
   const textSet: ReadonlySet<number> = textSlots === 'all' ? new Set() : textSlots;
   const isText = (slot: number) => allText || textSet.has(slot);
-  const anyText = allText || textSet.size > 0;
+  // The set may be filled by the header callback, so it is consulted as it stands.
+  const anyText = () => allText || textSet.size > 0;
   const missing = new Set(options.missing.map((m) => m.trim()));
   let interners: FieldInterner[] = [];
   let ids = new Int32Array(0);
@@ -112,11 +113,11 @@ export async function readRecords(
           return slots;
         },
         fieldBytes: (slot, buf, view, begin, end) => {
-          if (anyText && isText(slot)) texts[slot] = view.toString('utf8', begin, end);
+          if (anyText() && isText(slot)) texts[slot] = view.toString('utf8', begin, end);
           else ids[slot] = interners[slot].intern(buf, view, begin, end);
         },
         fieldText: (slot, value) => {
-          if (anyText && isText(slot)) texts[slot] = value;
+          if (anyText() && isText(slot)) texts[slot] = value;
           else ids[slot] = interners[slot].internString(value);
         },
         record: (fieldCount, line) => {
@@ -124,7 +125,7 @@ export async function readRecords(
             if (options.skipBadRows) {
               badRows++;
               ids.fill(0);
-              if (anyText) texts.fill(undefined);
+              if (anyText()) texts.fill(undefined);
               return;
             }
             throw dataError(
@@ -133,7 +134,7 @@ export async function readRecords(
           }
           onRow(ids, line, texts, interners);
           ids.fill(0);
-          if (anyText) texts.fill(undefined);
+          if (anyText()) texts.fill(undefined);
         },
       },
       source.label,
