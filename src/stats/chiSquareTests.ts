@@ -1,4 +1,5 @@
 import { upperTailChiSquare } from './chiSquareDistribution.js';
+import { devianceTermFromDifference } from './gamma.js';
 import { CountMatrix, compensatedSum, degreesOfFreedom, deviationsFromIndependence, isTwoByTwo } from './contingency.js';
 
 export interface TestResult {
@@ -36,33 +37,11 @@ export function likelihoodRatioChiSquare(counts: CountMatrix): TestResult {
     row.forEach((nij, j) => {
       const d = deviation[i][j];
       const e = expected[i][j];
-      terms.push(nij === 0 ? e : devianceFromDifference(nij, e, d));
+      terms.push(nij === 0 ? e : devianceTermFromDifference(nij, e, d));
     }),
   );
   const statistic = Math.max(0, 2 * compensatedSum(terms));
   return { statistic, df, pValue: upperTailChiSquare(statistic, df) };
-}
-
-/**
- * bd0(a, m) = a log(a/m) − (a − m) given d = a − m accurately: for |d| small
- * against a + m the series 2a Σ v^(2j+1)/(2j+1) − d in v = d/(a+m)
- * (Loader 2000), otherwise the direct form.
- */
-function devianceFromDifference(a: number, m: number, d: number): number {
-  if (Math.abs(d) < 0.1 * (a + m)) {
-    const v = d / (a + m);
-    let sum = d * v; // 2a·v − d = d·v exactly, since 2a = (a + m) + d
-    let term = 2 * a * v;
-    const v2 = v * v;
-    for (let j = 1; j < 1000; j++) {
-      term *= v2;
-      const next = sum + term / (2 * j + 1);
-      if (next === sum) return next;
-      sum = next;
-    }
-    return sum;
-  }
-  return a * Math.log(a / m) - d;
 }
 
 /**

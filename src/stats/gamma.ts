@@ -75,9 +75,19 @@ export function stirlingError(a: number): number {
  * cancellation when a ≈ m (Loader 2000, series in v = (a−m)/(a+m)).
  */
 export function devianceTerm(a: number, m: number): number {
-  if (Math.abs(a - m) < 0.1 * (a + m)) {
-    let v = (a - m) / (a + m);
-    let sum = (a - m) * v;
+  return devianceTermFromDifference(a, m, a - m);
+}
+
+/**
+ * bd0(a, m) given d = a − m separately, for callers that know the
+ * difference more accurately than a − m would give it. For |d| small
+ * against a + m: d·v + 2a Σ_{j≥1} v^(2j+1)/(2j+1) with v = d/(a+m)
+ * (Loader 2000); otherwise the direct form a log(a/m) − d.
+ */
+export function devianceTermFromDifference(a: number, m: number, d: number): number {
+  if (Math.abs(d) < 0.1 * (a + m)) {
+    const v = d / (a + m);
+    let sum = d * v;
     let term = 2 * a * v;
     const v2 = v * v;
     for (let j = 1; j < 1000; j++) {
@@ -88,7 +98,7 @@ export function devianceTerm(a: number, m: number): number {
     }
     return sum;
   }
-  return a * Math.log(a / m) + m - a;
+  return a * Math.log(a / m) - d;
 }
 
 /**
