@@ -215,9 +215,9 @@ export function renderPairText(report: PairReport, paint: ChalkInstance, width =
     out.push(ordinalRow('gamma', o.gamma));
     out.push(ordinalRow("Kendall's tau-b", o.kendallTauB));
     out.push(ordinalRow("Stuart's tau-c", o.kendallTauC));
-    out.push(ordinalRow(`Somers' d, ${clip(report.cols.name, 10)} dep.`, o.somersDColsGivenRows));
-    out.push(ordinalRow(`Somers' d, ${clip(report.rows.name, 10)} dep.`, o.somersDRowsGivenCols));
-    out.push(paint.dim('  Ordinal measures only make sense when the categories have a real order.'));
+    out.push(ordinalRow(`Somers' d (${clip(report.cols.name, 13)})`, o.somersDColsGivenRows));
+    out.push(ordinalRow(`Somers' d (${clip(report.rows.name, 13)})`, o.somersDRowsGivenCols));
+    out.push(...wrap("Somers' d (name) treats that variable as the one predicted. Ordinal measures only make sense when the categories have a real order.", width, '  ').map((l) => paint.dim(l)));
   }
 
   if (report.stratified) {
