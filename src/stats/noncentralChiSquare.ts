@@ -52,15 +52,22 @@ export function lowerTailNoncentralChiSquare(x: number, df: number, lambda: numb
   const { first, last } = weightRange(half);
   let a = df / 2 + last;
   let p = regularizedGammaLower(a, y);
+  let density = poissonDensityRaw(a, y); // y^a e^{−y} / Γ(a + 1)
   let weight = poissonWeight(last, half);
   let sum = 0;
   for (let j = last; j >= first; j--) {
     sum += weight * p;
-    // P(a − 1, y) = P(a, y) + y^{a−1} e^{−y} / Γ(a)
+    // P(a − 1, y) = P(a, y) + y^{a−1} e^{−y} / Γ(a), and that density is the last one times a / y
+    if (a - 1 <= 0) break;
+    density *= a / y;
     a -= 1;
-    if (a <= 0) break;
-    p += poissonDensityRaw(a, y);
+    p += density;
     weight *= j / half;
+    if ((last - j) % 64 === 63) {
+      // refresh from the direct forms now and then: no drift, and no density stuck at an underflowed 0
+      p = regularizedGammaLower(a, y);
+      density = poissonDensityRaw(a, y);
+    }
   }
   return Math.min(1, sum);
 }
