@@ -74,8 +74,7 @@ export function clip(s: string, width: number): string {
   return out + '…';
 }
 
-/** A label shown in a sentence: quoted when it has spaces or looks numeric. */
+/** A level shown in a sentence: always quoted, so that "no" reads as a level, not a word. */
 export function quoteLevel(level: string): string {
-  const shown = level.length > 60 ? clip(level, 60) : level;
-  return /^[\p{L}][\p{L}\p{N}_-]*$/u.test(shown) ? shown : `"${shown}"`;
+  return `"${level.length > 60 ? clip(level, 60) : level}"`;
 }

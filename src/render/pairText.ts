@@ -97,17 +97,30 @@ export function summarySentence(record: AnalysisRecord): string {
   const parts = [`There is ${evidence} of an association between ${rows.name} and ${cols.name} (p ${formatP(p)})`];
   if (findings.strength !== null) parts[0] += `; its strength is ${findings.strength} (bias-corrected V ${formatMeasure(measures.biasCorrectedV)})`;
   parts[0] += '.';
-  if (findings.diagonal === 'main' || findings.diagonal === 'off') {
+  // Which diagonal dominates: said plainly for an association the data show,
+  // with a caveat for one they do not, and not at all for a negligible one.
+  if ((findings.diagonal === 'main' || findings.diagonal === 'off') && Math.abs(measures.yulesQ ?? 0) >= 0.1) {
     const [r1, r2] = rows.levels;
     const [c1, c2] = cols.levels;
     const pairs = findings.diagonal === 'main' ? [`${quoteLevel(r1)} with ${quoteLevel(c1)}`, `${quoteLevel(r2)} with ${quoteLevel(c2)}`] : [`${quoteLevel(r1)} with ${quoteLevel(c2)}`, `${quoteLevel(r2)} with ${quoteLevel(c1)}`];
-    parts.push(`The ${findings.diagonal === 'main' ? 'main' : 'off'} diagonal dominates: ${pairs[0]} and ${pairs[1]} occur together more than independence predicts (Yule's Q ${formatSigned(measures.yulesQ, 3)}).`);
+    const which = findings.diagonal === 'main' ? 'main' : 'off';
+    if (p < 0.05) {
+      parts.push(`The ${which} diagonal dominates: ${pairs[0]} and ${pairs[1]} occur together more than independence predicts (Yule's Q ${formatSigned(measures.yulesQ, 3)}).`);
+    } else {
+      parts.push(`In this sample the ${which} diagonal holds more than its share (${pairs[0]}, ${pairs[1]}; Yule's Q ${formatSigned(measures.yulesQ, 3)}), but the data do not show that this is more than chance.`);
+    }
   }
   return parts.join(' ');
 }
 
+const PAGE = 80;
+
+/** A label, a value and a detail; a detail too long for the page goes on to lines of its own. */
 function row(label: string, value: string, detail = ''): string {
-  return '  ' + padRight(label, 26) + padLeft(value, 10) + (detail ? '   ' + detail : '');
+  const head = '  ' + padRight(label, 26) + padLeft(value, 10);
+  if (!detail) return head;
+  if (head.length + 3 + detail.length <= PAGE) return head + '   ' + detail;
+  return [head, ...wrap(detail, PAGE, ' '.repeat(head.length + 3))].join('\n');
 }
 
 /** What was read and what was left out, with the reason for each row left out. */
@@ -200,7 +213,7 @@ export function renderPairText(report: PairReport, paint: ChalkInstance, width =
   }
   if (measures.relativeRisk) {
     const rr = measures.relativeRisk;
-    out.push(row(`risk ratio of ${clip(rr.outcome, 12)}`, formatStatistic(rr.estimate, 3), `${clip(rr.exposed, 12)} vs ${clip(rr.reference, 12)}, interval ${formatStatistic(rr.lower, 3)} to ${formatStatistic(rr.upper, 3)}`));
+    out.push(row(`risk ratio of ${clip(rr.outcome, 12)}`, formatStatistic(rr.estimate, 3), `${Math.round(rr.confidence * 100)}% interval ${formatStatistic(rr.lower, 3)} to ${formatStatistic(rr.upper, 3)} ("${clip(rr.exposed, 12)}" over "${clip(rr.reference, 12)}")`));
   }
   const predicting = (target: string, from: string, lambda: number | null, tau: number | null, u: number | null) =>
     wrap(`predicting ${target} from ${from}: lambda ${formatMeasure(lambda)}, tau ${formatMeasure(tau)}, uncertainty ${formatMeasure(u)}`, width, '  ').map((l, k) => paint.dim(k === 0 ? l : '  ' + l));
