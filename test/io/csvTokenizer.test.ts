@@ -25,6 +25,28 @@ function stringSink(out: string[][]) {
   };
 }
 
+/** Handlers that want only some field indexes; records keep their field count and the wanted values. */
+function partialSink(out: (string | undefined)[][], wanted: (index: number) => boolean) {
+  let values: (string | undefined)[] = [];
+  let width = 0;
+  return {
+    header: (fields: string[]) => {
+      width = fields.length;
+      return Int32Array.from({ length: fields.length }, (_v, i) => (wanted(i) ? i : -1));
+    },
+    fieldBytes: (slot: number, _buf: Uint8Array, view: Buffer, start: number, end: number) => {
+      values[slot] = view.toString('utf8', start, end);
+    },
+    fieldText: (slot: number, value: string) => {
+      values[slot] = value;
+    },
+    record: (fieldCount: number) => {
+      out.push([String(fieldCount), ...Array.from({ length: width }, (_v, i) => (wanted(i) ? values[i] : undefined))]);
+      values = [];
+    },
+  };
+}
+
 /** Runs the tokenizer over a document cut into the given chunk sizes; returns every record. */
 function tokenize(document: string, delimiter: string, cuts: number[] = []): string[][] {
   const out: string[][] = [];
@@ -74,6 +96,34 @@ describe('CSV tokenizer', () => {
         const ours = tokenize(document, shape.delimiter, cuts);
         const theirs = parse(document, { delimiter: shape.delimiter, relax_column_count: true, skip_empty_lines: false, bom: true }) as string[][];
         expect(ours).toEqual(theirs);
+      }),
+      { numRuns: 500 },
+    );
+  });
+
+  it('with only some columns wanted (the fast path past the last one), field counts and wanted values still equal csv-parse', () => {
+    fc.assert(
+      fc.property(documentArbitrary, fc.integer({ min: 0, max: 4 }), fc.array(fc.integer({ min: 1, max: 6 }), { maxLength: 3 }), ({ shape, cells, cuts }, lastWanted, extra) => {
+        const eol = shape.crlf ? '\r\n' : '\n';
+        // ragged rows too: some records get extra trailing fields
+        const rows = cells.map((row, k) => (k > 0 && extra[k % (extra.length || 1)] === 1 ? [...row, 'x', 'y'] : row));
+        const document = rows.map((row) => row.map((v) => encodeField(v, shape.delimiter, shape.quoteAll)).join(shape.delimiter)).join(eol) + (shape.finalNewline ? eol : '');
+        const wanted = (i: number) => i <= lastWanted && i % 2 === 0;
+        const out: (string | undefined)[][] = [];
+        const tokenizer = new CsvTokenizer(shape.delimiter.charCodeAt(0), partialSink(out, wanted), 'test.csv');
+        const bytes = Buffer.from(document, 'utf8');
+        let at = 0;
+        for (const cut of cuts) {
+          const end = Math.min(bytes.length, at + cut);
+          tokenizer.push(bytes.subarray(at, end));
+          at = end;
+        }
+        tokenizer.push(bytes.subarray(at));
+        tokenizer.finish();
+        const theirs = parse(document, { delimiter: shape.delimiter, relax_column_count: true, skip_empty_lines: false, bom: true }) as string[][];
+        const width = theirs[0].length;
+        const expected = theirs.slice(1).map((r) => [String(r.length), ...Array.from({ length: width }, (_v, i) => (wanted(i) ? r[i] : undefined))]);
+        expect(out).toEqual(expected);
       }),
       { numRuns: 500 },
     );
