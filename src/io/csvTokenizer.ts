@@ -35,6 +35,8 @@ export class CsvTokenizer {
   private end = 0;
   private line = 1;
   private slots: Int32Array | null = null;
+  /** The last field index anyone asked for; past it only the fields are counted. */
+  private lastWanted = -1;
   private retryAt = 0;
   /** Blank (empty or whitespace-only) lines skipped. */
   blankLines = 0;
@@ -91,6 +93,11 @@ export class CsvTokenizer {
     const end = this.end;
     const delimiter = this.delimiter;
     const special = this.special;
+    const view = this.view;
+    // Positions of the next quote and carriage return in the window (−1: none
+    // ahead), found natively and reused, for the fast path below.
+    let quoteAt = -2;
+    let crAt = -2;
     let p = this.start;
     while (p < end) {
       const recordStart = p;
@@ -188,6 +195,24 @@ export class CsvTokenizer {
         if (b === delimiter) {
           p++;
           onlyWhitespace = false;
+          // Fast path: past the last wanted field, with no quote and no carriage
+          // return before the line feed, only the delimiters are left to count.
+          if (slots !== null && field > this.lastWanted) {
+            const lf = view.indexOf(LF, p);
+            if (lf >= 0 && lf < end) {
+              if (quoteAt !== -1 && quoteAt < p) quoteAt = view.indexOf(QUOTE, p);
+              if (crAt !== -1 && crAt < p) crAt = view.indexOf(CR, p);
+              if ((quoteAt === -1 || quoteAt >= lf) && (crAt === -1 || crAt >= lf)) {
+                let more = 1;
+                for (let k = p; k < lf; k++) if (buf[k] === delimiter) more++;
+                field += more;
+                p = lf + 1;
+                line++;
+                complete = true;
+                break;
+              }
+            }
+          }
           continue;
         }
         if (b === LF) {
@@ -217,6 +242,10 @@ export class CsvTokenizer {
       }
       if (this.slots === null) {
         this.slots = this.handlers.header(headerFields, recordLine);
+        this.lastWanted = -1;
+        this.slots.forEach((slot, index) => {
+          if (slot >= 0) this.lastWanted = index;
+        });
       } else {
         this.records++;
         this.handlers.record(field, recordLine);
