@@ -103,7 +103,7 @@ export class TableCounter {
   private checkCap(name: string, side: SideLevels): void {
     if (!side.overCap) return;
     throw dataError(
-      `column "${name}" has ${side.distinctDescription()} distinct values, more than --max-levels ${this.maxLevels}; raise --max-levels or merge levels`,
+      `column "${name}" has ${side.distinctDescription()} distinct values, more than --max-levels ${this.maxLevels}; raise --max-levels, merge levels with --recode, or keep the most frequent with --other k`,
     );
   }
 
