@@ -177,7 +177,7 @@ function layerLines(report: PairReport, paint: ChalkInstance, width: number): st
 
 export function renderPairText(report: PairReport, paint: ChalkInstance, width = 80): string {
   const out: string[] = [];
-  const { tests, measures, findings, input } = report;
+  const { tests, measures, findings } = report;
   const heading = (title: string, note = '') => {
     out.push('');
     out.push(paint.bold.underline(title) + (note ? paint.dim('  ' + note) : ''));

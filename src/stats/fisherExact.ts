@@ -76,10 +76,7 @@ export interface ExactBound {
  */
 export function fisherFreemanHalton(counts: CountMatrix, bound: ExactBound = { maxWork: 2_000_000 }): FisherResult | null {
   for (const row of counts) for (const v of row) if (!Number.isInteger(v) || v < 0) return null;
-  if (isTwoByTwo(counts)) {
-    const result = fisherExact2x2(counts);
-    return result;
-  }
+  if (isTwoByTwo(counts)) return fisherExact2x2(counts);
   // Put the shorter dimension down the rows: fewer cells per column step.
   let table = counts.map((row) => [...row]);
   if (table.length > table[0].length) table = transpose(table);
