@@ -9,33 +9,23 @@ import { toJson } from '../render/json.js';
 import { renderCompareText } from '../render/compareText.js';
 import { residualHeatMap, stackSvg } from '../render/svg.js';
 import {
+  tablePlan,
   addAnalysisOptions,
   addReaderOptions,
   addReportOptions,
   addSurveyOptions,
-  analysisPlan,
-  probability,
-  RawAnalysisOptions,
-  RawReaderOptions,
   RawReportOptions,
-  RawSurveyOptions,
-  readerPlan,
+  RawTableOptions,
   splitList,
-  surveyPlan,
 } from './options.js';
 import { setOutcome } from './outcome.js';
 import { emit, painter, writeFileAtomically } from './output.js';
 
-interface RawCompareOptions extends RawReaderOptions, RawAnalysisOptions, RawSurveyOptions, RawReportOptions {
-  rows: string;
-  cols: string;
+interface RawCompareOptions extends RawTableOptions, RawReportOptions {
   period?: string;
   levels?: string;
-  rowOrder?: string;
-  colOrder?: string;
   format: 'text' | 'json' | 'html';
   color?: boolean;
-  alpha: string;
 }
 
 function period(label: string, counted: Pick<CountedTables, 'table' | 'weighting' | 'excluded'>, input: PeriodInput['input']): PeriodInput {
@@ -71,12 +61,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,
 3 the association did not change at --alpha (only with --exit-status).`,
   );
   command.action(async (beforeFile: string, afterFile: string | undefined, raw: RawCompareOptions) => {
-    const reader = readerPlan(raw);
-    const analysis = analysisPlan(raw);
-    const survey = surveyPlan(raw);
-    const alpha = probability(raw.alpha, '--alpha');
-    const rowOrder = splitList(raw.rowOrder);
-    const colOrder = splitList(raw.colOrder);
+    const { reader, analysis, survey, alpha, rowOrder, colOrder } = tablePlan(raw);
     const base = { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, ...survey, allowDegenerate: true };
     let before: PeriodInput;
     let after: PeriodInput;

@@ -152,3 +152,23 @@ export interface RawReportOptions {
   plot?: string;
   exitStatus?: boolean;
 }
+
+/** The options of a command that analyses one pair of columns (pair, compare), parsed once. */
+export interface RawTableOptions extends RawReaderOptions, RawAnalysisOptions, RawSurveyOptions {
+  rows: string;
+  cols: string;
+  rowOrder?: string;
+  colOrder?: string;
+  alpha: string;
+}
+
+export function tablePlan(raw: RawTableOptions) {
+  return {
+    reader: readerPlan(raw),
+    analysis: analysisPlan(raw),
+    survey: surveyPlan(raw),
+    alpha: probability(raw.alpha, '--alpha'),
+    rowOrder: splitList(raw.rowOrder),
+    colOrder: splitList(raw.colOrder),
+  };
+}

@@ -4,21 +4,16 @@ import { countTables } from '../io/countTables.js';
 import { inputSource, checkReadable } from '../io/source.js';
 import { toJson } from '../render/json.js';
 import { renderPairText } from '../render/pairText.js';
-import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, readerPlan, splitList, surveyPlan } from './options.js';
+import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, RawReportOptions, RawTableOptions, tablePlan } from './options.js';
 import { emit, painter, writeFileAtomically } from './output.js';
 import { setOutcome } from './outcome.js';
 import { renderPairDelimited, renderPairMarkdown } from '../render/pairDelimited.js';
 import { renderPairHtml } from '../render/html.js';
 import { mosaicPlot, residualHeatMap, stackSvg } from '../render/svg.js';
 
-interface RawPairOptions extends RawReaderOptions, RawAnalysisOptions, RawSurveyOptions, RawReportOptions {
-  rows: string;
-  cols: string;
-  rowOrder?: string;
-  colOrder?: string;
+interface RawPairOptions extends RawTableOptions, RawReportOptions {
   format: 'text' | 'json' | 'csv' | 'tsv' | 'markdown' | 'html';
   color?: boolean;
-  alpha: string;
 }
 
 export function pairCommand(): Command {
@@ -49,12 +44,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no a
   );
   command.action(async (file: string | undefined, raw: RawPairOptions) => {
     const source = inputSource(file);
-    const reader = readerPlan(raw);
-    const analysis = analysisPlan(raw);
-    const survey = surveyPlan(raw);
-    const alpha = probability(raw.alpha, '--alpha');
-    const rowOrder = splitList(raw.rowOrder);
-    const colOrder = splitList(raw.colOrder);
+    const { reader, analysis, survey, alpha, rowOrder, colOrder } = tablePlan(raw);
     checkReadable(source);
     const counted = await countTables(source, reader, { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, rowOrder, colOrder, ...survey });
     const report = pairReport(
