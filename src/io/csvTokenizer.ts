@@ -24,6 +24,7 @@ export interface TokenizerHandlers {
   record(fieldCount: number, line: number): void;
 }
 
+const NO_FIELDS: string[] = [];
 const QUOTE = 0x22;
 const LF = 0x0a;
 const CR = 0x0d;
@@ -116,7 +117,8 @@ export class CsvTokenizer {
       }
       const slots = this.slots;
       const handlers = this.handlers;
-      const headerFields: string[] = [];
+      // Only the header record collects its fields as strings; no allocation per data record.
+      const headerFields: string[] = slots === null ? [] : NO_FIELDS;
       let field = 0;
       let complete = false;
       let onlyWhitespace = true;

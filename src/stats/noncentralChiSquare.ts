@@ -63,11 +63,9 @@ export function lowerTailNoncentralChiSquare(x: number, df: number, lambda: numb
     a -= 1;
     p += density;
     weight *= j / half;
-    if ((last - j) % 64 === 63) {
-      // refresh from the direct forms now and then: no drift, and no density stuck at an underflowed 0
-      p = regularizedGammaLower(a, y);
-      density = poissonDensityRaw(a, y);
-    }
+    // Refresh the density from its direct form now and then, so that one that
+    // underflowed to 0 far out in the tail cannot stay 0 (P only adds terms, so it does not drift).
+    if ((last - j) % 64 === 63) density = poissonDensityRaw(a, y);
   }
   return Math.min(1, sum);
 }
@@ -81,15 +79,39 @@ export function lowerTailNoncentralChiSquare(x: number, df: number, lambda: numb
 export function noncentralityInterval(x: number, df: number, confidence: number): { lower: number; upper: number } {
   const alphaHalf = (1 - confidence) / 2;
   const solve = (f: (lambda: number) => number): number => {
-    // f increases with λ; find f(λ) = 0.
-    if (f(0) >= 0) return 0;
-    let hi = Math.max(1, x);
-    while (f(hi) < 0) hi *= 2;
+    // f increases with λ; find f(λ) = 0 by the Illinois variant of regula falsi
+    // (Dowell & Jarratt 1971), which keeps a bracket and converges superlinearly.
     let lo = 0;
-    for (let i = 0; i < 200 && hi - lo > 1e-10 * Math.max(1, hi); i++) {
-      const mid = (lo + hi) / 2;
-      if (f(mid) < 0) lo = mid;
-      else hi = mid;
+    let flo = f(lo);
+    if (flo >= 0) return 0;
+    let hi = Math.max(1, x);
+    let fhi = f(hi);
+    while (fhi < 0) {
+      lo = hi;
+      flo = fhi;
+      hi *= 2;
+      fhi = f(hi);
+    }
+    let side = 0;
+    let previous = Number.NaN;
+    for (let i = 0; i < 200; i++) {
+      let mid = (lo * fhi - hi * flo) / (fhi - flo);
+      if (!(mid > lo && mid < hi)) mid = (lo + hi) / 2;
+      const fmid = f(mid);
+      if (fmid === 0) return mid;
+      if (fmid < 0) {
+        lo = mid;
+        flo = fmid;
+        if (side === -1) fhi /= 2;
+        side = -1;
+      } else {
+        hi = mid;
+        fhi = fmid;
+        if (side === 1) flo /= 2;
+        side = 1;
+      }
+      if (Math.abs(mid - previous) <= 1e-11 * Math.max(1, mid) || hi - lo <= 1e-10 * Math.max(1, hi)) return mid;
+      previous = mid;
     }
     return (lo + hi) / 2;
   };
