@@ -91,6 +91,25 @@ export function firstInvalidUtf8(bytes: Uint8Array): number {
   return -1;
 }
 
+/**
+ * The line of a byte offset. Files are read again from the start (only on
+ * the way to an error), so the happy path never counts line feeds; standard
+ * input cannot be read twice, so its line feeds are counted as it streams.
+ */
+async function lineOfOffset(source: InputSource, offset: number, streamedNewlines: number, chunk: Uint8Array, inChunk: number): Promise<number> {
+  if (source.path === '-') return streamedNewlines + lineAt([chunk], inChunk);
+  let line = 1;
+  let seen = 0;
+  for await (const raw of createReadStream(source.path, { highWaterMark: 1 << 20 })) {
+    const part = raw as Buffer;
+    const limit = Math.min(part.length, offset - seen);
+    for (let i = part.indexOf(0x0a); i >= 0 && i < limit; i = part.indexOf(0x0a, i + 1)) line++;
+    seen += part.length;
+    if (seen >= offset) break;
+  }
+  return line;
+}
+
 function lineAt(bytesBefore: Uint8Array[], offsetInLast: number): number {
   let line = 1;
   bytesBefore.forEach((chunk, k) => {
@@ -152,15 +171,16 @@ export async function* utf8Chunks(source: InputSource, encoding?: string): Async
     bytes = bytes.subarray(0, cut);
     const nul = bytes.indexOf(0);
     if (nul >= 0) {
-      throw dataError(`${source.label}: NUL byte at byte offset ${offset + nul} (line ${newlinesBefore + lineAt([bytes], nul)}); this looks like a binary file or UTF-16 without a byte-order mark`);
+      const line = await lineOfOffset(source, offset + nul, newlinesBefore, bytes, nul);
+      throw dataError(`${source.label}: NUL byte at byte offset ${offset + nul} (line ${line}); this looks like a binary file or UTF-16 without a byte-order mark`);
     }
     if (!isUtf8(bytes)) {
       const bad = firstInvalidUtf8(bytes);
       throw dataError(
-        `${source.label}: invalid UTF-8 at byte offset ${offset + bad} (line ${newlinesBefore + lineAt([bytes], bad)}); pass --encoding (for example latin1 or windows-1252)`,
+        `${source.label}: invalid UTF-8 at byte offset ${offset + bad} (line ${await lineOfOffset(source, offset + bad, newlinesBefore, bytes, bad)}); pass --encoding (for example latin1 or windows-1252)`,
       );
     }
-    for (let i = bytes.indexOf(0x0a); i >= 0; i = bytes.indexOf(0x0a, i + 1)) newlinesBefore++;
+    if (source.path === '-') for (let i = bytes.indexOf(0x0a); i >= 0; i = bytes.indexOf(0x0a, i + 1)) newlinesBefore++;
     offset += bytes.length;
     yield bytes;
   }

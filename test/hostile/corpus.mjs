@@ -38,6 +38,12 @@ export function makeCorpus(dir) {
   add({ name: 'empty header name', args: pair(file('noname.csv', 'a,,b\n1,2,3\n')), status: 1, stderr: /column 2 has an empty name/ });
   add({ name: 'NUL bytes', args: pair(file('nul.csv', 'a,b\nx\0,1\n')), status: 1, stderr: /NUL byte at byte offset 5 \(line 2\)/ });
   add({ name: 'invalid UTF-8', args: pair(file('bad-utf8.csv', Buffer.concat([Buffer.from('a,b\nx,1\n'), Buffer.from([0xc3, 0x28]), Buffer.from(',2\n')]))), status: 1, stderr: /invalid UTF-8 at byte offset 8 \(line 3\); pass --encoding/ });
+  // past the first 1 MB read chunk: the line is still exact
+  const longLines = ['a,b'];
+  for (let i = 0; i < 200_000; i++) longLines.push(`row${i % 7},${i % 3}`);
+  const deep = Buffer.concat([Buffer.from(longLines.join('\n') + '\n'), Buffer.from([0x78, 0xff]), Buffer.from(',1\n')]);
+  add({ name: 'invalid UTF-8 past the first read chunk', args: pair(file('deep-bad.csv', deep)), status: 1, stderr: new RegExp(`invalid UTF-8 at byte offset ${deep.length - 4} \\(line 200002\\)`) });
+  add({ name: 'invalid UTF-8 past the first read chunk, on standard input', args: ['pair', '-', '--rows', 'a', '--cols', 'b'], stdin: deep, status: 1, stderr: /line 200002\)/ });
   const random = mulberry32(99);
   const garbage = Buffer.alloc(4096);
   for (let i = 0; i < garbage.length; i++) garbage[i] = Math.floor(random() * 256);
