@@ -28,7 +28,7 @@ import {
   yulesY,
 } from '../stats/strength.js';
 import { TwoWayTable } from '../table/twoWayTable.js';
-import { effectiveSampleSize, unweighted, Weighting } from '../table/weighting.js';
+import { effectiveSampleSize, rescaleToEffectiveSize, unweighted, Weighting } from '../table/weighting.js';
 
 export type ExactPolicy = 'auto' | 'always' | 'never';
 
@@ -97,6 +97,9 @@ export interface AnalysisRecord {
   /** Data rows in the table. */
   unweightedN: number;
   counts: number[][];
+  /** Row and column totals of `counts`. */
+  rowTotals: number[];
+  colTotals: number[];
   expected: number[][];
   tests: {
     pearson: TestResult;
@@ -166,11 +169,11 @@ export function analyzeTable(
   const weightedCounts = table.counts;
   const r = weightedCounts.length;
   const c = weightedCounts[0].length;
-  const { total: n } = margins(weightedCounts);
+  const { rowTotals, colTotals, total: n } = margins(weightedCounts);
   // Sampling weights: the tests, intervals and residuals use the weighted
   // table rescaled to Kish's effective sample size (Kish 1965), not Σw.
   const effectiveN = weighting.kind === 'weight' ? effectiveSampleSize(weighting) : n;
-  const counts = weighting.kind === 'weight' ? weightedCounts.map((row) => row.map((v) => (v * effectiveN) / n)) : weightedCounts;
+  const counts = rescaleToEffectiveSize(weightedCounts, weighting);
   const expected = expectedCounts(counts);
   const pearson = pearsonChiSquare(counts);
   const likelihoodRatio = likelihoodRatioChiSquare(counts);
@@ -279,6 +282,8 @@ export function analyzeTable(
     effectiveN,
     unweightedN: weighting.unweightedN,
     counts: weightedCounts,
+    rowTotals,
+    colTotals,
     expected: expectedCounts(weightedCounts),
     tests: { pearson, likelihoodRatio, yates, fisher, monteCarlo, linearByLinear: lbl },
     measures: {

@@ -3,7 +3,7 @@ import { breslowDay, mantelHaenszelOddsRatio } from '../stats/stratified.js';
 import { noThreeWayInteraction } from '../stats/threeWay.js';
 import { compareNatural } from '../table/naturalOrder.js';
 import { dropEmptyLevels, relabelTable, TwoWayTable } from '../table/twoWayTable.js';
-import { Weighting } from '../table/weighting.js';
+import { rescaleToEffectiveSize, Weighting } from '../table/weighting.js';
 import { AnalysisOptions, AnalysisRecord, analyzeTable, Warning } from './analyzeTable.js';
 import { InputSummary, TOOL_VERSION } from './report.js';
 
@@ -77,12 +77,7 @@ export function comparePeriods(before: PeriodInput, after: PeriodInput, options:
   const present = [dropEmptyLevels(before.table), dropEmptyLevels(after.table)];
   const rowLevels = union(present[0].rowLevels, present[1].rowLevels, order.rows);
   const colLevels = union(present[0].colLevels, present[1].colLevels, order.cols);
-  const aligned = [before, after].map((p) => {
-    const t = relabelTable(p.table, rowLevels, colLevels);
-    if (p.weighting.kind !== 'weight' || p.weighting.sumWeights === 0) return t.counts;
-    const scale = (p.weighting.sumWeights / p.weighting.sumSquaredWeights);
-    return t.counts.map((row) => row.map((v) => v * scale)); // rescaled to the effective sample size
-  });
+  const aligned = [before, after].map((p) => rescaleToEffectiveSize(relabelTable(p.table, rowLevels, colLevels).counts, p.weighting));
   const warnings: Warning[] = [];
   const only = (a: readonly string[], b: readonly string[]) => a.filter((l) => !b.includes(l));
   const onlyBefore = { rows: only(present[0].rowLevels, present[1].rowLevels), cols: only(present[0].colLevels, present[1].colLevels) };

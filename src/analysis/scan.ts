@@ -30,13 +30,15 @@ export interface SkippedColumn {
   code: 'no-values' | 'single-level' | 'identifier' | 'numeric' | 'too-many-levels';
 }
 
-export interface ScanPair extends Omit<AnalysisRecord, 'counts' | 'expected' | 'residuals' | 'contributions' | 'percentages'> {
+export interface ScanPair extends Omit<AnalysisRecord, 'counts' | 'rowTotals' | 'colTotals' | 'expected' | 'residuals' | 'contributions' | 'percentages'> {
   rank: number;
   pAdjusted: number;
   passes: boolean;
   stratified?: StratifiedSummary;
   strata?: StratumRecord[];
   counts?: number[][];
+  rowTotals?: number[];
+  colTotals?: number[];
   expected?: number[][];
   residuals?: AnalysisRecord['residuals'];
   contributions?: number[][];
@@ -177,10 +179,10 @@ export function scanColumns(columns: EncodedColumn[], rows: number, input: Input
   }
   const adjusted = adjustPValues(records.map((r) => r.tests.pearson.pValue), options.adjustment);
   let pairs: ScanPair[] = records.map((record, k) => {
-    const { counts, expected, residuals, contributions, percentages, layered, ...rest } = record;
+    const { counts, rowTotals, colTotals, expected, residuals, contributions, percentages, layered, ...rest } = record;
     const pair: ScanPair = { ...rest, rank: 0, pAdjusted: adjusted[k], passes: adjusted[k] <= options.alpha };
     if (layered) pair.stratified = layered.stratified;
-    if (options.full) Object.assign(pair, { counts, expected, residuals, contributions, percentages }, layered ? { strata: layered.strata } : {});
+    if (options.full) Object.assign(pair, { counts, rowTotals, colTotals, expected, residuals, contributions, percentages }, layered ? { strata: layered.strata } : {});
     return pair;
   });
   pairs.sort((x, y) => (y.measures.biasCorrectedV ?? -1) - (x.measures.biasCorrectedV ?? -1) || x.tests.pearson.pValue - y.tests.pearson.pValue);

@@ -1,7 +1,7 @@
 import { TestResult } from '../stats/chiSquareTests.js';
 import { breslowDay, CommonOddsRatio, cochranMantelHaenszel, mantelHaenszelOddsRatio } from '../stats/stratified.js';
 import { dropEmptyLevels, TwoWayTable } from '../table/twoWayTable.js';
-import { effectiveSampleSize, Weighting } from '../table/weighting.js';
+import { rescaleToEffectiveSize, Weighting } from '../table/weighting.js';
 import { AnalysisOptions, AnalysisRecord, analyzeTable, Warning } from './analyzeTable.js';
 
 export interface StratumInput {
@@ -43,11 +43,7 @@ export function analyzeStrata(
     }
     return { level: s.level, testable: true, ...analyzeTable(own, 0, options, s.weighting) };
   });
-  const scaled = strata.map((s) =>
-    s.weighting.kind === 'weight' && s.weighting.sumWeights > 0
-      ? s.table.counts.map((row) => row.map((v) => (v * effectiveSampleSize(s.weighting)) / s.weighting.sumWeights))
-      : s.table.counts,
-  );
+  const scaled = strata.map((s) => rescaleToEffectiveSize(s.table.counts, s.weighting));
   const cmh = cochranMantelHaenszel(scaled);
   const twoByTwo = pooled.rows.levels.length === 2 && pooled.cols.levels.length === 2;
   const commonOddsRatio = twoByTwo ? mantelHaenszelOddsRatio(scaled, options.confidence) : null;

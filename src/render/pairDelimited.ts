@@ -74,7 +74,7 @@ export function renderPairMarkdown(report: PairReport): string {
   out.push(`| ${cell(report.rows.name)} \\ ${cell(report.cols.name)} | ${report.cols.levels.map(cell).join(' | ')} | all |`);
   out.push(`|---|${report.cols.levels.map(() => '--:').join('|')}|--:|`);
   report.rows.levels.forEach((l, i) => {
-    const total = report.counts[i].reduce((s, v) => s + v, 0);
+    const total = report.rowTotals[i];
     out.push(`| ${cell(l)} | ${report.counts[i].map((v, j) => `${formatCount(v)} (${report.expected[i][j].toFixed(1)})`).join(' | ')} | ${formatCount(total)} |`);
   });
   out.push('');

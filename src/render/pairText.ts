@@ -34,9 +34,7 @@ function gridWidth(labels: readonly string[], numbers: readonly string[], fixed:
 
 /** The count grid: per row level, the count, the expected count and the row share. */
 function countGrid(record: AnalysisRecord, paint: ChalkInstance, page: number): string[] {
-  const { rows, cols, counts, expected, percentages } = record;
-  const rowTotals = counts.map((row) => row.reduce((s, v) => s + v, 0));
-  const colTotals = cols.levels.map((_l, j) => counts.reduce((s, row) => s + row[j], 0));
+  const { rows, cols, counts, expected, percentages, rowTotals, colTotals } = record;
   const stub = LABEL_WIDTH + 9;
   const width = gridWidth(cols.levels, [formatCount(record.n), ...expected.flat().map((v) => v.toFixed(1))], stub + 2, cols.levels.length + 1, page);
   const lines = [
@@ -52,7 +50,7 @@ function countGrid(record: AnalysisRecord, paint: ChalkInstance, page: number): 
   const n = record.n;
   lines.push(paint.dim('─'.repeat(stub + width * cols.levels.length) + '─┼' + '─'.repeat(width - 1)));
   lines.push(padRight('all', LABEL_WIDTH) + padRight('count', 9) + colTotals.map((v) => padLeft(formatCount(v), width)).join('') + paint.dim(' │') + padLeft(formatCount(n), width));
-  lines.push(paint.dim(padRight('', LABEL_WIDTH) + padRight('col %', 9) + colTotals.map((v) => padLeft(((100 * v) / n).toFixed(1), width)).join('') + ' │'));
+  lines.push(paint.dim(padRight('', LABEL_WIDTH) + padRight('col %', 9) + colTotals.map((v) => padLeft((n > 0 ? (100 * v) / n : 0).toFixed(1), width)).join('') + ' │'));
   return lines;
 }
 

@@ -60,13 +60,13 @@ export function residualHeatMap(record: Pick<AnalysisRecord, 'rows' | 'cols' | '
  * table; inside it, one tile per column level, as tall as its share of the
  * row. Tiles are shaded by their adjusted residual.
  */
-export function mosaicPlot(record: Pick<AnalysisRecord, 'rows' | 'cols' | 'counts' | 'residuals' | 'n'>, title = 'Mosaic of the table'): string {
+export function mosaicPlot(record: Pick<AnalysisRecord, 'rows' | 'cols' | 'counts' | 'rowTotals' | 'residuals' | 'n'>, title = 'Mosaic of the table'): string {
   const width = 520;
   const plotHeight = 300;
   const left = 20;
   const top = 40;
   const gap = 3;
-  const rowTotals = record.counts.map((row) => row.reduce((s, v) => s + v, 0));
+  const rowTotals = record.rowTotals;
   const usable = width - left - 20 - gap * (record.rows.levels.length - 1);
   const parts: string[] = [];
   const height = top + plotHeight + 60;

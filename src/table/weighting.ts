@@ -22,3 +22,16 @@ export function effectiveSampleSize(w: Weighting): number {
   if (w.kind !== 'weight') return w.sumWeights;
   return w.sumSquaredWeights > 0 ? (w.sumWeights * w.sumWeights) / w.sumSquaredWeights : 0;
 }
+
+/**
+ * A sampling-weighted table rescaled to Kish's effective sample size, the
+ * table every test of a weighted analysis uses; other tables come back as they are.
+ */
+export function rescaleToEffectiveSize(counts: readonly (readonly number[])[], w: Weighting): number[][] {
+  const copy = counts.map((row) => [...row]);
+  if (w.kind !== 'weight') return copy;
+  const total = copy.reduce((s, row) => s + row.reduce((t, v) => t + v, 0), 0);
+  if (!(total > 0)) return copy;
+  const scale = effectiveSampleSize(w) / total;
+  return copy.map((row) => row.map((v) => v * scale));
+}
