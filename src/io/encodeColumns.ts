@@ -44,8 +44,8 @@ const RECODED_READING_CAP = 65534;
 /** Distinct values tracked per column for screening (beyond it a column is "more than" that). */
 const DISTINCT_TRACKING_LIMIT = 1_000_000;
 
-/** A typed array of codes that grows as rows arrive; unwritten rows stay 0 (missing). */
-class GrowableCodes<T extends Uint16Array | Uint32Array> {
+/** A typed array that grows as rows arrive; unwritten rows stay 0 (for codes: missing). */
+class GrowableCodes<T extends Uint16Array | Uint32Array | Float64Array> {
   constructor(public array: T) {}
   set(index: number, code: number): void {
     if (index >= this.array.length) this.reserve(index + 1);
@@ -60,23 +60,6 @@ class GrowableCodes<T extends Uint16Array | Uint32Array> {
   take(length: number): T {
     this.reserve(length);
     return this.array.subarray(0, length) as T;
-  }
-}
-
-/** A Float64Array that grows as rows arrive. */
-class GrowableNumbers {
-  array = new Float64Array(1 << 14);
-  set(index: number, value: number): void {
-    if (index >= this.array.length) {
-      const grown = new Float64Array(Math.max(this.array.length * 2, index + 1));
-      grown.set(this.array);
-      this.array = grown;
-    }
-    this.array[index] = value;
-  }
-  take(length: number): Float64Array {
-    if (length > this.array.length) this.set(length - 1, 0);
-    return this.array.subarray(0, length);
   }
 }
 
@@ -107,7 +90,7 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
   let gate: RowGate | null = null;
   let internerLabels: (readonly string[])[] = [];
   const textSlots = new Set<number>();
-  const weights = request.weight ? new GrowableNumbers() : null;
+  const weights = request.weight ? new GrowableCodes(new Float64Array(1 << 14)) : null;
   const summary = await readRecords(
     source,
     reader,
