@@ -7,7 +7,13 @@ export const TOOL_VERSION = '0.1.0';
 
 export interface InputSummary {
   file: string;
-  delimiter: string;
+  /** The field separator; null for Parquet. */
+  delimiter: string | null;
+  /** Which engine counted: the built-in reader or the embedded one. */
+  engine: 'builtin' | 'duckdb';
+  format: 'csv' | 'parquet';
+  /** Files read (more than one for a pattern). */
+  files: number;
   /** Data records read (after the header). */
   rowsRead: number;
   blankLines: number;

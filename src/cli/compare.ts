@@ -17,6 +17,7 @@ import {
   RawReportOptions,
   RawTableOptions,
   splitList,
+  inputSummary,
 } from './options.js';
 import { setOutcome } from './outcome.js';
 import { emit, painter, writeFileAtomically } from './output.js';
@@ -65,15 +66,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,
     const base = { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, ...survey, allowDegenerate: true };
     let before: PeriodInput;
     let after: PeriodInput;
-    const inputOf = (label: string, c: CountedTables) => ({
-      file: label,
-      delimiter: c.summary.delimiter,
-      rowsRead: c.summary.records,
-      blankLines: c.summary.blankLines,
-      badRowsSkipped: c.summary.badRows,
-      filtered: c.filtered,
-      badWeightsSkipped: c.badWeights,
-    });
+    const inputOf = (label: string, c: CountedTables) => inputSummary(label, c);
     if (raw.period !== undefined) {
       if (afterFile !== undefined) throw usageError('--period reads one file: give either two files or one file with --period');
       const source = inputSource(beforeFile);

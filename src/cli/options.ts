@@ -3,6 +3,7 @@ import { usageError } from '../errors.js';
 import { parseDelimiterOption, ReaderOptions } from '../io/readRecords.js';
 import { AnalysisOptions, DEFAULT_ANALYSIS_OPTIONS, ExactPolicy } from '../analysis/analyzeTable.js';
 import { parseRecode, parseWhere, Recode, WhereClause } from '../io/rowRules.js';
+import type { InputSummary } from '../analysis/report.js';
 
 /** Options every reading command shares, declared once. */
 export function addReaderOptions(command: Command): Command {
@@ -12,7 +13,31 @@ export function addReaderOptions(command: Command): Command {
     .option('--skip-bad-rows', 'count and skip rows with the wrong number of fields instead of stopping')
     .option('--encoding <name>', 'text encoding when not UTF-8 (latin1, windows-1252, utf-16le, …)')
     .option('--no-header', 'the first line is data; columns are named 1, 2, 3, …')
-    .option('--max-levels <n>', 'refuse a column with more distinct values than this', '50');
+    .option('--max-levels <n>', 'refuse a column with more distinct values than this', '50')
+    .addOption(
+      new Option('--engine <name>', 'who counts: builtin (this reader), duckdb (embedded engine: Parquet, .gz, patterns of many files), auto (duckdb where only it reads the input, or for files over 256 MB)')
+        .choices(['auto', 'builtin', 'duckdb'])
+        .default('auto'),
+    );
+}
+
+/** The input section of a report, from what the counting step read. */
+export function inputSummary(
+  label: string,
+  counted: { summary: { delimiter: string | null; records: number; blankLines: number; badRows: number; engine: 'builtin' | 'duckdb'; format: 'csv' | 'parquet'; files: number }; filtered: number; badWeights: number },
+): InputSummary {
+  return {
+    file: label,
+    engine: counted.summary.engine,
+    format: counted.summary.format,
+    files: counted.summary.files,
+    delimiter: counted.summary.delimiter,
+    rowsRead: counted.summary.records,
+    blankLines: counted.summary.blankLines,
+    badRowsSkipped: counted.summary.badRows,
+    filtered: counted.filtered,
+    badWeightsSkipped: counted.badWeights,
+  };
 }
 
 export function addAnalysisOptions(command: Command, defaultSimulations = DEFAULT_ANALYSIS_OPTIONS.simulations): Command {
@@ -53,6 +78,7 @@ export interface RawReaderOptions {
   encoding?: string;
   header: boolean;
   maxLevels: string;
+  engine?: 'auto' | 'builtin' | 'duckdb';
 }
 
 export function readerPlan(raw: RawReaderOptions): ReaderOptions & { maxLevels: number } {
@@ -63,6 +89,8 @@ export function readerPlan(raw: RawReaderOptions): ReaderOptions & { maxLevels: 
     skipBadRows: raw.skipBadRows === true,
     header: raw.header !== false,
     maxLevels: positiveInteger(raw.maxLevels, '--max-levels', 2),
+    engine: raw.engine ?? 'builtin',
+    onNote: (note) => process.stderr.write(`tabsight: note: ${note}\n`),
   };
 }
 

@@ -4,7 +4,7 @@ import { countTables } from '../io/countTables.js';
 import { inputSource, checkReadable } from '../io/source.js';
 import { toJson } from '../render/json.js';
 import { renderPairText } from '../render/pairText.js';
-import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, RawReportOptions, RawTableOptions, tablePlan } from './options.js';
+import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, RawReportOptions, RawTableOptions, tablePlan, inputSummary } from './options.js';
 import { emit, painter, writeFileAtomically } from './output.js';
 import { setOutcome } from './outcome.js';
 import { renderPairDelimited, renderPairMarkdown } from '../render/pairDelimited.js';
@@ -50,15 +50,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no a
     const report = pairReport(
       counted.table,
       counted.excluded,
-      {
-        file: source.label,
-        delimiter: counted.summary.delimiter,
-        rowsRead: counted.summary.records,
-        blankLines: counted.summary.blankLines,
-        badRowsSkipped: counted.summary.badRows,
-        filtered: counted.filtered,
-        badWeightsSkipped: counted.badWeights,
-      },
+      inputSummary(source.label, counted),
       analysis,
       [...unknownOrderWarnings('--row-order', counted.unknownRowLevels), ...unknownOrderWarnings('--col-order', counted.unknownColLevels)],
       counted.weighting,

@@ -5,7 +5,7 @@ import { checkReadable, inputSource } from '../io/source.js';
 import { toJson } from '../render/json.js';
 import { renderScanDelimited, renderScanMarkdown, renderScanText } from '../render/scanTable.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
-import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, readerPlan, splitList, surveyPlan } from './options.js';
+import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, readerPlan, splitList, surveyPlan, inputSummary } from './options.js';
 import { recodesByColumn } from '../io/rowRules.js';
 import { emit, painter, writeFileAtomically } from './output.js';
 import { setOutcome } from './outcome.js';
@@ -103,15 +103,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no p
     const report = scanColumns(
       encoded.columns,
       encoded.rows,
-      {
-        file: source.label,
-        delimiter: encoded.summary.delimiter,
-        rowsRead: encoded.summary.records,
-        blankLines: encoded.summary.blankLines,
-        badRowsSkipped: encoded.summary.badRows,
-        filtered: encoded.filtered,
-        badWeightsSkipped: encoded.badWeights,
-      },
+      inputSummary(source.label, { summary: { ...encoded.summary, engine: 'builtin', format: 'csv', files: 1 }, filtered: encoded.filtered, badWeights: encoded.badWeights }),
       {
         maxLevels: reader.maxLevels,
         bins,

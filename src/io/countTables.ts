@@ -3,8 +3,12 @@ import { compareNatural } from '../table/naturalOrder.js';
 import { dropEmptyLevels, rareLevelMerge, relabelTable, TableCounter, TwoWayTable } from '../table/twoWayTable.js';
 import { resolveColumn } from './columns.js';
 import { MISSING_ID } from './fieldInterner.js';
-import { readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
-import { RecodedLabels, Recode, recodesByColumn, RowGate, WhereClause } from './rowRules.js';
+import { DEFAULT_DISTINCT_LIMIT, readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
+import { parseWeightValue, RecodedLabels, Recode, recodesByColumn, RowGate, WhereClause } from './rowRules.js';
+import { chooseEngine, EngineFallback, EngineInput, engineGroups, engineInput, EngineName } from './engine.js';
+import { FieldInterner } from './fieldInterner.js';
+import { CompensatedSum, pairFromBuckets } from '../table/compensatedSum.js';
+import { twoProduct } from '../stats/exactArithmetic.js';
 import { InputSource } from './source.js';
 import type { Weighting } from '../table/weighting.js';
 
@@ -49,28 +53,56 @@ export interface CountedTables {
   filtered: number;
   /** Rows skipped for an unusable weight (with --skip-bad-rows). */
   badWeights: number;
-  summary: ReadSummary;
+  summary: CountSummary;
   unknownRowLevels: string[];
   unknownColLevels: string[];
 }
 
 interface Accumulator {
   counter: TableCounter;
-  sumWeights: number;
-  sumSquaredWeights: number;
+  sumWeights: CompensatedSum;
+  sumSquaredWeights: CompensatedSum;
   rows: number;
 }
 
+function accumulator(plan: CountPlan): Accumulator {
+  return { counter: new TableCounter(plan.rows, plan.cols, plan.maxLevels, plan.weight !== undefined), sumWeights: new CompensatedSum(), sumSquaredWeights: new CompensatedSum(), rows: 0 };
+}
+
 function weighting(acc: Accumulator, kind: Weighting['kind']): Weighting {
-  return { kind, sumWeights: acc.sumWeights, sumSquaredWeights: acc.sumSquaredWeights, unweightedN: acc.rows };
+  return { kind, sumWeights: acc.sumWeights.value, sumSquaredWeights: acc.sumSquaredWeights.value, unweightedN: acc.rows };
+}
+
+/** The reader's summary of what it read, whichever engine counted. */
+export interface CountSummary extends Omit<ReadSummary, 'delimiter'> {
+  delimiter: string | null;
+  engine: EngineName;
+  format: 'csv' | 'parquet';
+  files: number;
 }
 
 /**
  * Reads the source once and counts the table of two columns (and, with a
  * layer, one table per layer level): filters first, then weights, then the
- * missing-value rule. Every row left out is counted under its reason.
+ * missing-value rule. Every row left out is counted under its reason. With
+ * the engine, the rows arrive grouped (io/engine.ts) and go through the
+ * same rules, a group at a time.
  */
 export async function countTables(source: InputSource, reader: ReaderOptions, plan: CountPlan): Promise<CountedTables> {
+  const chosen = await chooseEngine(reader.engine ?? 'builtin', source);
+  if (chosen === 'duckdb') {
+    const input = await engineInput(source);
+    try {
+      return await countOnce(source, reader, plan, input);
+    } catch (error) {
+      if (!(error instanceof EngineFallback)) throw error;
+      reader.onNote?.(`the engine cannot read ${source.label} the way the built-in reader does (${error.message}); counted with the built-in reader`);
+    }
+  }
+  return countOnce(source, reader, plan, null);
+}
+
+async function countOnce(source: InputSource, reader: ReaderOptions, plan: CountPlan, input: EngineInput | null): Promise<CountedTables> {
   if (plan.rows === plan.cols) throw usageError(`--rows and --cols both name "${plan.rows}"; choose two different columns`);
   if (plan.by !== undefined && (plan.by === plan.rows || plan.by === plan.cols)) throw usageError(`--by "${plan.by}" is already --rows or --cols; choose a third column`);
   const weightOption = plan.weight?.kind === 'freq' ? '--freq' : '--weight';
@@ -92,7 +124,7 @@ export async function countTables(source: InputSource, reader: ReaderOptions, pl
   const weightSlot = plan.weight ? slotOf(plan.weight.column) : -1;
   const whereSlots = plan.where.map((w) => slotOf(w.column));
 
-  const pooled: Accumulator = { counter: new TableCounter(plan.rows, plan.cols, plan.maxLevels), sumWeights: 0, sumSquaredWeights: 0, rows: 0 };
+  const pooled = accumulator(plan);
   const strata = new Map<string, Accumulator>();
   let stratumOfId: (Accumulator | undefined)[] = [];
   let excluded = 0;
@@ -107,56 +139,109 @@ export async function countTables(source: InputSource, reader: ReaderOptions, pl
   );
   const keepMissing = plan.keepMissing;
   const kind: Weighting['kind'] = plan.weight ? plan.weight.kind : 'none';
+  const select = (header: string[]) => {
+    // A recode of a column this analysis does not use is harmless, but a misspelt one is not.
+    for (const column of recodes.keys()) resolveColumn(column, header, '--recode', source.label);
+    return names.map((name, slot) => {
+      const option = slot === rowSlot ? '--rows' : slot === colSlot ? '--cols' : slot === bySlot ? '--by' : slot === weightSlot ? weightOption : '--where';
+      return resolveColumn(name, header, option, source.label);
+    });
+  };
 
-  const summary = await readRecords(
-    source,
-    reader,
-    (header) => {
-      // A recode of a column this analysis does not use is harmless, but a misspelt one is not.
-      for (const column of recodes.keys()) resolveColumn(column, header, '--recode', source.label);
-      return names.map((name, slot) => {
-        const option = slot === rowSlot ? '--rows' : slot === colSlot ? '--cols' : slot === bySlot ? '--by' : slot === weightSlot ? weightOption : '--where';
-        return resolveColumn(name, header, option, source.label);
-      });
-    },
-    (ids, line, texts, interners) => {
-      if (labelsOf.length === 0) labelsOf = interners.map((i) => i.labels);
-      const w = gate.admit(ids, texts, line);
-      if (w < 0) return;
-      const r = ids[rowSlot];
-      const c = ids[colSlot];
-      const b = bySlot >= 0 ? ids[bySlot] : 1;
-      if (!keepMissing && (r === MISSING_ID || c === MISSING_ID || b === MISSING_ID)) {
-        excluded++;
-        return;
-      }
-      pooled.counter.add(r, c, w);
-      pooled.sumWeights += w;
-      pooled.sumSquaredWeights += w * w;
-      pooled.rows++;
-      if (bySlot >= 0) {
-        let stratum = b >= 0 ? stratumOfId[b] : undefined;
+  /** Counts `rows` rows of one combination, of total weight w (+ wLow) and Σw² q (+ qLow). */
+  const tally = (ids: Int32Array, rows: number, w: number, wLow: number, q: number, qLow: number) => {
+    const r = ids[rowSlot];
+    const c = ids[colSlot];
+    const b = bySlot >= 0 ? ids[bySlot] : 1;
+    if (!keepMissing && (r === MISSING_ID || c === MISSING_ID || b === MISSING_ID)) {
+      excluded += rows;
+      return;
+    }
+    pooled.counter.add(r, c, w, wLow);
+    pooled.sumWeights.addPair(w, wLow);
+    pooled.sumSquaredWeights.addPair(q, qLow);
+    pooled.rows += rows;
+    if (bySlot >= 0) {
+      let stratum = b >= 0 ? stratumOfId[b] : undefined;
+      if (stratum === undefined) {
+        const level = b < 0 ? '(beyond the level limit)' : label(bySlot, b);
+        stratum = strata.get(level);
         if (stratum === undefined) {
-          const level = b < 0 ? '(beyond the level limit)' : label(bySlot, b);
-          stratum = strata.get(level);
-          if (stratum === undefined) {
-            if (strata.size >= plan.maxLevels) throw dataError(`--by "${plan.by}" has more than --max-levels ${plan.maxLevels} levels; raise --max-levels or merge levels`);
-            stratum = { counter: new TableCounter(plan.rows, plan.cols, plan.maxLevels), sumWeights: 0, sumSquaredWeights: 0, rows: 0 };
-            strata.set(level, stratum);
-          }
-          if (b >= 0) stratumOfId[b] = stratum;
+          if (strata.size >= plan.maxLevels) throw dataError(`--by "${plan.by}" has more than --max-levels ${plan.maxLevels} levels; raise --max-levels or merge levels`);
+          stratum = accumulator(plan);
+          strata.set(level, stratum);
         }
-        stratum.counter.add(r, c, w);
-        stratum.sumWeights += w;
-        stratum.sumSquaredWeights += w * w;
-        stratum.rows++;
+        if (b >= 0) stratumOfId[b] = stratum;
       }
-    },
-    undefined,
-    weightSlot >= 0 ? new Set([weightSlot]) : new Set(),
-  );
+      stratum.counter.add(r, c, w, wLow);
+      stratum.sumWeights.addPair(w, wLow);
+      stratum.sumSquaredWeights.addPair(q, qLow);
+      stratum.rows += rows;
+    }
+  };
+
+  let summary: CountSummary;
+  if (input === null) {
+    const read = await readRecords(
+      source,
+      reader,
+      select,
+      (ids, line, texts, interners) => {
+        if (labelsOf.length === 0) labelsOf = interners.map((i) => i.labels);
+        const w = gate.admit(ids, texts, line);
+        if (w >= 0) tally(ids, 1, w, 0, w * w, 0);
+      },
+      undefined,
+      weightSlot >= 0 ? new Set([weightSlot]) : new Set(),
+    );
+    if (labelsOf.length === 0) labelsOf = read.interners.map((i) => i.labels);
+    summary = { ...read, engine: 'builtin', format: 'csv', files: 1 };
+  } else {
+    const missing = new Set(reader.missing.map((m) => m.trim()));
+    const interners = names.map(() => new FieldInterner(missing, DEFAULT_DISTINCT_LIMIT));
+    labelsOf = interners.map((i) => i.labels);
+    const ids = new Int32Array(names.length);
+    const read = await engineGroups(
+      input,
+      reader,
+      select,
+      plan.weight ? { slot: weightSlot, kind: plan.weight.kind, decimalComma: plan.decimalComma } : null,
+      (group) => {
+        group.values.forEach((value, slot) => {
+          if (slot !== weightSlot) ids[slot] = interners[slot].internString(value ?? '');
+        });
+        if (!gate.passesFilters(ids)) {
+          gate.filtered += group.rows;
+          return;
+        }
+        if (plan.weight === undefined) {
+          tally(ids, group.rows, group.rows, 0, group.rows, 0);
+          return;
+        }
+        if (group.badWeight !== null) {
+          // The reader's rule has the last word (the engine's pattern is only a first sieve).
+          const parsed = parseWeightValue(group.badWeight, plan.weight.kind, plan.decimalComma);
+          if (typeof parsed === 'string') {
+            if (reader.skipBadRows) {
+              gate.badWeights += group.rows;
+              return;
+            }
+            if (!input.glob && input.format === 'csv') throw new EngineFallback('a weight to be named by its line');
+            throw dataError(`${source.label}: ${weightOption} column "${plan.weight.column}" ${parsed} in ${group.rows.toLocaleString('en-US')} row${group.rows === 1 ? '' : 's'}; fix them or pass --skip-bad-rows to count and skip such rows`);
+          }
+          const [w, wLow] = twoProduct(group.rows, parsed);
+          const [q, qLow] = twoProduct(group.rows, parsed * parsed);
+          tally(ids, group.rows, w, wLow, q, qLow);
+          return;
+        }
+        const [w, wLow] = pairFromBuckets(group.weightBuckets ?? []);
+        const [q, qLow] = pairFromBuckets(group.squareBuckets ?? []);
+        tally(ids, group.rows, w, wLow, q, qLow);
+      },
+    );
+    summary = { ...read, engine: 'duckdb' };
+  }
   if (summary.records === 0) throw dataError(`${source.label}: the header has no data rows under it`);
-  if (labelsOf.length === 0) labelsOf = summary.interners.map((i) => i.labels);
 
   const finished = pooled.counter.finish((id) => label(rowSlot, id), (id) => label(colSlot, id), plan.rowOrder, plan.colOrder);
   let table = dropEmptyLevels(finished.table);

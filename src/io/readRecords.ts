@@ -15,6 +15,10 @@ export interface ReaderOptions {
   skipBadRows: boolean;
   /** False when the first record is data; columns are then named 1, 2, 3, … */
   header: boolean;
+  /** Which engine counts: the built-in reader, the embedded engine, or chosen from the input (io/engine.ts). */
+  engine?: 'builtin' | 'duckdb' | 'auto';
+  /** Receives a one-line note the user should see (for example, that the engine fell back). */
+  onNote?: (note: string) => void;
 }
 
 export interface ReadSummary {
@@ -27,7 +31,8 @@ export interface ReadSummary {
   badRows: number;
 }
 
-export type ColumnSelector = (header: string[]) => number[];
+/** Chooses the columns to deliver, given the header, its line and the delimiter in force. */
+export type ColumnSelector = (header: string[], line: number, delimiter: string) => number[];
 /**
  * A data row: for each selected column, the id of its value in that column's
  * interner (0 missing, −1 past the interner's limit). The array is reused.
@@ -95,7 +100,7 @@ export async function readRecords(
           } else {
             header = fields.map((_f, i) => String(i + 1));
           }
-          selected = select(header);
+          selected = select(header, line, delimiter as string);
           const slots = new Int32Array(header.length).fill(-1);
           selected.forEach((column, slot) => (slots[column] = slot));
           interners = selected.map((_c, slot) => new FieldInterner(missing, distinctLimit(slot)));

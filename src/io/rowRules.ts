@@ -135,6 +135,12 @@ export class RowGate {
     return cache[id] === 1;
   }
 
+  /** Whether a row's values pass every --where filter (nothing is counted). */
+  passesFilters(ids: Int32Array): boolean {
+    for (let k = 0; k < this.where.length; k++) if (!this.passes(k, ids[this.where[k].slot])) return false;
+    return true;
+  }
+
   admit(ids: Int32Array, texts: readonly (string | undefined)[], line: number): number {
     for (let k = 0; k < this.where.length; k++) {
       if (!this.passes(k, ids[this.where[k].slot])) {

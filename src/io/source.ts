@@ -1,4 +1,6 @@
 import { createReadStream, promises as fs } from 'node:fs';
+import { createGunzip } from 'node:zlib';
+import { pipeline } from 'node:stream';
 import { isUtf8 } from 'node:buffer';
 import { TextDecoder } from 'node:util';
 import { dataError, usageError } from '../errors.js';
@@ -47,13 +49,35 @@ export async function* rawChunks(source: InputSource): AsyncGenerator<Buffer> {
     } catch (error) {
       throw describeOpenError(source, error as NodeJS.ErrnoException);
     }
-    stream = createReadStream(source.path, { highWaterMark: 1 << 20 });
+    stream = await openFile(source.path);
   }
   try {
     for await (const chunk of stream) yield chunk as Buffer;
   } catch (error) {
-    throw describeOpenError(source, error as NodeJS.ErrnoException);
+    const e = error as NodeJS.ErrnoException;
+    if (e.code?.startsWith('Z_')) throw dataError(`${source.label}: not a readable gzip file (${e.message})`);
+    throw describeOpenError(source, e);
   }
+}
+
+/** True when a file starts with the gzip magic bytes 1f 8b (RFC 1952, §2.3.1). */
+export async function isGzipFile(path: string): Promise<boolean> {
+  const handle = await fs.open(path, 'r');
+  try {
+    const head = Buffer.alloc(2);
+    const { bytesRead } = await handle.read(head, 0, 2, 0);
+    return bytesRead === 2 && head[0] === 0x1f && head[1] === 0x8b;
+  } finally {
+    await handle.close();
+  }
+}
+
+/** A file's bytes, decompressed when it is gzip. */
+async function openFile(path: string): Promise<NodeJS.ReadableStream> {
+  const raw = createReadStream(path, { highWaterMark: 1 << 20 });
+  if (!(await isGzipFile(path))) return raw;
+  // pipeline passes a read error of the file on to the stream being read.
+  return pipeline(raw, createGunzip({ chunkSize: 1 << 20 }), () => undefined);
 }
 
 export type Encoding = 'utf-8' | 'utf-16le' | 'utf-16be';
@@ -100,7 +124,7 @@ async function lineOfOffset(source: InputSource, offset: number, streamedNewline
   if (source.path === '-') return streamedNewlines + lineAt([chunk], inChunk);
   let line = 1;
   let seen = 0;
-  for await (const raw of createReadStream(source.path, { highWaterMark: 1 << 20 })) {
+  for await (const raw of await openFile(source.path)) {
     const part = raw as Buffer;
     const limit = Math.min(part.length, offset - seen);
     for (let i = part.indexOf(0x0a); i >= 0 && i < limit; i = part.indexOf(0x0a, i + 1)) line++;

@@ -74,6 +74,9 @@ export interface ExactBound {
  * completions of a node sum to 1), none do (drop), or the node must be
  * expanded. Returns null when the work exceeds the bound.
  */
+/** Columns × rows beyond which the network is not attempted (the recursion depth grows with it). */
+const MAX_NETWORK_DEPTH = 2000;
+
 export function fisherFreemanHalton(counts: CountMatrix, bound: ExactBound = { maxWork: 2_000_000 }): FisherResult | null {
   for (const row of counts) for (const v of row) if (!Number.isInteger(v) || v < 0) return null;
   if (isTwoByTwo(counts)) return fisherExact2x2(counts);
@@ -93,6 +96,10 @@ export function fisherFreemanHalton(counts: CountMatrix, bound: ExactBound = { m
   const logThreshold = logObserved + Math.log1p(EXACT_RELATIVE_TOLERANCE);
 
   const stages = cols.length;
+  // The memoised pass recurses once per column (and once per row within
+  // it); a table this wide is beyond any work bound, and too deep a
+  // recursion for the stack, so it is refused at once.
+  if (stages * rows.length > MAX_NETWORK_DEPTH) return null;
   let work = 0;
   const overBudget = () => ++work > bound.maxWork;
 

@@ -1,4 +1,5 @@
 import { dataError } from '../errors.js';
+import { addCompensated } from './compensatedSum.js';
 import { compareNatural } from './naturalOrder.js';
 
 /** A two-way table of counts (integer or weighted) with its level labels, in report order. */
@@ -80,24 +81,37 @@ export class TableCounter {
   private readonly rowSide: SideLevels;
   private readonly colSide: SideLevels;
   private readonly cells: number[][] = [];
+  /** With weights: the rounding errors of each cell's sum (compensatedSum.ts). */
+  private readonly errors: number[][] = [];
 
   constructor(
     readonly rowName: string,
     readonly colName: string,
     private readonly maxLevels: number,
+    /** Weighted sums are carried as hi + lo, so that they do not depend on row order. */
+    private readonly compensated = false,
   ) {
     this.rowSide = new SideLevels(maxLevels);
     this.colSide = new SideLevels(maxLevels);
   }
 
-  add(rowId: number, colId: number, weight = 1): void {
+  /** Adds a row (or a group of rows) of total weight `weight` + `weightLow` to a cell. */
+  add(rowId: number, colId: number, weight = 1, weightLow = 0): void {
     const r = this.rowSide.slotOf(rowId);
     const c = this.colSide.slotOf(colId);
     if (r < 0 || c < 0) return;
     while (this.cells.length <= r) this.cells.push([]);
     const row = this.cells[r];
     while (row.length <= c) row.push(0);
-    row[c] += weight;
+    if (!this.compensated) {
+      row[c] += weight;
+      return;
+    }
+    while (this.errors.length <= r) this.errors.push([]);
+    const low = this.errors[r];
+    while (low.length <= c) low.push(0);
+    addCompensated(row, low, c, weight);
+    low[c] += weightLow;
   }
 
   private checkCap(name: string, side: SideLevels): void {
@@ -127,10 +141,20 @@ export class TableCounter {
     const rowIndex = new Map(rows.order.map((l, k) => [l, k]));
     const colIndex = new Map(cols.order.map((l, k) => [l, k]));
     const counts = rows.order.map(() => new Array<number>(cols.order.length).fill(0));
+    const low = rows.order.map(() => new Array<number>(cols.order.length).fill(0));
     this.cells.forEach((row, r) => {
       const i = rowIndex.get(rowNames[r]) as number;
-      row.forEach((v, c) => (counts[i][colIndex.get(colNames[c]) as number] += v));
+      row.forEach((v, c) => {
+        const j = colIndex.get(colNames[c]) as number;
+        if (!this.compensated) counts[i][j] += v;
+        else {
+          // Ids recoded to one level merge in order of first appearance; compensated, that order does not show.
+          addCompensated(counts[i], low[i], j, v);
+          low[i][j] += this.errors[r]?.[c] ?? 0;
+        }
+      });
     });
+    if (this.compensated) counts.forEach((row, i) => row.forEach((v, j) => (row[j] = v + low[i][j])));
     return {
       table: { rowName: this.rowName, colName: this.colName, rowLevels: rows.order, colLevels: cols.order, counts },
       unknownRowLevels: rows.unknown,
