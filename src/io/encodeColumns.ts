@@ -83,6 +83,9 @@ interface ColumnState {
 export async function encodeColumns(source: InputSource, reader: ReaderOptions, request: EncodeRequest): Promise<EncodedFile> {
   const states: ColumnState[] = [];
   const wide = request.maxLevels >= 65535;
+  // Codes are kept while they fit their array; the level cap is applied
+  // after reading, to the values of the rows that were kept.
+  const readingCap = wide ? DISTINCT_TRACKING_LIMIT : 65535;
   let rows = 0;
   let layerSlot = -1;
   let layerState: ColumnState | null = null;
@@ -167,7 +170,7 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
           continue;
         }
         if (state.codes !== null) {
-          if (id > state.cap || id < 0) state.codes = null;
+          if (id > readingCap || id < 0) state.codes = null;
           else state.codes.set(row, id);
         }
         if (state.allIds !== null) {
@@ -181,16 +184,26 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
     textSlots,
   );
   if (rows === 0) throw dataError(`${source.label}: the header has no data rows under it`);
+  // Values seen only in rows that were left out (--where, bad weights, bad
+  // rows) are not levels of the kept rows: those columns are compacted.
+  const leftOut = ((gate as RowGate | null)?.filtered ?? 0) + ((gate as RowGate | null)?.badWeights ?? 0) + summary.badRows > 0;
   const columns = states.map<EncodedColumn>((state, k) => {
     const interner = summary.interners[k];
-    const labels = interner.labels;
+    let labels = interner.labels;
+    if (leftOut && state.codes !== null) {
+      const compacted = compactCodes(state.codes.take(rows), labels);
+      labels = compacted.labels;
+      state.codes = new GrowableCodes(compacted.codes);
+    }
+    if (state.codes !== null && labels.length > state.cap) state.codes = null;
     const numeric = labels.length > 0 && labels.every(isNumericLabel);
+    const allLabels = interner.labels;
     const integer = numeric && labels.every((l) => /^[+-]?\d+$/.test(l));
     let values: Float64Array | null = null;
     if (numeric && state.allIds !== null) {
       const numberOf = new Float64Array(labels.length + 1);
       numberOf[0] = Number.NaN;
-      labels.forEach((l, i) => (numberOf[i + 1] = Number(l)));
+      allLabels.forEach((l, i) => (numberOf[i + 1] = Number(l)));
       const idsOfRows = state.allIds.take(rows);
       values = new Float64Array(rows);
       for (let r = 0; r < rows; r++) values[r] = numberOf[idsOfRows[r]];
@@ -217,3 +230,21 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
   }
   return { columns, rows, summary, weights: weights ? weights.take(rows) : null, layer, filtered: (gate as RowGate | null)?.filtered ?? 0, badWeights: (gate as RowGate | null)?.badWeights ?? 0 };
 }
+
+/** Codes renumbered 1, 2, … over the ids that occur (in order of id), with their labels. */
+function compactCodes<T extends Uint16Array | Uint32Array>(codes: T, labels: readonly string[]): { codes: T; labels: string[] } {
+  const used = new Uint8Array(labels.length + 1);
+  for (let r = 0; r < codes.length; r++) used[codes[r]] = 1;
+  const remap = new Uint32Array(labels.length + 1);
+  const kept: string[] = [];
+  for (let id = 1; id <= labels.length; id++) {
+    if (used[id]) {
+      kept.push(labels[id - 1]);
+      remap[id] = kept.length;
+    }
+  }
+  const out = new (codes.constructor as new (n: number) => T)(codes.length);
+  for (let r = 0; r < codes.length; r++) out[r] = remap[codes[r]];
+  return { codes: out, labels: kept };
+}
+

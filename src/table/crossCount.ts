@@ -1,3 +1,4 @@
+import { addCompensated, CompensatedSum } from './compensatedSum.js';
 import { compareNatural } from './naturalOrder.js';
 import { TwoWayTable } from './twoWayTable.js';
 import { Weighting } from './weighting.js';
@@ -12,9 +13,21 @@ export interface CodedColumn {
 
 export interface CrossCountOptions {
   /** Per-row weights (sampling weights or frequencies). */
-  weights?: { values: Float64Array; kind: 'weight' | 'freq' };
+  weights?: { values: Float64Array; kind: 'weight' | 'freq'; grouped?: GroupedWeights };
   /** A layer: one table per level of this column. */
   strata?: CodedColumn;
+  /**
+   * Entries that stand for several rows each (an engine's grouped counts):
+   * the number of rows of each entry. Without it every entry is one row.
+   */
+  rowsPerEntry?: Float64Array;
+}
+
+/** Exact group sums from an engine, as hi + lo pairs: Σw in values/low, Σw² in squares/squaresLow. */
+export interface GroupedWeights {
+  low: Float64Array;
+  squares: Float64Array;
+  squaresLow: Float64Array;
 }
 
 export interface CrossCounted {
@@ -40,26 +53,42 @@ export function crossCount(rowColumn: CodedColumn, colColumn: CodedColumn, optio
   const layers = options.strata ? options.strata.labels.length + 1 : 1;
   const layerCodes = options.strata?.codes;
   const rows = a.length;
+  const rowsPer = options.rowsPerEntry;
+  const grouped = options.weights?.grouped;
   // Unweighted counts are whole numbers: integer increments are cheaper than float ones.
-  const counts: Float64Array | Uint32Array = options.weights ? new Float64Array(layers * plane) : new Uint32Array(layers * plane);
+  const counts: Float64Array | Uint32Array = options.weights || rowsPer ? new Float64Array(layers * plane) : new Uint32Array(layers * plane);
   const weights = options.weights?.values;
+  // Weighted sums are carried as hi + lo (compensatedSum.ts), so that they do not depend on row order.
   const sums = new Float64Array(weights ? layers * plane : 0);
+  const sumsLow = new Float64Array(weights ? layers * plane : 0);
   const squares = new Float64Array(weights ? layers * plane : 0);
-  if (weights && layerCodes) {
+  const squaresLow = new Float64Array(weights ? layers * plane : 0);
+  if (rowsPer) {
+    for (let k = 0; k < rows; k++) {
+      const at = (layerCodes ? layerCodes[k] * plane : 0) + a[k] * width + b[k];
+      counts[at] += rowsPer[k];
+      if (weights && grouped) {
+        addCompensated(sums, sumsLow, at, weights[k]);
+        sumsLow[at] += grouped.low[k];
+        addCompensated(squares, squaresLow, at, grouped.squares[k]);
+        squaresLow[at] += grouped.squaresLow[k];
+      }
+    }
+  } else if (weights && layerCodes) {
     for (let k = 0; k < rows; k++) {
       const at = layerCodes[k] * plane + a[k] * width + b[k];
       const w = weights[k];
       counts[at]++;
-      sums[at] += w;
-      squares[at] += w * w;
+      addCompensated(sums, sumsLow, at, w);
+      addCompensated(squares, squaresLow, at, w * w);
     }
   } else if (weights) {
     for (let k = 0; k < rows; k++) {
       const at = a[k] * width + b[k];
       const w = weights[k];
       counts[at]++;
-      sums[at] += w;
-      squares[at] += w * w;
+      addCompensated(sums, sumsLow, at, w);
+      addCompensated(squares, squaresLow, at, w * w);
     }
   } else if (layerCodes) {
     for (let k = 0; k < rows; k++) counts[layerCodes[k] * plane + a[k] * width + b[k]]++;
@@ -82,19 +111,22 @@ export function crossCount(rowColumn: CodedColumn, colColumn: CodedColumn, optio
   // Pooled over the (non-missing) layers.
   const pooledCounts = new Float64Array(plane);
   const pooledSums = weights ? new Float64Array(plane) : pooledCounts;
+  const pooledSumsLow = new Float64Array(weights ? plane : 0);
   const pooledSquares = weights ? new Float64Array(plane) : pooledCounts;
-  const layerSums: ArrayLike<number> = weights ? sums : counts;
-  const layerSquares: ArrayLike<number> = weights ? squares : counts;
+  const pooledSquaresLow = new Float64Array(weights ? plane : 0);
   for (let s = firstLayer; s < layers; s++) {
     for (let i = 0; i < plane; i++) {
       pooledCounts[i] += counts[s * plane + i];
       if (weights) {
-        pooledSums[i] += sums[s * plane + i];
-        pooledSquares[i] += squares[s * plane + i];
+        addCompensated(pooledSums, pooledSumsLow, i, sums[s * plane + i]);
+        pooledSumsLow[i] += sumsLow[s * plane + i];
+        addCompensated(pooledSquares, pooledSquaresLow, i, squares[s * plane + i]);
+        pooledSquaresLow[i] += squaresLow[s * plane + i];
       }
     }
   }
-  let excluded = rows;
+  const totalRows = rowsPer ? rowsPer.reduce((t, v) => t + v, 0) : rows;
+  let excluded = totalRows;
   for (let i = 1; i < height; i++) for (let j = 1; j < width; j++) excluded -= pooledCounts[i * width + j];
   const rowKeep: number[] = [];
   const colKeep: number[] = [];
@@ -109,17 +141,17 @@ export function crossCount(rowColumn: CodedColumn, colColumn: CodedColumn, optio
     if (s > 0) colKeep.push(j);
   }
   const kind: Weighting['kind'] = options.weights ? options.weights.kind : 'none';
-  const build = (values: ArrayLike<number>, n: ArrayLike<number>, w2: ArrayLike<number>, offset: number) => {
-    let sumWeights = 0;
-    let sumSquaredWeights = 0;
+  const build = (values: ArrayLike<number>, low: ArrayLike<number> | null, n: ArrayLike<number>, w2: ArrayLike<number>, w2Low: ArrayLike<number> | null, offset: number) => {
+    const sumWeights = new CompensatedSum();
+    const sumSquaredWeights = new CompensatedSum();
     let unweightedN = 0;
     const tableCounts = rowKeep.map((i) =>
       colKeep.map((j) => {
         const at = offset + i * width + j;
-        sumWeights += values[at];
-        sumSquaredWeights += w2[at];
+        sumWeights.addPair(values[at], low ? low[at] : 0);
+        sumSquaredWeights.addPair(w2[at], w2Low ? w2Low[at] : 0);
         unweightedN += n[at];
-        return values[at];
+        return low ? values[at] + low[at] : values[at];
       }),
     );
     const table: TwoWayTable = {
@@ -129,16 +161,16 @@ export function crossCount(rowColumn: CodedColumn, colColumn: CodedColumn, optio
       colLevels: colKeep.map((j) => colColumn.labels[j - 1]),
       counts: tableCounts,
     };
-    const weighting: Weighting = { kind, sumWeights, sumSquaredWeights: kind === 'none' ? sumWeights : sumSquaredWeights, unweightedN };
+    const weighting: Weighting = { kind, sumWeights: sumWeights.value, sumSquaredWeights: kind === 'none' ? sumWeights.value : sumSquaredWeights.value, unweightedN };
     return { table, weighting };
   };
-  const pooled = build(pooledSums, pooledCounts, pooledSquares, 0);
+  const pooled = build(pooledSums, weights ? pooledSumsLow : null, pooledCounts, pooledSquares, weights ? pooledSquaresLow : null, 0);
   let strata: CrossCounted['strata'] = null;
   if (options.strata) {
     const labels = options.strata.labels;
     strata = [];
     for (let s = 1; s < layers; s++) {
-      const layer = build(layerSums, counts, layerSquares, s * plane);
+      const layer = weights ? build(sums, sumsLow, counts, squares, squaresLow, s * plane) : build(counts, null, counts, counts, null, s * plane);
       if (layer.weighting.unweightedN > 0) strata.push({ level: labels[s - 1], ...layer });
     }
     strata.sort((x, y) => compareNatural(x.level, y.level));
