@@ -1,6 +1,6 @@
 import { adjustPValues, Adjustment } from '../stats/multipleTesting.js';
 import { equalFrequencyBins, naturalRanks } from '../table/bins.js';
-import { CodedColumn, crossCount } from '../table/crossCount.js';
+import { CodedColumn, crossCount, CrossCounted } from '../table/crossCount.js';
 import { rareLevelMerge, relabelTable } from '../table/twoWayTable.js';
 import { analyzeStrata, StratifiedSummary, StratumRecord } from './stratify.js';
 import type { EncodedColumn } from '../table/encodedColumn.js';
@@ -135,12 +135,20 @@ export function codedColumn(column: EncodedColumn, bins: number | null): CodedCo
   return { name: column.name, labels, codes };
 }
 
-/**
- * Scores every pair of the screened columns with the same analysis as a
- * single pair, adjusts the Pearson p-values for the number of pairs tested,
- * and ranks the pairs by bias-corrected V (ties by p-value).
- */
+/** A scan of columns encoded in memory: screening, then every pair counted from the codes. */
 export function scanColumns(columns: EncodedColumn[], rows: number, input: InputSummary, options: ScanOptions): ScanReport {
+  const prepared = prepareColumns(columns, rows, options);
+  return scorePairs(prepared, rows, input, options, (a, b, layer) => crossCount(a, b, { weights: options.weights ?? undefined, strata: layer ?? undefined }));
+}
+
+export interface PreparedColumns {
+  coded: CodedColumn[];
+  skipped: SkippedColumn[];
+  layer: CodedColumn | null;
+}
+
+/** Screening, recodes and binning: the columns that take part, coded in report order. */
+export function prepareColumns(columns: EncodedColumn[], rows: number, options: ScanOptions): PreparedColumns {
   const skipped: SkippedColumn[] = [];
   const coded: CodedColumn[] = [];
   for (const original of columns) {
@@ -151,11 +159,24 @@ export function scanColumns(columns: EncodedColumn[], rows: number, input: Input
     else coded.push(codedColumn(column, options.bins));
   }
   const layer = options.layer ? codedColumn(reshapeColumn(options.layer, options.recodes.get(options.layer.name), options.keepMissing), null) : null;
+  return { coded, skipped, layer };
+}
+
+/** Counts one pair's table (and its layers): from the codes in memory, or from an engine's grouped counts. */
+export type PairCounter = (a: CodedColumn, b: CodedColumn, layer: CodedColumn | null) => CrossCounted;
+
+/**
+ * Scores every pair of the prepared columns with the same analysis as a
+ * single pair, adjusts the Pearson p-values for the number of pairs tested,
+ * and ranks the pairs by bias-corrected V (ties by p-value).
+ */
+export function scorePairs(prepared: PreparedColumns, rows: number, input: InputSummary, options: ScanOptions, count: PairCounter): ScanReport {
+  const { coded, skipped, layer } = prepared;
   const untestable: UntestablePair[] = [];
   const records: (AnalysisRecord & { layered?: ReturnType<typeof analyzeStrata> })[] = [];
   for (let a = 0; a < coded.length; a++) {
     for (let b = a + 1; b < coded.length; b++) {
-      const counted = crossCount(coded[a], coded[b], { weights: options.weights ?? undefined, strata: layer ?? undefined });
+      const counted = count(coded[a], coded[b], layer);
       let table = counted.table;
       let strata = counted.strata;
       if (options.other) {

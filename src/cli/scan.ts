@@ -1,5 +1,8 @@
 import { Command, Option } from 'commander';
-import { scanColumns } from '../analysis/scan.js';
+import { prepareColumns, scanColumns, ScanOptions, ScanReport, scorePairs } from '../analysis/scan.js';
+import { chooseEngine, EngineFallback, engineInput } from '../io/engine.js';
+import { engineEncode } from '../io/engineScan.js';
+import type { EncodedColumn } from '../table/encodedColumn.js';
 import { encodeColumns } from '../io/encodeColumns.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { toJson } from '../render/json.js';
@@ -86,39 +89,53 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no p
     const survey = surveyPlan(raw);
     const recodes = recodesByColumn(survey.recodes);
     checkReadable(source);
-    const progress = progressReporter();
-    const encoded = await encodeColumns(source, reader, {
+    const request = {
       columns: splitList(raw.columns),
       exclude: splitList(raw.exclude),
       maxLevels: reader.maxLevels,
       keepNumeric: bins !== null,
       maxColumns: positiveInteger(raw.maxColumns, '--max-columns', 2),
-      progress: raw.format === 'text' ? progress.tick : undefined,
       where: survey.where,
       recodes,
       weight: survey.weight ? { ...survey.weight, decimalComma: survey.decimalComma } : undefined,
       by: survey.by,
+    };
+    const options = (weights: Float64Array | null, layer: EncodedColumn | null): ScanOptions => ({
+      maxLevels: reader.maxLevels,
+      bins,
+      adjustment: raw.adjust,
+      alpha,
+      top,
+      full: raw.full === true,
+      analysis,
+      recodes,
+      keepMissing: survey.keepMissing,
+      other: survey.other ?? null,
+      weights: weights && survey.weight ? { values: weights, kind: survey.weight.kind } : null,
+      layer,
     });
-    progress.done();
-    const report = scanColumns(
-      encoded.columns,
-      encoded.rows,
-      inputSummary(source.label, { summary: { ...encoded.summary, engine: 'builtin', format: 'csv', files: 1 }, filtered: encoded.filtered, badWeights: encoded.badWeights }),
-      {
-        maxLevels: reader.maxLevels,
-        bins,
-        adjustment: raw.adjust,
-        alpha,
-        top,
-        full: raw.full === true,
-        analysis,
-        recodes,
-        keepMissing: survey.keepMissing,
-        other: survey.other ?? null,
-        weights: encoded.weights && survey.weight ? { values: encoded.weights, kind: survey.weight.kind } : null,
-        layer: encoded.layer,
-      },
-    );
+    let report: ScanReport | null = null;
+    if ((await chooseEngine(reader.engine ?? 'builtin', source)) === 'duckdb') {
+      const input = await engineInput(source);
+      try {
+        const encoded = await engineEncode(input, reader, request);
+        const scanOptions = options(null, encoded.layer);
+        const prepared = prepareColumns(encoded.columns, encoded.rows, scanOptions);
+        const counter = await encoded.countPairs(prepared);
+        const summary = inputSummary(source.label, { summary: encoded.summary, filtered: encoded.filtered, badWeights: encoded.badWeights });
+        report = scorePairs(prepared, encoded.rows, summary, { ...scanOptions, weights: null }, counter);
+      } catch (error) {
+        if (!(error instanceof EngineFallback)) throw error;
+        reader.onNote?.(`the engine cannot read ${source.label} the way the built-in reader does (${error.message}); counted with the built-in reader`);
+      }
+    }
+    if (report === null) {
+      const progress = progressReporter();
+      const encoded = await encodeColumns(source, reader, { ...request, progress: raw.format === 'text' ? progress.tick : undefined });
+      progress.done();
+      const summary = inputSummary(source.label, { summary: { ...encoded.summary, engine: 'builtin', format: 'csv', files: 1 }, filtered: encoded.filtered, badWeights: encoded.badWeights });
+      report = scanColumns(encoded.columns, encoded.rows, summary, options(encoded.weights, encoded.layer));
+    }
     let text: string;
     switch (raw.format) {
       case 'json':

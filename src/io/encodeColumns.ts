@@ -38,11 +38,32 @@ export interface EncodeRequest {
   by?: string;
 }
 
+/** The columns of a scan, by index in the header: candidates, layer, weight and filter columns. */
+export function scanSelection(header: string[], request: EncodeRequest, label: string): { candidates: number[]; layer: number | null; weight: number | null; where: number[] } {
+  let chosen = request.columns ? request.columns.map((c) => resolveColumn(c, header, '--columns', label)) : header.map((_h, i) => i);
+  if (request.exclude) {
+    const dropped = new Set(request.exclude.map((c) => resolveColumn(c, header, '--exclude', label)));
+    chosen = chosen.filter((i) => !dropped.has(i));
+  }
+  for (const column of request.recodes?.keys() ?? []) resolveColumn(column, header, '--recode', label);
+  const weight = request.weight ? resolveColumn(request.weight.column, header, request.weight.kind === 'freq' ? '--freq' : '--weight', label) : null;
+  const layer = request.by !== undefined ? resolveColumn(request.by, header, '--by', label) : null;
+  const roles = new Set([weight, layer].filter((i): i is number => i !== null));
+  chosen = [...new Set(chosen)].filter((i) => !roles.has(i));
+  if (chosen.length < 2) throw usageError(`scan needs at least two candidate columns; ${chosen.length} left after --columns/--exclude`);
+  if (chosen.length > request.maxColumns) {
+    throw usageError(
+      `${label} has ${chosen.length.toLocaleString('en-US')} candidate columns (${((chosen.length * (chosen.length - 1)) / 2).toLocaleString('en-US')} pairs), more than --max-columns ${request.maxColumns}; choose some with --columns or --exclude, or raise --max-columns`,
+    );
+  }
+  return { candidates: chosen, layer, weight, where: (request.where ?? []).map((w) => resolveColumn(w.column, header, '--where', label)) };
+}
+
 /** Raw levels a recoded column may hold while reading (the cap applies after recoding). */
-const RECODED_READING_CAP = 65534;
+export const RECODED_READING_CAP = 65534;
 
 /** Distinct values tracked per column for screening (beyond it a column is "more than" that). */
-const DISTINCT_TRACKING_LIMIT = 1_000_000;
+export const DISTINCT_TRACKING_LIMIT = 1_000_000;
 
 /** A typed array that grows as rows arrive; unwritten rows stay 0 (for codes: missing). */
 class GrowableCodes<T extends Uint16Array | Uint32Array | Float64Array> {
@@ -98,22 +119,8 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
     source,
     reader,
     (header) => {
-      let chosen = request.columns ? request.columns.map((c) => resolveColumn(c, header, '--columns', source.label)) : header.map((_h, i) => i);
-      if (request.exclude) {
-        const dropped = new Set(request.exclude.map((c) => resolveColumn(c, header, '--exclude', source.label)));
-        chosen = chosen.filter((i) => !dropped.has(i));
-      }
-      for (const column of request.recodes?.keys() ?? []) resolveColumn(column, header, '--recode', source.label);
-      const roleColumns = new Set<number>();
-      if (request.weight) roleColumns.add(resolveColumn(request.weight.column, header, request.weight.kind === 'freq' ? '--freq' : '--weight', source.label));
-      if (request.by !== undefined) roleColumns.add(resolveColumn(request.by, header, '--by', source.label));
-      chosen = [...new Set(chosen)].filter((i) => !roleColumns.has(i));
-      if (chosen.length < 2) throw usageError(`scan needs at least two candidate columns; ${chosen.length} left after --columns/--exclude`);
-      if (chosen.length > request.maxColumns) {
-        throw usageError(
-          `${source.label} has ${chosen.length.toLocaleString('en-US')} candidate columns (${((chosen.length * (chosen.length - 1)) / 2).toLocaleString('en-US')} pairs), more than --max-columns ${request.maxColumns}; choose some with --columns or --exclude, or raise --max-columns`,
-        );
-      }
+      const selection = scanSelection(header, request, source.label);
+      const chosen = selection.candidates;
       const slots = [...chosen];
       const slotOf = (index: number) => {
         const at = slots.indexOf(index);
@@ -130,13 +137,13 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
           cap: request.recodes?.has(header[i]) ? Math.max(RECODED_READING_CAP, request.maxLevels) : request.maxLevels,
         });
       }
-      if (request.by !== undefined) {
-        const index = resolveColumn(request.by, header, '--by', source.label);
+      if (selection.layer !== null) {
+        const index = selection.layer;
         layerSlot = slotOf(index);
         layerState = { name: header[index], codes: new GrowableCodes(new Uint16Array(1 << 14)), allIds: null, missing: 0, cap: RECODED_READING_CAP };
       }
-      if (request.weight) weightSlot = slotOf(resolveColumn(request.weight.column, header, request.weight.kind === 'freq' ? '--freq' : '--weight', source.label));
-      const whereSlots = (request.where ?? []).map((w) => slotOf(resolveColumn(w.column, header, '--where', source.label)));
+      if (selection.weight !== null) weightSlot = slotOf(selection.weight);
+      const whereSlots = selection.where.map((index) => slotOf(index));
       gate = new RowGate(
         (request.where ?? []).map((clause, k) => ({
           clause,

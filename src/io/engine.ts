@@ -89,7 +89,7 @@ export function isParquetPath(path: string): boolean {
   return PARQUET.test(path);
 }
 
-function sqlString(text: string): string {
+export function sqlString(text: string): string {
   return `'${text.replace(/'/g, "''")}'`;
 }
 
@@ -98,13 +98,13 @@ function sqlIdentifier(name: string): string {
 }
 
 /** The first line of an engine message, without its class prefix ("IO Error: …"). */
-function engineMessage(error: unknown): string {
+export function engineMessage(error: unknown): string {
   const text = error instanceof Error ? error.message : String(error);
   const first = text.split('\n').map((l) => l.trim()).find((l) => l !== '') ?? text;
   return first.replace(/^[A-Za-z ]*Error:\s*/, '');
 }
 
-async function run(sql: string): Promise<unknown[][]> {
+export async function run(sql: string): Promise<unknown[][]> {
   const db = await connect();
   const reader = await db.runAndReadAll(sql);
   return reader.getRows();
@@ -252,15 +252,15 @@ export interface EngineSummary {
 }
 
 /** The pattern of parseWeightValue in rowRules.ts, for the engine's regular expressions. */
-const NUMBER_PATTERN = '[+-]?([0-9]+[.]?[0-9]*|[.][0-9]+)([eE][+-]?[0-9]+)?';
+export const NUMBER_PATTERN = '[+-]?([0-9]+[.]?[0-9]*|[.][0-9]+)([eE][+-]?[0-9]+)?';
 
 /** x · 2^k in SQL, in two steps where 2^k alone would overflow. */
-function scaled(x: string, k: string): string {
+export function scaled(x: string, k: string): string {
   return `CASE WHEN ${k} > 900 THEN (${x} * pow(2.0, 600)) * pow(2.0, ${k} - 600) ELSE ${x} * pow(2.0, ${k}) END`;
 }
 
 /** The relation of all rows, every column as text, and the SQL names of the columns. */
-async function relation(input: EngineInput, reader: ReaderOptions): Promise<{ sql: string; header: string[]; names: string[]; delimiter: string | null; blankLines: () => Promise<number> }> {
+export async function relation(input: EngineInput, reader: ReaderOptions): Promise<{ sql: string; header: string[]; names: string[]; delimiter: string | null; blankLines: () => Promise<number> }> {
   if (input.format === 'parquet') {
     const list = `[${input.files.map(sqlString).join(', ')}]`;
     const from = `read_parquet(${list}, union_by_name = true)`;
