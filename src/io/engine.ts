@@ -11,9 +11,8 @@ import type { WeightKind } from './rowRules.js';
  * the number of rows and exact sums of the weights, and every rule of the
  * tool (missing values, recodes, filters, weights, layers) is then applied
  * to those lines by the same code that handles rows from the built-in
- * reader. Values are read as text and trimmed of spaces and tabs in the
- * engine only to make fewer groups; the full trim and the missing-value
- * rule are the reader's own.
+ * reader. Values are read as text and grouped as they are; the trim and
+ * the missing-value rule are the reader's own, applied to each group.
  */
 
 /** The version pinned in package.json's optionalDependencies, named in the install hint. */
@@ -231,7 +230,7 @@ export interface EngineWeightRule {
 
 /** One distinct combination of the selected columns' values, as the engine counted it. */
 export interface EngineGroup {
-  /** Per selected column: its text (trimmed of spaces and tabs), or null; the weight slot is null. */
+  /** Per selected column: its text as read (untrimmed), or null; the weight slot is null. */
   values: (string | null)[];
   rows: number;
   /** Σw and Σw² of the group as exact sums (see pairFromBuckets), or null without weights. */
@@ -302,7 +301,6 @@ export async function relation(input: EngineInput, reader: ReaderOptions): Promi
       `compression = ${l.gzip ? "'gzip'" : "'none'"}`,
       `strict_mode = true`,
       `null_padding = false`,
-      `max_line_size = 67108864`,
     ];
     return `SELECT * FROM read_csv([${group.map((g) => sqlString(g.file)).join(', ')}], ${options.join(', ')})`;
   });
@@ -333,13 +331,13 @@ export async function engineGroups(
 ): Promise<EngineSummary> {
   const rel = await relation(input, reader);
   const selected = select(rel.header);
-  const keys = selected.map((column, slot) => (weight && slot === weight.slot ? null : `trim(CAST(${rel.names[column]} AS VARCHAR), ' \t') AS v${slot}`));
+  const keys = selected.map((column, slot) => (weight && slot === weight.slot ? null : `CAST(${rel.names[column]} AS VARCHAR) AS v${slot}`));
   const keyNames = selected.map((_c, slot) => (weight && slot === weight.slot ? null : `v${slot}`)).filter((k): k is string => k !== null);
   let sql: string;
   if (weight === null) {
     sql = `SELECT ${keyNames.join(', ')}, COUNT(*) AS n FROM (SELECT ${keys.filter((k) => k !== null).join(', ')} FROM ${rel.sql}) GROUP BY ALL`;
   } else {
-    const text = `trim(CAST(${rel.names[selected[weight.slot]]} AS VARCHAR), ' \t')`;
+    const text = `trim(CAST(${rel.names[selected[weight.slot]]} AS VARCHAR))`;
     const normalised = weight.decimalComma ? `regexp_replace(wt, ',', '.')` : 'wt';
     const whole = weight.kind === 'freq' ? ' AND wd = floor(wd)' : '';
     sql = `

@@ -48,7 +48,7 @@ const TABLE = 'tabsight_scan_rows';
 const SETS_PER_QUERY = 1000;
 
 interface Entries {
-  /** The engine's value (trimmed of spaces and tabs) of each entry; null for SQL NULL. */
+  /** The engine's value (as read, untrimmed) of each entry; null for SQL NULL. */
   raws: (string | null)[];
   counts: number[];
   /** Where each entry's code sits in the coded column (its index, or its first row when binned). */
@@ -68,7 +68,7 @@ export async function engineEncode(input: EngineInput, reader: ReaderOptions, re
   const rel = await relation(input, reader);
   const selection = scanSelection(rel.header, request, input.label);
   const missingTokens = new Set(reader.missing.map((m) => m.trim()));
-  const text = (index: number) => `trim(CAST(${rel.names[index]} AS VARCHAR), ' \t')`;
+  const text = (index: number) => `CAST(${rel.names[index]} AS VARCHAR)`;
 
   // Filters: the engine lists each filter column's values, the tool's rule decides which pass.
   const filters: string[] = [];
@@ -98,7 +98,7 @@ export async function engineEncode(input: EngineInput, reader: ReaderOptions, re
     await query(
       input,
       `CREATE OR REPLACE TEMP TABLE ${TABLE} AS
-       WITH src AS (SELECT ${keys.join(', ')}, ${text(selection.weight)} AS wt, ${pass} AS pass FROM ${rel.sql}),
+       WITH src AS (SELECT ${keys.join(', ')}, trim(${text(selection.weight)}) AS wt, ${pass} AS pass FROM ${rel.sql}),
        parsed AS (SELECT *, CASE WHEN regexp_full_match(${normalised}, '${NUMBER_PATTERN}') THEN TRY_CAST(${normalised} AS DOUBLE) END AS wd FROM src),
        judged AS (SELECT *, COALESCE(isfinite(wd) AND wd >= 0${whole}, false) AS ok FROM parsed),
        bucketed AS (SELECT *, CASE WHEN ok AND wd > 0 THEN CAST(floor(log2(wd)) AS INTEGER) - 3 END AS b,
@@ -138,12 +138,14 @@ export async function engineEncode(input: EngineInput, reader: ReaderOptions, re
   // Profile: how many distinct values each column holds, then the values of those within reach.
   const all = [...candidates.map((_c, k) => `v${k}`), ...(selection.layer !== null ? ['vl'] : [])];
   const missingList = [...missingTokens].map(sqlString);
-  const isMissing = (v: string) => `(${v} IS NULL OR ${v} = ''${missingList.length > 0 ? ` OR ${v} IN (${missingList.join(', ')})` : ''})`;
+  // Only for columns whose values are not fetched: the engine's count of distinct trimmed values.
+  const trimmed = (v: string) => `trim(${v}, ' \t')`;
+  const isMissing = (v: string) => `(${v} IS NULL OR ${trimmed(v)} = ''${missingList.length > 0 ? ` OR ${trimmed(v)} IN (${missingList.join(', ')})` : ''})`;
   const profile = (
     await query(
       input,
       `SELECT COUNT(*), ${all
-        .map((v) => `COUNT(DISTINCT ${v}) FILTER (WHERE NOT ${isMissing(v)}), COUNT(*) FILTER (WHERE ${isMissing(v)}), bool_and(regexp_full_match(${v}, '${NUMBER_PATTERN}')) FILTER (WHERE NOT ${isMissing(v)}), bool_and(regexp_full_match(${v}, '[+-]?[0-9]+')) FILTER (WHERE NOT ${isMissing(v)})`)
+        .map((v) => `COUNT(DISTINCT ${trimmed(v)}) FILTER (WHERE NOT ${isMissing(v)}), COUNT(*) FILTER (WHERE ${isMissing(v)}), bool_and(regexp_full_match(${trimmed(v)}, '${NUMBER_PATTERN}')) FILTER (WHERE NOT ${isMissing(v)}), bool_and(regexp_full_match(${trimmed(v)}, '[+-]?[0-9]+')) FILTER (WHERE NOT ${isMissing(v)})`)
         .join(', ')} FROM ${TABLE} WHERE ${kept}`,
     )
   )[0];
