@@ -18,6 +18,7 @@ import {
   RawTableOptions,
   splitList,
   inputSummary,
+  addSummedWeightsOption,
 } from './options.js';
 import { setOutcome } from './outcome.js';
 import { emit, painter, writeFileAtomically } from './output.js';
@@ -49,6 +50,7 @@ export function compareCommand(): Command {
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addSurveyOptions(command, false);
+  addSummedWeightsOption(command);
   addAnalysisOptions(command);
   addReportOptions(command);
   command.addHelpText(

@@ -6,6 +6,7 @@ import { scanCommand } from './scan.js';
 import { compareCommand } from './compare.js';
 import { countCommand, mergeCommand } from './counts.js';
 import { completionCommand } from './completion.js';
+import { sqlCommand } from './sql.js';
 import { outcome } from './outcome.js';
 
 function oneLine(text: string): string {
@@ -24,7 +25,7 @@ export function buildProgram(): Command {
       },
     })
     .exitOverride();
-  for (const command of [pairCommand(), scanCommand(), compareCommand(), countCommand(), mergeCommand(), completionCommand(() => program)]) {
+  for (const command of [pairCommand(), scanCommand(), compareCommand(), countCommand(), mergeCommand(), sqlCommand(), completionCommand(() => program)]) {
     command.exitOverride();
     command.configureOutput({ writeErr: (text: string) => { const line = oneLine(text); if (line !== '') process.stderr.write(`tabsight: ${line}\n`); } });
     command.showSuggestionAfterError(true);

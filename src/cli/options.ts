@@ -140,6 +140,7 @@ export interface RawSurveyOptions {
   keepMissing?: boolean;
   other?: string;
   otherLabel: string;
+  summedWeights?: string;
 }
 
 export interface SurveyPlan {
@@ -150,6 +151,13 @@ export interface SurveyPlan {
   where: WhereClause[];
   keepMissing: boolean;
   other?: { k: number; label: string };
+  /** Cells counted elsewhere with sampling weights: Σw and Σw² columns beside the --freq row count. */
+  summedWeights?: { sum: string; squares: string };
+}
+
+/** --summed-weights, for reading back the cells that `tabsight sql --weight` counts. */
+export function addSummedWeightsOption(command: Command): Command {
+  return command.option('--summed-weights <sum,squares>', 'with --freq: each line is a cell counted elsewhere, with the sum of its sampling weights and of their squares in these columns (see tabsight sql)');
 }
 
 export function surveyPlan(raw: RawSurveyOptions): SurveyPlan {
@@ -164,7 +172,16 @@ export function surveyPlan(raw: RawSurveyOptions): SurveyPlan {
     where: (raw.where ?? []).map(parseWhere),
     keepMissing: raw.keepMissing === true,
     other: raw.other === undefined ? undefined : { k: positiveInteger(raw.other, '--other', 1), label: raw.otherLabel.trim() },
+    summedWeights: summedWeightsPlan(raw),
   };
+}
+
+function summedWeightsPlan(raw: RawSurveyOptions): SurveyPlan['summedWeights'] {
+  if (raw.summedWeights === undefined) return undefined;
+  const parts = splitList(raw.summedWeights) ?? [];
+  if (parts.length !== 2) throw usageError(`--summed-weights "${raw.summedWeights}": name two columns, the sum of the weights and the sum of their squares`);
+  if (raw.freq === undefined) throw usageError('--summed-weights needs --freq naming the column that counts the rows of each line');
+  return { sum: parts[0], squares: parts[1] };
 }
 
 /** Options of every reporting command: where the report goes and what the exit status says. */

@@ -4,7 +4,7 @@ import { countTables } from '../io/countTables.js';
 import { inputSource, checkReadable } from '../io/source.js';
 import { toJson } from '../render/json.js';
 import { renderPairText } from '../render/pairText.js';
-import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, RawReportOptions, RawTableOptions, tablePlan, inputSummary } from './options.js';
+import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, RawReportOptions, RawTableOptions, tablePlan, inputSummary, addSummedWeightsOption } from './options.js';
 import { emit, painter, writeFileAtomically } from './output.js';
 import { setOutcome } from './outcome.js';
 import { renderPairDelimited, renderPairMarkdown } from '../render/pairDelimited.js';
@@ -29,6 +29,7 @@ export function pairCommand(): Command {
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addSurveyOptions(command);
+  addSummedWeightsOption(command);
   addAnalysisOptions(command);
   addReportOptions(command);
   command.addHelpText(

@@ -4,7 +4,7 @@ import { dropEmptyLevels, rareLevelMerge, relabelTable, TableCounter, TwoWayTabl
 import { resolveColumn } from './columns.js';
 import { MISSING_ID } from './fieldInterner.js';
 import { DEFAULT_DISTINCT_LIMIT, readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
-import { parseWeightValue, RecodedLabels, Recode, recodesByColumn, RowGate, WhereClause } from './rowRules.js';
+import { parseWeightValue, weightError, RecodedLabels, Recode, recodesByColumn, RowGate, WhereClause } from './rowRules.js';
 import { chooseEngine, EngineFallback, EngineInput, engineGroups, engineInput, EngineName } from './engine.js';
 import { FieldInterner } from './fieldInterner.js';
 import { CompensatedSum, pairFromBuckets } from '../table/compensatedSum.js';
@@ -32,6 +32,8 @@ export interface CountPlan {
   colOrder?: string[];
   /** Accept a table with fewer than two levels on a side (for writing counts, not testing). */
   allowDegenerate?: boolean;
+  /** With a --freq row count: columns holding each line's Σw and Σw² (cells counted elsewhere). */
+  summedWeights?: { sum: string; squares: string };
 }
 
 export type { Weighting };
@@ -89,7 +91,8 @@ export interface CountSummary extends Omit<ReadSummary, 'delimiter'> {
  * same rules, a group at a time.
  */
 export async function countTables(source: InputSource, reader: ReaderOptions, plan: CountPlan): Promise<CountedTables> {
-  const chosen = await chooseEngine(reader.engine ?? 'builtin', source);
+  // Cells counted elsewhere are small files: the built-in reader reads them.
+  const chosen = plan.summedWeights ? 'builtin' : await chooseEngine(reader.engine ?? 'builtin', source);
   if (chosen === 'duckdb') {
     const input = await engineInput(source);
     try {
@@ -123,6 +126,8 @@ async function countOnce(source: InputSource, reader: ReaderOptions, plan: Count
   const bySlot = plan.by !== undefined ? slotOf(plan.by) : -1;
   const weightSlot = plan.weight ? slotOf(plan.weight.column) : -1;
   const whereSlots = plan.where.map((w) => slotOf(w.column));
+  const sumSlot = plan.summedWeights ? slotOf(plan.summedWeights.sum) : -1;
+  const squaresSlot = plan.summedWeights ? slotOf(plan.summedWeights.squares) : -1;
 
   const pooled = accumulator(plan);
   const strata = new Map<string, Accumulator>();
@@ -138,12 +143,12 @@ async function countOnce(source: InputSource, reader: ReaderOptions, plan: Count
     source.label,
   );
   const keepMissing = plan.keepMissing;
-  const kind: Weighting['kind'] = plan.weight ? plan.weight.kind : 'none';
+  const kind: Weighting['kind'] = plan.summedWeights ? 'weight' : plan.weight ? plan.weight.kind : 'none';
   const select = (header: string[]) => {
     // A recode of a column this analysis does not use is harmless, but a misspelt one is not.
     for (const column of recodes.keys()) resolveColumn(column, header, '--recode', source.label);
     return names.map((name, slot) => {
-      const option = slot === rowSlot ? '--rows' : slot === colSlot ? '--cols' : slot === bySlot ? '--by' : slot === weightSlot ? weightOption : '--where';
+      const option = slot === rowSlot ? '--rows' : slot === colSlot ? '--cols' : slot === bySlot ? '--by' : slot === weightSlot ? weightOption : slot === sumSlot || slot === squaresSlot ? '--summed-weights' : '--where';
       return resolveColumn(name, header, option, source.label);
     });
   };
@@ -189,10 +194,21 @@ async function countOnce(source: InputSource, reader: ReaderOptions, plan: Count
       (ids, line, texts, interners) => {
         if (labelsOf.length === 0) labelsOf = interners.map((i) => i.labels);
         const w = gate.admit(ids, texts, line);
-        if (w >= 0) tally(ids, 1, w, 0, w * w, 0);
+        if (w < 0) return;
+        if (sumSlot < 0) {
+          tally(ids, 1, w, 0, w * w, 0);
+          return;
+        }
+        // A cell counted elsewhere: w rows, with Σw and Σw² as given.
+        const sums = [sumSlot, squaresSlot].map((slot) => {
+          const value = parseWeightValue(texts[slot], 'weight', plan.decimalComma);
+          if (typeof value === 'string') throw weightError(source.label, line, '--summed-weights', names[slot], value);
+          return value;
+        });
+        tally(ids, w, sums[0], 0, sums[1], 0);
       },
       undefined,
-      weightSlot >= 0 ? new Set([weightSlot]) : new Set(),
+      new Set([weightSlot, sumSlot, squaresSlot].filter((slot) => slot >= 0)),
     );
     if (labelsOf.length === 0) labelsOf = read.interners.map((i) => i.labels);
     summary = { ...read, engine: 'builtin', format: 'csv', files: 1 };
