@@ -267,6 +267,7 @@ export async function relation(input: EngineInput, reader: ReaderOptions): Promi
     try {
       described = await run(`DESCRIBE SELECT * FROM ${from}`);
     } catch (error) {
+      if (error instanceof TabsightError) throw error;
       throw dataError(`${input.label}: not a readable Parquet input (${engineMessage(error)})`);
     }
     const header = described.map((r) => String(r[0]));
@@ -359,6 +360,7 @@ export async function engineGroups(
   try {
     rows = await run(sql);
   } catch (error) {
+    if (error instanceof TabsightError) throw error;
     if (input.format === 'csv' && !input.glob) throw new EngineFallback(engineMessage(error));
     throw dataError(`${input.label}: the engine could not read the input (${engineMessage(error)}); --engine builtin reads one CSV file at a time and names the line`);
   }

@@ -1,4 +1,4 @@
-import { dataError } from '../errors.js';
+import { dataError, TabsightError } from '../errors.js';
 import type { PairCounter, PreparedColumns } from '../analysis/scan.js';
 import { crossCount, CodedColumn } from '../table/crossCount.js';
 import { isNumericLabel } from '../table/naturalOrder.js';
@@ -59,6 +59,7 @@ async function query(input: EngineInput, sql: string): Promise<unknown[][]> {
   try {
     return await run(sql);
   } catch (error) {
+    if (error instanceof TabsightError) throw error;
     if (input.format === 'csv' && !input.glob) throw new EngineFallback(engineMessage(error));
     throw dataError(`${input.label}: the engine could not read the input (${engineMessage(error)}); --engine builtin reads one CSV file at a time and names the line`);
   }
