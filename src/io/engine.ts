@@ -221,6 +221,23 @@ async function countEmptyLines(file: string, gzip: boolean): Promise<number> {
   return count;
 }
 
+/**
+ * The engine reads a quote inside an unquoted field as a character, where
+ * the built-in reader refuses the row and names its line. A value with a
+ * quote in it is rare, so when one turns up the built-in reader settles the
+ * question: it reads one file in place of the engine, or checks each file
+ * of a pattern (and its error, if any, is the answer).
+ */
+export async function settleQuotes(input: EngineInput, reader: ReaderOptions, values: Iterable<string | null>): Promise<void> {
+  if (input.format !== 'csv') return;
+  for (const value of values) {
+    if (value === null || !value.includes('"')) continue;
+    if (!input.glob) throw new EngineFallback('a quote inside a field, which the built-in reader judges');
+    for (const file of input.files) await readRecords({ path: file, label: file }, reader, () => [], () => undefined);
+    return;
+  }
+}
+
 export interface EngineWeightRule {
   /** Index (in the selection) of the weight column. */
   slot: number;
@@ -364,6 +381,7 @@ export async function engineGroups(
     if (input.format === 'csv' && !input.glob) throw new EngineFallback(engineMessage(error));
     throw dataError(`${input.label}: the engine could not read the input (${engineMessage(error)}); --engine builtin reads one CSV file at a time and names the line`);
   }
+  await settleQuotes(input, reader, rows.flatMap((row) => row.slice(0, keyNames.length) as (string | null)[]));
   // Buckets of one combination arrive as separate lines; they are joined here.
   const joined = new Map<string, EngineGroup>();
   let records = 0;

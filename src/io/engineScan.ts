@@ -5,7 +5,7 @@ import { isNumericLabel } from '../table/naturalOrder.js';
 import { pairFromBuckets } from '../table/compensatedSum.js';
 import type { EncodedColumn } from '../table/encodedColumn.js';
 import { DISTINCT_TRACKING_LIMIT, EncodeRequest, RECODED_READING_CAP, scanSelection } from './encodeColumns.js';
-import { EngineFallback, EngineInput, engineMessage, NUMBER_PATTERN, relation, run, scaled, sqlString } from './engine.js';
+import { EngineFallback, EngineInput, engineMessage, settleQuotes, NUMBER_PATTERN, relation, run, scaled, sqlString } from './engine.js';
 import { FieldInterner } from './fieldInterner.js';
 import type { ReaderOptions } from './readRecords.js';
 import { parseWeightValue } from './rowRules.js';
@@ -169,6 +169,7 @@ export async function engineEncode(input: EngineInput, reader: ReaderOptions, re
       e.counts.push(Number(n));
     }
   }
+  await settleQuotes(input, reader, entries.flatMap((e) => e?.raws ?? []));
   const encoded = all.map<EncodedColumn>((_v, k) => {
     const name = k === candidates.length ? rel.header[selection.layer as number] : rel.header[candidates[k]];
     const e = entries[k];
