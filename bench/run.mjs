@@ -63,8 +63,8 @@ ensureReference();
 const scan = await scanFile();
 const pair = await pairFile();
 const results = [];
-results.push(compare('scan, 200,000 rows x 30 columns', [process.execPath, [bin, 'scan', scan, '--format', 'csv']], [python, [join(here, 'reference_route.py'), 'scan', scan]], 0.1));
-results.push(compare('pair, 1,000,000 rows x 8 columns', [process.execPath, [bin, 'pair', pair, '--rows', 'region', '--cols', 'segment', '--format', 'json']], [python, [join(here, 'reference_route.py'), 'pair', pair, 'region', 'segment']], 0.5));
+results.push(compare('scan, 200,000 rows x 30 columns', [process.execPath, [bin, 'scan', scan, '--format', 'csv', '--engine', 'builtin']], [python, [join(here, 'reference_route.py'), 'scan', scan]], 0.1));
+results.push(compare('pair, 1,000,000 rows x 8 columns', [process.execPath, [bin, 'pair', pair, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', 'builtin']], [python, [join(here, 'reference_route.py'), 'pair', pair, 'region', 'segment']], 0.5));
 
 console.log(`\nwhole-process wall time, median of ${runs} runs, same machine, same run\n`);
 console.log('scenario                              tabsight   reference   ratio   goal');
@@ -80,6 +80,39 @@ if (!quick && hasTime) {
   const small = median(Array.from({ length: 3 }, () => once(process.execPath, [bin, 'pair', pair, '--rows', 'region', '--cols', 'segment', '--format', 'json']).peak));
   const big = median(Array.from({ length: 3 }, () => once(process.execPath, [bin, 'pair', large, '--rows', 'region', '--cols', 'segment', '--format', 'json']).peak));
   console.log(`peak memory of pair: ${small.toFixed(0)} MB on 1M rows, ${big.toFixed(0)} MB on 10M rows: ratio ${(big / small).toFixed(2)} (goal ≤ 1.5)`);
+}
+
+// The embedded engine (--engine duckdb) against the built-in reader and the
+// dataframe route, in the same run, on CSV and on the same rows as Parquet.
+// Debian has no Parquet reader for pandas (no pyarrow), so on Parquet the
+// dataframe route is the CSV one.
+const engineLoads = spawnSync(process.execPath, ['-e', "import('@duckdb/node-api').then(() => process.exit(0), () => process.exit(1))"], { cwd: root }).status === 0;
+if (!engineLoads) {
+  console.log('\nengine route: @duckdb/node-api is not installed (optional dependency); skipped');
+} else {
+  const sizes = quick ? [[1_000_000, pair]] : [[1_000_000, pair], [10_000_000, await pairFile(10_000_000, 'pair-10m.csv')]];
+  console.log(`\nengine route (pair region x segment), whole-process wall time, median of ${runs} runs\n`);
+  console.log('input                          engine    built-in  dataframe  engine/built-in  engine/dataframe');
+  for (const [rows, csv] of sizes) {
+    const parquet = csv.replace(/\.csv$/, '.parquet');
+    if (!existsSync(parquet)) {
+      const made = spawnSync(process.execPath, [join(here, 'to-parquet.mjs'), csv, parquet], { cwd: root, encoding: 'utf8' });
+      if (made.status !== 0) throw new Error(`to-parquet failed: ${made.stderr}`);
+    }
+    const pairArgs = (file, engine) => [bin, 'pair', file, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', engine];
+    const times = { engineCsv: [], engineParquet: [], builtin: [], dataframe: [] };
+    for (let k = 0; k < runs; k++) {
+      times.engineCsv.push(once(process.execPath, pairArgs(csv, 'duckdb')).seconds);
+      times.engineParquet.push(once(process.execPath, pairArgs(parquet, 'duckdb')).seconds);
+      times.builtin.push(once(process.execPath, pairArgs(csv, 'builtin')).seconds);
+      times.dataframe.push(once(python, [join(here, 'reference_route.py'), 'pair', csv, 'region', 'segment']).seconds);
+    }
+    const m = Object.fromEntries(Object.entries(times).map(([k, v]) => [k, median(v)]));
+    const label = `${(rows / 1e6).toFixed(0)}M rows`;
+    for (const [name, t] of [[`${label}, CSV (${(statSync(csv).size / 1e6).toFixed(0)} MB)`, m.engineCsv], [`${label}, Parquet (${(statSync(parquet).size / 1e6).toFixed(0)} MB)`, m.engineParquet]]) {
+      console.log(`${name.padEnd(30)} ${t.toFixed(2).padStart(6)} s ${m.builtin.toFixed(2).padStart(8)} s ${m.dataframe.toFixed(2).padStart(8)} s ${(t / m.builtin).toFixed(3).padStart(15)} ${(t / m.dataframe).toFixed(3).padStart(17)}`);
+    }
+  }
 }
 
 const accuracy = spawnSync(process.execPath, [join(here, 'jstat-accuracy.mjs')], { encoding: 'utf8' });
