@@ -1,0 +1,80 @@
+// Order-free sums of weights (src/table/compensatedSum.ts). The reference is
+// exact integer arithmetic: weights are drawn as multiples of 2^-60 below
+// 2^40, so Σw·2^60 is an exact BigInt, and ECMAScript's BigInt → Number
+// conversion is specified to round to nearest, ties to even (ECMA-262,
+// §21.1.1.1 Number(value) → "the Number value for ℝ(prim)").
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { CompensatedSum, pairFromBuckets } from '../../src/table/compensatedSum.js';
+import { fisherFreemanHalton } from '../../src/stats/fisherExact.js';
+
+const SCALE = 2n ** 60n;
+const weight = fc.tuple(fc.bigInt({ min: 0n, max: 2n ** 100n - 1n }), fc.integer({ min: 0, max: 60 })).map(([m, shift]) => {
+  // a double that is an exact multiple of 2^-60 (53 significant bits at most)
+  const bits = m.toString(2).length;
+  const mantissa = bits > 53 ? m >> BigInt(bits - 53) : m;
+  return Number(mantissa) * 2 ** (-shift);
+}).filter((w) => w < 2 ** 40);
+
+function exactlyRounded(values: number[]): number {
+  let total = 0n;
+  for (const w of values) total += BigInt(w * 2 ** 60); // exact: w·2^60 is an integer below 2^100
+  return Number(total) / Number(SCALE);
+}
+
+describe('compensated sums of weights', () => {
+  it('give the correctly rounded sum, whatever the order of the rows (exact BigInt reference)', () => {
+    fc.assert(
+      fc.property(fc.array(weight, { minLength: 1, maxLength: 300 }), fc.integer(), (values, seed) => {
+        const shuffled = [...values];
+        let s = seed >>> 0;
+        for (let i = shuffled.length - 1; i > 0; i--) {
+          s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+          const j = s % (i + 1);
+          [shuffled[i], shuffled[j]] = [shuffled[j], shuffled[i]];
+        }
+        const a = new CompensatedSum();
+        const b = new CompensatedSum();
+        for (const w of values) a.add(w);
+        for (const w of shuffled) b.add(w);
+        const exact = exactlyRounded(values);
+        expect(a.value).toBe(exact);
+        expect(b.value).toBe(exact);
+      }),
+      { numRuns: 300, seed: 7 },
+    );
+  });
+
+  it('where plain left-to-right addition drifts (a case it gets wrong)', () => {
+    const values = [1e16, 1, 1, 1, 1, -0, 1];
+    let naive = 0;
+    for (const w of values) naive += w;
+    const c = new CompensatedSum();
+    for (const w of values) c.add(w);
+    const exact = Number(10_000_000_000_000_005n); // the exact sum, rounded once (ties to even)
+    expect(naive).not.toBe(exact);
+    expect(c.value).toBe(exact);
+  });
+
+  it('turn an engine\'s exact bucket sums (m · 2^(b−52)) into the correctly rounded value', () => {
+    fc.assert(
+      fc.property(fc.array(fc.tuple(fc.integer({ min: -80, max: 80 }), fc.bigInt({ min: 0n, max: 2n ** 90n })), { minLength: 1, maxLength: 8 }), (buckets) => {
+        // reference: everything over the common denominator 2^(52 + 80)
+        let total = 0n;
+        for (const [b, m] of buckets) total += m << BigInt(b + 80);
+        const reference = Number(total) / 2 ** 132;
+        const [hi, lo] = pairFromBuckets(buckets);
+        expect(hi).toBe(reference);
+        expect(Math.abs(lo)).toBeLessThanOrEqual(Math.abs(hi) * 2 ** -52);
+      }),
+      { numRuns: 300, seed: 11 },
+    );
+  });
+});
+
+describe('the network algorithm on a very wide table', () => {
+  it('declines (so the simulated p-value is used) instead of exhausting the stack', () => {
+    const counts = [Array.from({ length: 1500 }, (_v, j) => 1 + (j % 3)), Array.from({ length: 1500 }, (_v, j) => 1 + ((j + 1) % 3))];
+    expect(fisherFreemanHalton(counts)).toBeNull();
+  });
+});
