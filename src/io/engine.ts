@@ -1,7 +1,7 @@
 import { promises as fs, createReadStream } from 'node:fs';
 import { dataError, TabsightError, usageError } from '../errors.js';
 import { readRecords, ReaderOptions } from './readRecords.js';
-import { describeOpenError, InputSource, isGzipFile, rawChunks } from './source.js';
+import { checkFile, InputSource, isGzipFile, rawChunks } from './source.js';
 import type { WeightKind } from './rowRules.js';
 
 /**
@@ -114,13 +114,7 @@ export async function engineInput(source: InputSource): Promise<EngineInput> {
   if (source.path === '-') throw usageError('--engine duckdb reads files, not standard input; give a file or a pattern, or use --engine builtin');
   const format: InputFormat = isParquetPath(source.path) ? 'parquet' : 'csv';
   if (!isGlob(source.path)) {
-    try {
-      const stat = await fs.stat(source.path);
-      if (stat.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
-      await fs.access(source.path, fs.constants.R_OK);
-    } catch (error) {
-      throw describeOpenError(source, error as NodeJS.ErrnoException);
-    }
+    await checkFile(source);
     return { label: source.label, format, files: [source.path], glob: false };
   }
   let rows: unknown[][];

@@ -33,6 +33,17 @@ export function describeOpenError(source: InputSource, error: NodeJS.ErrnoExcept
   }
 }
 
+/** A file that exists, is not a directory and can be read; otherwise the tool's one-line message. */
+export async function checkFile(source: InputSource): Promise<void> {
+  try {
+    const stat = await fs.stat(source.path);
+    if (stat.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
+    await fs.access(source.path, fs.constants.R_OK);
+  } catch (error) {
+    throw describeOpenError(source, error as NodeJS.ErrnoException);
+  }
+}
+
 /**
  * Streams the raw bytes of the source. Files are checked first so that a
  * directory or a missing file gives a clear message before any work.
@@ -42,13 +53,7 @@ export async function* rawChunks(source: InputSource): AsyncGenerator<Buffer> {
   if (source.path === '-') {
     stream = process.stdin;
   } else {
-    try {
-      const stat = await fs.stat(source.path);
-      if (stat.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
-      await fs.access(source.path, fs.constants.R_OK);
-    } catch (error) {
-      throw describeOpenError(source, error as NodeJS.ErrnoException);
-    }
+    await checkFile(source);
     stream = await openFile(source.path);
   }
   try {
