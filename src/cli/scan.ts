@@ -115,6 +115,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no p
       layer,
     });
     let report: ScanReport | null = null;
+    let fallback: string | null = null;
     if ((await chooseEngine(reader.engine ?? 'builtin', source)) === 'duckdb') {
       const input = await engineInput(source);
       try {
@@ -126,7 +127,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no p
         report = scorePairs(prepared, encoded.rows, summary, { ...scanOptions, weights: null }, counter);
       } catch (error) {
         if (!(error instanceof EngineFallback)) throw error;
-        reader.onNote?.(`the engine cannot read ${source.label} the way the built-in reader does (${error.message}); counted with the built-in reader`);
+        fallback = `the engine cannot read ${source.label} the way the built-in reader does (${error.message}); counted with the built-in reader`;
       }
     }
     if (report === null) {
@@ -135,6 +136,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no p
       progress.done();
       const summary = inputSummary(source.label, { summary: { ...encoded.summary, engine: 'builtin', format: 'csv', files: 1 }, filtered: encoded.filtered, badWeights: encoded.badWeights });
       report = scanColumns(encoded.columns, encoded.rows, summary, options(encoded.weights, encoded.layer));
+      if (fallback !== null) reader.onNote?.(fallback);
     }
     let text: string;
     switch (raw.format) {

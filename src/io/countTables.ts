@@ -99,7 +99,10 @@ export async function countTables(source: InputSource, reader: ReaderOptions, pl
       return await countOnce(source, reader, plan, input);
     } catch (error) {
       if (!(error instanceof EngineFallback)) throw error;
+      // The note is worth saying only when the built-in reader succeeds; its error says the rest.
+      const counted = await countOnce(source, reader, plan, null);
       reader.onNote?.(`the engine cannot read ${source.label} the way the built-in reader does (${error.message}); counted with the built-in reader`);
+      return counted;
     }
   }
   return countOnce(source, reader, plan, null);
