@@ -1,4 +1,5 @@
 import { compareNatural } from './naturalOrder.js';
+import { usageError } from '../errors.js';
 
 export interface Binning {
   /** Bin labels, lowest first. */
@@ -57,4 +58,85 @@ export function naturalRanks(labels: readonly string[]): number[] {
   const rank = new Array<number>(labels.length);
   order.forEach((code, position) => (rank[code] = position));
   return rank;
+}
+
+/**
+ * Bins at given cut points c1 < c2 < … < ck: k + 1 bins, each closed on the
+ * left and open on the right, x < c1, c1 ≤ x < c2, …, x ≥ ck (the usual
+ * reading of age and income brackets: "18,25" puts 25-year-olds with the
+ * next bracket; common practice). Only bins that hold a value are kept,
+ * lowest first; `empty` names the others.
+ *
+ * Labels are range-like, so that they sort in natural order
+ * (naturalOrder.ts): when every value and cut is a whole number they read
+ * `<18`, `18–24`, `25–34`, `50+` (a bin of one whole number is that number);
+ * otherwise `<18`, `18 to <25`, `50+`.
+ */
+export function cutPointBins(values: Float64Array, cuts: readonly number[]): Binning & { empty: string[] } {
+  for (let i = 1; i < cuts.length; i++) if (!(cuts[i] > cuts[i - 1])) throw new RangeError('cut points must increase');
+  let whole = cuts.every(Number.isInteger);
+  for (let i = 0; whole && i < values.length; i++) if (!Number.isNaN(values[i]) && !Number.isInteger(values[i])) whole = false;
+  const labelOf = (b: number): string => {
+    if (b === 0) return `<${formatEdge(cuts[0])}`;
+    if (b === cuts.length) return `${formatEdge(cuts[b - 1])}+`;
+    const lo = cuts[b - 1];
+    const hi = cuts[b];
+    if (whole) return hi - 1 === lo ? formatEdge(lo) : `${formatEdge(lo)}–${formatEdge(hi - 1)}`;
+    return `${formatEdge(lo)} to <${formatEdge(hi)}`;
+  };
+  const binOf = (x: number) => {
+    // The number of cuts at or below x.
+    let lo = 0;
+    let hi = cuts.length;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (cuts[mid] <= x) lo = mid + 1;
+      else hi = mid;
+    }
+    return lo;
+  };
+  const raw = new Uint16Array(values.length);
+  const used = new Uint8Array(cuts.length + 1);
+  values.forEach((v, i) => {
+    if (Number.isNaN(v)) return;
+    const b = binOf(v);
+    raw[i] = b + 1;
+    used[b] = 1;
+  });
+  const remap = new Uint16Array(cuts.length + 2);
+  const labels: string[] = [];
+  const empty: string[] = [];
+  for (let b = 0; b <= cuts.length; b++) {
+    if (used[b]) {
+      labels.push(labelOf(b));
+      remap[b + 1] = labels.length;
+    } else empty.push(labelOf(b));
+  }
+  const codes = new Uint16Array(values.length);
+  for (let i = 0; i < values.length; i++) codes[i] = remap[raw[i]];
+  return { labels, codes, empty };
+}
+
+/** `--cuts 'column:18,25,35,50'`: a column and its increasing cut points. */
+export interface CutSpec {
+  column: string;
+  cuts: number[];
+}
+
+const CUT_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+export function parseCuts(spec: string, option = '--cuts'): CutSpec {
+  const colon = spec.lastIndexOf(':');
+  if (colon <= 0) throw usageError(`${option} "${spec}": expected column:edge,edge,… (for example 'age:18,25,35,50')`);
+  const column = spec.slice(0, colon).trim();
+  const parts = spec.slice(colon + 1).split(',').map((p) => p.trim()).filter((p) => p !== '');
+  if (parts.length === 0) throw usageError(`${option} "${spec}": give at least one cut point after the colon`);
+  const cuts = parts.map((p) => {
+    if (!CUT_NUMBER.test(p) || !Number.isFinite(Number(p))) throw usageError(`${option} "${spec}": "${p}" is not a number`);
+    return Number(p);
+  });
+  for (let i = 1; i < cuts.length; i++) {
+    if (!(cuts[i] > cuts[i - 1])) throw usageError(`${option} "${spec}": cut points must increase (${parts[i - 1]} then ${parts[i]})`);
+  }
+  return { column, cuts };
 }

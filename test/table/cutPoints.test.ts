@@ -1,0 +1,41 @@
+import { describe, expect, it } from 'vitest';
+import { cutPointBins, equalFrequencyBins, parseCuts } from '../../src/table/bins.js';
+import { compareNatural } from '../../src/table/naturalOrder.js';
+import { TabsightError } from '../../src/errors.js';
+
+// Bins closed on the left, open on the right: the usual reading of age brackets (common practice).
+describe('cut-point bins', () => {
+  const ages = Float64Array.from([17, 18, 24, 25, 34, 35, 49, 50, 80, Number.NaN]);
+  it('puts x < c1, c1 ≤ x < c2, …, x ≥ ck into bins labelled as ranges of whole numbers', () => {
+    const binning = cutPointBins(ages, [18, 25, 35, 50]);
+    expect(binning.labels).toEqual(['<18', '18–24', '25–34', '35–49', '50+']);
+    expect(Array.from(binning.codes)).toEqual([1, 2, 2, 3, 3, 4, 4, 5, 5, 0]);
+    expect(binning.empty).toEqual([]);
+  });
+  it('keeps only occupied bins and names the empty ones', () => {
+    const binning = cutPointBins(Float64Array.from([20, 30, 31]), [18, 25, 35, 50]);
+    expect(binning.labels).toEqual(['18–24', '25–34']);
+    expect(Array.from(binning.codes)).toEqual([1, 2, 2]);
+    expect(binning.empty).toEqual(['<18', '35–49', '50+']);
+  });
+  it('writes "a to <b" when values or cuts are not whole numbers, and a one-number bin as that number', () => {
+    expect(cutPointBins(Float64Array.from([1.5, 2.5, 3.5]), [2, 3]).labels).toEqual(['<2', '2 to <3', '3+']);
+    expect(cutPointBins(Float64Array.from([4, 5, 6]), [5, 6]).labels).toEqual(['<5', '5', '6+']);
+  });
+  it('labels of both kinds of bins sort in natural order', () => {
+    const cut = cutPointBins(ages, [18, 25, 35, 50]).labels;
+    expect([...cut].reverse().sort(compareNatural)).toEqual(cut);
+    const values = Float64Array.from({ length: 200 }, (_v, i) => (i * 37) % 101 - 20.5);
+    const equal = equalFrequencyBins(values, 5).labels;
+    expect([...equal].reverse().sort(compareNatural)).toEqual(equal);
+  });
+  it('parses --cuts and refuses edges that do not increase or are not numbers', () => {
+    expect(parseCuts('age:18,25,35,50')).toEqual({ column: 'age', cuts: [18, 25, 35, 50] });
+    expect(parseCuts('time:a:1.5, 2')).toEqual({ column: 'time:a', cuts: [1.5, 2] });
+    expect(() => parseCuts('age:18,18')).toThrow(TabsightError);
+    expect(() => parseCuts('age:25,18')).toThrow('cut points must increase (25 then 18)');
+    expect(() => parseCuts('age:18,x')).toThrow('"x" is not a number');
+    expect(() => parseCuts('age')).toThrow('expected column:edge');
+    expect(() => parseCuts('age:')).toThrow('at least one cut point');
+  });
+});
