@@ -5,19 +5,11 @@
 import { createWriteStream, existsSync, mkdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { mulberry32 } from '../scripts/seeded-random.mjs';
 
 const here = dirname(fileURLToPath(import.meta.url));
 export const DATA = join(here, 'data');
 
-function mulberry32(a) {
-  return () => {
-    a |= 0;
-    a = (a + 0x6d2b79f5) | 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 async function writeLines(path, header, rows, makeRow) {
   const out = createWriteStream(path);

@@ -11,20 +11,11 @@
 import { writeFileSync, mkdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { mulberry32 } from './seeded-random.mjs';
 
 const rows = Number(process.argv[2] ?? 2400);
 const seed = Number(process.argv[3] ?? 4217);
 
-// mulberry32: a small seeded generator (Tommy Ettinger's public-domain design)
-function mulberry32(a) {
-  return function () {
-    a |= 0;
-    a = (a + 0x6d2b79f5) | 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 const random = mulberry32(seed);
 const pick = (levels, weights) => {
   const total = weights.reduce((s, w) => s + w, 0);

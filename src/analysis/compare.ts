@@ -5,7 +5,8 @@ import { compareNatural } from '../table/naturalOrder.js';
 import { dropEmptyLevels, relabelTable, TwoWayTable } from '../table/twoWayTable.js';
 import { rescaleToEffectiveSize, Weighting } from '../table/weighting.js';
 import { AnalysisOptions, AnalysisRecord, analyzeTable, Warning } from './analyzeTable.js';
-import { InputSummary, TOOL_VERSION } from './report.js';
+import type { InputSummary } from './report.js';
+import { TOOL_VERSION } from '../version.js';
 
 export interface PeriodInput {
   label: string;

@@ -3,7 +3,7 @@ import { TwoWayTable } from '../table/twoWayTable.js';
 import type { Weighting } from '../table/weighting.js';
 import { analyzeStrata, StratifiedSummary, StratumInput, StratumRecord } from './stratify.js';
 
-export const TOOL_VERSION = '0.1.0';
+import { TOOL_VERSION } from '../version.js';
 
 export interface InputSummary {
   file: string;

@@ -6,7 +6,7 @@ import { analyzeStrata, StratifiedSummary, StratumRecord } from './stratify.js';
 import type { EncodedColumn } from '../table/encodedColumn.js';
 import { AnalysisOptions, AnalysisRecord, analyzeTable } from './analyzeTable.js';
 import type { InputSummary } from './report.js';
-import { TOOL_VERSION } from './report.js';
+import { TOOL_VERSION } from '../version.js';
 
 export interface ScanOptions {
   maxLevels: number;

@@ -1,40 +1,66 @@
+/** `tabsight compare`: its options, parsed once into a ComparePlan, and runCompare, which counts two periods and compares them. */
 import { Command, Option } from 'commander';
+import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { comparePeriods, PeriodInput } from '../analysis/compare.js';
 import { unknownOrderWarnings } from '../analysis/report.js';
 import { usageError } from '../errors.js';
-import { CountedTables, countTables } from '../io/countTables.js';
-import { checkReadable, inputSource } from '../io/source.js';
-import { renderCompareHtml } from '../render/html.js';
-import { toJson } from '../render/json.js';
-import { renderCompareText } from '../render/compareText.js';
+import { CountedTables, countTables, TableRequest } from '../io/countTables.js';
+import { checkReadable, InputSource, inputSource } from '../io/source.js';
+import { COMPARE_RENDERERS, CompareFormat } from '../render/renderers.js';
 import { residualHeatMap, stackSvg } from '../render/svg.js';
 import {
-  tablePlan,
   addAnalysisOptions,
   addReaderOptions,
   addReportOptions,
+  addSummedWeightsOption,
   addSurveyOptions,
+  inputSummary,
   RawReportOptions,
   RawTableOptions,
+  ReaderPlan,
+  ReportPlan,
+  reportPlan,
   splitList,
-  inputSummary,
-  addSummedWeightsOption,
+  tablePlan,
 } from './options.js';
-import { setOutcome } from './outcome.js';
-import { emit, painter, writeFileAtomically } from './output.js';
+import { CliIo, emit, noteWriter, painter, writeSideFile } from './output.js';
+import type { Outcome } from './outcome.js';
+
+export interface ComparePlan {
+  /** Two files (before, after), or one file whose --period column tells the periods apart. */
+  periods: { kind: 'files'; before: string; after: string } | { kind: 'column'; input: string; column: string; levels?: [string, string] };
+  reader: ReaderPlan;
+  /** The table to count in each period (levels kept even when one-sided). */
+  table: TableRequest;
+  order: { rows?: string[]; cols?: string[] };
+  analysis: AnalysisOptions;
+  alpha: number;
+  format: CompareFormat;
+  report: ReportPlan;
+}
 
 interface RawCompareOptions extends RawTableOptions, RawReportOptions {
   period?: string;
   levels?: string;
-  format: 'text' | 'json' | 'html';
-  color?: boolean;
+  format: CompareFormat;
 }
 
-function period(label: string, counted: Pick<CountedTables, 'table' | 'weighting' | 'excluded'>, input: PeriodInput['input']): PeriodInput {
-  return { label, table: counted.table, weighting: counted.weighting, excluded: counted.excluded, input };
+export function comparePlan(beforeFile: string, afterFile: string | undefined, raw: RawCompareOptions): ComparePlan {
+  const { reader, analysis, table, order, alpha } = tablePlan(raw);
+  let periods: ComparePlan['periods'];
+  if (raw.period !== undefined) {
+    if (afterFile !== undefined) throw usageError('--period reads one file: give either two files or one file with --period');
+    const wanted = splitList(raw.levels);
+    if (wanted && wanted.length !== 2) throw usageError(`--levels "${raw.levels}": name exactly two levels of ${raw.period}, before and after`);
+    periods = { kind: 'column', input: beforeFile, column: raw.period, levels: wanted as [string, string] | undefined };
+  } else {
+    if (afterFile === undefined) throw usageError('compare needs two files (before and after), or one file with --period');
+    periods = { kind: 'files', before: beforeFile, after: afterFile };
+  }
+  return { periods, reader, table: { ...table, allowDegenerate: true }, order, analysis, alpha, format: raw.format, report: reportPlan(raw) };
 }
 
-export function compareCommand(): Command {
+export function compareCommand(accept: (plan: ComparePlan) => void): Command {
   const command = new Command('compare')
     .description('compare the same pair in two periods: did the association or the margins change?')
     .argument('<before>', 'CSV of the earlier period (or the only file, with --period)')
@@ -45,7 +71,7 @@ export function compareCommand(): Command {
     .option('--levels <before,after>', 'with --period: the two levels to compare (default: the two levels, in natural order)')
     .option('--row-order <levels>', 'comma-separated order of the row levels')
     .option('--col-order <levels>', 'comma-separated order of the column levels')
-    .addOption(new Option('--format <format>', 'output format').choices(['text', 'json', 'html']).default('text'))
+    .addOption(new Option('--format <format>', 'output format').choices(Object.keys(COMPARE_RENDERERS)).default('text'))
     .option('--alpha <level>', 'significance level for the change test and --exit-status', '0.05')
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
@@ -63,50 +89,54 @@ Examples:
 Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,
 3 the association did not change at --alpha (only with --exit-status).`,
   );
-  command.action(async (beforeFile: string, afterFile: string | undefined, raw: RawCompareOptions) => {
-    const { reader, analysis, survey, alpha, rowOrder, colOrder } = tablePlan(raw);
-    const base = { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, ...survey, allowDegenerate: true };
-    let before: PeriodInput;
-    let after: PeriodInput;
-    const inputOf = (label: string, c: CountedTables) => inputSummary(label, c);
-    if (raw.period !== undefined) {
-      if (afterFile !== undefined) throw usageError('--period reads one file: give either two files or one file with --period');
-      const source = inputSource(beforeFile);
-      checkReadable(source);
-      const counted = await countTables(source, reader, { ...base, by: raw.period });
-      const strata = counted.strata ?? [];
-      const wanted = splitList(raw.levels);
-      const available = strata.map((s) => s.level);
-      let pick: string[];
-      if (wanted) {
-        if (wanted.length !== 2) throw usageError(`--levels "${raw.levels}": name exactly two levels of ${raw.period}, before and after`);
-        for (const l of wanted) if (!available.includes(l)) throw usageError(`--levels: "${l}" is not a level of ${raw.period} (levels: ${available.join(', ')})`);
-        pick = wanted;
-      } else {
-        if (available.length !== 2) throw usageError(`${raw.period} has ${available.length} levels (${available.slice(0, 10).join(', ')}); choose two with --levels before,after`);
-        pick = available;
-      }
-      const input = inputOf(source.label, counted);
-      const [b, a] = pick.map((l) => strata.find((s) => s.level === l)!);
-      before = period(`${raw.period} ${b.level}`, { table: b.table, weighting: b.weighting, excluded: 0 }, input);
-      after = period(`${raw.period} ${a.level}`, { table: a.table, weighting: a.weighting, excluded: 0 }, input);
-    } else {
-      if (afterFile === undefined) throw usageError('compare needs two files (before and after), or one file with --period');
-      const sources = [inputSource(beforeFile), inputSource(afterFile)];
-      const counted = [];
-      for (const source of sources) counted.push(await countTables(source, reader, base));
-      before = period(sources[0].label, counted[0], inputOf(sources[0].label, counted[0]));
-      after = period(sources[1].label, counted[1], inputOf(sources[1].label, counted[1]));
-    }
-    const report = comparePeriods(before, after, analysis, { rows: rowOrder, cols: colOrder });
-    report.warnings.unshift(...unknownOrderWarnings('--row-order', (rowOrder ?? []).filter((l) => !report.rows.levels.includes(l))));
-    const text = raw.format === 'json' ? toJson(report) : raw.format === 'html' ? renderCompareHtml(report) : renderCompareText(report, painter(raw.color, raw.output !== undefined), alpha);
-    if (raw.plot !== undefined) {
-      const pictures = [report.before, report.after].filter((r) => r.testable).map((r) => residualHeatMap(r as never, `Adjusted residuals, ${r.label}`));
-      writeFileAtomically(raw.plot, stackSvg(pictures));
-    }
-    await emit(text, raw.output);
-    setOutcome(report.change !== null && report.change.pValue <= alpha, raw.exitStatus);
-  });
+  command.action((beforeFile: string, afterFile: string | undefined, raw: RawCompareOptions) => accept(comparePlan(beforeFile, afterFile, raw)));
   return command;
+}
+
+function period(label: string, counted: Pick<CountedTables, 'table' | 'weighting' | 'excluded'>, input: PeriodInput['input']): PeriodInput {
+  return { label, table: counted.table, weighting: counted.weighting, excluded: counted.excluded, input };
+}
+
+/** The two periods of one file, told apart by a column: its two levels, or the two named by --levels. */
+async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: string, levels: [string, string] | undefined, io: CliIo): Promise<[PeriodInput, PeriodInput]> {
+  const counted = await countTables(source, { ...plan.reader, onNote: noteWriter(io) }, { ...plan.table, by: column });
+  const strata = counted.strata ?? [];
+  const available = strata.map((s) => s.level);
+  let pick: string[];
+  if (levels) {
+    for (const l of levels) if (!available.includes(l)) throw usageError(`--levels: "${l}" is not a level of ${column} (levels: ${available.join(', ')})`);
+    pick = levels;
+  } else {
+    if (available.length !== 2) throw usageError(`${column} has ${available.length} levels (${available.slice(0, 10).join(', ')}); choose two with --levels before,after`);
+    pick = available;
+  }
+  const input = inputSummary(source.label, counted);
+  const [b, a] = pick.map((l) => strata.find((s) => s.level === l)!);
+  return [period(`${column} ${b.level}`, { table: b.table, weighting: b.weighting, excluded: 0 }, input), period(`${column} ${a.level}`, { table: a.table, weighting: a.weighting, excluded: 0 }, input)];
+}
+
+/** Counts both periods, compares them, writes the report; found = the association changed at --alpha. */
+export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome> {
+  let before: PeriodInput;
+  let after: PeriodInput;
+  if (plan.periods.kind === 'column') {
+    const source = inputSource(plan.periods.input, io.stdin);
+    checkReadable(source);
+    [before, after] = await periodsOfColumn(source, plan, plan.periods.column, plan.periods.levels, io);
+  } else {
+    const sources = [inputSource(plan.periods.before, io.stdin), inputSource(plan.periods.after, io.stdin)];
+    const counted: CountedTables[] = [];
+    for (const source of sources) counted.push(await countTables(source, { ...plan.reader, onNote: noteWriter(io) }, plan.table));
+    before = period(sources[0].label, counted[0], inputSummary(sources[0].label, counted[0]));
+    after = period(sources[1].label, counted[1], inputSummary(sources[1].label, counted[1]));
+  }
+  const report = comparePeriods(before, after, plan.analysis, plan.order);
+  report.warnings.unshift(...unknownOrderWarnings('--row-order', (plan.order.rows ?? []).filter((l) => !report.rows.levels.includes(l))));
+  const text = COMPARE_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, plan.report.output !== undefined), alpha: plan.alpha });
+  if (plan.report.plot !== undefined) {
+    const pictures = [report.before, report.after].filter((r) => r.testable).map((r) => residualHeatMap(r as never, `Adjusted residuals, ${r.label}`));
+    writeSideFile(io, plan.report.plot, stackSvg(pictures));
+  }
+  await emit(io, text, plan.report.output);
+  return { found: report.change !== null && report.change.pValue <= plan.alpha, exitStatusWanted: plan.report.exitStatus };
 }

@@ -1,6 +1,8 @@
+/** `tabsight completion`: bash and zsh completion scripts built from the program's own commands and options. */
 import { Command } from 'commander';
 import { usageError } from '../errors.js';
-import { writeOut } from './output.js';
+import { CliIo, writeOut } from './output.js';
+import { DONE, Outcome } from './outcome.js';
 
 interface CommandShape {
   name: string;
@@ -57,13 +59,22 @@ compdef _tabsight tabsight 2>/dev/null || true
 `;
 }
 
-export function completionCommand(program: () => Command): Command {
+export interface CompletionPlan {
+  shell: 'bash' | 'zsh';
+}
+
+export function completionCommand(accept: (plan: CompletionPlan) => void): Command {
   return new Command('completion')
     .description('print a shell completion script (bash or zsh)')
     .argument('<shell>', 'bash or zsh')
-    .action(async (shell: string) => {
-      if (shell === 'bash') await writeOut(bashCompletion(program()));
-      else if (shell === 'zsh') await writeOut(zshCompletion(program()));
-      else throw usageError(`completion "${shell}": choose bash or zsh`);
+    .action((shell: string) => {
+      if (shell !== 'bash' && shell !== 'zsh') throw usageError(`completion "${shell}": choose bash or zsh`);
+      accept({ shell });
     });
+}
+
+/** Writes the completion script of the given program. */
+export async function runCompletion(plan: CompletionPlan, io: CliIo, program: Command): Promise<Outcome> {
+  await writeOut(io, plan.shell === 'bash' ? bashCompletion(program) : zshCompletion(program));
+  return DONE;
 }

@@ -1,14 +1,16 @@
+/** `tabsight count` and `tabsight merge`: tables written as long-format counts, and count files added together. */
 import { Command } from 'commander';
 import { dataError, usageError } from '../errors.js';
-import { countTables } from '../io/countTables.js';
+import { countTables, TableRequest } from '../io/countTables.js';
 import { resolveColumn } from '../io/columns.js';
 import { readRecords } from '../io/readRecords.js';
 import { parseWeightValue } from '../io/rowRules.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { compareNatural } from '../table/naturalOrder.js';
 import { delimitedField } from '../render/scanTable.js';
-import { addReaderOptions, addSurveyOptions, RawReaderOptions, RawSurveyOptions, readerPlan, surveyPlan } from './options.js';
-import { emit } from './output.js';
+import { addReaderOptions, addSurveyOptions, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerPlan, surveyPlan } from './options.js';
+import { CliIo, emit, noteWriter } from './output.js';
+import { DONE, Outcome } from './outcome.js';
 
 /** The long count format that `--freq count` reads back: one line per combination. */
 function countLines(header: string[], rows: [string[], number][]): string {
@@ -33,7 +35,24 @@ interface RawCountOptions extends RawReaderOptions, RawSurveyOptions {
   output?: string;
 }
 
-export function countCommand(): Command {
+export interface CountPlan {
+  /** A file, a pattern of files, or '-' for standard input. */
+  input: string;
+  reader: ReaderPlan;
+  table: TableRequest;
+  /** --output: write the counts to this file (atomically) instead of standard output. */
+  output?: string;
+}
+
+export function countPlan(file: string | undefined, raw: RawCountOptions): CountPlan {
+  const reader = readerPlan(raw);
+  const survey = surveyPlan(raw);
+  if (survey.weight?.kind === 'weight') throw usageError('count writes whole counts; --weight is not a count (sum sampling weights in the engine that holds the data, or use --freq to re-count counts)');
+  if (survey.other) throw usageError('--other merges levels per table; apply it when analysing the counts, not when writing them');
+  return { input: file ?? '-', reader, table: { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, ...survey, allowDegenerate: true }, output: raw.output };
+}
+
+export function countCommand(accept: (plan: CountPlan) => void): Command {
   const command = new Command('count')
     .description('write the table as long-format counts (rows,cols,count), the format --freq count reads back')
     .argument('[file]', 'CSV file, or - (or nothing) for standard input')
@@ -52,64 +71,74 @@ Examples:
   tabsight count survey.csv --rows branch --cols membership > counts.csv
   tabsight pair counts.csv --rows branch --cols membership --freq count`,
   );
-  command.action(async (file: string | undefined, raw: RawCountOptions) => {
-    const source = inputSource(file);
-    const reader = readerPlan(raw);
-    const survey = surveyPlan(raw);
-    if (survey.weight?.kind === 'weight') throw usageError('count writes whole counts; --weight is not a count (sum sampling weights in the engine that holds the data, or use --freq to re-count counts)');
-    if (survey.other) throw usageError('--other merges levels per table; apply it when analysing the counts, not when writing them');
-    checkReadable(source);
-    const counted = await countTables(source, reader, { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, ...survey, allowDegenerate: true });
-    const lines: [string[], number][] = [];
-    const add = (prefix: string[], t: typeof counted.table) =>
-      t.rowLevels.forEach((rl, i) => t.colLevels.forEach((cl, j) => t.counts[i][j] > 0 && lines.push([[...prefix, rl, cl], t.counts[i][j]])));
-    if (counted.strata) for (const s of counted.strata) add([s.level], s.table);
-    else add([], counted.table);
-    const header = [...(survey.by !== undefined ? [survey.by] : []), raw.rows, raw.cols, 'count'];
-    await emit(countLines(header, sortKeys(lines)), raw.output);
-  });
+  command.action((file: string | undefined, raw: RawCountOptions) => accept(countPlan(file, raw)));
   return command;
 }
 
-export function mergeCommand(): Command {
+/** Counts the table (and its layers) and writes one line per combination that occurs. */
+export async function runCount(plan: CountPlan, io: CliIo): Promise<Outcome> {
+  const source = inputSource(plan.input, io.stdin);
+  checkReadable(source);
+  const counted = await countTables(source, { ...plan.reader, onNote: noteWriter(io) }, plan.table);
+  const lines: [string[], number][] = [];
+  const add = (prefix: string[], t: typeof counted.table) =>
+    t.rowLevels.forEach((rl, i) => t.colLevels.forEach((cl, j) => t.counts[i][j] > 0 && lines.push([[...prefix, rl, cl], t.counts[i][j]])));
+  if (counted.strata) for (const s of counted.strata) add([s.level], s.table);
+  else add([], counted.table);
+  const header = [...(plan.table.by !== undefined ? [plan.table.by] : []), plan.table.rows, plan.table.cols, 'count'];
+  await emit(io, countLines(header, sortKeys(lines)), plan.output);
+  return DONE;
+}
+
+export interface MergePlan {
+  files: string[];
+  output?: string;
+}
+
+export function mergeCommand(accept: (plan: MergePlan) => void): Command {
   return new Command('merge')
     .description('add count files of the same columns (from chunks, days or machines) into one')
     .argument('<counts...>', 'count files written by tabsight count (or any CSV whose last column is a count)')
     .option('--output <file>', 'write the merged counts to this file (atomically)')
-    .action(async (files: string[], raw: { output?: string }) => {
-      let header: string[] | null = null;
-      const totals = new Map<string, [string[], number]>();
-      for (const file of files) {
-        const source = inputSource(file);
-        let countIndex = -1;
-        let width = 0;
-        await readRecords(
-          source,
-          { missing: [], skipBadRows: false, header: true, delimiter: ',' },
-          (names) => {
-            if (header === null) header = names;
-            else if (names.join('\u0000') !== (header as string[]).join('\u0000')) {
-              throw dataError(`${source.label}: its columns (${names.join(', ')}) differ from ${files[0]} (${(header as string[]).join(', ')}); merge only counts of the same columns`);
-            }
-            countIndex = names.length - 1;
-            width = names.length;
-            resolveColumn(names[countIndex], names, 'count column', source.label);
-            return names.map((_n, i) => i);
-          },
-          (_ids, line, texts) => {
-            const parsed = parseWeightValue(texts[countIndex], 'freq', false);
-            if (typeof parsed === 'string') throw dataError(`${source.label}, line ${line}: the count ${parsed}`);
-            const key = texts.slice(0, width - 1).map((t) => (t ?? '').trim());
-            const id = key.join('\u0000');
-            const known = totals.get(id);
-            if (known) known[1] += parsed;
-            else totals.set(id, [key, parsed]);
-          },
-          undefined,
-          'all',
-        );
-      }
-      if (header === null) throw usageError('merge needs at least one count file');
-      await emit(countLines(header, sortKeys([...totals.values()])), raw.output);
-    });
+    .action((files: string[], raw: { output?: string }) => accept({ files, output: raw.output }));
+}
+
+/** Adds the counts of files with the same columns, line by line of the same key. */
+export async function runMerge(plan: MergePlan, io: CliIo): Promise<Outcome> {
+  const files = plan.files;
+  let header: string[] | null = null;
+  const totals = new Map<string, [string[], number]>();
+  for (const file of files) {
+    const source = inputSource(file, io.stdin);
+    let countIndex = -1;
+    let width = 0;
+    await readRecords(
+      source,
+      { missing: [], skipBadRows: false, header: true, delimiter: ',' },
+      (names) => {
+        if (header === null) header = names;
+        else if (names.join('\u0000') !== (header as string[]).join('\u0000')) {
+          throw dataError(`${source.label}: its columns (${names.join(', ')}) differ from ${files[0]} (${(header as string[]).join(', ')}); merge only counts of the same columns`);
+        }
+        countIndex = names.length - 1;
+        width = names.length;
+        resolveColumn(names[countIndex], names, 'count column', source.label);
+        return names.map((_n, i) => i);
+      },
+      (_ids, line, texts) => {
+        const parsed = parseWeightValue(texts[countIndex], 'freq', false);
+        if (typeof parsed === 'string') throw dataError(`${source.label}, line ${line}: the count ${parsed}`);
+        const key = texts.slice(0, width - 1).map((t) => (t ?? '').trim());
+        const id = key.join('\u0000');
+        const known = totals.get(id);
+        if (known) known[1] += parsed;
+        else totals.set(id, [key, parsed]);
+      },
+      undefined,
+      'all',
+    );
+  }
+  if (header === null) throw usageError('merge needs at least one count file');
+  await emit(io, countLines(header, sortKeys([...totals.values()])), plan.output);
+  return DONE;
 }

@@ -1,62 +1,124 @@
+/**
+ * The command line: builds the program (one commander command per file),
+ * parses the arguments once into a CommandPlan, runs that command, and
+ * turns its Outcome (or its one error) into an exit status. `run` is the
+ * whole program for a given set of streams, so tests call it in-process;
+ * `main` is what bin/tabsight.js calls with the process's own.
+ */
 import { Command, CommanderError } from 'commander';
-import { ExitStatus, TabsightError } from '../errors.js';
-import { TOOL_VERSION } from '../analysis/report.js';
-import { pairCommand } from './pair.js';
-import { scanCommand } from './scan.js';
-import { compareCommand } from './compare.js';
-import { countCommand, mergeCommand } from './counts.js';
-import { completionCommand } from './completion.js';
-import { sqlCommand } from './sql.js';
-import { outcome } from './outcome.js';
+import { ExitStatus, ExitStatusCode, TabsightError } from '../errors.js';
+import { TOOL_VERSION } from '../version.js';
+import { compareCommand, ComparePlan, runCompare } from './compare.js';
+import { completionCommand, CompletionPlan, runCompletion } from './completion.js';
+import { countCommand, CountPlan, mergeCommand, MergePlan, runCount, runMerge } from './counts.js';
+import { CliIo, processIo } from './output.js';
+import { Outcome, statusOf } from './outcome.js';
+import { pairCommand, PairPlan, runPair } from './pair.js';
+import { runScan, scanCommand, ScanPlan } from './scan.js';
+import { runSql, sqlCommand, SqlPlan } from './sql.js';
+
+/** A command and its plan, as parsed from the arguments. */
+export type CommandPlan =
+  | { command: 'pair'; plan: PairPlan }
+  | { command: 'scan'; plan: ScanPlan }
+  | { command: 'compare'; plan: ComparePlan }
+  | { command: 'count'; plan: CountPlan }
+  | { command: 'merge'; plan: MergePlan }
+  | { command: 'sql'; plan: SqlPlan }
+  | { command: 'completion'; plan: CompletionPlan };
 
 function oneLine(text: string): string {
   return text.replace(/^error: /, '').replace(/\s*\n\s*/g, ' ').trim();
 }
 
-export function buildProgram(): Command {
+/** The program: its commands hand their parsed plan to `accept`. Help and version go to the run's streams. */
+export function buildProgram(io: CliIo, accept: (chosen: CommandPlan) => void): Command {
+  const output = {
+    writeOut: (text: string) => io.stdout.write(text),
+    writeErr: (text: string) => {
+      const line = oneLine(text);
+      if (line !== '') io.stderr.write(`tabsight: ${line}\n`);
+    },
+  };
   const program = new Command('tabsight')
     .description('Find and explain associations between categorical columns of CSV files.')
     .version(TOOL_VERSION)
     .showSuggestionAfterError(true)
-    .configureOutput({
-      writeErr: (text) => {
-        const line = oneLine(text);
-        if (line !== '') process.stderr.write(`tabsight: ${line}\n`);
-      },
-    })
+    .configureOutput(output)
     .exitOverride();
-  for (const command of [pairCommand(), scanCommand(), compareCommand(), countCommand(), mergeCommand(), sqlCommand(), completionCommand(() => program)]) {
+  const commands = [
+    pairCommand((plan) => accept({ command: 'pair', plan })),
+    scanCommand((plan) => accept({ command: 'scan', plan })),
+    compareCommand((plan) => accept({ command: 'compare', plan })),
+    countCommand((plan) => accept({ command: 'count', plan })),
+    mergeCommand((plan) => accept({ command: 'merge', plan })),
+    sqlCommand((plan) => accept({ command: 'sql', plan })),
+    completionCommand((plan) => accept({ command: 'completion', plan })),
+  ];
+  for (const command of commands) {
     command.exitOverride();
-    command.configureOutput({ writeErr: (text: string) => { const line = oneLine(text); if (line !== '') process.stderr.write(`tabsight: ${line}\n`); } });
+    command.configureOutput(output);
     command.showSuggestionAfterError(true);
     program.addCommand(command);
   }
   return program;
 }
 
-/** Runs the program and maps the outcome to an exit status: 0 done, 1 data, 2 usage. */
+/** Runs the command a plan names. */
+function execute(chosen: CommandPlan, io: CliIo, program: Command): Promise<Outcome> {
+  switch (chosen.command) {
+    case 'pair':
+      return runPair(chosen.plan, io);
+    case 'scan':
+      return runScan(chosen.plan, io);
+    case 'compare':
+      return runCompare(chosen.plan, io);
+    case 'count':
+      return runCount(chosen.plan, io);
+    case 'merge':
+      return runMerge(chosen.plan, io);
+    case 'sql':
+      return runSql(chosen.plan, io);
+    case 'completion':
+      return runCompletion(chosen.plan, io, program);
+  }
+}
+
+/**
+ * The whole program for the arguments after the program name: 0 done,
+ * 1 data, 2 usage, 3 nothing found under --exit-status. A user-facing
+ * failure is one line on io.stderr; anything else thrown is a bug and
+ * rejects (bin/tabsight.js reports it with status 70).
+ */
+export async function run(args: readonly string[], io: CliIo): Promise<{ status: ExitStatusCode }> {
+  let chosen: CommandPlan | null = null;
+  const program = buildProgram(io, (plan) => (chosen = plan));
+  try {
+    if (args.length === 0) {
+      program.outputHelp();
+      return { status: ExitStatus.usageError };
+    }
+    await program.parseAsync([...args], { from: 'user' });
+    if (chosen === null) return { status: ExitStatus.ok };
+    return { status: statusOf(await execute(chosen, io, program)) };
+  } catch (error) {
+    if (error instanceof CommanderError) {
+      if (error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.code === 'commander.help') return { status: ExitStatus.ok };
+      return { status: ExitStatus.usageError };
+    }
+    if (error instanceof TabsightError) {
+      io.stderr.write(`tabsight: ${error.message}\n`);
+      return { status: error.exitStatus };
+    }
+    throw error;
+  }
+}
+
+/** The program on the process's own streams (argv as process.argv gives it). */
 export async function main(argv: string[]): Promise<number> {
   process.stdout.on('error', (error: NodeJS.ErrnoException) => {
     if (error.code === 'EPIPE') process.exit(ExitStatus.ok); // a closed pipe (| head) ends quietly
     throw error;
   });
-  const program = buildProgram();
-  try {
-    if (argv.length <= 2) {
-      program.outputHelp();
-      return ExitStatus.usageError;
-    }
-    await program.parseAsync(argv);
-    return outcome();
-  } catch (error) {
-    if (error instanceof CommanderError) {
-      if (error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.code === 'commander.help') return ExitStatus.ok;
-      return ExitStatus.usageError;
-    }
-    if (error instanceof TabsightError) {
-      process.stderr.write(`tabsight: ${error.message}\n`);
-      return error.exitStatus;
-    }
-    throw error;
-  }
+  return (await run(argv.slice(2), processIo())).status;
 }

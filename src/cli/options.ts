@@ -1,9 +1,15 @@
+/**
+ * The options several commands share: declared once (add…Options) and
+ * parsed once into the parts of a command's plan (…Plan functions), so
+ * that every command reads them the same way.
+ */
 import { Command, Option } from 'commander';
 import { usageError } from '../errors.js';
 import { parseDelimiterOption, ReaderOptions } from '../io/readRecords.js';
 import { AnalysisOptions, DEFAULT_ANALYSIS_OPTIONS, ExactPolicy } from '../analysis/analyzeTable.js';
 import { parseRecode, parseWhere, Recode, WhereClause } from '../io/rowRules.js';
 import type { InputSummary } from '../analysis/report.js';
+import type { TableRequest } from '../io/countTables.js';
 
 /** Options every reading command shares, declared once. */
 export function addReaderOptions(command: Command): Command {
@@ -81,7 +87,10 @@ export interface RawReaderOptions {
   engine?: 'auto' | 'builtin' | 'duckdb';
 }
 
-export function readerPlan(raw: RawReaderOptions): ReaderOptions & { maxLevels: number } {
+/** How to read the input: dialect, missing tokens, who counts, and the level cap. */
+export type ReaderPlan = ReaderOptions & { maxLevels: number };
+
+export function readerPlan(raw: RawReaderOptions): ReaderPlan {
   return {
     delimiter: raw.delimiter === undefined ? undefined : parseDelimiterOption(raw.delimiter),
     encoding: raw.encoding,
@@ -90,7 +99,6 @@ export function readerPlan(raw: RawReaderOptions): ReaderOptions & { maxLevels: 
     header: raw.header !== false,
     maxLevels: positiveInteger(raw.maxLevels, '--max-levels', 2),
     engine: raw.engine ?? 'builtin',
-    onNote: (note) => process.stderr.write(`tabsight: note: ${note}\n`),
   };
 }
 
@@ -196,6 +204,23 @@ export interface RawReportOptions {
   output?: string;
   plot?: string;
   exitStatus?: boolean;
+  color?: boolean;
+}
+
+/** Where the report goes and what the exit status says. */
+export interface ReportPlan {
+  /** --output: write the report to this file (atomically) instead of standard output. */
+  output?: string;
+  /** --plot: also write the pictures to this SVG file. */
+  plot?: string;
+  /** --exit-status: status 3 when nothing is found at --alpha. */
+  exitStatus: boolean;
+  /** False with --no-color; colour is also off for files, pipes and NO_COLOR. */
+  color: boolean;
+}
+
+export function reportPlan(raw: RawReportOptions): ReportPlan {
+  return { output: raw.output, plot: raw.plot, exitStatus: raw.exitStatus === true, color: raw.color !== false };
 }
 
 /** The options of a command that analyses one pair of columns (pair, compare), parsed once. */
@@ -207,13 +232,26 @@ export interface RawTableOptions extends RawReaderOptions, RawAnalysisOptions, R
   alpha: string;
 }
 
-export function tablePlan(raw: RawTableOptions) {
+/** The parts of a one-table command's plan (pair, compare), parsed once. */
+export interface TablePlan {
+  reader: ReaderPlan;
+  analysis: AnalysisOptions;
+  /** The table to count: its columns, the survey options, the level cap (no level order: see `order`). */
+  table: TableRequest;
+  /** --row-order and --col-order. */
+  order: { rows?: string[]; cols?: string[] };
+  alpha: number;
+}
+
+export function tablePlan(raw: RawTableOptions): TablePlan {
+  const reader = readerPlan(raw);
+  const analysis = analysisPlan(raw);
+  const survey = surveyPlan(raw);
   return {
-    reader: readerPlan(raw),
-    analysis: analysisPlan(raw),
-    survey: surveyPlan(raw),
+    reader,
+    analysis,
+    table: { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, ...survey },
+    order: { rows: splitList(raw.rowOrder), cols: splitList(raw.colOrder) },
     alpha: probability(raw.alpha, '--alpha'),
-    rowOrder: splitList(raw.rowOrder),
-    colOrder: splitList(raw.colOrder),
   };
 }

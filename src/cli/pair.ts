@@ -1,22 +1,38 @@
+/** `tabsight pair`: its options, parsed once into a PairPlan, and runPair, which counts, analyses and renders one table. */
 import { Command, Option } from 'commander';
+import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { pairReport, unknownOrderWarnings } from '../analysis/report.js';
+import type { TableRequest } from '../io/countTables.js';
 import { countTables } from '../io/countTables.js';
-import { inputSource, checkReadable } from '../io/source.js';
-import { toJson } from '../render/json.js';
-import { renderPairText } from '../render/pairText.js';
-import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, RawReportOptions, RawTableOptions, tablePlan, inputSummary, addSummedWeightsOption } from './options.js';
-import { emit, painter, writeFileAtomically } from './output.js';
-import { setOutcome } from './outcome.js';
-import { renderPairDelimited, renderPairMarkdown } from '../render/pairDelimited.js';
-import { renderPairHtml } from '../render/html.js';
+import { checkReadable, inputSource } from '../io/source.js';
+import { PAIR_RENDERERS, PairFormat } from '../render/renderers.js';
 import { mosaicPlot, residualHeatMap, stackSvg } from '../render/svg.js';
+import { addAnalysisOptions, addReaderOptions, addReportOptions, addSummedWeightsOption, addSurveyOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan } from './options.js';
+import { CliIo, emit, noteWriter, painter, writeSideFile } from './output.js';
+import type { Outcome } from './outcome.js';
 
-interface RawPairOptions extends RawTableOptions, RawReportOptions {
-  format: 'text' | 'json' | 'csv' | 'tsv' | 'markdown' | 'html';
-  color?: boolean;
+export interface PairPlan {
+  /** A file, a pattern of files, or '-' for standard input. */
+  input: string;
+  reader: ReaderPlan;
+  /** The table to count, with the level order of the report. */
+  table: TableRequest;
+  analysis: AnalysisOptions;
+  alpha: number;
+  format: PairFormat;
+  report: ReportPlan;
 }
 
-export function pairCommand(): Command {
+interface RawPairOptions extends RawTableOptions, RawReportOptions {
+  format: PairFormat;
+}
+
+export function pairPlan(file: string | undefined, raw: RawPairOptions): PairPlan {
+  const { reader, analysis, table, order, alpha } = tablePlan(raw);
+  return { input: file ?? '-', reader, table: { ...table, rowOrder: order.rows, colOrder: order.cols }, analysis, alpha, format: raw.format, report: reportPlan(raw) };
+}
+
+export function pairCommand(accept: (plan: PairPlan) => void): Command {
   const command = new Command('pair')
     .description('analyse the two-way table of two columns: tests, strength, where the association sits')
     .argument('[file]', 'CSV file, or - (or nothing) for standard input')
@@ -24,7 +40,7 @@ export function pairCommand(): Command {
     .requiredOption('--cols <column>', 'column whose levels form the columns')
     .option('--row-order <levels>', 'comma-separated order of the row levels (others follow in natural order)')
     .option('--col-order <levels>', 'comma-separated order of the column levels')
-    .addOption(new Option('--format <format>', 'output format').choices(['text', 'json', 'csv', 'tsv', 'markdown', 'html']).default('text'))
+    .addOption(new Option('--format <format>', 'output format').choices(Object.keys(PAIR_RENDERERS)).default('text'))
     .option('--alpha <level>', 'significance level for --exit-status', '0.05')
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
@@ -43,33 +59,26 @@ Examples:
 
 Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no association at --alpha (only with --exit-status).`,
   );
-  command.action(async (file: string | undefined, raw: RawPairOptions) => {
-    const source = inputSource(file);
-    const { reader, analysis, survey, alpha, rowOrder, colOrder } = tablePlan(raw);
-    checkReadable(source);
-    const counted = await countTables(source, reader, { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, rowOrder, colOrder, ...survey });
-    const report = pairReport(
-      counted.table,
-      counted.excluded,
-      inputSummary(source.label, counted),
-      analysis,
-      [...unknownOrderWarnings('--row-order', counted.unknownRowLevels), ...unknownOrderWarnings('--col-order', counted.unknownColLevels)],
-      counted.weighting,
-      counted.strata && counted.byName ? { by: counted.byName, strata: counted.strata } : undefined,
-    );
-    const text =
-      raw.format === 'json'
-        ? toJson(report)
-        : raw.format === 'csv' || raw.format === 'tsv'
-          ? renderPairDelimited(report, raw.format === 'csv' ? ',' : '\t')
-          : raw.format === 'markdown'
-            ? renderPairMarkdown(report)
-            : raw.format === 'html'
-              ? renderPairHtml(report)
-              : renderPairText(report, painter(raw.color, raw.output !== undefined));
-    if (raw.plot !== undefined) writeFileAtomically(raw.plot, stackSvg([residualHeatMap(report), mosaicPlot(report)]));
-    await emit(text, raw.output);
-    setOutcome(report.findings.primaryTest.pValue <= alpha, raw.exitStatus);
-  });
+  command.action((file: string | undefined, raw: RawPairOptions) => accept(pairPlan(file, raw)));
   return command;
+}
+
+/** Counts the table, analyses it, writes the report; found = the leading p-value is at most --alpha. */
+export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
+  const source = inputSource(plan.input, io.stdin);
+  checkReadable(source);
+  const counted = await countTables(source, { ...plan.reader, onNote: noteWriter(io) }, plan.table);
+  const report = pairReport(
+    counted.table,
+    counted.excluded,
+    inputSummary(source.label, counted),
+    plan.analysis,
+    [...unknownOrderWarnings('--row-order', counted.unknownRowLevels), ...unknownOrderWarnings('--col-order', counted.unknownColLevels)],
+    counted.weighting,
+    counted.strata && counted.byName ? { by: counted.byName, strata: counted.strata } : undefined,
+  );
+  const text = PAIR_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, plan.report.output !== undefined), alpha: plan.alpha });
+  if (plan.report.plot !== undefined) writeSideFile(io, plan.report.plot, stackSvg([residualHeatMap(report), mosaicPlot(report)]));
+  await emit(io, text, plan.report.output);
+  return { found: report.findings.primaryTest.pValue <= plan.alpha, exitStatusWanted: plan.report.exitStatus };
 }

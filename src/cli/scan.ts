@@ -1,18 +1,18 @@
+/** `tabsight scan`: its options, parsed once into a ScanPlan, and runScan, which encodes the columns in one read and scores every pair. */
 import { Command, Option } from 'commander';
+import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { prepareColumns, scanColumns, ScanOptions, ScanReport, scorePairs } from '../analysis/scan.js';
 import { chooseEngine, EngineFallback, engineInput } from '../io/engine.js';
 import { engineEncode } from '../io/engineScan.js';
 import type { EncodedColumn } from '../table/encodedColumn.js';
-import { encodeColumns } from '../io/encodeColumns.js';
+import { EncodeRequest, encodeColumns } from '../io/encodeColumns.js';
 import { checkReadable, inputSource } from '../io/source.js';
-import { toJson } from '../render/json.js';
-import { renderScanDelimited, renderScanMarkdown, renderScanText } from '../render/scanTable.js';
+import { SCAN_RENDERERS, ScanFormat } from '../render/renderers.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
-import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, readerPlan, splitList, surveyPlan, inputSummary } from './options.js';
+import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary } from './options.js';
 import { recodesByColumn } from '../io/rowRules.js';
-import { emit, painter, writeFileAtomically } from './output.js';
-import { setOutcome } from './outcome.js';
-import { renderScanHtml } from '../render/html.js';
+import { CliIo, emit, noteWriter, painter, writeSideFile } from './output.js';
+import type { Outcome } from './outcome.js';
 import { stackSvg, strengthChart } from '../render/svg.js';
 
 interface RawScanOptions extends RawReaderOptions, RawAnalysisOptions, RawSurveyOptions, RawReportOptions {
@@ -24,8 +24,48 @@ interface RawScanOptions extends RawReaderOptions, RawAnalysisOptions, RawSurvey
   top?: string;
   maxColumns: string;
   full?: boolean;
-  format: 'text' | 'json' | 'csv' | 'tsv' | 'markdown' | 'html';
-  color?: boolean;
+  format: ScanFormat;
+}
+
+export interface ScanPlan {
+  /** A file, a pattern of files, or '-' for standard input. */
+  input: string;
+  reader: ReaderPlan;
+  /** The candidate columns and the rows they are read from. */
+  columns: { include?: string[]; exclude?: string[]; maxColumns: number };
+  survey: SurveyPlan;
+  /** --bins k: numeric columns with many values cut into k equal-frequency bins. */
+  bins: number | null;
+  adjustment: Adjustment;
+  alpha: number;
+  top: number | null;
+  full: boolean;
+  analysis: AnalysisOptions;
+  format: ScanFormat;
+  report: ReportPlan;
+}
+
+export function scanPlan(file: string | undefined, raw: RawScanOptions): ScanPlan {
+  const reader = readerPlan(raw);
+  const analysis = analysisPlan(raw, SCAN_EXACT_WORK);
+  const bins = raw.bins === undefined ? null : positiveInteger(raw.bins, '--bins', 2);
+  const alpha = probability(raw.alpha, '--alpha');
+  const top = raw.top === undefined ? null : positiveInteger(raw.top, '--top');
+  const survey = surveyPlan(raw);
+  return {
+    input: file ?? '-',
+    reader,
+    columns: { include: splitList(raw.columns), exclude: splitList(raw.exclude), maxColumns: positiveInteger(raw.maxColumns, '--max-columns', 2) },
+    survey,
+    bins,
+    adjustment: raw.adjust,
+    alpha,
+    top,
+    full: raw.full === true,
+    analysis,
+    format: raw.format,
+    report: reportPlan(raw),
+  };
 }
 
 /** A scan runs many tables: a smaller exact-test budget and fewer random tables per sparse pair. */
@@ -33,25 +73,25 @@ export const SCAN_SIMULATIONS = 10_000;
 export const SCAN_EXACT_WORK = 100_000;
 
 /** Progress on stderr, only for a terminal and only once the work takes more than a moment. */
-function progressReporter(): { tick: (rows: number) => void; done: () => void } {
+function progressReporter(io: CliIo): { tick: (rows: number) => void; done: () => void } {
   const started = Date.now();
   let shown = false;
-  const active = process.stderr.isTTY === true;
+  const active = io.stderr.isTTY === true;
   return {
     tick: (rows) => {
       if (!active) return;
       const seconds = (Date.now() - started) / 1000;
       if (seconds < 1) return;
       shown = true;
-      process.stderr.write(`\rreading: ${rows.toLocaleString('en-US')} rows (${Math.round(rows / seconds).toLocaleString('en-US')} rows/s)   `);
+      io.stderr.write(`\rreading: ${rows.toLocaleString('en-US')} rows (${Math.round(rows / seconds).toLocaleString('en-US')} rows/s)   `);
     },
     done: () => {
-      if (shown) process.stderr.write('\r\x1b[K');
+      if (shown) io.stderr.write('\r\x1b[K');
     },
   };
 }
 
-export function scanCommand(): Command {
+export function scanCommand(accept: (plan: ScanPlan) => void): Command {
   const command = new Command('scan')
     .description('score every pair of columns in one read, strongest first, with multiple-testing control')
     .argument('[file]', 'CSV file, or - (or nothing) for standard input')
@@ -63,7 +103,7 @@ export function scanCommand(): Command {
     .option('--top <k>', 'keep only the k strongest pairs')
     .option('--max-columns <n>', 'refuse a file with more candidate columns than this', '300')
     .option('--full', 'include each pair\'s counts, expected counts, residuals and percentages (json)')
-    .addOption(new Option('--format <format>', 'output format').choices(['text', 'json', 'csv', 'tsv', 'markdown', 'html']).default('text'))
+    .addOption(new Option('--format <format>', 'output format').choices(Object.keys(SCAN_RENDERERS)).default('text'))
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addSurveyOptions(command);
@@ -79,88 +119,68 @@ Examples:
 
 Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no pair passes at --alpha (only with --exit-status).`,
   );
-  command.action(async (file: string | undefined, raw: RawScanOptions) => {
-    const source = inputSource(file);
-    const reader = readerPlan(raw);
-    const analysis = analysisPlan(raw, SCAN_EXACT_WORK);
-    const bins = raw.bins === undefined ? null : positiveInteger(raw.bins, '--bins', 2);
-    const alpha = probability(raw.alpha, '--alpha');
-    const top = raw.top === undefined ? null : positiveInteger(raw.top, '--top');
-    const survey = surveyPlan(raw);
-    const recodes = recodesByColumn(survey.recodes);
-    checkReadable(source);
-    const request = {
-      columns: splitList(raw.columns),
-      exclude: splitList(raw.exclude),
-      maxLevels: reader.maxLevels,
-      keepNumeric: bins !== null,
-      maxColumns: positiveInteger(raw.maxColumns, '--max-columns', 2),
-      where: survey.where,
-      recodes,
-      weight: survey.weight ? { ...survey.weight, decimalComma: survey.decimalComma } : undefined,
-      by: survey.by,
-    };
-    const options = (weights: Float64Array | null, layer: EncodedColumn | null): ScanOptions => ({
-      maxLevels: reader.maxLevels,
-      bins,
-      adjustment: raw.adjust,
-      alpha,
-      top,
-      full: raw.full === true,
-      analysis,
-      recodes,
-      keepMissing: survey.keepMissing,
-      other: survey.other ?? null,
-      weights: weights && survey.weight ? { values: weights, kind: survey.weight.kind } : null,
-      layer,
-    });
-    let report: ScanReport | null = null;
-    let fallback: string | null = null;
-    if ((await chooseEngine(reader.engine ?? 'builtin', source)) === 'duckdb') {
-      const input = await engineInput(source);
-      try {
-        const encoded = await engineEncode(input, reader, request);
-        const scanOptions = options(null, encoded.layer);
-        const prepared = prepareColumns(encoded.columns, encoded.rows, scanOptions);
-        const counter = await encoded.countPairs(prepared);
-        const summary = inputSummary(source.label, { summary: encoded.summary, filtered: encoded.filtered, badWeights: encoded.badWeights });
-        report = scorePairs(prepared, encoded.rows, summary, { ...scanOptions, weights: null }, counter);
-      } catch (error) {
-        if (!(error instanceof EngineFallback)) throw error;
-        fallback = `the engine cannot read ${source.label} the way the built-in reader does (${error.message}); counted with the built-in reader`;
-      }
-    }
-    if (report === null) {
-      const progress = progressReporter();
-      const encoded = await encodeColumns(source, reader, { ...request, progress: raw.format === 'text' ? progress.tick : undefined });
-      progress.done();
-      const summary = inputSummary(source.label, { summary: { ...encoded.summary, engine: 'builtin', format: 'csv', files: 1 }, filtered: encoded.filtered, badWeights: encoded.badWeights });
-      report = scanColumns(encoded.columns, encoded.rows, summary, options(encoded.weights, encoded.layer));
-      if (fallback !== null) reader.onNote?.(fallback);
-    }
-    let text: string;
-    switch (raw.format) {
-      case 'json':
-        text = toJson(report);
-        break;
-      case 'csv':
-        text = renderScanDelimited(report, ',');
-        break;
-      case 'tsv':
-        text = renderScanDelimited(report, '\t');
-        break;
-      case 'markdown':
-        text = renderScanMarkdown(report);
-        break;
-      case 'html':
-        text = renderScanHtml(report);
-        break;
-      default:
-        text = renderScanText(report, painter(raw.color, raw.output !== undefined));
-    }
-    if (raw.plot !== undefined) writeFileAtomically(raw.plot, stackSvg([strengthChart(report)]));
-    await emit(text, raw.output);
-    setOutcome(report.pairsPassing > 0, raw.exitStatus);
-  });
+  command.action((file: string | undefined, raw: RawScanOptions) => accept(scanPlan(file, raw)));
   return command;
+}
+
+/** Encodes the columns in one read, scores every pair, writes the report; found = at least one pair passes. */
+export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
+  const source = inputSource(plan.input, io.stdin);
+  const reader = { ...plan.reader, onNote: noteWriter(io) };
+  const survey = plan.survey;
+  const recodes = recodesByColumn(survey.recodes);
+  checkReadable(source);
+  const request: EncodeRequest = {
+    columns: plan.columns.include,
+    exclude: plan.columns.exclude,
+    maxLevels: reader.maxLevels,
+    keepNumeric: plan.bins !== null,
+    maxColumns: plan.columns.maxColumns,
+    where: survey.where,
+    recodes,
+    weight: survey.weight ? { ...survey.weight, decimalComma: survey.decimalComma } : undefined,
+    by: survey.by,
+  };
+  const options = (weights: Float64Array | null, layer: EncodedColumn | null): ScanOptions => ({
+    maxLevels: reader.maxLevels,
+    bins: plan.bins,
+    adjustment: plan.adjustment,
+    alpha: plan.alpha,
+    top: plan.top,
+    full: plan.full,
+    analysis: plan.analysis,
+    recodes,
+    keepMissing: survey.keepMissing,
+    other: survey.other ?? null,
+    weights: weights && survey.weight ? { values: weights, kind: survey.weight.kind } : null,
+    layer,
+  });
+  let report: ScanReport | null = null;
+  let fallback: string | null = null;
+  if ((await chooseEngine(reader.engine ?? 'builtin', source)) === 'duckdb') {
+    const input = await engineInput(source);
+    try {
+      const encoded = await engineEncode(input, reader, request);
+      const scanOptions = options(null, encoded.layer);
+      const prepared = prepareColumns(encoded.columns, encoded.rows, scanOptions);
+      const counter = await encoded.countPairs(prepared);
+      const summary = inputSummary(source.label, { summary: encoded.summary, filtered: encoded.filtered, badWeights: encoded.badWeights });
+      report = scorePairs(prepared, encoded.rows, summary, { ...scanOptions, weights: null }, counter);
+    } catch (error) {
+      if (!(error instanceof EngineFallback)) throw error;
+      fallback = `the engine cannot read ${source.label} the way the built-in reader does (${error.message}); counted with the built-in reader`;
+    }
+  }
+  if (report === null) {
+    const progress = progressReporter(io);
+    const encoded = await encodeColumns(source, reader, { ...request, progress: plan.format === 'text' ? progress.tick : undefined });
+    progress.done();
+    const summary = inputSummary(source.label, { summary: { ...encoded.summary, engine: 'builtin', format: 'csv', files: 1 }, filtered: encoded.filtered, badWeights: encoded.badWeights });
+    report = scanColumns(encoded.columns, encoded.rows, summary, options(encoded.weights, encoded.layer));
+    if (fallback !== null) reader.onNote(fallback);
+  }
+  const text = SCAN_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, plan.report.output !== undefined), alpha: plan.alpha });
+  if (plan.report.plot !== undefined) writeSideFile(io, plan.report.plot, stackSvg([strengthChart(report)]));
+  await emit(io, text, plan.report.output);
+  return { found: report.pairsPassing > 0, exitStatusWanted: plan.report.exitStatus };
 }

@@ -15,7 +15,8 @@ import type { Weighting } from '../table/weighting.js';
 /** The label a missing value gets with --keep-missing. */
 export const MISSING_LEVEL = '(missing)';
 
-export interface CountPlan {
+/** The table to count from a source: its columns and the rules that shape rows and levels. */
+export interface TableRequest {
   rows: string;
   cols: string;
   /** A layer: one table per level of this column. */
@@ -67,7 +68,7 @@ interface Accumulator {
   rows: number;
 }
 
-function accumulator(plan: CountPlan): Accumulator {
+function accumulator(plan: TableRequest): Accumulator {
   return { counter: new TableCounter(plan.rows, plan.cols, plan.maxLevels, plan.weight !== undefined), sumWeights: new CompensatedSum(), sumSquaredWeights: new CompensatedSum(), rows: 0 };
 }
 
@@ -90,7 +91,7 @@ export interface CountSummary extends Omit<ReadSummary, 'delimiter'> {
  * the engine, the rows arrive grouped (io/engine.ts) and go through the
  * same rules, a group at a time.
  */
-export async function countTables(source: InputSource, reader: ReaderOptions, plan: CountPlan): Promise<CountedTables> {
+export async function countTables(source: InputSource, reader: ReaderOptions, plan: TableRequest): Promise<CountedTables> {
   // Cells counted elsewhere are small files: the built-in reader reads them.
   const chosen = plan.summedWeights ? 'builtin' : await chooseEngine(reader.engine ?? 'builtin', source);
   if (chosen === 'duckdb') {
@@ -108,7 +109,7 @@ export async function countTables(source: InputSource, reader: ReaderOptions, pl
   return countOnce(source, reader, plan, null);
 }
 
-async function countOnce(source: InputSource, reader: ReaderOptions, plan: CountPlan, input: EngineInput | null): Promise<CountedTables> {
+async function countOnce(source: InputSource, reader: ReaderOptions, plan: TableRequest, input: EngineInput | null): Promise<CountedTables> {
   if (plan.rows === plan.cols) throw usageError(`--rows and --cols both name "${plan.rows}"; choose two different columns`);
   if (plan.by !== undefined && (plan.by === plan.rows || plan.by === plan.cols)) throw usageError(`--by "${plan.by}" is already --rows or --cols; choose a third column`);
   const weightOption = plan.weight?.kind === 'freq' ? '--freq' : '--weight';

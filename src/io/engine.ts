@@ -3,6 +3,7 @@ import { dataError, TabsightError, usageError } from '../errors.js';
 import { readRecords, ReaderOptions } from './readRecords.js';
 import { checkFile, InputSource, isGzipFile, rawChunks } from './source.js';
 import type { WeightKind } from './rowRules.js';
+import { ENGINE_PACKAGE, ENGINE_VERSION } from '../version.js';
 
 /**
  * Counting in an embedded analytical engine (DuckDB, through the optional
@@ -15,9 +16,6 @@ import type { WeightKind } from './rowRules.js';
  * the missing-value rule are the reader's own, applied to each group.
  */
 
-/** The version pinned in package.json's optionalDependencies, named in the install hint. */
-export const ENGINE_PACKAGE = '@duckdb/node-api';
-export const ENGINE_VERSION = '1.5.6-r.1';
 
 export type EngineName = 'builtin' | 'duckdb';
 export type EngineChoice = EngineName | 'auto';

@@ -10,10 +10,12 @@ export interface InputSource {
   path: string;
   /** How the file is named in messages. */
   label: string;
+  /** The stream read for '-' (a run's standard input; the process's when absent). */
+  stdin?: NodeJS.ReadableStream & { isTTY?: boolean };
 }
 
-export function inputSource(path: string | undefined): InputSource {
-  if (path === undefined || path === '-') return { path: '-', label: 'standard input' };
+export function inputSource(path: string | undefined, stdin?: NodeJS.ReadableStream & { isTTY?: boolean }): InputSource {
+  if (path === undefined || path === '-') return { path: '-', label: 'standard input', stdin };
   return { path, label: path };
 }
 
@@ -51,7 +53,7 @@ export async function checkFile(source: InputSource): Promise<void> {
 export async function* rawChunks(source: InputSource): AsyncGenerator<Buffer> {
   let stream: NodeJS.ReadableStream;
   if (source.path === '-') {
-    stream = process.stdin;
+    stream = source.stdin ?? process.stdin;
   } else {
     await checkFile(source);
     stream = await openFile(source.path);
@@ -223,7 +225,7 @@ export async function* utf8Chunks(source: InputSource, encoding?: string): Async
 }
 
 export function checkReadable(source: InputSource): void {
-  if (source.path === '-' && process.stdin.isTTY) {
+  if (source.path === '-' && (source.stdin ?? process.stdin).isTTY) {
     throw usageError('no input: give a CSV file, or pipe one in and use - for standard input');
   }
 }

@@ -1,7 +1,13 @@
+// Running the command line in tests: in-process through run(args, io) with
+// captured streams (most checks), or as a real process through
+// bin/tabsight.js (the few end-to-end checks: pipes, the built program).
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { Readable } from 'node:stream';
+import { run as runProgram } from '../../src/cli/main.js';
+import type { CliIo, OutputStream } from '../../src/cli/output.js';
 import { ROOT } from '../helpers.js';
 
 export const BIN = join(ROOT, 'bin', 'tabsight.js');
@@ -13,21 +19,52 @@ export interface Run {
   stderr: string;
 }
 
-export function run(args: string[], input?: string | Buffer, env: Record<string, string> = {}): Run {
-  const result = spawnSync(process.execPath, [BIN, ...args], {
+/** A stream that keeps what is written to it (never a terminal). */
+class Captured implements OutputStream {
+  private readonly chunks: string[] = [];
+  readonly isTTY = false;
+  write(text: string): boolean {
+    this.chunks.push(text);
+    return true;
+  }
+  once(): this {
+    return this;
+  }
+  get text(): string {
+    return this.chunks.join('');
+  }
+}
+
+/**
+ * Runs tabsight in this process with `input` on standard input and only
+ * `env` as the environment; resolves with the exit status and what was
+ * written. A bug (anything but the tool's own error) rejects, so the test
+ * fails with its stack.
+ */
+export async function run(args: string[], input?: string | Buffer, env: Record<string, string> = {}): Promise<Run> {
+  const stdout = new Captured();
+  const stderr = new Captured();
+  const stdin = Object.assign(Readable.from(input === undefined ? [] : [Buffer.from(input)]), { isTTY: false });
+  const io: CliIo = { stdin, stdout, stderr, env };
+  const { status } = await runProgram(args, io);
+  return { status, stdout: stdout.text, stderr: stderr.text };
+}
+
+export async function runJson(args: string[], input?: string | Buffer, env: Record<string, string> = {}): Promise<any> {
+  const result = await run([...args, '--format', 'json'], input, env);
+  if (result.status !== 0) throw new Error(`exit ${result.status}: ${result.stderr}`);
+  return JSON.parse(result.stdout);
+}
+
+/** Runs the built program (bin/tabsight.js) as its own process: for the end-to-end checks only. */
+export function spawnCli(args: string[], input?: string | Buffer, env: Record<string, string> = {}, nodeOptions: string[] = []): Run & { signal: NodeJS.Signals | null } {
+  const result = spawnSync(process.execPath, [...nodeOptions, BIN, ...args], {
     input,
     encoding: 'utf8',
     env: { ...process.env, NO_COLOR: '', FORCE_COLOR: '0', ...env },
-    maxBuffer: 64 * 1024 * 1024,
-    timeout: 60_000,
+    maxBuffer: 256 * 1024 * 1024,
   });
-  return { status: result.status, stdout: result.stdout, stderr: result.stderr };
-}
-
-export function runJson(args: string[], input?: string | Buffer): any {
-  const result = run([...args, '--format', 'json'], input);
-  if (result.status !== 0) throw new Error(`exit ${result.status}: ${result.stderr}`);
-  return JSON.parse(result.stdout);
+  return { status: result.status, stdout: result.stdout, stderr: result.stderr, signal: result.signal };
 }
 
 const dir = mkdtempSync(join(tmpdir(), 'tabsight-test-'));

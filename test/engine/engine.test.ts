@@ -1,25 +1,15 @@
 // The embedded engine (--engine duckdb) against the built-in reader: the
 // same JSON on the same input (every field but input.engine), on the demo
-// file under every kind of option, on gzip, Parquet and many-file inputs,
-// and on random CSV text. The reference is the built-in reader, itself
+// file under every kind of option, on gzip, Parquet and many-file inputs
+// (random CSV text: engine.slow.test.ts). The reference is the built-in reader, itself
 // tested against csv-parse and the published references elsewhere.
-import { spawnSync } from 'node:child_process';
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { gzipSync } from 'node:zlib';
 import { join } from 'node:path';
-import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { countTables, CountPlan } from '../../src/io/countTables.js';
 import { run as engineRun } from '../../src/io/engine.js';
-import { inputSource } from '../../src/io/source.js';
-import type { ReaderOptions } from '../../src/io/readRecords.js';
-import { BIN, DEMO, run, tempFile } from '../cli/cliHelpers.js';
-
-function json(args: string[], env: Record<string, string> = {}): any {
-  const result = spawnSync(process.execPath, [BIN, ...args, '--format', 'json'], { encoding: 'utf8', env: { ...process.env, ...env }, maxBuffer: 64 << 20 });
-  if (result.status !== 0) throw new Error(`exit ${result.status}: ${result.stderr}`);
-  return { out: JSON.parse(result.stdout), stderr: result.stderr };
-}
+import { DEMO, run, runJson, spawnCli, tempFile } from '../cli/cliHelpers.js';
+import { describeEngine } from '../engineHelpers.js';
 
 /** The report without the field that names the engine. */
 function withoutEngine(report: any): any {
@@ -34,16 +24,19 @@ function withoutEngine(report: any): any {
   return copy;
 }
 
-function sameBothWays(args: string[]) {
-  const builtin = json([...args, '--engine', 'builtin']);
-  const engine = json([...args, '--engine', 'duckdb']);
-  expect(JSON.stringify(builtin.out)).toContain('"engine":"builtin"');
-  expect(JSON.stringify(engine.out), engine.stderr).toContain('"engine":"duckdb"'); // no fallback on the demo
-  expect(JSON.stringify(engine.out)).not.toContain('"engine":"builtin"');
-  expect(withoutEngine(engine.out)).toEqual(withoutEngine(builtin.out));
+async function sameBothWays(args: string[]) {
+  const builtin = await runJson([...args, '--engine', 'builtin']);
+  const engine = await run([...args, '--engine', 'duckdb', '--format', 'json']);
+  expect(engine.status, engine.stderr).toBe(0);
+  expect(engine.stderr).toBe(''); // no fallback on the demo
+  const viaEngine = JSON.parse(engine.stdout);
+  expect(JSON.stringify(builtin)).toContain('"engine":"builtin"');
+  expect(JSON.stringify(viaEngine)).toContain('"engine":"duckdb"');
+  expect(JSON.stringify(viaEngine)).not.toContain('"engine":"builtin"');
+  expect(withoutEngine(viaEngine)).toEqual(withoutEngine(builtin));
 }
 
-describe('engine and built-in reader give the same report on the demo file', () => {
+describeEngine('engine and built-in reader give the same report on the demo file', () => {
   const pairs: [string, string[]][] = [
     ['plain', ['--rows', 'age_band', '--cols', 'preferred_format']],
     ['sampling weights', ['--rows', 'branch', '--cols', 'membership', '--weight', 'survey_weight']],
@@ -61,15 +54,15 @@ describe('engine and built-in reader give the same report on the demo file', () 
   ];
   for (const [name, args] of scans) it(`scan: ${name}`, () => sameBothWays(['scan', DEMO, ...args]));
   it('compare: two periods of one file', () => sameBothWays(['compare', DEMO, '--rows', 'membership', '--cols', 'preferred_format', '--period', 'has_children']));
-  it('count: the long format', () => {
-    const a = run(['count', DEMO, '--rows', 'branch', '--cols', 'heard_via', '--by', 'age_band', '--engine', 'builtin']);
-    const b = run(['count', DEMO, '--rows', 'branch', '--cols', 'heard_via', '--by', 'age_band', '--engine', 'duckdb']);
+  it('count: the long format', async () => {
+    const a = await run(['count', DEMO, '--rows', 'branch', '--cols', 'heard_via', '--by', 'age_band', '--engine', 'builtin']);
+    const b = await run(['count', DEMO, '--rows', 'branch', '--cols', 'heard_via', '--by', 'age_band', '--engine', 'duckdb']);
     expect(b.status, b.stderr).toBe(0);
     expect(b.stdout).toBe(a.stdout);
   });
 });
 
-describe('gzip, Parquet and patterns of many files', () => {
+describeEngine('gzip, Parquet and patterns of many files', () => {
   const dir = join(tempFile('unused', ''), '..', 'engine-inputs');
   mkdirSync(dir, { recursive: true });
   const demo = readFileSync(DEMO);
@@ -80,25 +73,26 @@ describe('gzip, Parquet and patterns of many files', () => {
   const third = Math.ceil(body.length / 3);
   for (let k = 0; k < 3; k++) writeFileSync(join(dir, `part-${k}.csv`), [header, ...body.slice(k * third, (k + 1) * third)].join('\n') + '\n');
   const args = ['--rows', 'branch', '--cols', 'membership', '--by', 'age_band', '--weight', 'survey_weight'];
-  const reference = json(['pair', DEMO, ...args, '--engine', 'builtin']).out;
+  let reference: any = null;
+  const referenceReport = async () => (reference ??= await runJson(['pair', DEMO, ...args, '--engine', 'builtin']));
   const comparable = (r: any) => {
     const c = withoutEngine(r);
     for (const key of ['file', 'files', 'format', 'delimiter']) delete c.input[key];
     return c;
   };
 
-  it('a gzip file reads the same with either engine, and as the plain file', () => {
+  it('a gzip file reads the same with either engine, and as the plain file', async () => {
     for (const engine of ['builtin', 'duckdb']) {
-      const out = json(['pair', gz, ...args, '--engine', engine]).out;
+      const out = await runJson(['pair', gz, ...args, '--engine', engine]);
       expect(out.input.engine).toBe(engine);
-      expect(comparable(out)).toEqual(comparable(reference));
+      expect(comparable(out)).toEqual(comparable(await referenceReport()));
     }
   });
 
-  it('three files by a pattern give the analysis of the whole file (auto picks the engine)', () => {
-    const out = json(['pair', join(dir, 'part-*.csv'), ...args]).out;
-    expect(out.input).toMatchObject({ engine: 'duckdb', files: 3, rowsRead: reference.input.rowsRead });
-    expect(comparable(out)).toEqual(comparable(reference));
+  it('three files by a pattern give the analysis of the whole file (auto picks the engine)', async () => {
+    const out = await runJson(['pair', join(dir, 'part-*.csv'), ...args]);
+    expect(out.input).toMatchObject({ engine: 'duckdb', files: 3, rowsRead: (await referenceReport()).input.rowsRead });
+    expect(comparable(out)).toEqual(comparable(await referenceReport()));
   });
 
   it('Parquet (text columns, and typed columns for the weight) gives the analysis of the CSV file', async () => {
@@ -107,25 +101,25 @@ describe('gzip, Parquet and patterns of many files', () => {
     await engineRun(`COPY (SELECT * FROM read_csv('${DEMO}', all_varchar = true)) TO '${text}' (FORMAT parquet)`);
     await engineRun(`COPY (SELECT * REPLACE (CAST(survey_weight AS DOUBLE) AS survey_weight) FROM read_csv('${DEMO}', all_varchar = true)) TO '${typed}' (FORMAT parquet)`);
     for (const file of [text, typed]) {
-      const out = json(['pair', file, ...args]).out;
+      const out = await runJson(['pair', file, ...args]);
       expect(out.input).toMatchObject({ engine: 'duckdb', format: 'parquet', delimiter: null, blankLines: 0 });
-      expect(comparable(out)).toEqual(comparable(reference));
+      expect(comparable(out)).toEqual(comparable(await referenceReport()));
     }
-    const scanned = json(['scan', text, '--bins', '3']).out;
-    const scannedCsv = json(['scan', DEMO, '--bins', '3', '--engine', 'builtin']).out;
+    const scanned = await runJson(['scan', text, '--bins', '3']);
+    const scannedCsv = await runJson(['scan', DEMO, '--bins', '3', '--engine', 'builtin']);
     expect(comparable(scanned)).toEqual(comparable(scannedCsv));
   });
 
-  it('files of one pattern with different headers are refused in one line', () => {
+  it('files of one pattern with different headers are refused in one line', async () => {
     writeFileSync(join(dir, 'odd-1.csv'), 'a,b\nx,y\n');
     writeFileSync(join(dir, 'odd-2.csv'), 'a,c\nx,y\n');
-    const r = run(['pair', join(dir, 'odd-*.csv'), '--rows', 'a', '--cols', 'b']);
+    const r = await run(['pair', join(dir, 'odd-*.csv'), '--rows', 'a', '--cols', 'b']);
     expect(r.status).toBe(1);
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
     expect(r.stderr).toMatch(/odd-2\.csv: its header differs from that of .*odd-1\.csv/);
   });
 
-  it('engine errors become the tool\'s own one-line messages', () => {
+  it('engine errors become the tool\'s own one-line messages', async () => {
     const notParquet = join(dir, 'broken.parquet');
     writeFileSync(notParquet, 'this is not parquet');
     const cases: [string[], number, RegExp][] = [
@@ -136,38 +130,41 @@ describe('gzip, Parquet and patterns of many files', () => {
       [['pair', '-', '--rows', 'a', '--cols', 'b', '--engine', 'duckdb'], 2, /reads files, not standard input/],
     ];
     for (const [args2, status, message] of cases) {
-      const r = run(args2, 'a,b\n1,2\n');
+      const r = await run(args2, 'a,b\n1,2\n');
       expect(r.status, r.stderr).toBe(status);
       expect(r.stderr.trim().split('\n')).toHaveLength(1);
       expect(r.stderr).toMatch(message);
       expect(r.stderr).not.toMatch(/\n\s+at /);
     }
   });
+});
 
-  it('without the optional package, --engine duckdb says how to add it and auto uses the built-in reader', () => {
+describe('without the optional engine package (a machine where npm ci --omit=optional ran)', () => {
+  it('--engine duckdb says in one line how to add it, and auto uses the built-in reader', () => {
     const env = { TABSIGHT_ENGINE_MODULE: '@tabsight/absent-engine' };
-    const r = spawnSync(process.execPath, [BIN, 'pair', DEMO, '--rows', 'branch', '--cols', 'membership', '--engine', 'duckdb'], { encoding: 'utf8', env: { ...process.env, ...env } });
+    const r = spawnCli(['pair', DEMO, '--rows', 'branch', '--cols', 'membership', '--engine', 'duckdb'], undefined, env);
     expect(r.status).toBe(2);
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
     expect(r.stderr).toMatch(/npm install @duckdb\/node-api@/);
-    const auto = json(['pair', DEMO, '--rows', 'branch', '--cols', 'membership'], env);
-    expect(auto.out.input.engine).toBe('builtin');
+    const auto = spawnCli(['pair', DEMO, '--rows', 'branch', '--cols', 'membership', '--format', 'json'], undefined, env);
+    expect(auto.status, auto.stderr).toBe(0);
+    expect(JSON.parse(auto.stdout).input.engine).toBe('builtin');
   });
 });
 
-describe('the portable SQL, run in the engine, gives the direct analysis back through --freq', () => {
+describeEngine('the portable SQL, run in the engine, gives the direct analysis back through --freq', () => {
   it.each([
     ['counts', [] as string[]],
     ['sampling weights', ['--weight', 'survey_weight']],
   ])('%s', async (_name, extra) => {
-    const sql = run(['sql', '--rows', 'branch', '--cols', 'membership', '--by', 'age_band', '--table', 'patrons', '--missing', 'NA', ...extra]);
+    const sql = await run(['sql', '--rows', 'branch', '--cols', 'membership', '--by', 'age_band', '--table', 'patrons', '--missing', 'NA', ...extra]);
     expect(sql.status, sql.stderr).toBe(0);
     const cells = tempFile(`cells-${extra.length}.csv`, '');
     await engineRun(`CREATE OR REPLACE TABLE patrons AS SELECT * FROM read_csv('${DEMO}', all_varchar = true)`);
     await engineRun(`COPY (${sql.stdout.replace(/;\s*$/, '')}) TO '${cells}' (HEADER, DELIMITER ',')`);
     const readBack = extra.length > 0 ? ['--freq', 'count', '--summed-weights', 'weight_sum,weight_square_sum'] : ['--freq', 'count'];
-    const viaSql = json(['pair', cells, '--rows', 'branch', '--cols', 'membership', '--by', 'age_band', ...readBack]).out;
-    const direct = json(['pair', DEMO, '--rows', 'branch', '--cols', 'membership', '--by', 'age_band', '--missing', 'NA', ...extra]).out;
+    const viaSql = await runJson(['pair', cells, '--rows', 'branch', '--cols', 'membership', '--by', 'age_band', ...readBack]);
+    const direct = await runJson(['pair', DEMO, '--rows', 'branch', '--cols', 'membership', '--by', 'age_band', '--missing', 'NA', ...extra]);
     if (extra.length === 0) {
       for (const key of ['counts', 'n', 'tests', 'measures', 'stratified']) expect(viaSql[key]).toEqual(direct[key]);
       expect(viaSql.strata.map((s: any) => [s.level, s.counts, s.tests])).toEqual(direct.strata.map((s: any) => [s.level, s.counts, s.tests]));
@@ -181,45 +178,4 @@ describe('the portable SQL, run in the engine, gives the direct analysis back th
       for (const key of ['counts', 'effectiveN', 'tests', 'measures']) close(viaSql[key], direct[key]);
     }
   });
-});
-
-describe('random CSV text: the engine counts what the built-in reader counts', () => {
-  const base: ReaderOptions = { missing: ['NA'], skipBadRows: false, header: true };
-  const plan: CountPlan = { rows: 'a', cols: 'b', weight: { column: 'w', kind: 'weight' }, decimalComma: false, where: [], recodes: [], keepMissing: true, maxLevels: 200, allowDegenerate: true };
-  const value = fc.oneof(
-    fc.constantFrom('x', 'y', ' x ', 'x\t', 'NA', '', '"x"', '"y, z"', '"line\nbreak"', '"say ""hi"""', 'é', ' ', '"  "'),
-    fc.stringMatching(/^[a-c]{1,2}$/),
-  );
-  const weight = fc.oneof(fc.constantFrom('1', '0', '2.5', '1e-3', '0.1', '7'), fc.double({ min: 0, max: 1e6, noNaN: true }).map((w) => String(w)));
-  it('same tables, sums and counts, or the built-in reader decides', async () => {
-    let engineUsed = 0;
-    let runs = 0;
-    await fc.assert(
-      fc.asyncProperty(fc.array(fc.tuple(value, value, weight), { minLength: 1, maxLength: 60 }), fc.constantFrom('\n', '\r\n'), fc.boolean(), async (rows, eol, blank) => {
-        const lines = ['a,b,w', ...rows.map(([a, b, w]) => `${a},${b},${w}`)];
-        if (blank) lines.splice(1 + Math.floor(lines.length / 2), 0, '');
-        const path = tempFile(`random-${runs++}.csv`, lines.join(eol) + eol);
-        const source = inputSource(path);
-        let fellBack = false;
-        const builtin = await countTables(source, { ...base, engine: 'builtin' }, plan).catch((e: Error) => e);
-        const engine = await countTables(source, { ...base, engine: 'duckdb', onNote: () => (fellBack = true) }, plan).catch((e: Error) => e);
-        if (builtin instanceof Error) {
-          expect(engine).toBeInstanceOf(Error);
-          expect((engine as Error).message).toBe(builtin.message);
-          return;
-        }
-        if (engine instanceof Error) throw engine;
-        if (!fellBack) engineUsed++;
-        expect(engine.summary.engine).toBe(fellBack ? 'builtin' : 'duckdb');
-        const summary = (c: typeof builtin) => [c.summary.header, c.summary.delimiter, c.summary.records, c.summary.blankLines, c.summary.badRows];
-        expect(summary(engine)).toEqual(summary(builtin));
-        expect(engine.table).toEqual(builtin.table);
-        expect(engine.weighting).toEqual(builtin.weighting);
-        expect([engine.excluded, engine.filtered, engine.badWeights]).toEqual([builtin.excluded, builtin.filtered, builtin.badWeights]);
-      }),
-      { numRuns: 60, seed: 20261202 },
-    );
-    // Most random files are read by the engine itself, not handed back.
-    expect(engineUsed).toBeGreaterThan(30);
-  }, 120_000);
 });

@@ -4,18 +4,15 @@
 // file is legal, a correct result. Run alone: node test/hostile/corpus.mjs <dir>
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { mulberry32 } from '../../scripts/seeded-random.mjs';
 
-function mulberry32(a) {
-  return () => {
-    a = (a + 0x6d2b79f5) | 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
-/** @returns {{name: string, args: string[], stdin?: Buffer|string, status: number, stderr?: RegExp, stdout?: RegExp, json?: (out: any) => void}[]} */
-export function makeCorpus(dir) {
+/**
+ * Cases marked `large` write tens of megabytes or a million rows: they run in
+ * the slow tier (npm run test:slow), as their own process under a 512 MB heap.
+ * @returns {{name: string, args: string[], stdin?: Buffer|string, status: number, stderr?: RegExp, stdout?: RegExp, json?: (out: any) => void, large?: boolean}[]}
+ */
+export function makeCorpus(dir, which = 'all') {
   mkdirSync(dir, { recursive: true });
   const file = (name, content) => {
     const path = join(dir, name);
@@ -24,7 +21,10 @@ export function makeCorpus(dir) {
   };
   const pair = (path, rows = 'a', cols = 'b', ...rest) => ['pair', path, '--rows', rows, '--cols', cols, ...rest];
   const cases = [];
-  const add = (c) => cases.push(c);
+  const add = (c) => {
+    if (which === 'all' || (which === 'large') === (c.large === true)) cases.push(c);
+  };
+  const large = which !== 'small';
 
   add({ name: 'empty file', args: pair(file('empty.csv', '')), status: 1, stderr: /empty\.csv: the file is empty/ });
   add({ name: 'header only', args: pair(file('header-only.csv', 'a,b\n')), status: 1, stderr: /no data rows/ });
@@ -39,55 +39,66 @@ export function makeCorpus(dir) {
   add({ name: 'NUL bytes', args: pair(file('nul.csv', 'a,b\nx\0,1\n')), status: 1, stderr: /NUL byte at byte offset 5 \(line 2\)/ });
   add({ name: 'invalid UTF-8', args: pair(file('bad-utf8.csv', Buffer.concat([Buffer.from('a,b\nx,1\n'), Buffer.from([0xc3, 0x28]), Buffer.from(',2\n')]))), status: 1, stderr: /invalid UTF-8 at byte offset 8 \(line 3\); pass --encoding/ });
   // past the first 1 MB read chunk: the line is still exact
-  const longLines = ['a,b'];
-  for (let i = 0; i < 200_000; i++) longLines.push(`row${i % 7},${i % 3}`);
-  const deep = Buffer.concat([Buffer.from(longLines.join('\n') + '\n'), Buffer.from([0x78, 0xff]), Buffer.from(',1\n')]);
-  add({ name: 'invalid UTF-8 past the first read chunk', args: pair(file('deep-bad.csv', deep)), status: 1, stderr: new RegExp(`invalid UTF-8 at byte offset ${deep.length - 4} \\(line 200002\\)`) });
-  add({ name: 'invalid UTF-8 past the first read chunk, on standard input', args: ['pair', '-', '--rows', 'a', '--cols', 'b'], stdin: deep, status: 1, stderr: /line 200002\)/ });
+  if (large) {
+    const longLines = ['a,b'];
+    for (let i = 0; i < 200_000; i++) longLines.push(`row${i % 7},${i % 3}`);
+    const deep = Buffer.concat([Buffer.from(longLines.join('\n') + '\n'), Buffer.from([0x78, 0xff]), Buffer.from(',1\n')]);
+    add({ name: 'invalid UTF-8 past the first read chunk', args: pair(file('deep-bad.csv', deep)), status: 1, stderr: new RegExp(`invalid UTF-8 at byte offset ${deep.length - 4} \\(line 200002\\)`), large: true });
+    add({ name: 'invalid UTF-8 past the first read chunk, on standard input', args: ['pair', '-', '--rows', 'a', '--cols', 'b'], stdin: deep, status: 1, stderr: /line 200002\)/, large: true });
+  }
   const random = mulberry32(99);
   const garbage = Buffer.alloc(4096);
   for (let i = 0; i < garbage.length; i++) garbage[i] = Math.floor(random() * 256);
   add({ name: 'binary garbage', args: pair(file('garbage.bin', garbage)), status: 1, stderr: /NUL byte|invalid UTF-8/ });
 
   // 50 MB in one field: in a column nobody asked for, and in a selected one.
-  const blob = 'z'.repeat(50 * 1024 * 1024);
-  add({
-    name: 'a 50 MB field in an unselected column',
-    args: pair(file('blob-other.csv', `a,b,blob\nx,1,short\ny,2,"${blob}"\nx,2,short\ny,1,short\n`), 'a', 'b', '--format', 'json'),
-    status: 0,
-    json: (out) => {
-      if (out.n !== 4 || JSON.stringify(out.counts) !== '[[1,1],[1,1]]') throw new Error(`wrong table ${JSON.stringify(out.counts)}`);
-    },
-  });
-  add({
-    name: 'a 50 MB field as a level label',
-    args: pair(file('blob-level.csv', `a,b\n${blob},1\nx,2\nx,1\ny,2\ny,1\n`)),
-    status: 0,
-    stdout: /zzzz…/,
-  });
+  if (large) {
+    const blob = 'z'.repeat(50 * 1024 * 1024);
+    add({
+      name: 'a 50 MB field in an unselected column',
+      args: pair(file('blob-other.csv', `a,b,blob\nx,1,short\ny,2,"${blob}"\nx,2,short\ny,1,short\n`), 'a', 'b', '--format', 'json'),
+      status: 0,
+      json: (out) => {
+        if (out.n !== 4 || JSON.stringify(out.counts) !== '[[1,1],[1,1]]') throw new Error(`wrong table ${JSON.stringify(out.counts)}`);
+      },
+      large: true,
+    });
+    add({
+      name: 'a 50 MB field as a level label',
+      args: pair(file('blob-level.csv', `a,b\n${blob},1\nx,2\nx,1\ny,2\ny,1\n`)),
+      status: 0,
+      stdout: /zzzz…/,
+      large: true,
+    });
+  }
 
   // A million distinct levels in one column.
-  const ids = ['id,g,h'];
-  for (let i = 0; i < 1_000_000; i++) ids.push(`r${i},${i % 3},${i % 2}`);
-  const million = file('million.csv', ids.join('\n') + '\n');
-  add({ name: 'a million distinct levels (pair)', args: pair(million, 'id', 'g'), status: 1, stderr: /"id" has 1,000,000 distinct values, more than --max-levels 50/ });
-  add({
-    name: 'a million distinct levels (scan)',
-    args: ['scan', million, '--format', 'json'],
-    status: 0,
-    json: (out) => {
-      if (!out.skipped.some((s) => s.column === 'id' && s.code === 'identifier')) throw new Error('id not skipped as an identifier');
-      if (out.pairsTested !== 1) throw new Error(`expected 1 pair, got ${out.pairsTested}`);
-    },
-  });
+  if (large) {
+    const ids = ['id,g,h'];
+    for (let i = 0; i < 1_000_000; i++) ids.push(`r${i},${i % 3},${i % 2}`);
+    const million = file('million.csv', ids.join('\n') + '\n');
+    add({ name: 'a million distinct levels (pair)', args: pair(million, 'id', 'g'), status: 1, stderr: /"id" has 1,000,000 distinct values, more than --max-levels 50/, large: true });
+    add({
+      name: 'a million distinct levels (scan)',
+      args: ['scan', million, '--format', 'json'],
+      status: 0,
+      json: (out) => {
+        if (!out.skipped.some((s) => s.column === 'id' && s.code === 'identifier')) throw new Error('id not skipped as an identifier');
+        if (out.pairsTested !== 1) throw new Error(`expected 1 pair, got ${out.pairsTested}`);
+      },
+      large: true,
+    });
+  }
 
   // Ten thousand columns.
-  const header = Array.from({ length: 10_000 }, (_v, i) => `c${i}`);
-  const wideRows = [header.join(',')];
-  for (let r = 0; r < 30; r++) wideRows.push(header.map((_h, i) => String((r + i) % 3)).join(','));
-  const wide = file('wide.csv', wideRows.join('\n') + '\n');
-  add({ name: '10,000 columns (pair)', args: pair(wide, 'c1', 'c2', '--format', 'json'), status: 0, json: (out) => { if (out.n !== 30) throw new Error('n'); } });
-  add({ name: '10,000 columns (scan)', args: ['scan', wide], status: 2, stderr: /10,000 candidate columns .* more than --max-columns 300/ });
+  if (large) {
+    const header = Array.from({ length: 10_000 }, (_v, i) => `c${i}`);
+    const wideRows = [header.join(',')];
+    for (let r = 0; r < 30; r++) wideRows.push(header.map((_h, i) => String((r + i) % 3)).join(','));
+    const wide = file('wide.csv', wideRows.join('\n') + '\n');
+    add({ name: '10,000 columns (pair)', args: pair(wide, 'c1', 'c2', '--format', 'json'), status: 0, json: (out) => { if (out.n !== 30) throw new Error('n'); }, large: true });
+    add({ name: '10,000 columns (scan)', args: ['scan', wide], status: 2, stderr: /10,000 candidate columns .* more than --max-columns 300/, large: true });
+  }
 
   add({ name: 'a column selected twice', args: pair(file('twice.csv', 'a,b\nx,1\n'), 'a', 'a'), status: 2, stderr: /both name "a"/ });
   add({ name: 'a directory instead of a file', args: pair(dir), status: 1, stderr: /is a directory/ });

@@ -155,12 +155,10 @@ describe('CSV tokenizer', () => {
     expect(message('a,b\n"x"y,1\n')).toMatch(/line 2: unexpected character after the closing quote/);
   });
 
-  it('handles one field far larger than its window in linear time', () => {
+  it('reads one quoted field far larger than its window, pushed in 80 chunks (a quadratic copy would hang past the runner\'s timeout)', () => {
     const big = 'x'.repeat(5_000_000);
-    const started = Date.now();
     const out = tokenize(`a,b\n"${big}",1\n`, ',', Array.from({ length: 80 }, () => 65536));
-    expect(out[1][0].length).toBe(5_000_000);
-    expect(Date.now() - started).toBeLessThan(5000);
+    expect(out[1]).toEqual([big, '1']);
   });
 });
 

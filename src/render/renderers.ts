@@ -1,0 +1,51 @@
+/**
+ * One table per report kind: each output format a command offers and the
+ * renderer that writes it. The commands take their --format choices from
+ * these tables, so a format is added in one place.
+ */
+import type { ChalkInstance } from 'chalk';
+import type { CompareReport } from '../analysis/compare.js';
+import type { PairReport } from '../analysis/report.js';
+import type { ScanReport } from '../analysis/scan.js';
+import { renderCompareText } from './compareText.js';
+import { renderCompareHtml, renderPairHtml, renderScanHtml } from './html.js';
+import { toJson } from './json.js';
+import { renderPairDelimited, renderPairMarkdown } from './pairDelimited.js';
+import { renderPairText } from './pairText.js';
+import { renderScanDelimited, renderScanMarkdown, renderScanText } from './scanTable.js';
+
+/** What a renderer may need besides the record: the colours of the terminal, and the --alpha in force. */
+export interface RenderContext {
+  paint: ChalkInstance;
+  alpha: number;
+}
+
+type Renderers<R> = Record<string, (report: R, context: RenderContext) => string>;
+
+export const PAIR_RENDERERS = {
+  text: (report, { paint }) => renderPairText(report, paint),
+  json: (report) => toJson(report),
+  csv: (report) => renderPairDelimited(report, ','),
+  tsv: (report) => renderPairDelimited(report, '\t'),
+  markdown: (report) => renderPairMarkdown(report),
+  html: (report) => renderPairHtml(report),
+} satisfies Renderers<PairReport>;
+
+export const SCAN_RENDERERS = {
+  text: (report, { paint }) => renderScanText(report, paint),
+  json: (report) => toJson(report),
+  csv: (report) => renderScanDelimited(report, ','),
+  tsv: (report) => renderScanDelimited(report, '\t'),
+  markdown: (report) => renderScanMarkdown(report),
+  html: (report) => renderScanHtml(report),
+} satisfies Renderers<ScanReport>;
+
+export const COMPARE_RENDERERS = {
+  text: (report, { paint, alpha }) => renderCompareText(report, paint, alpha),
+  json: (report) => toJson(report),
+  html: (report) => renderCompareHtml(report),
+} satisfies Renderers<CompareReport>;
+
+export type PairFormat = keyof typeof PAIR_RENDERERS;
+export type ScanFormat = keyof typeof SCAN_RENDERERS;
+export type CompareFormat = keyof typeof COMPARE_RENDERERS;
