@@ -72,3 +72,8 @@ export function contingencyTables(maxRows: number, maxCols: number, maxCount: nu
     .chain(([r, c]) => fc.array(fc.array(fc.integer({ min: 0, max: maxCount }), { minLength: c, maxLength: c }), { minLength: r, maxLength: r }))
     .filter((t) => t.every((row) => row.some((v) => v > 0)) && t[0].every((_v, j) => t.some((row) => row[j] > 0)));
 }
+
+/** A recorded fixture under fixtures/reference/ (each names its script and reference library). */
+export function readReferenceFixture<T>(file: string): T {
+  return JSON.parse(readFileSync(join(ROOT, 'fixtures/reference', file), 'utf8')) as T;
+}
