@@ -1,6 +1,6 @@
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
-import { CountMatrix, margins } from './contingency.js';
+import { compensatedSum, CountMatrix, margins } from './contingency.js';
 import { normalQuantile } from './normalDistribution.js';
 
 /**
@@ -121,34 +121,113 @@ export function mantelHaenszelOddsRatio(strata: readonly CountMatrix[], confiden
   return { estimate, lower: Math.exp(Math.log(estimate) - half), upper: Math.exp(Math.log(estimate) + half), confidence };
 }
 
+/** One stratum's first cell against its expectation under a given common odds ratio. */
+export interface StratumUnderCommonOdds {
+  /** Observed a_k. */
+  observed: number;
+  /** A_k, the first cell that gives the stratum's margins the common odds ratio. */
+  expected: number;
+  /** Var_k = (1/A + 1/B + 1/C + 1/D)⁻¹, the approximate variance of a_k. */
+  variance: number;
+}
+
 /**
- * Breslow–Day test of homogeneous odds ratios across 2×2×K tables
- * (Breslow & Day 1980, Statistical Methods in Cancer Research I, §4.4):
- * for each stratum the expected a_k = A under the common odds ratio θ_MH
- * solves A(n − r1 − c1 + A) = θ (r1 − A)(c1 − A) within the margins, and
- *   X²_BD = Σ (a_k − A_k)² / Var_k,  Var_k = (1/A + 1/B + 1/C + 1/D)⁻¹,
- * df = K − 1 over the strata with no empty margin (without Tarone's 1995 adjustment).
+ * The pieces of the Breslow–Day statistics (Breslow & Day 1980, Statistical
+ * Methods in Cancer Research I, §4.4): for each stratum, the expected a_k = A
+ * under the common odds ratio θ, the root of A(n − r1 − c1 + A) = θ (r1 − A)(c1 − A)
+ * within the margins, and Var_k = (1/A + 1/B + 1/C + 1/D)⁻¹ with B = r1 − A,
+ * C = c1 − A, D = n − r1 − c1 + A. null for a stratum with an empty row or
+ * column (it says nothing about the odds ratio).
  */
-export function breslowDay(strata: readonly CountMatrix[], commonOddsRatio: number): TestResult | null {
-  let statistic = 0;
-  let informative = 0;
-  for (const t of strata) {
+export function breslowDayComponents(strata: readonly CountMatrix[], commonOddsRatio: number): (StratumUnderCommonOdds | null)[] {
+  return strata.map((t) => {
     const [[a, b], [c, d]] = t;
     const n = a + b + c + d;
     const r1 = a + b;
     const c1 = a + c;
-    if (r1 === 0 || c1 === 0 || r1 === n || c1 === n) continue;
-    const expectedA = expectedCellUnderOddsRatio(r1, c1, n, commonOddsRatio);
-    const B = r1 - expectedA;
-    const C = c1 - expectedA;
-    const D = n - r1 - c1 + expectedA;
-    const variance = 1 / (1 / expectedA + 1 / B + 1 / C + 1 / D);
-    if (!(variance > 0)) continue;
-    statistic += (a - expectedA) ** 2 / variance;
-    informative++;
-  }
-  if (informative < 2) return null;
-  return { statistic, df: informative - 1, pValue: upperTailChiSquare(statistic, informative - 1) };
+    if (r1 === 0 || c1 === 0 || r1 === n || c1 === n) return null;
+    const expected = expectedCellUnderOddsRatio(r1, c1, n, commonOddsRatio);
+    const variance = 1 / (1 / expected + 1 / (r1 - expected) + 1 / (c1 - expected) + 1 / (n - r1 - c1 + expected));
+    if (!(variance > 0)) return null;
+    return { observed: a, expected, variance };
+  });
+}
+
+/**
+ * Breslow–Day test of homogeneous odds ratios across 2×2×K tables
+ * (Breslow & Day 1980, Statistical Methods in Cancer Research I, §4.4):
+ *   X²_BD = Σ (a_k − A_k)² / Var_k  (see breslowDayComponents),
+ * df = K − 1 over the strata with no empty margin (without Tarone's 1985 adjustment;
+ * see breslowDayTarone).
+ */
+export function breslowDay(strata: readonly CountMatrix[], commonOddsRatio: number): TestResult | null {
+  const used = breslowDayComponents(strata, commonOddsRatio).filter((x): x is StratumUnderCommonOdds => x !== null);
+  if (used.length < 2) return null;
+  const statistic = compensatedSum(used.map((x) => (x.observed - x.expected) ** 2 / x.variance));
+  return { statistic, df: used.length - 1, pValue: upperTailChiSquare(statistic, used.length - 1) };
+}
+
+/**
+ * Breslow–Day test with Tarone's correction (Tarone 1985, Biometrika 72,
+ * 91–95), which makes the statistic asymptotically χ² when θ is the
+ * Mantel–Haenszel estimate:
+ *   X²_BDT = X²_BD − (Σ a_k − Σ A_k)² / Σ Var_k,  df = K − 1
+ * over the strata with no empty margin. `uncorrected` is X²_BD.
+ *
+ * @example
+ * // smoking and lung cancer in eight Chinese cities (Liu 1992): X²_BDT = 5.1997, p = 0.6356
+ */
+export function breslowDayTarone(strata: readonly CountMatrix[], commonOddsRatio: number): (TestResult & { uncorrected: number }) | null {
+  const used = breslowDayComponents(strata, commonOddsRatio).filter((x): x is StratumUnderCommonOdds => x !== null);
+  if (used.length < 2) return null;
+  const uncorrected = compensatedSum(used.map((x) => (x.observed - x.expected) ** 2 / x.variance));
+  const totalDeparture = compensatedSum(used.map((x) => x.observed - x.expected));
+  const totalVariance = compensatedSum(used.map((x) => x.variance));
+  const statistic = Math.max(0, uncorrected - (totalDeparture * totalDeparture) / totalVariance);
+  const df = used.length - 1;
+  return { statistic, df, pValue: upperTailChiSquare(statistic, df), uncorrected };
+}
+
+/**
+ * Each stratum's standardized departure from the common odds ratio,
+ * (a_k − A_k)/√Var_k: the signed square roots of the terms of the
+ * Breslow–Day statistic (Breslow & Day 1980, §4.4). Positive when the
+ * stratum's odds ratio is above the common one (A_k grows with θ), negative
+ * below; about standard normal for one stratum looked at in advance. null
+ * for a stratum with an empty margin.
+ */
+export function breslowDayResiduals(strata: readonly CountMatrix[], commonOddsRatio: number): (number | null)[] {
+  return breslowDayComponents(strata, commonOddsRatio).map((x) => (x === null ? null : (x.observed - x.expected) / Math.sqrt(x.variance)));
+}
+
+/**
+ * Score test for a linear trend in the log odds ratio across ordered strata
+ * with scores x_k (Breslow & Day 1980, Statistical Methods in Cancer Research I,
+ * §4.4, the test of trend in the odds ratio): with A_k and Var_k under the
+ * common odds ratio θ (the Mantel–Haenszel estimate),
+ *   X²_trend = [Σ x_k (a_k − A_k)]² / [Σ x_k² Var_k − (Σ x_k Var_k)² / Σ Var_k],
+ * 1 df. The published form takes Σ (a_k − A_k) = 0, which the
+ * Mantel–Haenszel θ meets only approximately; the scores are therefore
+ * centred first at their Var-weighted mean x̄ = Σ x_k Var_k / Σ Var_k (which
+ * leaves the denominator unchanged), so that scores counted from 0 or given
+ * as calendar years give the same test. `direction` is the sign of
+ * Σ (x_k − x̄)(a_k − A_k): +1 when the odds ratio grows with the score.
+ * null with fewer than two informative strata or all scores equal.
+ */
+export function breslowDayTrend(strata: readonly CountMatrix[], scores: readonly number[], commonOddsRatio: number): (TestResult & { direction: -1 | 0 | 1 }) | null {
+  if (scores.length !== strata.length) throw new Error(`breslowDayTrend: ${strata.length} strata but ${scores.length} scores`);
+  const used: { x: number; s: StratumUnderCommonOdds }[] = [];
+  breslowDayComponents(strata, commonOddsRatio).forEach((s, k) => {
+    if (s !== null) used.push({ x: scores[k], s });
+  });
+  if (used.length < 2) return null;
+  const totalVariance = compensatedSum(used.map(({ s }) => s.variance));
+  const centre = compensatedSum(used.map(({ x, s }) => x * s.variance)) / totalVariance;
+  const score = compensatedSum(used.map(({ x, s }) => (x - centre) * (s.observed - s.expected)));
+  const denominator = compensatedSum(used.map(({ x, s }) => (x - centre) * (x - centre) * s.variance));
+  if (!(denominator > 0)) return null;
+  const statistic = (score * score) / denominator;
+  return { statistic, df: 1, pValue: upperTailChiSquare(statistic, 1), direction: score > 0 ? 1 : score < 0 ? -1 : 0 };
 }
 
 /** The root A in the feasible range of (1 − θ)A² + (n − r1 − c1 + θ(r1 + c1))A − θ r1 c1 = 0. */
