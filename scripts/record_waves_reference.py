@@ -242,16 +242,13 @@ def breslow_day_trend(strata, scores):
     centre = sum(x * p[1] for x, p in zip(scores, parts) if p) / sum(p[1] for p in parts if p)
     num, sxv, sx2v, sv = 0.0, 0.0, 0.0, 0.0
     residuals = []
-    for t, x in zip(strata, scores):
-        x = x - centre
-        (a, b), (c, d) = t
-        n = a + b + c + d
-        r1, c1 = a + b, a + c
-        if r1 == 0 or c1 == 0 or r1 == n or c1 == n:
+    for t, x, part in zip(strata, scores, parts):
+        if part is None:
             residuals.append(None)
             continue
-        A = expected_a(r1, c1, n, theta)
-        V = 1 / (1 / A + 1 / (r1 - A) + 1 / (c1 - A) + 1 / (n - r1 - c1 + A))
+        x = x - centre
+        a = t[0][0]
+        A, V = part
         num += x * (a - A)
         sxv += x * V
         sx2v += x * x * V
