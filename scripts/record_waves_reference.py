@@ -33,6 +33,8 @@ Sources of each reference value:
                   scipy.optimize (bounded Brent), against GLM of [ij][ik][jk]
   marginDrift     scipy.stats.chi2_contingency on margin x wave
   columnProportions  statsmodels.stats.proportion.proportions_ztest (pooled)
+  welch           scipy.stats.ttest_ind_from_stats(equal_var=False); df from the
+                  Welch-Satterthwaite formula with numpy
   multipleResponse   Bilder & Loughin (2004) / Bilder, Loughin & Nettleton (2000)
                   Rao-Scott adjustments evaluated with numpy from Appendix A
                   (multinomial of the response patterns)
@@ -458,6 +460,31 @@ Y = np.column_stack([yes("awards"), yes("yr.rnd")])
 spmi_case = {"name": "API stratified sample: growth targets met (sch.wide, comp.imp) x (awards, yr.rnd)",
              "W": W.tolist(), "Y": Y.tolist(), **spmi(W, Y)}
 
+# ---- Welch t from summary statistics ---------------------------------------------------------
+welch = []
+for weighted in (False, True):
+    groups = []
+    for stype in ("E", "M", "H"):
+        sub = api[api.stype == stype]
+        x = sub.api00.values.astype(float)
+        # weights that vary within a column: pw times enrolment (pupil-weighted means), so the Kish base is below n
+        w = (sub.pw * sub.enroll).values.astype(float) if weighted else np.ones(len(sub))
+        mean = float(np.sum(w * x) / np.sum(w))
+        neff = kish(w)
+        # weighted sd on the effective base: sqrt(sum w (x - mean)^2 / sum w * neff / (neff - 1)) (common practice)
+        sd = float(math.sqrt(np.sum(w * (x - mean) ** 2) / np.sum(w) * neff / (neff - 1)))
+        groups.append({"label": stype, "mean": mean, "sd": sd, "n": neff})
+    pairs = []
+    for a in range(3):
+        for b in range(a + 1, 3):
+            ga, gb = groups[a], groups[b]
+            res = stats.ttest_ind_from_stats(ga["mean"], ga["sd"], ga["n"], gb["mean"], gb["sd"], gb["n"], equal_var=False)
+            va, vb = ga["sd"] ** 2 / ga["n"], gb["sd"] ** 2 / gb["n"]
+            df = (va + vb) ** 2 / (va ** 2 / (ga["n"] - 1) + vb ** 2 / (gb["n"] - 1))
+            pairs.append({"a": a, "b": b, "t": f(res.statistic), "pValue": f(res.pvalue), "df": df})
+    welch.append({"name": f"API stratified sample: API 2000 score by school type ({'weighted by pw x enrolment, Kish effective base' if weighted else 'unweighted'})",
+                  "groups": groups, "pairs": pairs})
+
 OUT.parent.mkdir(parents=True, exist_ok=True)
 OUT.write_text(json.dumps({
     "recordedWith": {"python": sys.version.split()[0], "numpy": np.__version__, "scipy": scipy.__version__,
@@ -469,5 +496,6 @@ OUT.write_text(json.dumps({
     "marginDrift": margin_drift,
     "columnProportions": column_cases,
     "multipleResponse": {"groups": mmi_case, "pairs": spmi_case},
+    "welch": welch,
 }, indent=1) + "\n")
 print(f"wrote {OUT}")

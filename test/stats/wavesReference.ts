@@ -68,6 +68,11 @@ export interface WavesReference {
     groups: MultipleResponseReference & { groups: number[]; items: number[][]; itemStatistics: number[]; itemStatisticsScipy: number[] };
     pairs: MultipleResponseReference & { W: number[][]; Y: number[][]; pairStatistics: number[][] };
   };
+  welch: {
+    name: string;
+    groups: { label: string; mean: number; sd: number; n: number }[];
+    pairs: { a: number; b: number; t: number; pValue: number; df: number }[];
+  }[];
 }
 
 interface MultipleResponseReference {
