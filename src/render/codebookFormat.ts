@@ -26,7 +26,27 @@ export function codebookToJson(codebook: Codebook): string {
     if (column.note !== null) entry.note = column.note;
     return entry;
   });
-  return JSON.stringify(out, null, 2) + '\n';
+  return layout(out) + '\n';
+}
+
+/** One line per column member, one line per code and net: easy to read and edit by hand. */
+function layout(value: unknown, indent = ''): string {
+  const inner = indent + '  ';
+  if (Array.isArray(value)) {
+    if (value.length === 0) return '[]';
+    if (value.every((v) => v === null || typeof v !== 'object')) return `[${value.map((v) => JSON.stringify(v)).join(', ')}]`;
+    const scalar = (x: unknown) => x === null || typeof x !== 'object';
+    if (value.every((v) => v !== null && typeof v === 'object' && !Array.isArray(v) && Object.values(v).every((x) => scalar(x) || (Array.isArray(x) && x.every(scalar))))) {
+      return `[\n${value.map((v) => `${inner}{ ${Object.entries(v as object).map(([k, x]) => `${JSON.stringify(k)}: ${layout(x)}`).join(', ')} }`).join(',\n')}\n${indent}]`;
+    }
+    return `[\n${value.map((v) => inner + layout(v, inner)).join(',\n')}\n${indent}]`;
+  }
+  if (value !== null && typeof value === 'object') {
+    const entries = Object.entries(value as object);
+    if (entries.length === 0) return '{}';
+    return `{\n${entries.map(([k, v]) => `${inner}${JSON.stringify(k)}: ${layout(v, inner)}`).join(',\n')}\n${indent}}`;
+  }
+  return JSON.stringify(value);
 }
 
 /**
