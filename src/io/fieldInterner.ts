@@ -28,6 +28,8 @@ export class FieldInterner {
   constructor(
     private readonly missing: ReadonlySet<string>,
     private readonly limit: number,
+    /** Receives each value refused past the limit (every time it occurs), for a caller that still wants to see it. */
+    private readonly onOverflow?: (label: string) => void,
   ) {
     this.slotId.fill(-2);
   }
@@ -39,6 +41,7 @@ export class FieldInterner {
     if (known !== undefined) return known;
     if (this.labels.length >= this.limit) {
       this.overflowed++;
+      this.onOverflow?.(label);
       return OVERFLOW_ID;
     }
     this.labels.push(label);

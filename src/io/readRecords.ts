@@ -66,6 +66,8 @@ export async function readRecords(
   distinctLimit: (slot: number) => number = () => DEFAULT_DISTINCT_LIMIT,
   /** Slots delivered as raw text (trimmed) instead of interned ids, such as a weight column. */
   textSlots: ReadonlySet<number> | 'all' = new Set(),
+  /** Sees each value a column's interner refuses past its distinct limit (a profile estimates the distinct count from them). */
+  onOverflow?: (slot: number, label: string) => void,
 ): Promise<ReadSummary & { interners: FieldInterner[] }> {
   const allText = textSlots === 'all';
   const textSet: ReadonlySet<number> = textSlots === 'all' ? new Set() : textSlots;
@@ -103,7 +105,7 @@ export async function readRecords(
           selected = select(header, line, delimiter as string);
           const slots = new Int32Array(header.length).fill(-1);
           selected.forEach((column, slot) => (slots[column] = slot));
-          interners = selected.map((_c, slot) => new FieldInterner(missing, distinctLimit(slot)));
+          interners = selected.map((_c, slot) => new FieldInterner(missing, distinctLimit(slot), onOverflow ? (label) => onOverflow(slot, label) : undefined));
           ids = new Int32Array(selected.length);
           texts = new Array(selected.length).fill(undefined);
           if (!options.header) {
