@@ -48,6 +48,28 @@ export interface Reference {
 /** Values recorded by scripts/record_reference.py (scipy, statsmodels, mpmath, exact fractions). */
 export const reference: Reference = JSON.parse(readFileSync(join(ROOT, 'fixtures/reference/reference.json'), 'utf8'));
 
+export interface EdgeTable {
+  name: string;
+  regime: 'near-independence' | 'dominant-cell' | 'moderate';
+  counts: number[][];
+  [statistic: string]: unknown;
+}
+
+export interface Edges {
+  recordedWith: Record<string, string>;
+  fisher2x2: { name: string; counts: number[][]; pValue: number }[];
+  exactRxC: { counts: number[][]; pValue: number; tables: number }[];
+  tables: EdgeTable[];
+}
+
+/** Values at the numerical edges, recorded by scripts/record_edges.py (exact fractions, mpmath, enumeration). */
+export const edges: Edges = JSON.parse(readFileSync(join(ROOT, 'fixtures/reference/edges.json'), 'utf8'));
+
+/** The p-value of an exact-test outcome, or null when it was declined or not applicable. */
+export function exactP(outcome: { status: 'computed'; pValue: number } | { status: 'declined' } | null): number | null {
+  return outcome !== null && outcome.status === 'computed' ? outcome.pValue : null;
+}
+
 /** |actual − expected| ≤ tolerance · |expected| (absolute near zero). */
 export function expectClose(actual: number | null | undefined, expected: number, tolerance = 1e-10): void {
   expect(actual).not.toBeNull();

@@ -1,7 +1,7 @@
 import { pearsonChiSquare, likelihoodRatioChiSquare, yatesChiSquare, TestResult } from '../stats/chiSquareTests.js';
 import { expectedCounts, margins } from '../stats/contingency.js';
 import { expectedCountRule, ExpectedCountCheck } from '../stats/expectedCountRule.js';
-import { fisherExact2x2, fisherFreemanHalton } from '../stats/fisherExact.js';
+import { ExactDeclined, ExactOutcome, fisherExact2x2, fisherFreemanHalton } from '../stats/fisherExact.js';
 import { DEFAULT_SEED, DEFAULT_SIMULATIONS, monteCarloExactTest, MonteCarloResult } from '../stats/monteCarlo.js';
 import { cramersVInterval } from '../stats/noncentralChiSquare.js';
 import { linearByLinear, ordinalMeasures, OrdinalMeasures } from '../stats/ordinal.js';
@@ -106,6 +106,8 @@ export interface AnalysisRecord {
     likelihoodRatio: TestResult;
     yates: TestResult | null;
     fisher: { pValue: number; method: string } | null;
+    /** Why an exact p-value that was wanted was not computed (its work estimate and bound). */
+    exactDeclined: Omit<ExactDeclined, 'status'> | null;
     monteCarlo: MonteCarloResult | null;
     linearByLinear: TestResult | null;
   };
@@ -184,22 +186,36 @@ export function analyzeTable(
 
   // Exact and simulated p-values.
   let fisher: AnalysisRecord['tests']['fisher'] = null;
+  let exactDeclined: AnalysisRecord['tests']['exactDeclined'] = null;
   let monteCarlo: MonteCarloResult | null = null;
   if (integerCounts) {
+    let exact: ExactOutcome | null = null;
     if (r === 2 && c === 2) {
-      fisher = fisherExact2x2(counts);
+      exact = fisherExact2x2(counts);
     } else if (options.exact !== 'never' && (options.exact === 'always' || !rule.passes || n <= 300)) {
-      fisher = fisherFreemanHalton(counts, { maxWork: options.exactWorkLimit });
+      exact = fisherFreemanHalton(counts, { maxWork: options.exactWorkLimit });
+    }
+    if (exact?.status === 'computed') fisher = { pValue: exact.pValue, method: exact.method };
+    else if (exact?.status === 'declined') {
+      const { status: _status, ...declined } = exact;
+      exactDeclined = declined;
     }
     const wantSimulation = options.exact === 'always' || (options.exact === 'auto' && !rule.passes);
-    if (wantSimulation && fisher === null && options.simulations > 0) {
-      monteCarlo = monteCarloExactTest(counts, options.simulations, options.seed);
-      if (!(r === 2 && c === 2)) {
-        warnings.push({
-          code: 'exact-out-of-reach',
-          message: `the exact test would take too long for this table; a simulated p-value from ${options.simulations.toLocaleString('en-US')} random tables (seed ${options.seed}) stands in for it`,
-        });
-      }
+    const simulated = wantSimulation && fisher === null && options.simulations > 0 ? monteCarloExactTest(counts, options.simulations, options.seed) : null;
+    if (simulated?.status === 'computed') {
+      const { status: _status, ...result } = simulated;
+      monteCarlo = result;
+      warnings.push({
+        code: 'exact-out-of-reach',
+        message: `the exact test was not run (${exactDeclined?.reason ?? 'out of reach'}); a simulated p-value from ${options.simulations.toLocaleString('en-US')} random tables (seed ${options.seed}) stands in for it`,
+      });
+    } else if (simulated?.status === 'declined') {
+      warnings.push({
+        code: 'exact-declined',
+        message: `no exact p-value: ${exactDeclined === null ? '' : `the exact test was not run because ${exactDeclined.reason}, and `}the simulation was not run because ${simulated.reason}`,
+      });
+    } else if (exactDeclined !== null) {
+      warnings.push({ code: 'exact-declined', message: `no exact p-value: the exact test was not run because ${exactDeclined.reason}` });
     }
   }
 
@@ -285,7 +301,7 @@ export function analyzeTable(
     rowTotals,
     colTotals,
     expected: expectedCounts(weightedCounts),
-    tests: { pearson, likelihoodRatio, yates, fisher, monteCarlo, linearByLinear: lbl },
+    tests: { pearson, likelihoodRatio, yates, fisher, exactDeclined, monteCarlo, linearByLinear: lbl },
     measures: {
       phi,
       contingencyC: contingencyCoefficient(pearson.statistic, effectiveN),

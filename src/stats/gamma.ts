@@ -49,6 +49,43 @@ export function logFactorial(k: number): number {
 }
 
 /**
+ * log C(n, k), the logarithm of the binomial coefficient, for integers
+ * 0 ≤ k ≤ n, with an absolute error of a few units in the last place of the
+ * result itself (not of log n!, which is far larger). Writing
+ * log Γ(a + 1) = δ(a) + (a + ½) log a − a + log √(2π) for each factorial gives
+ *   log C(n, k) = k log(n/k) + (n − k) log1p(k/(n − k))
+ *                 + δ(n) − δ(k) − δ(n − k) − ½ log(2π k (n − k)/n)
+ * (the device of Loader 2000 for binomial probabilities), in which no two
+ * large terms cancel; k is first replaced by min(k, n − k).
+ *
+ * @example logBinomialCoefficient(52, 5) // log 2598960 (poker hands), 14.770…
+ */
+export function logBinomialCoefficient(n: number, k: number): number {
+  if (!(k >= 0 && k <= n)) return -Infinity;
+  const m = Math.min(k, n - k);
+  if (m === 0) return 0;
+  if (m <= 60 && n <= 2 ** 26) {
+    // The coefficient itself while it is an exact integer below 2^53:
+    // c·(n − i)/(i + 1) stays integral at every step.
+    let c = 1;
+    for (let i = 0; i < m && c <= 2 ** 53 / n; i++) {
+      c = (c * (n - i)) / (i + 1);
+      if (i === m - 1) return Math.log(c);
+    }
+  }
+  if (n <= 170) return LOG_FACTORIAL_SMALL[n] - LOG_FACTORIAL_SMALL[m] - LOG_FACTORIAL_SMALL[n - m];
+  const rest = n - m;
+  return (
+    m * Math.log(n / m) +
+    rest * Math.log1p(m / rest) +
+    stirlingError(n) -
+    stirlingError(m) -
+    stirlingError(rest) -
+    0.5 * Math.log((2 * Math.PI * m * rest) / n)
+  );
+}
+
+/**
  * Stirling's error term δ(a) = log Γ(a+1) − [(a + ½) log a − a + log √(2π)].
  * Loader, C. (2000). Fast and accurate computation of binomial probabilities.
  * For a > 15 the asymptotic series is used, which is where the direct
