@@ -70,40 +70,39 @@ def fisher_2x2(table):
         threshold = logp(a) + mpmath.log(mpmath.mpf(TOLERANCE.numerator) / TOLERANCE.denominator)
         if logp(mode) <= threshold:
             return 1.0
-        total = mpmath.mpf(0)
         eps = mpmath.mpf(2) ** -90
-        # left tail: largest k <= mode at or below the threshold
+
+        def boundary(start, inside, outward):
+            """The first k from `inside` towards `start` at or below the threshold
+            (log P is monotone between the mode and either end), by bisection."""
+            lo, hi = start, inside  # lo satisfies, hi does not
+            while abs(hi - lo) > 1:
+                mid = (lo + hi) // 2
+                if logp(mid) <= threshold:
+                    lo = mid
+                else:
+                    hi = mid
+            return lo
+
+        def tail_sum(k, step):
+            # P(k+1)/P(k) = (row1 - k)(col1 - k) / ((k + 1)(row2 - col1 + k + 1)), in exact integers
+            total, term = mpmath.mpf(0), mpmath.exp(logp(k))
+            while low <= k <= high:
+                total += term
+                if term < total * eps:
+                    break
+                if step == 1:
+                    term = term * ((row1 - k) * (col1 - k)) / mpmath.mpf((k + 1) * (row2 - col1 + k + 1))
+                else:
+                    term = term * (k * (row2 - col1 + k)) / mpmath.mpf((row1 - k + 1) * (col1 - k + 1))
+                k += step
+            return total
+
+        total = mpmath.mpf(0)
         if logp(low) <= threshold:
-            lo, hi = low, mode
-            while hi - lo > 1:
-                mid = (lo + hi) // 2
-                if logp(mid) <= threshold:
-                    lo = mid
-                else:
-                    hi = mid
-            k, term = lo, mpmath.exp(logp(lo))
-            while k >= low:
-                total += term
-                if term < total * eps:
-                    break
-                # P(k-1)/P(k) = k (row2 - col1 + k) / ((row1 - k + 1)(col1 - k + 1)), exact integers
-                term = term * (k * (row2 - col1 + k)) / mpmath.mpf((row1 - k + 1) * (col1 - k + 1))
-                k -= 1
+            total += tail_sum(boundary(low, mode, -1), -1)
         if logp(high) <= threshold:
-            lo, hi = mode, high
-            while hi - lo > 1:
-                mid = (lo + hi) // 2
-                if logp(mid) <= threshold:
-                    hi = mid
-                else:
-                    lo = mid
-            k, term = hi, mpmath.exp(logp(hi))
-            while k <= high:
-                total += term
-                if term < total * eps:
-                    break
-                term = term * ((row1 - k) * (col1 - k)) / mpmath.mpf((k + 1) * (row2 - col1 + k + 1))
-                k += 1
+            total += tail_sum(boundary(high, mode, 1), 1)
         return float(min(total, 1))
 
 
@@ -129,54 +128,13 @@ def falling(a, b):
     return Fraction(1, math.prod(range(a + 1, b + 1)))
 
 
-def tables_with_margins(rows, cols):
-    if len(rows) == 1:
-        yield [list(cols)]
-        return
-    first = rows[0]
-
-    def fill(j, left, prefix):
-        if j == len(cols) - 1:
-            if left <= cols[j]:
-                yield prefix + [left]
-            return
-        for v in range(0, min(left, cols[j]) + 1):
-            yield from fill(j + 1, left - v, prefix + [v])
-
-    for row in fill(0, first, []):
-        rest = [cols[j] - row[j] for j in range(len(cols))]
-        for t in tables_with_margins(rows[1:], rest):
-            yield [row] + t
-
-
 def freeman_halton_by_enumeration(counts):
-    """p = sum of P(T) over tables T no more likely than the observed (1e-7 tie rule).
-    P(T)/P(observed) = prod over cells of observed! / T! , exact; sum over all T of
-    that ratio is 1/P(observed)."""
-    rows = [sum(r) for r in counts]
-    cols = [sum(r[j] for r in counts) for j in range(len(counts[0]))]
-    # Enumerate with the big row/column handled through the margins: every table
-    # with these margins differs from the observed one in a few small cells.
-    # To keep the enumeration small, rows and columns are enumerated as given
-    # but cell values are bounded by margins automatically.
-    ratios = []
-    count = 0
-    for t in tables_with_margins(rows, cols):
-        count += 1
-        ratio = Fraction(1)
-        for i, r in enumerate(t):
-            for j, v in enumerate(r):
-                ratio *= falling(counts[i][j], v)
-        ratios.append(ratio)
-    total = sum(ratios)
-    tail = sum(x for x in ratios if x <= TOLERANCE)
-    return tail / total, count
-
-
-def dominant_enumeration(counts):
-    """For a table whose one big cell sits at [0][0], enumerate by the small cells only:
-    every table with these margins is fixed by its cells outside row 0 and column 0
-    (they determine the rest), which range over a small set."""
+    """p = sum of P(T) over the tables T with the observed margins that are no more
+    likely than the observed one (1e-7 tie rule). Every such table is fixed by its
+    cells outside row 0 and column 0, which are enumerated (a small set when the
+    big counts sit in row 0 or column 0). P(T)/P(observed) = prod observed!/T!, a
+    product of short falling factorials, exact; the sum of these ratios over all T
+    is 1/P(observed)."""
     r, c = len(counts), len(counts[0])
     rows = [sum(x) for x in counts]
     cols = [sum(counts[i][j] for i in range(r)) for j in range(c)]
@@ -222,13 +180,11 @@ for counts in [
     [[10 ** 9, 3, 1], [2, 5, 0], [1, 0, 4]],
     [[10 ** 9, 1, 2, 0], [4, 0, 1, 3]],
     [[123456789, 2, 0], [1, 3, 2], [2, 0, 3]],
+    [[3, 1, 0], [1, 3, 2], [0, 2, 5]],
+    [[4, 2, 0, 3], [1, 5, 4, 0], [2, 1, 6, 5]],
 ]:
-    p, count = dominant_enumeration(counts)
+    p, count = freeman_halton_by_enumeration(counts)
     exact_rxc.append({"counts": counts, "pValue": float(p), "tables": count})
-for counts in [[[3, 1, 0], [1, 3, 2], [0, 2, 5]], [[4, 2, 0, 3], [1, 5, 4, 0], [2, 1, 6, 5]]]:
-    if True:
-        p, count = freeman_halton_by_enumeration(counts)
-        exact_rxc.append({"counts": counts, "pValue": float(p), "tables": count})
 
 OUT.parent.mkdir(parents=True, exist_ok=True)
 OUT.write_text(json.dumps({

@@ -159,32 +159,22 @@ export function fisherExact2x2(counts: CountMatrix, bound: ExactBound = DEFAULT_
   let work = 3;
   if (logP(mode) <= logThreshold) return { status: 'computed', pValue: 1, method, work };
 
-  // Left tail: the largest k ≤ mode with P(k) ≤ threshold (P rises up to the mode).
-  let leftEnd = low - 1;
-  if (logP(low) <= logThreshold) {
-    let lo = low; // satisfies
-    let hi = mode; // does not
-    while (hi - lo > 1) {
-      const mid = lo + Math.floor((hi - lo) / 2);
+  // The inner ends of the tails: P rises up to the mode and falls after it,
+  // so the last k at or below the threshold, walking from an end towards the
+  // mode, is found by bisection (`end` satisfies, `mode` does not).
+  const innerEnd = (end: number): number => {
+    let satisfies = end;
+    let fails = mode;
+    while (Math.abs(fails - satisfies) > 1) {
+      const mid = Math.floor((satisfies + fails) / 2);
       work++;
-      if (logP(mid) <= logThreshold) lo = mid;
-      else hi = mid;
+      if (logP(mid) <= logThreshold) satisfies = mid;
+      else fails = mid;
     }
-    leftEnd = lo;
-  }
-  // Right tail: the smallest k ≥ mode with P(k) ≤ threshold.
-  let rightStart = high + 1;
-  if (logP(high) <= logThreshold) {
-    let lo = mode; // does not
-    let hi = high; // satisfies
-    while (hi - lo > 1) {
-      const mid = lo + Math.floor((hi - lo) / 2);
-      work++;
-      if (logP(mid) <= logThreshold) hi = mid;
-      else lo = mid;
-    }
-    rightStart = hi;
-  }
+    return satisfies;
+  };
+  const leftEnd = logP(low) <= logThreshold ? innerEnd(low) : low - 1;
+  const rightStart = logP(high) <= logThreshold ? innerEnd(high) : high + 1;
 
   // Each tail relative to its own first term, in log space at the anchor so
   // that p-values far below the smallest double's reach keep their digits.
