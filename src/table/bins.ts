@@ -52,6 +52,43 @@ export function equalFrequencyBins(values: Float64Array, k: number): Binning {
   return { labels, codes };
 }
 
+/**
+ * The same equal-frequency bins as equalFrequencyBins, from a column's
+ * distinct values and their counts instead of one value per row (what a
+ * streaming count keeps): the edges are the same order statistics, so the
+ * bins and labels are identical. Returns, for each distinct value given,
+ * its 1-based bin, and the labels lowest first.
+ */
+export function equalFrequencyBinsFromCounts(values: readonly number[], counts: readonly number[], k: number): { labels: string[]; binOf: number[] } {
+  const order = values.map((_v, i) => i).filter((i) => counts[i] > 0 && !Number.isNaN(values[i])).sort((a, b) => values[a] - values[b]);
+  const m = order.reduce((s, i) => s + counts[i], 0);
+  const valueAt = (index: number) => {
+    let seen = 0;
+    for (const i of order) {
+      seen += counts[i];
+      if (seen > index) return values[i];
+    }
+    return values[order[order.length - 1]];
+  };
+  const edges: number[] = [];
+  for (let i = 0; i < k; i++) {
+    const edge = valueAt(Math.min(m - 1, Math.ceil((i * m) / k)));
+    if (edges.length === 0 || edge > edges[edges.length - 1]) edges.push(edge);
+  }
+  const minimum = new Array<number>(edges.length).fill(Infinity);
+  const maximum = new Array<number>(edges.length).fill(-Infinity);
+  const binOf = values.map((x, i) => {
+    if (Number.isNaN(x) || !(counts[i] > 0)) return 0;
+    let b = 0;
+    while (b + 1 < edges.length && edges[b + 1] <= x) b++;
+    if (x < minimum[b]) minimum[b] = x;
+    if (x > maximum[b]) maximum[b] = x;
+    return b + 1;
+  });
+  const labels = edges.map((_e, b) => (minimum[b] === maximum[b] ? formatEdge(minimum[b]) : `${formatEdge(minimum[b])}–${formatEdge(maximum[b])}`));
+  return { labels, binOf };
+}
+
 /** Orders a column's dictionary (labels by code − 1) naturally; returns the rank of each code. */
 export function naturalRanks(labels: readonly string[]): number[] {
   const order = labels.map((_l, i) => i).sort((a, b) => compareNatural(labels[a], labels[b]));

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { cutPointBins, equalFrequencyBins, parseCuts } from '../../src/table/bins.js';
+import { cutPointBins, equalFrequencyBins, equalFrequencyBinsFromCounts, parseCuts } from '../../src/table/bins.js';
 import { compareNatural } from '../../src/table/naturalOrder.js';
 import { TabsightError } from '../../src/errors.js';
 
@@ -37,5 +37,28 @@ describe('cut-point bins', () => {
     expect(() => parseCuts('age:18,x')).toThrow('"x" is not a number');
     expect(() => parseCuts('age')).toThrow('expected column:edge');
     expect(() => parseCuts('age:')).toThrow('at least one cut point');
+  });
+});
+
+describe('equal-frequency bins from value counts', () => {
+  it('equal the bins of the rows they stand for (property: random values with repeats, every k)', async () => {
+    const fc = (await import('fast-check')).default;
+    fc.assert(
+      fc.property(fc.array(fc.tuple(fc.integer({ min: -50, max: 50 }), fc.integer({ min: 1, max: 6 })), { minLength: 1, maxLength: 40 }), fc.integer({ min: 2, max: 8 }), (entries, k) => {
+        const byValue = new Map<number, number>();
+        for (const [v, c] of entries) byValue.set(v / 4, (byValue.get(v / 4) ?? 0) + c);
+        const values = [...byValue.keys()];
+        const counts = values.map((v) => byValue.get(v) as number);
+        const rows = Float64Array.from(values.flatMap((v, i) => new Array<number>(counts[i]).fill(v)));
+        const direct = equalFrequencyBins(rows, k);
+        const fromCounts = equalFrequencyBinsFromCounts(values, counts, k);
+        expect(fromCounts.labels).toEqual(direct.labels);
+        let r = 0;
+        values.forEach((_v, i) => {
+          for (let c = 0; c < counts[i]; c++) expect(fromCounts.binOf[i]).toBe(direct.codes[r++]);
+        });
+      }),
+      { numRuns: 300 },
+    );
   });
 });
