@@ -2,7 +2,7 @@
 // installed (npm ci --omit=optional) they are skipped, and the reason is in
 // their title and in one line of the run's output.
 import { describe } from 'vitest';
-import { engineAvailable } from '../src/io/engine.js';
+import { engineAvailable } from '../src/io/engine/module.js';
 import { ENGINE_PACKAGE } from '../src/version.js';
 
 export const ENGINE_INSTALLED = await engineAvailable();

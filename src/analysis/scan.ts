@@ -1,9 +1,9 @@
 import { adjustPValues, Adjustment } from '../stats/multipleTesting.js';
-import { equalFrequencyBins, naturalRanks } from '../table/bins.js';
-import { CodedColumn, crossCount, CrossCounted } from '../table/crossCount.js';
-import { rareLevelMerge, relabelTable } from '../table/twoWayTable.js';
+import { CountPair, mergeRareLevels } from '../table/countedTable.js';
+import { EncodedColumn, recodeColumn } from '../table/encodedColumn.js';
+import { OrderedColumn, orderColumn } from '../table/orderedColumn.js';
+import { relabelTable } from '../table/twoWayTable.js';
 import { analyzeStrata, StratifiedSummary, StratumRecord } from './stratify.js';
-import type { EncodedColumn } from '../table/encodedColumn.js';
 import { AnalysisOptions, AnalysisRecord, analyzeTable } from './analyzeTable.js';
 import type { InputSummary } from './report.js';
 import { TOOL_VERSION } from '../version.js';
@@ -15,8 +15,6 @@ export interface ScanOptions {
   recodes: Map<string, Map<string, string>>;
   keepMissing: boolean;
   other: { k: number; label: string } | null;
-  weights: { values: Float64Array; kind: 'weight' | 'freq' } | null;
-  layer: EncodedColumn | null;
   adjustment: Adjustment;
   alpha: number;
   top: number | null;
@@ -90,100 +88,43 @@ export function screenColumn(column: EncodedColumn, rows: number, options: Pick<
   return null;
 }
 
-/** The label a missing value gets with --keep-missing. */
-export const MISSING_LEVEL = '(missing)';
-
-/**
- * Applies a column's recode (levels recoded alike are merged) and, with
- * --keep-missing, makes missing a level of its own. Returns the column with
- * its new labels and codes; untouched columns come back as they are.
- */
-export function reshapeColumn(column: EncodedColumn, mapping: ReadonlyMap<string, string> | undefined, keepMissing: boolean): EncodedColumn {
-  if (column.codes === null || (!mapping && !(keepMissing && column.missing > 0))) return column;
-  const labels: string[] = [];
-  const index = new Map<string, number>();
-  const remap = new Uint32Array(column.labels.length + 1);
-  const codeOf = (label: string) => {
-    let code = index.get(label);
-    if (code === undefined) {
-      labels.push(label);
-      code = labels.length;
-      index.set(label, code);
-    }
-    return code;
-  };
-  column.labels.forEach((raw, k) => (remap[k + 1] = codeOf(mapping?.get(raw) ?? raw)));
-  if (keepMissing && column.missing > 0) remap[0] = codeOf(MISSING_LEVEL);
-  const codes = labels.length >= 65535 ? new Uint32Array(column.codes.length) : new Uint16Array(column.codes.length);
-  for (let k = 0; k < codes.length; k++) codes[k] = remap[column.codes[k]];
-  return { ...column, labels, codes, distinct: labels.length, missing: keepMissing ? 0 : column.missing };
-}
-
-/** Turns a screened column into codes in report order (natural order, or bins lowest first). */
-export function codedColumn(column: EncodedColumn, bins: number | null): CodedColumn {
-  if (column.codes === null) {
-    const binning = equalFrequencyBins(column.values as Float64Array, bins as number);
-    return { name: column.name, labels: binning.labels, codes: binning.codes };
-  }
-  const rank = naturalRanks(column.labels);
-  const labels = new Array<string>(column.labels.length);
-  column.labels.forEach((l, code) => (labels[rank[code]] = l));
-  const remap = new Uint32Array(column.labels.length + 1);
-  for (let code = 1; code <= column.labels.length; code++) remap[code] = rank[code - 1] + 1;
-  const codes = column.codes instanceof Uint32Array ? new Uint32Array(column.codes.length) : new Uint16Array(column.codes.length);
-  for (let k = 0; k < codes.length; k++) codes[k] = remap[column.codes[k]];
-  return { name: column.name, labels, codes };
-}
-
-/** A scan of columns encoded in memory: screening, then every pair counted from the codes. */
-export function scanColumns(columns: EncodedColumn[], rows: number, input: InputSummary, options: ScanOptions): ScanReport {
-  const prepared = prepareColumns(columns, rows, options);
-  return scorePairs(prepared, rows, input, options, (a, b, layer) => crossCount(a, b, { weights: options.weights ?? undefined, strata: layer ?? undefined }));
-}
-
 export interface PreparedColumns {
-  coded: CodedColumn[];
+  /** The columns that take part, in report order. */
+  ordered: OrderedColumn[];
   skipped: SkippedColumn[];
-  layer: CodedColumn | null;
+  layer: OrderedColumn | null;
 }
 
-/** Screening, recodes and binning: the columns that take part, coded in report order. */
-export function prepareColumns(columns: EncodedColumn[], rows: number, options: ScanOptions): PreparedColumns {
+/** Screening, recodes and binning: the columns that take part, in report order, and the layer. */
+export function prepareColumns(columns: EncodedColumn[], layer: EncodedColumn | null, rows: number, options: ScanOptions): PreparedColumns {
   const skipped: SkippedColumn[] = [];
-  const coded: CodedColumn[] = [];
+  const ordered: OrderedColumn[] = [];
   for (const original of columns) {
-    let column = reshapeColumn(original, options.recodes.get(original.name), options.keepMissing);
+    let column = recodeColumn(original, options.recodes.get(original.name), options.keepMissing);
     if (column.codes !== null && column.labels.length > options.maxLevels) column = { ...column, codes: null };
     const reason = screenColumn(column, rows, options);
     if (reason) skipped.push(reason);
-    else coded.push(codedColumn(column, options.bins));
+    else ordered.push(orderColumn(column, options.bins));
   }
-  const layer = options.layer ? codedColumn(reshapeColumn(options.layer, options.recodes.get(options.layer.name), options.keepMissing), null) : null;
-  return { coded, skipped, layer };
+  const orderedLayer = layer ? orderColumn(recodeColumn(layer, options.recodes.get(layer.name), options.keepMissing), null) : null;
+  return { ordered, skipped, layer: orderedLayer };
 }
-
-/** Counts one pair's table (and its layers): from the codes in memory, or from an engine's grouped counts. */
-export type PairCounter = (a: CodedColumn, b: CodedColumn, layer: CodedColumn | null) => CrossCounted;
 
 /**
  * Scores every pair of the prepared columns with the same analysis as a
  * single pair, adjusts the Pearson p-values for the number of pairs tested,
  * and ranks the pairs by bias-corrected V (ties by p-value).
  */
-export function scorePairs(prepared: PreparedColumns, rows: number, input: InputSummary, options: ScanOptions, count: PairCounter): ScanReport {
-  const { coded, skipped, layer } = prepared;
+export function scorePairs(prepared: PreparedColumns, rows: number, input: InputSummary, options: ScanOptions, countPair: CountPair): ScanReport {
+  const { ordered, skipped, layer } = prepared;
   const untestable: UntestablePair[] = [];
   const records: (AnalysisRecord & { layered?: ReturnType<typeof analyzeStrata> })[] = [];
-  for (let a = 0; a < coded.length; a++) {
-    for (let b = a + 1; b < coded.length; b++) {
-      const counted = count(coded[a], coded[b], layer);
+  for (let a = 0; a < ordered.length; a++) {
+    for (let b = a + 1; b < ordered.length; b++) {
+      const counted = countPair(ordered[a], ordered[b], layer);
       let table = counted.table;
       let strata = counted.strata;
-      if (options.other) {
-        const merge = rareLevelMerge(table, options.other.k, options.other.label);
-        table = relabelTable(table, merge.rowLevels, merge.colLevels, merge.rowMap, merge.colMap);
-        strata = strata?.map((s) => ({ ...s, table: relabelTable(s.table, merge.rowLevels, merge.colLevels, merge.rowMap, merge.colMap) })) ?? null;
-      }
+      if (options.other) ({ table, strata } = mergeRareLevels(table, strata, options.other.k, options.other.label));
       const excluded = counted.excluded;
       if (table.rowLevels.length < 2 || table.colLevels.length < 2) {
         const side = table.rowLevels.length < 2 ? table.rowName : table.colName;
@@ -217,7 +158,7 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
     n: rows,
     adjustment: options.adjustment,
     alpha: options.alpha,
-    columnsScored: coded.map((c) => c.name),
+    columnsScored: ordered.map((c) => c.name),
     pairsTested: records.length,
     pairsPassing,
     pairs,

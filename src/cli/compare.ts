@@ -4,7 +4,7 @@ import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { comparePeriods, PeriodInput } from '../analysis/compare.js';
 import { unknownOrderWarnings } from '../analysis/report.js';
 import { usageError } from '../errors.js';
-import { CountedTables, countTables, TableRequest } from '../io/countTables.js';
+import { CountedInput, countTable, TableRequest } from '../io/counting.js';
 import { checkReadable, InputSource, inputSource } from '../io/source.js';
 import { COMPARE_RENDERERS, CompareFormat } from '../render/renderers.js';
 import { residualHeatMap, stackSvg } from '../render/svg.js';
@@ -93,13 +93,13 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,
   return command;
 }
 
-function period(label: string, counted: Pick<CountedTables, 'table' | 'weighting' | 'excluded'>, input: PeriodInput['input']): PeriodInput {
+function period(label: string, counted: Pick<CountedInput, 'table' | 'weighting' | 'excluded'>, input: PeriodInput['input']): PeriodInput {
   return { label, table: counted.table, weighting: counted.weighting, excluded: counted.excluded, input };
 }
 
 /** The two periods of one file, told apart by a column: its two levels, or the two named by --levels. */
 async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: string, levels: [string, string] | undefined, io: CliIo): Promise<[PeriodInput, PeriodInput]> {
-  const counted = await countTables(source, { ...plan.reader, onNote: noteWriter(io) }, { ...plan.table, by: column });
+  const counted = await countTable(source, { ...plan.reader, onNote: noteWriter(io) }, { ...plan.table, by: column });
   const strata = counted.strata ?? [];
   const available = strata.map((s) => s.level);
   let pick: string[];
@@ -125,8 +125,8 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
     [before, after] = await periodsOfColumn(source, plan, plan.periods.column, plan.periods.levels, io);
   } else {
     const sources = [inputSource(plan.periods.before, io.stdin), inputSource(plan.periods.after, io.stdin)];
-    const counted: CountedTables[] = [];
-    for (const source of sources) counted.push(await countTables(source, { ...plan.reader, onNote: noteWriter(io) }, plan.table));
+    const counted: CountedInput[] = [];
+    for (const source of sources) counted.push(await countTable(source, { ...plan.reader, onNote: noteWriter(io) }, plan.table));
     before = period(sources[0].label, counted[0], inputSummary(sources[0].label, counted[0]));
     after = period(sources[1].label, counted[1], inputSummary(sources[1].label, counted[1]));
   }

@@ -1,7 +1,7 @@
 /** `tabsight count` and `tabsight merge`: tables written as long-format counts, and count files added together. */
 import { Command } from 'commander';
 import { dataError, usageError } from '../errors.js';
-import { countTables, TableRequest } from '../io/countTables.js';
+import { countTable, TableRequest } from '../io/counting.js';
 import { resolveColumn } from '../io/columns.js';
 import { readRecords } from '../io/readRecords.js';
 import { parseWeightValue } from '../io/rowRules.js';
@@ -79,7 +79,7 @@ Examples:
 export async function runCount(plan: CountPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
   checkReadable(source);
-  const counted = await countTables(source, { ...plan.reader, onNote: noteWriter(io) }, plan.table);
+  const counted = await countTable(source, { ...plan.reader, onNote: noteWriter(io) }, plan.table);
   const lines: [string[], number][] = [];
   const add = (prefix: string[], t: typeof counted.table) =>
     t.rowLevels.forEach((rl, i) => t.colLevels.forEach((cl, j) => t.counts[i][j] > 0 && lines.push([[...prefix, rl, cl], t.counts[i][j]])));

@@ -5,11 +5,11 @@
  */
 import { Command, Option } from 'commander';
 import { usageError } from '../errors.js';
-import { parseDelimiterOption, ReaderOptions } from '../io/readRecords.js';
+import { parseDelimiterOption, ReaderOptions, ReadSummary } from '../io/readRecords.js';
 import { AnalysisOptions, DEFAULT_ANALYSIS_OPTIONS, ExactPolicy } from '../analysis/analyzeTable.js';
 import { parseRecode, parseWhere, Recode, WhereClause } from '../io/rowRules.js';
 import type { InputSummary } from '../analysis/report.js';
-import type { TableRequest } from '../io/countTables.js';
+import type { TableRequest } from '../io/counting.js';
 
 /** Options every reading command shares, declared once. */
 export function addReaderOptions(command: Command): Command {
@@ -30,7 +30,7 @@ export function addReaderOptions(command: Command): Command {
 /** The input section of a report, from what the counting step read. */
 export function inputSummary(
   label: string,
-  counted: { summary: { delimiter: string | null; records: number; blankLines: number; badRows: number; engine: 'builtin' | 'duckdb'; format: 'csv' | 'parquet'; files: number }; filtered: number; badWeights: number },
+  counted: { summary: ReadSummary; filtered: number; badWeights: number },
 ): InputSummary {
   return {
     file: label,

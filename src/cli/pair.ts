@@ -2,8 +2,7 @@
 import { Command, Option } from 'commander';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { pairReport, unknownOrderWarnings } from '../analysis/report.js';
-import type { TableRequest } from '../io/countTables.js';
-import { countTables } from '../io/countTables.js';
+import { countTable, TableRequest } from '../io/counting.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { PAIR_RENDERERS, PairFormat } from '../render/renderers.js';
 import { mosaicPlot, residualHeatMap, stackSvg } from '../render/svg.js';
@@ -67,7 +66,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no a
 export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
   checkReadable(source);
-  const counted = await countTables(source, { ...plan.reader, onNote: noteWriter(io) }, plan.table);
+  const counted = await countTable(source, { ...plan.reader, onNote: noteWriter(io) }, plan.table);
   const report = pairReport(
     counted.table,
     counted.excluded,
@@ -75,7 +74,7 @@ export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
     plan.analysis,
     [...unknownOrderWarnings('--row-order', counted.unknownRowLevels), ...unknownOrderWarnings('--col-order', counted.unknownColLevels)],
     counted.weighting,
-    counted.strata && counted.byName ? { by: counted.byName, strata: counted.strata } : undefined,
+    counted.strata && counted.by ? { by: counted.by, strata: counted.strata } : undefined,
   );
   const text = PAIR_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, plan.report.output !== undefined), alpha: plan.alpha });
   if (plan.report.plot !== undefined) writeSideFile(io, plan.report.plot, stackSvg([residualHeatMap(report), mosaicPlot(report)]));

@@ -1,11 +1,9 @@
 /** `tabsight scan`: its options, parsed once into a ScanPlan, and runScan, which encodes the columns in one read and scores every pair. */
 import { Command, Option } from 'commander';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
-import { prepareColumns, scanColumns, ScanOptions, ScanReport, scorePairs } from '../analysis/scan.js';
-import { chooseEngine, EngineFallback, engineInput } from '../io/engine.js';
-import { engineEncode } from '../io/engineScan.js';
-import type { EncodedColumn } from '../table/encodedColumn.js';
-import { EncodeRequest, encodeColumns } from '../io/encodeColumns.js';
+import { prepareColumns, ScanOptions, scorePairs } from '../analysis/scan.js';
+import type { ColumnsRequest } from '../io/columns.js';
+import { encodeColumns } from '../io/counting.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { SCAN_RENDERERS, ScanFormat } from '../render/renderers.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
@@ -130,7 +128,8 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
   const survey = plan.survey;
   const recodes = recodesByColumn(survey.recodes);
   checkReadable(source);
-  const request: EncodeRequest = {
+  const progress = progressReporter(io);
+  const request: ColumnsRequest = {
     columns: plan.columns.include,
     exclude: plan.columns.exclude,
     maxLevels: reader.maxLevels,
@@ -140,8 +139,9 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
     recodes,
     weight: survey.weight ? { ...survey.weight, decimalComma: survey.decimalComma } : undefined,
     by: survey.by,
+    progress: plan.format === 'text' ? progress.tick : undefined,
   };
-  const options = (weights: Float64Array | null, layer: EncodedColumn | null): ScanOptions => ({
+  const options: ScanOptions = {
     maxLevels: reader.maxLevels,
     bins: plan.bins,
     adjustment: plan.adjustment,
@@ -152,33 +152,13 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
     recodes,
     keepMissing: survey.keepMissing,
     other: survey.other ?? null,
-    weights: weights && survey.weight ? { values: weights, kind: survey.weight.kind } : null,
-    layer,
-  });
-  let report: ScanReport | null = null;
-  let fallback: string | null = null;
-  if ((await chooseEngine(reader.engine ?? 'builtin', source)) === 'duckdb') {
-    const input = await engineInput(source);
-    try {
-      const encoded = await engineEncode(input, reader, request);
-      const scanOptions = options(null, encoded.layer);
-      const prepared = prepareColumns(encoded.columns, encoded.rows, scanOptions);
-      const counter = await encoded.countPairs(prepared);
-      const summary = inputSummary(source.label, { summary: encoded.summary, filtered: encoded.filtered, badWeights: encoded.badWeights });
-      report = scorePairs(prepared, encoded.rows, summary, { ...scanOptions, weights: null }, counter);
-    } catch (error) {
-      if (!(error instanceof EngineFallback)) throw error;
-      fallback = `the engine cannot read ${source.label} the way the built-in reader does (${error.message}); counted with the built-in reader`;
-    }
-  }
-  if (report === null) {
-    const progress = progressReporter(io);
-    const encoded = await encodeColumns(source, reader, { ...request, progress: plan.format === 'text' ? progress.tick : undefined });
+  };
+  const report = await encodeColumns(source, reader, request, async (encoded) => {
     progress.done();
-    const summary = inputSummary(source.label, { summary: { ...encoded.summary, engine: 'builtin', format: 'csv', files: 1 }, filtered: encoded.filtered, badWeights: encoded.badWeights });
-    report = scanColumns(encoded.columns, encoded.rows, summary, options(encoded.weights, encoded.layer));
-    if (fallback !== null) reader.onNote(fallback);
-  }
+    const prepared = prepareColumns(encoded.columns, encoded.layer, encoded.rows, options);
+    const countPair = await encoded.countPairs(prepared.ordered, prepared.layer);
+    return scorePairs(prepared, encoded.rows, inputSummary(source.label, encoded), options, countPair);
+  });
   const text = SCAN_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, plan.report.output !== undefined), alpha: plan.alpha });
   if (plan.report.plot !== undefined) writeSideFile(io, plan.report.plot, stackSvg([strengthChart(report)]));
   await emit(io, text, plan.report.output);

@@ -1,7 +1,7 @@
 /** `tabsight sql`: portable SQL that counts a table where the data lives, for the small result to be read back with --freq. */
 import { Command } from 'commander';
 import { usageError } from '../errors.js';
-import { TOOL_VERSION } from '../version.js';
+import { portableCountingSql } from '../io/engine/sql.js';
 import { splitList } from './options.js';
 import { CliIo, emit } from './output.js';
 import { DONE, Outcome } from './outcome.js';
@@ -14,58 +14,6 @@ interface RawSqlOptions {
   table: string;
   missing?: string;
   output?: string;
-}
-
-/** A column name as a standard SQL delimited identifier. */
-function identifier(name: string): string {
-  return `"${name.replace(/"/g, '""')}"`;
-}
-
-function literal(text: string): string {
-  return `'${text.replace(/'/g, "''")}'`;
-}
-
-/**
- * A level as the tool reads it: trimmed, and NULL when empty or a missing
- * token, so that the engine groups exactly the values the tool would count.
- */
-function level(name: string, missing: readonly string[]): string {
-  const trimmed = `TRIM(CAST(${identifier(name)} AS VARCHAR(4000)))`;
-  const tokens = ["''", ...missing.map(literal)].join(', ');
-  return `CASE WHEN ${trimmed} IN (${tokens}) THEN NULL ELSE ${trimmed} END`;
-}
-
-/**
- * Standard SQL (GROUP BY, COUNT(*), SUM) that counts a two-way table (and
- * its layers) in any SQL engine; its result, saved as CSV, is what
- * `--freq count` (and `--summed-weights` for sampling weights) reads.
- */
-export function countingSql(options: { rows: string; cols: string; by?: string; weight?: string; table: string; missing: readonly string[] }): string {
-  const keys = [...(options.by !== undefined ? [options.by] : []), options.rows, options.cols];
-  const select = keys.map((k) => `  ${level(k, options.missing)} AS ${identifier(k)}`);
-  const measures = ['  COUNT(*) AS "count"'];
-  const where: string[] = [];
-  let readBack = `tabsight pair cells.csv --rows ${options.rows} --cols ${options.cols}${options.by !== undefined ? ` --by ${options.by}` : ''} --freq count`;
-  if (options.weight !== undefined) {
-    const w = `CAST(${identifier(options.weight)} AS DOUBLE PRECISION)`;
-    measures.push(`  SUM(${w}) AS "weight_sum"`, `  SUM(${w} * ${w}) AS "weight_square_sum"`);
-    where.push(`${identifier(options.weight)} IS NOT NULL`);
-    readBack += ' --summed-weights weight_sum,weight_square_sum';
-  }
-  const positions = keys.map((_k, i) => String(i + 1)).join(', ');
-  return [
-    `-- tabsight ${TOOL_VERSION}: counts of ${options.rows} by ${options.cols}${options.by !== undefined ? ` in each ${options.by}` : ''}.`,
-    `-- Values are trimmed; empty values${options.missing.length > 0 ? ` and ${options.missing.join(', ')}` : ''} are NULL, which the tool reads as missing.`,
-    ...(options.weight !== undefined ? [`-- Rows without a weight are left out here (the tool would refuse them); weights must be numbers, at least 0.`] : []),
-    `-- Save the result as CSV with a header, then: ${readBack}`,
-    'SELECT',
-    [...select, ...measures].join(',\n'),
-    `FROM ${options.table}`,
-    ...(where.length > 0 ? [`WHERE ${where.join(' AND ')}`] : []),
-    `GROUP BY ${positions}`,
-    `ORDER BY ${positions};`,
-    '',
-  ].join('\n');
 }
 
 export interface SqlPlan {
@@ -114,6 +62,6 @@ Run the SQL where the data lives, save its result as CSV, and analyse it:
 }
 
 export async function runSql(plan: SqlPlan, io: CliIo): Promise<Outcome> {
-  await emit(io, countingSql(plan), plan.output);
+  await emit(io, portableCountingSql(plan), plan.output);
   return DONE;
 }

@@ -1,4 +1,10 @@
+/**
+ * Finding columns in a header: the checks of header names, a requested
+ * column by name (with the closest match when it is misspelt), and the
+ * columns a scan reads with their roles.
+ */
 import { usageError, dataError } from '../errors.js';
+import type { WeightKind, WhereClause } from './rowRules.js';
 
 /** Levenshtein distance (Levenshtein 1966), for "did you mean" suggestions. */
 export function editDistance(a: string, b: string): number {
@@ -53,3 +59,48 @@ export function resolveColumn(name: string, header: readonly string[], option: s
   const hint = suggestion !== null ? `did you mean "${suggestion}"? ` : '';
   throw usageError(`${option} "${name}": no such column in ${label}; ${hint}columns: ${listNames(header)}`);
 }
+
+/** What a scan reads: the candidate columns, the roles of other columns, and the caps. */
+export interface ColumnsRequest {
+  columns?: string[];
+  exclude?: string[];
+  maxLevels: number;
+  keepNumeric: boolean;
+  /** Refuse more candidate columns than this (the pairs grow with its square). */
+  maxColumns: number;
+  progress?: (rows: number) => void;
+  where?: WhereClause[];
+  /** Recodes by column: filters see recoded values; recoded columns may hold more raw levels than the cap. */
+  recodes?: Map<string, Map<string, string>>;
+  weight?: { column: string; kind: WeightKind; decimalComma: boolean };
+  by?: string;
+  /** The engine counts the pairs in batches of this many GROUPING SETS per query (default 1,000; smaller in tests). */
+  pairsPerQuery?: number;
+}
+
+/** The columns of a scan, by index in the header: candidates, layer, weight and filter columns. */
+export function scanSelection(header: string[], request: ColumnsRequest, label: string): { candidates: number[]; layer: number | null; weight: number | null; where: number[] } {
+  let chosen = request.columns ? request.columns.map((c) => resolveColumn(c, header, '--columns', label)) : header.map((_h, i) => i);
+  if (request.exclude) {
+    const dropped = new Set(request.exclude.map((c) => resolveColumn(c, header, '--exclude', label)));
+    chosen = chosen.filter((i) => !dropped.has(i));
+  }
+  for (const column of request.recodes?.keys() ?? []) resolveColumn(column, header, '--recode', label);
+  const weight = request.weight ? resolveColumn(request.weight.column, header, request.weight.kind === 'freq' ? '--freq' : '--weight', label) : null;
+  const layer = request.by !== undefined ? resolveColumn(request.by, header, '--by', label) : null;
+  const roles = new Set([weight, layer].filter((i): i is number => i !== null));
+  chosen = [...new Set(chosen)].filter((i) => !roles.has(i));
+  if (chosen.length < 2) throw usageError(`scan needs at least two candidate columns; ${chosen.length} left after --columns/--exclude`);
+  if (chosen.length > request.maxColumns) {
+    throw usageError(
+      `${label} has ${chosen.length.toLocaleString('en-US')} candidate columns (${((chosen.length * (chosen.length - 1)) / 2).toLocaleString('en-US')} pairs), more than --max-columns ${request.maxColumns}; choose some with --columns or --exclude, or raise --max-columns`,
+    );
+  }
+  return { candidates: chosen, layer, weight, where: (request.where ?? []).map((w) => resolveColumn(w.column, header, '--where', label)) };
+}
+
+/** Raw levels a recoded column may hold while reading (the cap applies after recoding). */
+export const RECODED_READING_CAP = 65534;
+
+/** Distinct values tracked per column for screening (beyond it a column is "more than" that). */
+export const DISTINCT_TRACKING_LIMIT = 1_000_000;

@@ -1,69 +1,19 @@
-import { usageError, dataError } from '../errors.js';
-import { isNumericLabel } from '../table/naturalOrder.js';
+/**
+ * The built-in reader's scan: one read of the file, every candidate column
+ * dictionary-encoded into a code per row (2 bytes a cell while levels fit
+ * in 16 bits), so that every pair's table is counted from the codes in
+ * memory (table/countPair.ts) without reading again.
+ */
+import { dataError } from '../errors.js';
+import { countPair } from '../table/countPair.js';
 import type { EncodedColumn } from '../table/encodedColumn.js';
-import { resolveColumn } from './columns.js';
-import { readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
-import { InputSource } from './source.js';
+import { isNumericLabel } from '../table/naturalOrder.js';
+import { ColumnsRequest, DISTINCT_TRACKING_LIMIT, RECODED_READING_CAP, scanSelection } from './columns.js';
+import type { EncodedInput } from './counting.js';
 import { MISSING_ID } from './fieldInterner.js';
-import { RecodedLabels, RowGate, WeightKind, WhereClause } from './rowRules.js';
-
-export type { EncodedColumn };
-
-export interface EncodedFile {
-  columns: EncodedColumn[];
-  rows: number;
-  summary: ReadSummary;
-  /** Per stored row: its weight or frequency, when one was asked for. */
-  weights: Float64Array | null;
-  /** The layer column, encoded like a candidate, when --by was given. */
-  layer: EncodedColumn | null;
-  /** Rows left out by --where. */
-  filtered: number;
-  /** Rows skipped for an unusable weight (with --skip-bad-rows). */
-  badWeights: number;
-}
-
-export interface EncodeRequest {
-  columns?: string[];
-  exclude?: string[];
-  maxLevels: number;
-  keepNumeric: boolean;
-  /** Refuse more candidate columns than this (the pairs grow with its square). */
-  maxColumns: number;
-  progress?: (rows: number) => void;
-  where?: WhereClause[];
-  /** Recodes by column: filters see recoded values; recoded columns may hold more raw levels than the cap. */
-  recodes?: Map<string, Map<string, string>>;
-  weight?: { column: string; kind: WeightKind; decimalComma: boolean };
-  by?: string;
-}
-
-/** The columns of a scan, by index in the header: candidates, layer, weight and filter columns. */
-export function scanSelection(header: string[], request: EncodeRequest, label: string): { candidates: number[]; layer: number | null; weight: number | null; where: number[] } {
-  let chosen = request.columns ? request.columns.map((c) => resolveColumn(c, header, '--columns', label)) : header.map((_h, i) => i);
-  if (request.exclude) {
-    const dropped = new Set(request.exclude.map((c) => resolveColumn(c, header, '--exclude', label)));
-    chosen = chosen.filter((i) => !dropped.has(i));
-  }
-  for (const column of request.recodes?.keys() ?? []) resolveColumn(column, header, '--recode', label);
-  const weight = request.weight ? resolveColumn(request.weight.column, header, request.weight.kind === 'freq' ? '--freq' : '--weight', label) : null;
-  const layer = request.by !== undefined ? resolveColumn(request.by, header, '--by', label) : null;
-  const roles = new Set([weight, layer].filter((i): i is number => i !== null));
-  chosen = [...new Set(chosen)].filter((i) => !roles.has(i));
-  if (chosen.length < 2) throw usageError(`scan needs at least two candidate columns; ${chosen.length} left after --columns/--exclude`);
-  if (chosen.length > request.maxColumns) {
-    throw usageError(
-      `${label} has ${chosen.length.toLocaleString('en-US')} candidate columns (${((chosen.length * (chosen.length - 1)) / 2).toLocaleString('en-US')} pairs), more than --max-columns ${request.maxColumns}; choose some with --columns or --exclude, or raise --max-columns`,
-    );
-  }
-  return { candidates: chosen, layer, weight, where: (request.where ?? []).map((w) => resolveColumn(w.column, header, '--where', label)) };
-}
-
-/** Raw levels a recoded column may hold while reading (the cap applies after recoding). */
-export const RECODED_READING_CAP = 65534;
-
-/** Distinct values tracked per column for screening (beyond it a column is "more than" that). */
-export const DISTINCT_TRACKING_LIMIT = 1_000_000;
+import { readRecords, ReaderOptions } from './readRecords.js';
+import { RecodedLabels, RowGate } from './rowRules.js';
+import { InputSource } from './source.js';
 
 /** A typed array that grows as rows arrive; unwritten rows stay 0 (for codes: missing). */
 class GrowableCodes<T extends Uint16Array | Uint32Array | Float64Array> {
@@ -95,13 +45,11 @@ interface ColumnState {
 }
 
 /**
- * Reads the file once and dictionary-encodes every candidate column into an
- * array of small integer codes (2 bytes a cell while levels fit in 16 bits),
- * so that every pair's table can be counted from the codes without reading
- * again. The reader's ids are the codes: 0 missing, 1.. in order of first
- * appearance.
+ * Reads the file once and dictionary-encodes every candidate column (and the
+ * layer); the reader's ids are the codes: 0 missing, 1.. in order of first
+ * appearance. Weights are kept per row for the pair counts.
  */
-export async function encodeColumns(source: InputSource, reader: ReaderOptions, request: EncodeRequest): Promise<EncodedFile> {
+export async function encodeWithReader(source: InputSource, reader: ReaderOptions, request: ColumnsRequest): Promise<EncodedInput> {
   const states: ColumnState[] = [];
   const wide = request.maxLevels >= 65535;
   // Codes are kept while they fit their array; the level cap is applied
@@ -235,7 +183,17 @@ export async function encodeColumns(source: InputSource, reader: ReaderOptions, 
     if (layerState.codes === null) throw dataError(`--by "${layerState.name}" has more than ${RECODED_READING_CAP.toLocaleString('en-US')} distinct values; a layer needs few levels`);
     layer = { name: layerState.name, labels, codes: layerState.codes.take(rows), missing: layerState.missing, distinct: labels.length, distinctCapped: false, numeric: false, integer: false, values: null };
   }
-  return { columns, rows, summary, weights: weights ? weights.take(rows) : null, layer, filtered: (gate as RowGate | null)?.filtered ?? 0, badWeights: (gate as RowGate | null)?.badWeights ?? 0 };
+  const rowWeights = weights ? { values: weights.take(rows), kind: request.weight!.kind } : undefined;
+  const { interners: _interners, ...read } = summary;
+  return {
+    columns,
+    layer,
+    rows,
+    filtered: (gate as RowGate | null)?.filtered ?? 0,
+    badWeights: (gate as RowGate | null)?.badWeights ?? 0,
+    summary: read,
+    countPairs: async () => (a, b, layerColumn) => countPair(a, b, { weights: rowWeights, strata: layerColumn ?? undefined }),
+  };
 }
 
 /** Codes renumbered 1, 2, … over the ids that occur (in order of id), with their labels. */

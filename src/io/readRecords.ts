@@ -15,20 +15,31 @@ export interface ReaderOptions {
   skipBadRows: boolean;
   /** False when the first record is data; columns are then named 1, 2, 3, … */
   header: boolean;
-  /** Which engine counts: the built-in reader, the embedded engine, or chosen from the input (io/engine.ts). */
-  engine?: 'builtin' | 'duckdb' | 'auto';
+  /** Who counts: the built-in reader, the embedded engine, or chosen from the input (io/counting.ts). */
+  engine?: EngineName | 'auto';
+  /** The engine's module (the optional package by default; a test names a missing one). */
+  engineModule?: string;
   /** Receives a one-line note the user should see (for example, that the engine fell back). */
   onNote?: (note: string) => void;
 }
 
+/** Who read the input: the built-in reader, or the embedded engine (io/engine/). */
+export type EngineName = 'builtin' | 'duckdb';
+
+/** What was read, whoever read it. */
 export interface ReadSummary {
   header: string[];
-  delimiter: string;
+  /** The field separator given or detected; null for Parquet. */
+  delimiter: string | null;
   /** Data records seen (after the header, blank lines not counted). */
   records: number;
   blankLines: number;
   /** Records skipped for a wrong field count (with --skip-bad-rows). */
   badRows: number;
+  engine: EngineName;
+  format: 'csv' | 'parquet';
+  /** Files read (more than one for a pattern). */
+  files: number;
 }
 
 /** Chooses the columns to deliver, given the header, its line and the delimiter in force. */
@@ -68,7 +79,7 @@ export async function readRecords(
   textSlots: ReadonlySet<number> | 'all' = new Set(),
   /** Sees each value a column's interner refuses past its distinct limit (a profile estimates the distinct count from them). */
   onOverflow?: (slot: number, label: string) => void,
-): Promise<ReadSummary & { interners: FieldInterner[] }> {
+): Promise<ReadSummary & { delimiter: string; interners: FieldInterner[] }> {
   const allText = textSlots === 'all';
   const textSet: ReadonlySet<number> = textSlots === 'all' ? new Set() : textSlots;
   const isText = (slot: number) => allText || textSet.has(slot);
@@ -170,5 +181,5 @@ export async function readRecords(
   t.finish();
   if (header.length === 0) throw dataError(`${source.label}: no header line (the file holds only blank lines)`);
   const records = options.header ? t.records : t.records + 1;
-  return { header, delimiter: delimiter as string, records, blankLines: t.blankLines, badRows, interners };
+  return { header, delimiter: delimiter as string, records, blankLines: t.blankLines, badRows, engine: 'builtin', format: 'csv', files: 1, interners };
 }

@@ -4,7 +4,7 @@
 // decides (the engine hands the file back, or both refuse it alike).
 import fc from 'fast-check';
 import { expect, it } from 'vitest';
-import { countTables, TableRequest } from '../../src/io/countTables.js';
+import { countTable, TableRequest } from '../../src/io/counting.js';
 import { inputSource } from '../../src/io/source.js';
 import type { ReaderOptions } from '../../src/io/readRecords.js';
 import { tempFile } from '../cli/cliHelpers.js';
@@ -28,8 +28,8 @@ describeEngine('random CSV text: the engine counts what the built-in reader coun
         const path = tempFile(`random-${runs++}.csv`, lines.join(eol) + eol);
         const source = inputSource(path);
         let fellBack = false;
-        const builtin = await countTables(source, { ...base, engine: 'builtin' }, plan).catch((e: Error) => e);
-        const engine = await countTables(source, { ...base, engine: 'duckdb', onNote: () => (fellBack = true) }, plan).catch((e: Error) => e);
+        const builtin = await countTable(source, { ...base, engine: 'builtin' }, plan).catch((e: Error) => e);
+        const engine = await countTable(source, { ...base, engine: 'duckdb', onNote: () => (fellBack = true) }, plan).catch((e: Error) => e);
         if (builtin instanceof Error) {
           expect(engine).toBeInstanceOf(Error);
           expect((engine as Error).message).toBe(builtin.message);

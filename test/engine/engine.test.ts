@@ -7,7 +7,7 @@ import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { gzipSync } from 'node:zlib';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { run as engineRun } from '../../src/io/engine.js';
+import { openEngine } from '../../src/io/engine/module.js';
 import { DEMO, run, runJson, spawnCli, tempFile } from '../cli/cliHelpers.js';
 import { describeEngine } from '../engineHelpers.js';
 
@@ -98,8 +98,8 @@ describeEngine('gzip, Parquet and patterns of many files', () => {
   it('Parquet (text columns, and typed columns for the weight) gives the analysis of the CSV file', async () => {
     const text = join(dir, 'patrons-text.parquet');
     const typed = join(dir, 'patrons-typed.parquet');
-    await engineRun(`COPY (SELECT * FROM read_csv('${DEMO}', all_varchar = true)) TO '${text}' (FORMAT parquet)`);
-    await engineRun(`COPY (SELECT * REPLACE (CAST(survey_weight AS DOUBLE) AS survey_weight) FROM read_csv('${DEMO}', all_varchar = true)) TO '${typed}' (FORMAT parquet)`);
+    await (await openEngine()).query(`COPY (SELECT * FROM read_csv('${DEMO}', all_varchar = true)) TO '${text}' (FORMAT parquet)`);
+    await (await openEngine()).query(`COPY (SELECT * REPLACE (CAST(survey_weight AS DOUBLE) AS survey_weight) FROM read_csv('${DEMO}', all_varchar = true)) TO '${typed}' (FORMAT parquet)`);
     for (const file of [text, typed]) {
       const out = await runJson(['pair', file, ...args]);
       expect(out.input).toMatchObject({ engine: 'duckdb', format: 'parquet', delimiter: null, blankLines: 0 });
@@ -160,8 +160,8 @@ describeEngine('the portable SQL, run in the engine, gives the direct analysis b
     const sql = await run(['sql', '--rows', 'branch', '--cols', 'membership', '--by', 'age_band', '--table', 'patrons', '--missing', 'NA', ...extra]);
     expect(sql.status, sql.stderr).toBe(0);
     const cells = tempFile(`cells-${extra.length}.csv`, '');
-    await engineRun(`CREATE OR REPLACE TABLE patrons AS SELECT * FROM read_csv('${DEMO}', all_varchar = true)`);
-    await engineRun(`COPY (${sql.stdout.replace(/;\s*$/, '')}) TO '${cells}' (HEADER, DELIMITER ',')`);
+    await (await openEngine()).query(`CREATE OR REPLACE TABLE patrons AS SELECT * FROM read_csv('${DEMO}', all_varchar = true)`);
+    await (await openEngine()).query(`COPY (${sql.stdout.replace(/;\s*$/, '')}) TO '${cells}' (HEADER, DELIMITER ',')`);
     const readBack = extra.length > 0 ? ['--freq', 'count', '--summed-weights', 'weight_sum,weight_square_sum'] : ['--freq', 'count'];
     const viaSql = await runJson(['pair', cells, '--rows', 'branch', '--cols', 'membership', '--by', 'age_band', ...readBack]);
     const direct = await runJson(['pair', DEMO, '--rows', 'branch', '--cols', 'membership', '--by', 'age_band', '--missing', 'NA', ...extra]);

@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { countTables } from '../../src/io/countTables.js';
+import { countTable } from '../../src/io/counting.js';
 import { inputSource } from '../../src/io/source.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tabsight-order-'));
@@ -32,8 +32,8 @@ describe('row order does not matter (property)', () => {
             writeFileSync(path, ['a,b', ...lines.map(([a, b]) => `${a},${b}`)].join('\n') + '\n');
             return path;
           };
-          const one = await countTables(inputSource(write(rows)), reader, plan);
-          const two = await countTables(inputSource(write(shuffled)), reader, plan);
+          const one = await countTable(inputSource(write(rows)), reader, plan);
+          const two = await countTable(inputSource(write(shuffled)), reader, plan);
           expect(two.table).toEqual(one.table);
           expect(two.excluded).toBe(one.excluded);
         },

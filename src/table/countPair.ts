@@ -1,21 +1,20 @@
+/**
+ * Counting the table of two columns in report order (and its layers) from
+ * their codes: the scan's way, for codes per row (the built-in reader) or
+ * per entry with grouped counts and exact weight sums (the engine).
+ */
 import { addCompensated, CompensatedSum } from './compensatedSum.js';
+import type { CountedTable } from './countedTable.js';
 import { compareNatural } from './naturalOrder.js';
+import type { OrderedColumn } from './orderedColumn.js';
 import { TwoWayTable } from './twoWayTable.js';
 import { Weighting } from './weighting.js';
 
-export interface CodedColumn {
-  name: string;
-  /** Labels in report order. */
-  labels: string[];
-  /** Per row: 1-based index into labels, 0 for missing. */
-  codes: Uint16Array | Uint32Array;
-}
-
-export interface CrossCountOptions {
+export interface CountPairOptions {
   /** Per-row weights (sampling weights or frequencies). */
   weights?: { values: Float64Array; kind: 'weight' | 'freq'; grouped?: GroupedWeights };
   /** A layer: one table per level of this column. */
-  strata?: CodedColumn;
+  strata?: OrderedColumn;
   /**
    * Entries that stand for several rows each (an engine's grouped counts):
    * the number of rows of each entry. Without it every entry is one row.
@@ -30,13 +29,6 @@ export interface GroupedWeights {
   squaresLow: Float64Array;
 }
 
-export interface CrossCounted {
-  table: TwoWayTable;
-  excluded: number;
-  weighting: Weighting;
-  strata: { level: string; table: TwoWayTable; weighting: Weighting }[] | null;
-}
-
 /**
  * Counts the table of two coded columns over their complete rows (and, with
  * a layer, one table per layer level) in one pass of increments on a padded
@@ -44,7 +36,7 @@ export interface CrossCounted {
  * no branch and the padding is the excluded count. Levels that occur only
  * beside a missing value are dropped.
  */
-export function crossCount(rowColumn: CodedColumn, colColumn: CodedColumn, options: CrossCountOptions = {}): CrossCounted {
+export function countPair(rowColumn: OrderedColumn, colColumn: OrderedColumn, options: CountPairOptions = {}): CountedTable {
   const a = rowColumn.codes;
   const b = colColumn.codes;
   const width = colColumn.labels.length + 1;
@@ -165,7 +157,7 @@ export function crossCount(rowColumn: CodedColumn, colColumn: CodedColumn, optio
     return { table, weighting };
   };
   const pooled = build(pooledSums, weights ? pooledSumsLow : null, pooledCounts, pooledSquares, weights ? pooledSquaresLow : null, 0);
-  let strata: CrossCounted['strata'] = null;
+  let strata: CountedTable['strata'] = null;
   if (options.strata) {
     const labels = options.strata.labels;
     strata = [];
@@ -175,5 +167,5 @@ export function crossCount(rowColumn: CodedColumn, colColumn: CodedColumn, optio
     }
     strata.sort((x, y) => compareNatural(x.level, y.level));
   }
-  return { table: pooled.table, excluded, weighting: pooled.weighting, strata };
+  return { table: pooled.table, weighting: pooled.weighting, strata, excluded };
 }

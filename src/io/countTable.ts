@@ -1,0 +1,299 @@
+/**
+ * Counting a table (pair, compare, count) from either route: the rows of
+ * the built-in reader, or the groups the engine counted (engine/groups.ts).
+ * Both go through the same rules, in this order: --where filters, then the
+ * weight or frequency, then the missing-value rule; every row left out is
+ * counted under its reason. The level shaping (order, --other, layers) is
+ * src/table's.
+ */
+import { dataError, usageError } from '../errors.js';
+import { pairFromBuckets } from '../table/compensatedSum.js';
+import { CountedTable, mergeRareLevels, Stratum } from '../table/countedTable.js';
+import { compareNatural } from '../table/naturalOrder.js';
+import { TableCounter } from '../table/tableCounter.js';
+import { dropEmptyLevels, MISSING_LEVEL, relabelTable, TwoWayTable } from '../table/twoWayTable.js';
+import type { Weighting } from '../table/weighting.js';
+import { twoProduct } from '../stats/exactArithmetic.js';
+import { resolveColumn } from './columns.js';
+import type { CountedInput } from './counting.js';
+import { EngineInput } from './engine/files.js';
+import { engineGroups } from './engine/groups.js';
+import type { Engine } from './engine/module.js';
+import { EngineFallback } from './engine/query.js';
+import { DEFAULT_DISTINCT_LIMIT, readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
+import { FieldInterner, MISSING_ID } from './fieldInterner.js';
+import { parseWeightValue, RecodedLabels, Recode, recodesByColumn, RowGate, weightError, WhereClause } from './rowRules.js';
+import { InputSource } from './source.js';
+
+/** The table to count from a source: its columns and the rules that shape rows and levels. */
+export interface TableRequest {
+  rows: string;
+  cols: string;
+  /** A layer: one table per level of this column. */
+  by?: string;
+  /** Sampling weights (any non-negative number) or frequencies (whole numbers). */
+  weight?: { column: string; kind: 'weight' | 'freq' };
+  decimalComma: boolean;
+  where: WhereClause[];
+  recodes: Recode[];
+  keepMissing: boolean;
+  other?: { k: number; label: string };
+  maxLevels: number;
+  rowOrder?: string[];
+  colOrder?: string[];
+  /** Accept a table with fewer than two levels on a side (for writing counts, not testing). */
+  allowDegenerate?: boolean;
+  /** With a --freq row count: columns holding each line's Σw and Σw² (cells counted elsewhere). */
+  summedWeights?: { sum: string; squares: string };
+}
+
+/** Usage errors of a request, before anything is read. */
+function checkRequest(request: TableRequest): void {
+  if (request.rows === request.cols) throw usageError(`--rows and --cols both name "${request.rows}"; choose two different columns`);
+  if (request.by !== undefined && (request.by === request.rows || request.by === request.cols)) throw usageError(`--by "${request.by}" is already --rows or --cols; choose a third column`);
+  if (request.weight && [request.rows, request.cols, request.by].includes(request.weight.column)) {
+    throw usageError(`${weightOption(request)} "${request.weight.column}" is also a variable of the table; choose a numeric column of its own`);
+  }
+}
+
+function weightOption(request: TableRequest): string {
+  return request.weight?.kind === 'freq' ? '--freq' : '--weight';
+}
+
+/** The columns a request reads, one slot each, in this order: rows, cols, by, weight, filter columns, summed weights. */
+class Slots {
+  readonly names: string[] = [];
+  readonly row: number;
+  readonly col: number;
+  readonly by: number;
+  readonly weight: number;
+  readonly where: number[];
+  readonly sum: number;
+  readonly squares: number;
+  private readonly options: string[] = [];
+
+  constructor(request: TableRequest) {
+    this.row = this.slot(request.rows, '--rows');
+    this.col = this.slot(request.cols, '--cols');
+    this.by = request.by !== undefined ? this.slot(request.by, '--by') : -1;
+    this.weight = request.weight ? this.slot(request.weight.column, weightOption(request)) : -1;
+    this.where = request.where.map((w) => this.slot(w.column, '--where'));
+    this.sum = request.summedWeights ? this.slot(request.summedWeights.sum, '--summed-weights') : -1;
+    this.squares = request.summedWeights ? this.slot(request.summedWeights.squares, '--summed-weights') : -1;
+  }
+
+  private slot(name: string, option: string): number {
+    const known = this.names.indexOf(name);
+    if (known >= 0) return known;
+    this.names.push(name);
+    this.options.push(option);
+    return this.names.length - 1;
+  }
+
+  /** The header index of each slot's column; an unknown column (or a misspelt --recode) is a usage error. */
+  select(header: string[], recodes: ReadonlyMap<string, unknown>, label: string): number[] {
+    for (const column of recodes.keys()) resolveColumn(column, header, '--recode', label);
+    return this.names.map((name, slot) => resolveColumn(name, header, this.options[slot], label));
+  }
+}
+
+/** The counting state of one request: the pooled table, one per layer level, and the rows left out. */
+class Tally {
+  readonly pooled: TableCounter;
+  readonly strata = new Map<string, TableCounter>();
+  private stratumOfId: (TableCounter | undefined)[] = [];
+  excluded = 0;
+
+  constructor(
+    private readonly request: TableRequest,
+    private readonly slots: Slots,
+    private readonly label: (slot: number, id: number) => string,
+  ) {
+    this.pooled = this.counter();
+  }
+
+  private counter(): TableCounter {
+    return new TableCounter(this.request.rows, this.request.cols, this.request.maxLevels, this.request.weight !== undefined);
+  }
+
+  /** Counts `rows` rows of one combination of value ids, of total weight w (+ wLow) and Σw² q (+ qLow). */
+  add(ids: Int32Array, rows: number, w: number, wLow: number, q: number, qLow: number): void {
+    const { row, col, by } = this.slots;
+    const r = ids[row];
+    const c = ids[col];
+    const b = by >= 0 ? ids[by] : 1;
+    if (!this.request.keepMissing && (r === MISSING_ID || c === MISSING_ID || b === MISSING_ID)) {
+      this.excluded += rows;
+      return;
+    }
+    this.pooled.add(r, c, rows, w, wLow, q, qLow);
+    if (by >= 0) this.stratum(b).add(r, c, rows, w, wLow, q, qLow);
+  }
+
+  private stratum(b: number): TableCounter {
+    let stratum = b >= 0 ? this.stratumOfId[b] : undefined;
+    if (stratum === undefined) {
+      const level = b < 0 ? '(beyond the level limit)' : this.label(this.slots.by, b);
+      stratum = this.strata.get(level);
+      if (stratum === undefined) {
+        if (this.strata.size >= this.request.maxLevels) throw dataError(`--by "${this.request.by}" has more than --max-levels ${this.request.maxLevels} levels; raise --max-levels or merge levels`);
+        stratum = this.counter();
+        this.strata.set(level, stratum);
+      }
+      if (b >= 0) this.stratumOfId[b] = stratum;
+    }
+    return stratum;
+  }
+}
+
+/** Reads the built-in reader's rows into the tally; returns what was read. */
+async function tallyRows(source: InputSource, reader: ReaderOptions, request: TableRequest, slots: Slots, gate: RowGate, tally: Tally, onLabels: (labels: (readonly string[])[]) => void): Promise<ReadSummary> {
+  const recodes = recodesByColumn(request.recodes);
+  let labelsKnown = false;
+  const read = await readRecords(
+    source,
+    reader,
+    (header) => slots.select(header, recodes, source.label),
+    (ids, line, texts, interners) => {
+      if (!labelsKnown) {
+        onLabels(interners.map((i) => i.labels));
+        labelsKnown = true;
+      }
+      const w = gate.admit(ids, texts, line);
+      if (w < 0) return;
+      if (slots.sum < 0) {
+        tally.add(ids, 1, w, 0, w * w, 0);
+        return;
+      }
+      // A cell counted elsewhere: w rows, with Σw and Σw² as given.
+      const sums = [slots.sum, slots.squares].map((slot) => {
+        const value = parseWeightValue(texts[slot], 'weight', request.decimalComma);
+        if (typeof value === 'string') throw weightError(source.label, line, '--summed-weights', slots.names[slot], value);
+        return value;
+      });
+      tally.add(ids, w, sums[0], 0, sums[1], 0);
+    },
+    undefined,
+    new Set([slots.weight, slots.sum, slots.squares].filter((slot) => slot >= 0)),
+  );
+  if (!labelsKnown) onLabels(read.interners.map((i) => i.labels));
+  const { interners: _interners, ...summary } = read;
+  return summary;
+}
+
+/**
+ * Reads the engine's groups into the tally: each group's values are interned
+ * and filtered like a row's, and its weight sums (exact, from the engine) or
+ * its unusable weight (judged by the reader's rule) are counted.
+ */
+async function tallyGroups(engine: Engine, input: EngineInput, source: InputSource, reader: ReaderOptions, request: TableRequest, slots: Slots, gate: RowGate, tally: Tally, onLabels: (labels: (readonly string[])[]) => void): Promise<ReadSummary> {
+  const recodes = recodesByColumn(request.recodes);
+  const missing = new Set(reader.missing.map((m) => m.trim()));
+  const interners = slots.names.map(() => new FieldInterner(missing, DEFAULT_DISTINCT_LIMIT));
+  onLabels(interners.map((i) => i.labels));
+  const ids = new Int32Array(slots.names.length);
+  const weight = request.weight;
+  return engineGroups(
+    engine,
+    input,
+    reader,
+    (header) => slots.select(header, recodes, source.label),
+    weight ? { slot: slots.weight, kind: weight.kind, decimalComma: request.decimalComma } : null,
+    (group) => {
+      group.values.forEach((value, slot) => {
+        if (slot !== slots.weight) ids[slot] = interners[slot].internString(value ?? '');
+      });
+      if (!gate.passesFilters(ids)) {
+        gate.filtered += group.rows;
+        return;
+      }
+      if (weight === undefined) {
+        tally.add(ids, group.rows, group.rows, 0, group.rows, 0);
+        return;
+      }
+      if (group.badWeight !== null) {
+        // The reader's rule has the last word (the engine's pattern is only a first sieve).
+        const parsed = parseWeightValue(group.badWeight, weight.kind, request.decimalComma);
+        if (typeof parsed === 'string') {
+          if (reader.skipBadRows) {
+            gate.badWeights += group.rows;
+            return;
+          }
+          if (!input.glob && input.format === 'csv') throw new EngineFallback('a weight to be named by its line');
+          throw dataError(`${source.label}: ${weightOption(request)} column "${weight.column}" ${parsed} in ${group.rows.toLocaleString('en-US')} row${group.rows === 1 ? '' : 's'}; fix them or pass --skip-bad-rows to count and skip such rows`);
+        }
+        const [w, wLow] = twoProduct(group.rows, parsed);
+        const [q, qLow] = twoProduct(group.rows, parsed * parsed);
+        tally.add(ids, group.rows, w, wLow, q, qLow);
+        return;
+      }
+      const [w, wLow] = pairFromBuckets(group.weightBuckets ?? []);
+      const [q, qLow] = pairFromBuckets(group.squareBuckets ?? []);
+      tally.add(ids, group.rows, w, wLow, q, qLow);
+    },
+  );
+}
+
+/**
+ * The counted tables in report order: empty levels dropped, --other
+ * applied, each layer laid out on the pooled table's levels; a side with
+ * fewer than two levels is refused (unless the request allows it).
+ */
+function finishTables(request: TableRequest, tally: Tally, label: (slot: number, id: number) => string, slots: Slots, filtered: number, kind: Weighting['kind']): { counted: CountedTable; unknownRowLevels: string[]; unknownColLevels: string[] } {
+  const rowLabel = (id: number) => label(slots.row, id);
+  const colLabel = (id: number) => label(slots.col, id);
+  const finished = tally.pooled.finish(rowLabel, colLabel, request.rowOrder, request.colOrder);
+  let table = dropEmptyLevels(finished.table);
+  const own: Stratum[] | null =
+    slots.by >= 0
+      ? [...tally.strata.entries()].sort((x, y) => compareNatural(x[0], y[0])).map(([level, counter]) => ({ level, table: counter.finish(rowLabel, colLabel).table, weighting: counter.weighting(kind) }))
+      : null;
+  let strata = own?.map((s) => ({ ...s, table: relabelTable(s.table, table.rowLevels, table.colLevels) })) ?? null;
+  if (request.other) ({ table, strata } = mergeRareLevels(table, own, request.other.k, request.other.label));
+  checkTestable(request, table, tally.excluded, filtered);
+  return { counted: { table, weighting: tally.pooled.weighting(kind), strata, excluded: tally.excluded }, unknownRowLevels: finished.unknownRowLevels, unknownColLevels: finished.unknownColLevels };
+}
+
+function checkTestable(request: TableRequest, table: TwoWayTable, excluded: number, filtered: number): void {
+  if (request.allowDegenerate) return;
+  const leftOut = [excluded > 0 ? `${excluded.toLocaleString('en-US')} left out for a missing value` : '', filtered > 0 ? `${filtered.toLocaleString('en-US')} filtered out by --where` : '']
+    .filter((s) => s !== '')
+    .join(', ');
+  for (const [name, levels] of [
+    [request.rows, table.rowLevels],
+    [request.cols, table.colLevels],
+  ] as const) {
+    if (levels.length === 0) throw dataError(`column "${name}" has no value in the counted rows${leftOut ? ` (${leftOut})` : ''}`);
+    if (levels.length === 1) throw dataError(`column "${name}" has a single level ("${levels[0]}") in the counted rows; an association needs at least two`);
+  }
+}
+
+/**
+ * Reads the source once and counts the table of two columns (and, with a
+ * layer, one table per layer level), from the built-in reader's rows or,
+ * with `engine`, from the engine's groups.
+ */
+export async function countTableWith(source: InputSource, reader: ReaderOptions, request: TableRequest, engine: { engine: Engine; input: EngineInput } | null): Promise<CountedInput> {
+  checkRequest(request);
+  const recodes = recodesByColumn(request.recodes);
+  const slots = new Slots(request);
+  let labelsOf: (readonly string[])[] = [];
+  const labels = slots.names.map((name, slot) => new RecodedLabels(() => labelsOf[slot], recodes.get(name), MISSING_LEVEL));
+  const label = (slot: number, id: number) => labels[slot].of(id);
+  const gate = new RowGate(
+    request.where.map((clause, k) => ({ clause, slot: slots.where[k], labels: labels[slots.where[k]] })),
+    request.weight ? { slot: slots.weight, kind: request.weight.kind, column: request.weight.column, decimalComma: request.decimalComma } : null,
+    reader.skipBadRows,
+    source.label,
+  );
+  const tally = new Tally(request, slots, label);
+  const onLabels = (known: (readonly string[])[]) => (labelsOf = known);
+  const summary =
+    engine === null
+      ? await tallyRows(source, reader, request, slots, gate, tally, onLabels)
+      : await tallyGroups(engine.engine, engine.input, source, reader, request, slots, gate, tally, onLabels);
+  if (summary.records === 0) throw dataError(`${source.label}: the header has no data rows under it`);
+  const kind: Weighting['kind'] = request.summedWeights ? 'weight' : request.weight ? request.weight.kind : 'none';
+  const { counted, unknownRowLevels, unknownColLevels } = finishTables(request, tally, label, slots, gate.filtered, kind);
+  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels };
+}

@@ -1,0 +1,113 @@
+/**
+ * The counting interface. Every command counts through these two functions,
+ * whoever reads the input: `countTable` gives a counted table (pair,
+ * compare, count), `encodeColumns` the encoded columns of a scan. The route
+ * (the built-in reader or the embedded engine) is chosen here, once, and
+ * here is the one fallback rule: where the engine cannot read a single CSV
+ * file the way the built-in reader does, the built-in reader counts it and
+ * one note says so.
+ */
+import { promises as fs } from 'node:fs';
+import type { CountedTable, CountPair } from '../table/countedTable.js';
+import type { EncodedColumn } from '../table/encodedColumn.js';
+import type { OrderedColumn } from '../table/orderedColumn.js';
+import type { ColumnsRequest } from './columns.js';
+import { countTableWith, TableRequest } from './countTable.js';
+import { encodeWithReader } from './encodeColumns.js';
+import { engineInput, EngineInput, isGlob, isParquetPath } from './engine/files.js';
+import { Engine, engineAvailable, openEngine } from './engine/module.js';
+import { EngineFallback } from './engine/query.js';
+import { encodeWithEngine } from './engine/scanColumns.js';
+import type { EngineName, ReaderOptions, ReadSummary } from './readRecords.js';
+import { InputSource, isGzipFile } from './source.js';
+
+/** A counted table and what counting it read and left out. */
+export interface CountedInput extends CountedTable {
+  /** The layer column (--by), or null. */
+  by: string | null;
+  /** Rows left out by --where. */
+  filtered: number;
+  /** Rows skipped for an unusable weight (with --skip-bad-rows). */
+  badWeights: number;
+  summary: ReadSummary;
+  /** Levels named by --row-order / --col-order that never occur. */
+  unknownRowLevels: string[];
+  unknownColLevels: string[];
+}
+
+/** The columns of a scan, read once, and the way to count their pairs. */
+export interface EncodedInput {
+  columns: EncodedColumn[];
+  /** The layer column (--by), encoded like a candidate, or null. */
+  layer: EncodedColumn | null;
+  /** Rows kept (past the filters, with a usable weight). */
+  rows: number;
+  filtered: number;
+  badWeights: number;
+  summary: ReadSummary;
+  /**
+   * Prepares the counts of every pair of these columns (in report order,
+   * with the layer): the engine counts them all in a few queries, the
+   * built-in reader counts each from its codes in memory. Resolves to the
+   * function that gives one pair's counted table.
+   */
+  countPairs(columns: OrderedColumn[], layer: OrderedColumn | null): Promise<CountPair>;
+}
+
+export type { TableRequest };
+
+/** Plain CSV files at least this large go to the engine under --engine auto (see README, benchmark). */
+export const AUTO_ENGINE_BYTES = 256 * 1024 * 1024;
+
+/** Who counts under --engine: auto takes the engine where only it can read the input (Parquet, patterns), or for a large plain file when the engine is installed. */
+export async function chooseRoute(reader: ReaderOptions, source: InputSource): Promise<EngineName> {
+  const choice = reader.engine ?? 'builtin';
+  if (choice !== 'auto') return choice;
+  if (source.path === '-') return 'builtin';
+  if (isGlob(source.path) || isParquetPath(source.path)) return 'duckdb';
+  try {
+    const stat = await fs.stat(source.path);
+    if (stat.size >= AUTO_ENGINE_BYTES && !(await isGzipFile(source.path)) && (await engineAvailable(reader.engineModule))) return 'duckdb';
+  } catch {
+    // the reader names the problem
+  }
+  return 'builtin';
+}
+
+/**
+ * Runs `work` on the chosen route. The one fallback rule: an EngineFallback
+ * (the engine cannot read this single CSV file the tool's way) sends the
+ * work to the built-in reader, and the note is given only when that
+ * succeeds (its error, if any, says the rest).
+ */
+async function onRoute<T>(source: InputSource, reader: ReaderOptions, route: EngineName, work: (engine: { engine: Engine; input: EngineInput } | null) => Promise<T>): Promise<T> {
+  if (route === 'builtin') return work(null);
+  const open = () => openEngine(reader.engineModule);
+  const input = await engineInput(source, open);
+  try {
+    return await work({ engine: await open(), input });
+  } catch (error) {
+    if (!(error instanceof EngineFallback)) throw error;
+    const result = await work(null);
+    reader.onNote?.(`the engine cannot read ${source.label} the way the built-in reader does (${error.message}); counted with the built-in reader`);
+    return result;
+  }
+}
+
+/** Counts the table a request describes (and its layers) from the source. */
+export async function countTable(source: InputSource, reader: ReaderOptions, request: TableRequest): Promise<CountedInput> {
+  // Cells counted elsewhere are small files: the built-in reader reads them.
+  const route = request.summedWeights ? 'builtin' : await chooseRoute(reader, source);
+  return onRoute(source, reader, route, (engine) => countTableWith(source, reader, request, engine));
+}
+
+/**
+ * Encodes the scan's columns in one read and hands them to `use` (screening,
+ * pair counts, analysis). `use` runs inside the route, so that an engine
+ * failure while counting pairs also falls back to the built-in reader.
+ */
+export async function encodeColumns<T>(source: InputSource, reader: ReaderOptions, request: ColumnsRequest, use: (encoded: EncodedInput) => Promise<T>): Promise<T> {
+  return onRoute(source, reader, await chooseRoute(reader, source), async (engine) =>
+    use(engine === null ? await encodeWithReader(source, reader, request) : await encodeWithEngine(engine.engine, engine.input, reader, request)),
+  );
+}

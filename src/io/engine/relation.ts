@@ -1,0 +1,66 @@
+/**
+ * The input as one relation of text columns: each CSV file's layout is
+ * sniffed (layout.ts), the files of a pattern must share their header,
+ * and files of one layout are read together (read_csv; read_parquet for
+ * Parquet, columns matched by name).
+ */
+import { dataError } from '../../errors.js';
+import type { ReaderOptions } from '../readRecords.js';
+import type { EngineInput } from './files.js';
+import { countEmptyLines, csvLayout, CsvFileLayout } from './layout.js';
+import type { Engine } from './module.js';
+import { querySql } from './query.js';
+import { readCsvSql, readParquetSql, sqlIdentifier } from './sql.js';
+
+export interface EngineRelation {
+  /** SQL of all rows, to be used after FROM. */
+  sql: string;
+  header: string[];
+  /** The SQL name of each header column. */
+  names: string[];
+  /** The field separator; null for Parquet. */
+  delimiter: string | null;
+  /** Empty lines the built-in reader would have counted (0 for Parquet). */
+  blankLines(): Promise<number>;
+}
+
+async function parquetRelation(input: EngineInput, engine: Engine): Promise<EngineRelation> {
+  const from = readParquetSql(input.files);
+  const described = await querySql(engine, `DESCRIBE SELECT * FROM ${from}`, (message) => dataError(`${input.label}: not a readable Parquet input (${message})`));
+  const header = described.map((r) => String(r[0]));
+  return { sql: from, header, names: header.map(sqlIdentifier), delimiter: null, blankLines: async () => 0 };
+}
+
+async function csvRelation(input: EngineInput, reader: ReaderOptions): Promise<EngineRelation> {
+  const layouts: CsvFileLayout[] = [];
+  for (const file of input.files) layouts.push(await csvLayout(file, reader));
+  const first = layouts[0];
+  for (const layout of layouts.slice(1)) {
+    if (layout.header.length !== first.header.length || layout.header.some((h, k) => h !== first.header[k])) {
+      throw dataError(`${layout.file}: its header differs from that of ${first.file}; the files of one pattern must have the same columns`);
+    }
+  }
+  // One read_csv per layout (skip, delimiter, compression), joined.
+  const byLayout = new Map<string, CsvFileLayout[]>();
+  for (const layout of layouts) {
+    const key = `${layout.skip}\u0000${layout.delimiter}\u0000${layout.gzip}`;
+    byLayout.set(key, [...(byLayout.get(key) ?? []), layout]);
+  }
+  const parts = [...byLayout.values()].map((group) => readCsvSql(group.map((g) => g.file), group[0], first.header.length, reader.header));
+  return {
+    sql: parts.length === 1 ? `(${parts[0]})` : `(${parts.join(' UNION ALL ')})`,
+    header: first.header,
+    names: first.header.map((_h, k) => `c${k}`),
+    delimiter: first.delimiter,
+    blankLines: async () => {
+      let total = 0;
+      for (const l of layouts) total += await countEmptyLines(l.file, l.gzip);
+      return total;
+    },
+  };
+}
+
+/** The relation of all rows of the input, every column as text, and the SQL names of its columns. */
+export function relation(input: EngineInput, reader: ReaderOptions, engine: Engine): Promise<EngineRelation> {
+  return input.format === 'parquet' ? parquetRelation(input, engine) : csvRelation(input, reader);
+}

@@ -1,0 +1,150 @@
+/**
+ * The SQL the tool writes, built in one place: quoting of literals and
+ * identifiers, the reading of CSV and Parquet files as text columns, the
+ * weight block (each row's weight judged by the tool's rule and split into
+ * exact integers, so that sums do not depend on the engine's order), and
+ * the portable counting SQL that `tabsight sql` prints for any engine.
+ */
+import type { WeightKind } from '../rowRules.js';
+import { TOOL_VERSION } from '../../version.js';
+
+/** A text as a standard SQL string literal. */
+export function sqlLiteral(text: string): string {
+  return `'${text.replace(/'/g, "''")}'`;
+}
+
+/** A name as a standard SQL delimited identifier. */
+export function sqlIdentifier(name: string): string {
+  return `"${name.replace(/"/g, '""')}"`;
+}
+
+/** The pattern of parseWeightValue in rowRules.ts, for the engine's regular expressions. */
+export const NUMBER_PATTERN = '[+-]?([0-9]+[.]?[0-9]*|[.][0-9]+)([eE][+-]?[0-9]+)?';
+
+/** A list of file names as a SQL list literal. */
+function fileList(files: readonly string[]): string {
+  return `[${files.map(sqlLiteral).join(', ')}]`;
+}
+
+/** Parquet files, columns matched by name across files. */
+export function readParquetSql(files: readonly string[]): string {
+  return `read_parquet(${fileList(files)}, union_by_name = true)`;
+}
+
+/** The CSV dialect of one group of files, as the built-in reader found it. */
+export interface CsvDialect {
+  /** Lines before the header (blank lines the reader skips). */
+  skip: number;
+  delimiter: string;
+  gzip: boolean;
+}
+
+/**
+ * CSV files read strictly (RFC 4180 quotes, no type guessing): every column
+ * as text under the names c0, c1, …
+ */
+export function readCsvSql(files: readonly string[], dialect: CsvDialect, columnCount: number, hasHeader: boolean): string {
+  const columns = `{${Array.from({ length: columnCount }, (_v, k) => `'c${k}': 'VARCHAR'`).join(', ')}}`;
+  const options = [
+    `header = ${hasHeader}`,
+    `skip = ${dialect.skip}`,
+    `delim = ${sqlLiteral(dialect.delimiter)}`,
+    `quote = '"'`,
+    `escape = '"'`,
+    `auto_detect = false`,
+    `columns = ${columns}`,
+    `compression = ${dialect.gzip ? "'gzip'" : "'none'"}`,
+    `strict_mode = true`,
+    `null_padding = false`,
+  ];
+  return `SELECT * FROM read_csv(${fileList(files)}, ${options.join(', ')})`;
+}
+
+/** x · 2^k in SQL, in two steps where 2^k alone would overflow. */
+function scaled(x: string, k: string): string {
+  return `CASE WHEN ${k} > 900 THEN (${x} * pow(2.0, 600)) * pow(2.0, ${k} - 600) ELSE ${x} * pow(2.0, ${k}) END`;
+}
+
+export interface WeightSql {
+  /** SQL giving the weight's text of a row. */
+  text: string;
+  kind: WeightKind;
+  decimalComma: boolean;
+}
+
+/**
+ * The rows of `from` with `columns` and each row's weight judged by the
+ * tool's rule (a number, finite, at least 0, whole for frequencies): `ok`,
+ * `bad` (the trimmed text of an unusable weight, else NULL), and the weight
+ * w and its square as exact integers m = w·2^(52−b), mq = w²·2^(52−bq) in
+ * binary exponent buckets b, bq (NULL for 0), which sum exactly in HUGEINT
+ * and are rounded once by the reader (numerics: pairFromBuckets).
+ */
+export function weightedRowsSql(from: string, columns: readonly string[], weight: WeightSql): string {
+  const normalised = weight.decimalComma ? `regexp_replace(wt, ',', '.')` : 'wt';
+  const whole = weight.kind === 'freq' ? ' AND wd = floor(wd)' : '';
+  return `
+    WITH src AS (SELECT ${columns.join(', ')}, trim(${weight.text}) AS wt FROM ${from}),
+    parsed AS (SELECT *, CASE WHEN regexp_full_match(${normalised}, '${NUMBER_PATTERN}') THEN TRY_CAST(${normalised} AS DOUBLE) END AS wd FROM src),
+    judged AS (SELECT *, COALESCE(isfinite(wd) AND wd >= 0${whole}, false) AS ok FROM parsed),
+    bucketed AS (SELECT *, CASE WHEN ok AND wd > 0 THEN CAST(floor(log2(wd)) AS INTEGER) - 3 END AS b,
+      CASE WHEN ok AND wd * wd > 0 AND isfinite(wd * wd) THEN CAST(floor(log2(wd * wd)) AS INTEGER) - 3 END AS bq FROM judged)
+    SELECT * EXCLUDE (wt, wd), CASE WHEN ok THEN NULL ELSE COALESCE(wt, '') END AS bad,
+      CASE WHEN b IS NULL THEN 0 ELSE CAST(${scaled('wd', '(52 - b)')} AS HUGEINT) END AS m,
+      CASE WHEN bq IS NULL THEN 0 ELSE CAST(${scaled('(wd * wd)', '(52 - bq)')} AS HUGEINT) END AS mq
+    FROM bucketed`;
+}
+
+/**
+ * A level as the tool reads it, in standard SQL: trimmed, and NULL when
+ * empty or a missing token, so that any engine groups exactly the values
+ * the tool would count.
+ */
+function portableLevel(name: string, missing: readonly string[]): string {
+  const trimmed = `TRIM(CAST(${sqlIdentifier(name)} AS VARCHAR(4000)))`;
+  const tokens = ["''", ...missing.map(sqlLiteral)].join(', ');
+  return `CASE WHEN ${trimmed} IN (${tokens}) THEN NULL ELSE ${trimmed} END`;
+}
+
+export interface CountingSqlRequest {
+  rows: string;
+  cols: string;
+  by?: string;
+  weight?: string;
+  /** The table (or view) as the engine names it. */
+  table: string;
+  missing: readonly string[];
+}
+
+/**
+ * Standard SQL (GROUP BY, COUNT(*), SUM) that counts a two-way table (and
+ * its layers) in any SQL engine; its result, saved as CSV, is what
+ * `--freq count` (and `--summed-weights` for sampling weights) reads.
+ */
+export function portableCountingSql(request: CountingSqlRequest): string {
+  const keys = [...(request.by !== undefined ? [request.by] : []), request.rows, request.cols];
+  const select = keys.map((k) => `  ${portableLevel(k, request.missing)} AS ${sqlIdentifier(k)}`);
+  const measures = ['  COUNT(*) AS "count"'];
+  const where: string[] = [];
+  let readBack = `tabsight pair cells.csv --rows ${request.rows} --cols ${request.cols}${request.by !== undefined ? ` --by ${request.by}` : ''} --freq count`;
+  if (request.weight !== undefined) {
+    const w = `CAST(${sqlIdentifier(request.weight)} AS DOUBLE PRECISION)`;
+    measures.push(`  SUM(${w}) AS "weight_sum"`, `  SUM(${w} * ${w}) AS "weight_square_sum"`);
+    where.push(`${sqlIdentifier(request.weight)} IS NOT NULL`);
+    readBack += ' --summed-weights weight_sum,weight_square_sum';
+  }
+  const positions = keys.map((_k, i) => String(i + 1)).join(', ');
+  return [
+    `-- tabsight ${TOOL_VERSION}: counts of ${request.rows} by ${request.cols}${request.by !== undefined ? ` in each ${request.by}` : ''}.`,
+    `-- Values are trimmed; empty values${request.missing.length > 0 ? ` and ${request.missing.join(', ')}` : ''} are NULL, which the tool reads as missing.`,
+    ...(request.weight !== undefined ? [`-- Rows without a weight are left out here (the tool would refuse them); weights must be numbers, at least 0.`] : []),
+    `-- Save the result as CSV with a header, then: ${readBack}`,
+    'SELECT',
+    [...select, ...measures].join(',\n'),
+    `FROM ${request.table}`,
+    ...(where.length > 0 ? [`WHERE ${where.join(' AND ')}`] : []),
+    `GROUP BY ${positions}`,
+    `ORDER BY ${positions};`,
+    '',
+  ].join('\n');
+}
