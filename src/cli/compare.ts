@@ -21,9 +21,10 @@ import {
   ReportPlan,
   reportPlan,
   splitList,
+  readerFor,
   tablePlan,
 } from './options.js';
-import { CliIo, emit, noteWriter, painter, writeSideFile } from './output.js';
+import { CliIo, emit, painter, writeSideFile } from './output.js';
 import type { Outcome } from './outcome.js';
 
 export interface ComparePlan {
@@ -99,7 +100,7 @@ function period(label: string, counted: Pick<CountedInput, 'table' | 'weighting'
 
 /** The two periods of one file, told apart by a column: its two levels, or the two named by --levels. */
 async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: string, levels: [string, string] | undefined, io: CliIo): Promise<[PeriodInput, PeriodInput]> {
-  const counted = await countTable(source, { ...plan.reader, onNote: noteWriter(io) }, { ...plan.table, by: column });
+  const counted = await countTable(source, readerFor(plan.reader, io), { ...plan.table, by: column });
   const strata = counted.strata ?? [];
   const available = strata.map((s) => s.level);
   let pick: string[];
@@ -126,7 +127,7 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
   } else {
     const sources = [inputSource(plan.periods.before, io.stdin), inputSource(plan.periods.after, io.stdin)];
     const counted: CountedInput[] = [];
-    for (const source of sources) counted.push(await countTable(source, { ...plan.reader, onNote: noteWriter(io) }, plan.table));
+    for (const source of sources) counted.push(await countTable(source, readerFor(plan.reader, io), plan.table));
     before = period(sources[0].label, counted[0], inputSummary(sources[0].label, counted[0]));
     after = period(sources[1].label, counted[1], inputSummary(sources[1].label, counted[1]));
   }

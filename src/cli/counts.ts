@@ -8,8 +8,8 @@ import { parseWeightValue } from '../io/rowRules.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { compareNatural } from '../table/naturalOrder.js';
 import { delimitedField } from '../render/scanTable.js';
-import { addReaderOptions, addSurveyOptions, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerPlan, surveyPlan } from './options.js';
-import { CliIo, emit, noteWriter } from './output.js';
+import { addReaderOptions, addSurveyOptions, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerPlan, surveyPlan, readerFor } from './options.js';
+import { CliIo, emit } from './output.js';
 import { DONE, Outcome } from './outcome.js';
 
 /** The long count format that `--freq count` reads back: one line per combination. */
@@ -79,7 +79,7 @@ Examples:
 export async function runCount(plan: CountPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
   checkReadable(source);
-  const counted = await countTable(source, { ...plan.reader, onNote: noteWriter(io) }, plan.table);
+  const counted = await countTable(source, readerFor(plan.reader, io), plan.table);
   const lines: [string[], number][] = [];
   const add = (prefix: string[], t: typeof counted.table) =>
     t.rowLevels.forEach((rl, i) => t.colLevels.forEach((cl, j) => t.counts[i][j] > 0 && lines.push([[...prefix, rl, cl], t.counts[i][j]])));

@@ -10,6 +10,7 @@ import { AnalysisOptions, DEFAULT_ANALYSIS_OPTIONS, ExactPolicy } from '../analy
 import { parseRecode, parseWhere, Recode, WhereClause } from '../io/rowRules.js';
 import type { InputSummary } from '../analysis/report.js';
 import type { TableRequest } from '../io/counting.js';
+import { CliIo, noteWriter } from './output.js';
 
 /** Options every reading command shares, declared once. */
 export function addReaderOptions(command: Command): Command {
@@ -89,6 +90,15 @@ export interface RawReaderOptions {
 
 /** How to read the input: dialect, missing tokens, who counts, and the level cap. */
 export type ReaderPlan = ReaderOptions & { maxLevels: number };
+
+/**
+ * The reader of a run: the plan's options, notes to the run's standard
+ * error, and the engine's module (TABSIGHT_ENGINE_MODULE lets a test stand
+ * for a machine without the optional package).
+ */
+export function readerFor(plan: ReaderPlan, io: CliIo): ReaderPlan {
+  return { ...plan, onNote: noteWriter(io), engineModule: io.env.TABSIGHT_ENGINE_MODULE };
+}
 
 export function readerPlan(raw: RawReaderOptions): ReaderPlan {
   return {

@@ -6,8 +6,8 @@ import { countTable, TableRequest } from '../io/counting.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { PAIR_RENDERERS, PairFormat } from '../render/renderers.js';
 import { mosaicPlot, residualHeatMap, stackSvg } from '../render/svg.js';
-import { addAnalysisOptions, addReaderOptions, addReportOptions, addSummedWeightsOption, addSurveyOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan } from './options.js';
-import { CliIo, emit, noteWriter, painter, writeSideFile } from './output.js';
+import { addAnalysisOptions, addReaderOptions, addReportOptions, addSummedWeightsOption, addSurveyOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan, readerFor } from './options.js';
+import { CliIo, emit, painter, writeSideFile } from './output.js';
 import type { Outcome } from './outcome.js';
 
 export interface PairPlan {
@@ -66,7 +66,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no a
 export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
   checkReadable(source);
-  const counted = await countTable(source, { ...plan.reader, onNote: noteWriter(io) }, plan.table);
+  const counted = await countTable(source, readerFor(plan.reader, io), plan.table);
   const report = pairReport(
     counted.table,
     counted.excluded,

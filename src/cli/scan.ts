@@ -7,9 +7,9 @@ import { encodeColumns } from '../io/counting.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { SCAN_RENDERERS, ScanFormat } from '../render/renderers.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
-import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary } from './options.js';
+import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary, readerFor } from './options.js';
 import { recodesByColumn } from '../io/rowRules.js';
-import { CliIo, emit, noteWriter, painter, writeSideFile } from './output.js';
+import { CliIo, emit, painter, writeSideFile } from './output.js';
 import type { Outcome } from './outcome.js';
 import { stackSvg, strengthChart } from '../render/svg.js';
 
@@ -124,7 +124,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no p
 /** Encodes the columns in one read, scores every pair, writes the report; found = at least one pair passes. */
 export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
-  const reader = { ...plan.reader, onNote: noteWriter(io) };
+  const reader = readerFor(plan.reader, io);
   const survey = plan.survey;
   const recodes = recodesByColumn(survey.recodes);
   checkReadable(source);

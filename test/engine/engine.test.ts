@@ -8,7 +8,8 @@ import { gzipSync } from 'node:zlib';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { openEngine } from '../../src/io/engine/module.js';
-import { DEMO, run, runJson, spawnCli, tempFile } from '../cli/cliHelpers.js';
+import { ROOT } from '../helpers.js';
+import { DEMO, run, runJson, tempFile } from '../cli/cliHelpers.js';
 import { describeEngine } from '../engineHelpers.js';
 
 /** The report without the field that names the engine. */
@@ -140,15 +141,21 @@ describeEngine('gzip, Parquet and patterns of many files', () => {
 });
 
 describe('without the optional engine package (a machine where npm ci --omit=optional ran)', () => {
-  it('--engine duckdb says in one line how to add it, and auto uses the built-in reader', () => {
-    const env = { TABSIGHT_ENGINE_MODULE: '@tabsight/absent-engine' };
-    const r = spawnCli(['pair', DEMO, '--rows', 'branch', '--cols', 'membership', '--engine', 'duckdb'], undefined, env);
+  // TABSIGHT_ENGINE_MODULE names a module that does not exist, standing for the missing package.
+  const env = { TABSIGHT_ENGINE_MODULE: '@tabsight/absent-engine' };
+  it('--engine duckdb says in one line how to add it, and auto uses the built-in reader', async () => {
+    const r = await run(['pair', DEMO, '--rows', 'branch', '--cols', 'membership', '--engine', 'duckdb'], undefined, env);
     expect(r.status).toBe(2);
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
     expect(r.stderr).toMatch(/npm install @duckdb\/node-api@/);
-    const auto = spawnCli(['pair', DEMO, '--rows', 'branch', '--cols', 'membership', '--format', 'json'], undefined, env);
-    expect(auto.status, auto.stderr).toBe(0);
-    expect(JSON.parse(auto.stdout).input.engine).toBe('builtin');
+    const auto = await runJson(['pair', DEMO, '--rows', 'branch', '--cols', 'membership'], undefined, env);
+    expect(auto.input.engine).toBe('builtin');
+  });
+
+  it('the install hint names the version package.json pins', async () => {
+    const { optionalDependencies } = JSON.parse(readFileSync(join(ROOT, 'package.json'), 'utf8'));
+    const r = await run(['scan', DEMO, '--engine', 'duckdb'], undefined, env);
+    expect(r.stderr).toContain(`npm install @duckdb/node-api@${optionalDependencies['@duckdb/node-api']}`);
   });
 });
 
