@@ -1,6 +1,7 @@
 import { CodebookColumn, codeKey } from './codebook.js';
 import { compareNatural } from './naturalOrder.js';
 import { RangeRecode, recodeValue } from './rangeRecode.js';
+import { MISSING_LEVEL } from './twoWayTable.js';
 
 /**
  * What a value of a column becomes before counting, under the column's
@@ -19,8 +20,8 @@ export interface LevelRules {
   keepMissing: boolean;
 }
 
-/** The level empty fields become with --keep-missing. */
-export const EMPTY_LEVEL = '(missing)';
+/** The level empty fields become with --keep-missing: the table's missing level. */
+export const EMPTY_LEVEL = MISSING_LEVEL;
 /** The reason of an empty field (or a value named by --missing). */
 export const EMPTY_REASON = 'empty';
 
