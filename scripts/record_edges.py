@@ -186,10 +186,181 @@ for counts in [
     p, count = freeman_halton_by_enumeration(counts)
     exact_rxc.append({"counts": counts, "pValue": float(p), "tables": count})
 
+# ---- the statistic battery -------------------------------------------------------
+def chi2_sf(x, df):
+    if x <= 0:
+        return mpmath.mpf(1)
+    return mpmath.gammainc(mpmath.mpf(df) / 2, x / 2, mpmath.inf, regularized=True)
+
+
+def two_sided_normal(z):
+    return mpmath.erfc(abs(z) / mpmath.sqrt(2))
+
+
+def entropy(values, n):
+    return -sum(mpf(Fraction(v, n)) * mpmath.log(mpf(Fraction(v, n))) for v in values if v > 0)
+
+
+def statistics(counts):
+    """Every statistic tabsight reports for a two-way table, from its published
+    definition: rational quantities exactly, the rest at 80 digits."""
+    t = [[Fraction(v) for v in row] for row in counts]
+    r, c = len(t), len(t[0])
+    R = [sum(row) for row in t]
+    C = [sum(t[i][j] for i in range(r)) for j in range(c)]
+    n = sum(R)
+    E = [[R[i] * C[j] / n for j in range(c)] for i in range(r)]
+    D = [[t[i][j] - E[i][j] for j in range(c)] for i in range(r)]
+    df = (r - 1) * (c - 1)
+    out = {}
+    x2 = sum(D[i][j] ** 2 / E[i][j] for i in range(r) for j in range(c))
+    out["pearson"] = {"statistic": num(mpf(x2)), "pValue": num(chi2_sf(mpf(x2), df))}
+    g2 = 2 * sum(mpf(t[i][j]) * mpmath.log(mpf(t[i][j] / E[i][j])) for i in range(r) for j in range(c) if t[i][j] > 0)
+    out["likelihoodRatio"] = {"statistic": num(g2), "pValue": num(chi2_sf(g2, df))}
+    m = min(r, c)
+    X = mpf(x2)
+    N = mpf(n)
+    out["phi"] = num(mpmath.sqrt(X / N))
+    out["contingencyC"] = num(mpmath.sqrt(X / (X + N)))
+    out["correctedC"] = num(mpmath.sqrt(X / (X + N)) * mpmath.sqrt(mpmath.mpf(m) / (m - 1)))
+    out["cramersV"] = num(mpmath.sqrt(X / (N * (m - 1))))
+    out["tschuprowT"] = num(mpmath.sqrt(X / (N * mpmath.sqrt((r - 1) * (c - 1)))))
+    phi2 = x2 / n - Fraction((r - 1) * (c - 1)) / (n - 1)
+    rt = r - Fraction((r - 1) ** 2) / (n - 1)
+    ct = c - Fraction((c - 1) ** 2) / (n - 1)
+    out["biasCorrectedV"] = num(mpmath.sqrt(mpf(max(phi2, 0) / min(rt - 1, ct - 1))))
+    out["residualsPearson"] = [[num(mpf(D[i][j]) / mpmath.sqrt(mpf(E[i][j]))) for j in range(c)] for i in range(r)]
+    out["residualsAdjusted"] = [[num(mpf(D[i][j]) / mpmath.sqrt(mpf(E[i][j] * (1 - R[i] / n) * (1 - C[j] / n)))) for j in range(c)] for i in range(r)]
+    if r == 2 and c == 2:
+        (a, b), (cc, d) = t
+        y = sum((abs(D[i][j]) - min(Fraction(1, 2), abs(D[i][j]))) ** 2 / E[i][j] for i in range(2) for j in range(2))
+        out["yates"] = {"statistic": num(mpf(y)), "pValue": num(chi2_sf(mpf(y), 1))}
+        out["yulesQ"] = num(mpf((a * d - b * cc) / (a * d + b * cc)))
+        sad, sbc = mpmath.sqrt(mpf(a * d)), mpmath.sqrt(mpf(b * cc))
+        out["yulesY"] = num((sad - sbc) / (sad + sbc))
+        out["signedPhi"] = num(mpf(a * d - b * cc) / mpmath.sqrt(mpf((a + b) * (cc + d) * (a + cc) * (b + d))))
+        if min(a, b, cc, d) > 0:
+            z = mpmath.sqrt(2) * mpmath.erfinv(mpmath.mpf("0.95"))
+            lor = mpmath.log(mpf(a * d / (b * cc)))
+            se = mpmath.sqrt(mpf(1 / a + 1 / b + 1 / cc + 1 / d))
+            out["oddsRatio"] = {"estimate": num(mpmath.exp(lor)), "lower": num(mpmath.exp(lor - z * se)), "upper": num(mpmath.exp(lor + z * se))}
+            lrr = mpmath.log(mpf((a / (a + b)) / (cc / (cc + d))))
+            se = mpmath.sqrt(mpf(1 / a - 1 / (a + b) + 1 / cc - 1 / (cc + d)))
+            out["relativeRisk"] = {"estimate": num(mpmath.exp(lrr)), "lower": num(mpmath.exp(lrr - z * se)), "upper": num(mpmath.exp(lrr + z * se))}
+    # predictive measures (Goodman & Kruskal 1954; Theil 1970)
+    max_col, max_row = max(C), max(R)
+    row_max = sum(max(row) for row in t)
+    col_max = sum(max(t[i][j] for i in range(r)) for j in range(c))
+    out["lambdaColsGivenRows"] = num(mpf((row_max - max_col) / (n - max_col))) if n > max_col else None
+    out["lambdaRowsGivenCols"] = num(mpf((col_max - max_row) / (n - max_row))) if n > max_row else None
+    out["lambdaSymmetric"] = num(mpf((row_max + col_max - max_col - max_row) / (2 * n - max_col - max_row)))
+    within_rows = sum(t[i][j] ** 2 / R[i] for i in range(r) for j in range(c))
+    within_cols = sum(t[i][j] ** 2 / C[j] for i in range(r) for j in range(c))
+    sc, sr = sum(v * v for v in C), sum(v * v for v in R)
+    out["gkTauColsGivenRows"] = num(mpf((n * within_rows - sc) / (n * n - sc)))
+    out["gkTauRowsGivenCols"] = num(mpf((n * within_cols - sr) / (n * n - sr)))
+    hr, hc = entropy(R, n), entropy(C, n)
+    mutual = g2 / (2 * N)  # I(R; C) = H(R) + H(C) - H(R, C) = G^2 / 2n
+    hj = entropy([v for row in t for v in row], n)
+    assert abs(hr + hc - hj - mutual) < mpmath.mpf(10) ** -60 * max(1, hr + hc)
+    out["uncertaintyColsGivenRows"] = num(mutual / hc)
+    out["uncertaintyRowsGivenCols"] = num(mutual / hr)
+    out["uncertaintySymmetric"] = num(2 * mutual / (hr + hc))
+    out["ordinal"] = ordinal(t, R, C, n)
+    # linear-by-linear association, integer scores (Mantel 1963)
+    sx = sum((i + 1) * R[i] for i in range(r))
+    sy = sum((j + 1) * C[j] for j in range(c))
+    sxy = sum((i + 1) * (j + 1) * t[i][j] for i in range(r) for j in range(c)) - sx * sy / n
+    sxx = sum((i + 1) ** 2 * R[i] for i in range(r)) - sx * sx / n
+    syy = sum((j + 1) ** 2 * C[j] for j in range(c)) - sy * sy / n
+    m2 = (n - 1) * sxy * sxy / (sxx * syy)
+    out["linearByLinear"] = {"statistic": num(mpf(m2)), "pValue": num(chi2_sf(mpf(m2), 1))}
+    return out
+
+
+def ordinal(t, R, C, n):
+    """Gamma, tau-b, tau-c, Somers' d with the standard errors of Brown & Benedetti
+    (1977), exactly in rational arithmetic up to the final square roots."""
+    r, c = len(t), len(t[0])
+    A = [[sum(t[k][l] for k in range(r) for l in range(c) if (k < i and l < j) or (k > i and l > j)) for j in range(c)] for i in range(r)]
+    Dd = [[sum(t[k][l] for k in range(r) for l in range(c) if (k < i and l > j) or (k > i and l < j)) for j in range(c)] for i in range(r)]
+    P = sum(t[i][j] * A[i][j] for i in range(r) for j in range(c))
+    Q = sum(t[i][j] * Dd[i][j] for i in range(r) for j in range(c))
+    cells = [(i, j) for i in range(r) for j in range(c)]
+    d = {(i, j): A[i][j] - Dd[i][j] for i, j in cells}
+    core = sum(t[i][j] * d[i, j] ** 2 for i, j in cells) - (P - Q) ** 2 / n
+    sqrt = lambda q: mpmath.sqrt(mpf(q))
+    out = {}
+
+    def entry(estimate, ase1_squared, ase0):
+        z = estimate / ase0 if ase0 is not None and ase0 > 0 else None
+        return {"estimate": num(estimate), "standardError": num(mpmath.sqrt(ase1_squared)) if ase1_squared is not None else None,
+                "z": num(z), "pValue": num(two_sided_normal(z)) if z is not None else None}
+
+    if P + Q > 0:
+        out["gamma"] = entry(mpf((P - Q) / (P + Q)), mpf(Fraction(16) / (P + Q) ** 4 * sum(t[i][j] * (Q * A[i][j] - P * Dd[i][j]) ** 2 for i, j in cells)), 2 / mpf(P + Q) * sqrt(core))
+    wr = n * n - sum(v * v for v in R)
+    wc = n * n - sum(v * v for v in C)
+    if wr > 0 and wc > 0:
+        v = {(i, j): R[i] * wc + C[j] * wr for i, j in cells}
+        ase1 = (sum(t[i][j] * (2 * wr * wc * d[i, j] + (P - Q) * v[i, j]) ** 2 for i, j in cells) - n ** 3 * (P - Q) ** 2 * (wr + wc) ** 2) / (wr * wc) ** 3
+        out["kendallTauB"] = entry(mpf(P - Q) / sqrt(wr * wc), mpf(ase1), 2 / sqrt(wr * wc) * sqrt(core))
+    m = min(r, c)
+    factor = Fraction(2 * m, (m - 1)) / (n * n)
+    out["kendallTauC"] = entry(mpf(m * (P - Q) / (n * n * (m - 1))), mpf(factor * factor * core), mpf(factor) * sqrt(core))
+    for name, w, margin in [("somersDColsGivenRows", wr, lambda i, j: R[i]), ("somersDRowsGivenCols", wc, lambda i, j: C[j])]:
+        if w > 0:
+            ase1 = Fraction(4) / w ** 4 * sum(t[i][j] * (w * d[i, j] - (P - Q) * (n - margin(i, j))) ** 2 for i, j in cells)
+            out[name] = entry(mpf((P - Q) / w), mpf(ase1), 2 / mpf(w) * sqrt(core))
+    return out
+
+
+rng = random.Random(20261214)
+
+
+def near_independence(n, shape, spread):
+    """Counts n p_i q_j rounded, then moved by a few units (spread) or by about one
+    standard deviation (spread None): the association is tiny against n."""
+    r, c = shape
+    p = [rng.randint(1, 9) for _ in range(r)]
+    q = [rng.randint(1, 9) for _ in range(c)]
+    sp, sq = sum(p), sum(q)
+    table = []
+    for i in range(r):
+        row = []
+        for j in range(c):
+            e = Fraction(n * p[i] * q[j], sp * sq)
+            move = rng.randint(-spread, spread) if spread is not None else int(rng.gauss(0, math.sqrt(float(e))))
+            row.append(max(1, round(e) + move))
+        table.append(row)
+    return table
+
+
+battery = []
+for exponent in range(6, 13):
+    for shape in [(2, 2), (2, 3), (3, 4), (4, 4)]:
+        for spread, label in [(3, "a few units off independence"), (None, "sampling noise")]:
+            counts = near_independence(10 ** exponent, shape, spread)
+            battery.append({"name": f"{shape[0]}x{shape[1]} at n 1e{exponent}, {label}", "regime": "near-independence", "counts": counts})
+for counts in [
+    [[10 ** 9, 3], [2, 7]],
+    [[10 ** 9, 3, 1], [2, 5, 0], [1, 0, 4]],
+    [[10 ** 9, 2, 1], [3, 1, 2]],
+    [[4, 10 ** 9, 1, 3], [2, 6, 0, 5]],
+    [[10 ** 12, 9], [8, 10 ** 12]],
+    [[5, 10 ** 9], [10 ** 9, 7]],
+]:
+    battery.append({"name": f"dominant cell {counts}", "regime": "dominant-cell", "counts": counts})
+battery.append({"name": "job satisfaction by income, 4x4, n 104 (the table of reference.json)", "regime": "moderate",
+                "counts": [[1, 2, 1, 0], [3, 3, 6, 1], [10, 10, 14, 9], [6, 7, 12, 11]]})
+for item in battery:
+    item.update(statistics(item["counts"]))
+
 OUT.parent.mkdir(parents=True, exist_ok=True)
 OUT.write_text(json.dumps({
     "recordedWith": {"python": sys.version.split()[0], "mpmath": mpmath.__version__, "numpy": np.__version__, "scipy": scipy.__version__},
     "fisher2x2": fisher2x2,
     "exactRxC": exact_rxc,
+    "tables": battery,
 }, indent=1) + "\n")
 print(f"wrote {OUT}")

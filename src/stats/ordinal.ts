@@ -1,6 +1,7 @@
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
-import { CountMatrix, margins } from './contingency.js';
+import { compensatedSum, CountMatrix, margins } from './contingency.js';
+import { complementsInSum, ddAdd, ddFromNumber, ddMultiply, ddProduct, ddScale, ddSubtract, ddValue, ddZero, DoubleDouble } from './exactArithmetic.js';
 
 /**
  * Ordinal measures for a table whose rows and columns are both ordered (in
@@ -25,38 +26,85 @@ export interface OrdinalEstimate {
 interface PairSums {
   A: number[][];
   D: number[][];
+  /** A_ij − D_ij, formed without cancellation. */
+  Delta: number[][];
   P: number;
   Q: number;
+  /** P − Q, formed without cancellation (a difference of two sums near n²). */
+  PminusQ: number;
+  /** Q A_ij − P D_ij, formed without cancellation (for the standard error of gamma). */
+  gammaTerms: number[][];
   n: number;
   rowTotals: number[];
   colTotals: number[];
+  /** n − n_i. and n − n_.j, summed from the other margins. */
+  otherRows: number[];
+  otherCols: number[];
 }
 
+/**
+ * The pair sums. Prefix sums of the table are kept in double-double, so every
+ * block sum, every A_ij − D_ij and P − Q = Σ n_ij (A_ij − D_ij) are exact for
+ * whole counts below 2^53 and accurate to about 2^-100 otherwise; near
+ * independence P and Q agree to many digits and their difference would
+ * otherwise lose them.
+ */
 function pairSums(counts: CountMatrix): PairSums {
   const r = counts.length;
   const c = counts[0].length;
   // 2-D prefix sums: S[i][j] = Σ_{k<i, l<j} n_kl
-  const S = Array.from({ length: r + 1 }, () => new Array<number>(c + 1).fill(0));
-  for (let i = 0; i < r; i++) for (let j = 0; j < c; j++) S[i + 1][j + 1] = S[i][j + 1] + S[i + 1][j] - S[i][j] + counts[i][j];
-  const block = (i0: number, i1: number, j0: number, j1: number) => (i1 <= i0 || j1 <= j0 ? 0 : S[i1][j1] - S[i0][j1] - S[i1][j0] + S[i0][j0]);
+  const S: DoubleDouble[][] = Array.from({ length: r + 1 }, () => new Array<DoubleDouble>(c + 1).fill(ddZero));
+  for (let i = 0; i < r; i++) {
+    for (let j = 0; j < c; j++) {
+      S[i + 1][j + 1] = ddAdd(ddSubtract(ddAdd(S[i][j + 1], S[i + 1][j]), S[i][j]), ddFromNumber(counts[i][j]));
+    }
+  }
+  const block = (i0: number, i1: number, j0: number, j1: number): DoubleDouble =>
+    i1 <= i0 || j1 <= j0 ? ddZero : ddAdd(ddSubtract(S[i1][j1], S[i0][j1]), ddSubtract(S[i0][j0], S[i1][j0]));
   const A: number[][] = [];
   const D: number[][] = [];
-  let P = 0;
-  let Q = 0;
+  const Delta: number[][] = [];
+  const exactA: DoubleDouble[][] = [];
+  const exactD: DoubleDouble[][] = [];
+  let difference = ddZero;
+  let exactP = ddZero;
+  let exactQ = ddZero;
   for (let i = 0; i < r; i++) {
     A.push([]);
     D.push([]);
+    Delta.push([]);
+    exactA.push([]);
+    exactD.push([]);
     for (let j = 0; j < c; j++) {
-      const a = block(0, i, 0, j) + block(i + 1, r, j + 1, c);
-      const d = block(0, i, j + 1, c) + block(i + 1, r, 0, j);
-      A[i].push(a);
-      D[i].push(d);
-      P += counts[i][j] * a;
-      Q += counts[i][j] * d;
+      const a = ddAdd(block(0, i, 0, j), block(i + 1, r, j + 1, c));
+      const d = ddAdd(block(0, i, j + 1, c), block(i + 1, r, 0, j));
+      const delta = ddSubtract(a, d);
+      A[i].push(ddValue(a));
+      D[i].push(ddValue(d));
+      Delta[i].push(ddValue(delta));
+      exactA[i].push(a);
+      exactD[i].push(d);
+      difference = ddAdd(difference, ddScale(delta, counts[i][j]));
+      exactP = ddAdd(exactP, ddScale(a, counts[i][j]));
+      exactQ = ddAdd(exactQ, ddScale(d, counts[i][j]));
     }
   }
+  const gammaTerms = exactA.map((row, i) => row.map((a, j) => ddValue(ddSubtract(ddMultiply(exactQ, a), ddMultiply(exactP, exactD[i][j])))));
   const { rowTotals, colTotals, total } = margins(counts);
-  return { A, D, P, Q, n: total, rowTotals, colTotals };
+  return {
+    A,
+    D,
+    Delta,
+    P: ddValue(exactP),
+    Q: ddValue(exactQ),
+    PminusQ: ddValue(difference),
+    gammaTerms,
+    n: total,
+    rowTotals,
+    colTotals,
+    otherRows: complementsInSum(rowTotals),
+    otherCols: complementsInSum(colTotals),
+  };
 }
 
 function twoSidedNormal(z: number): number {
@@ -65,16 +113,21 @@ function twoSidedNormal(z: number): number {
 
 function estimateWith(estimate: number | null, ase1Squared: number | null, ase0: number | null): OrdinalEstimate {
   if (estimate === null || !Number.isFinite(estimate)) return { estimate: null, standardError: null, z: null, pValue: null };
-  const standardError = ase1Squared !== null && ase1Squared >= 0 ? Math.sqrt(ase1Squared) : null;
-  const z = ase0 !== null && ase0 > 0 ? estimate / ase0 : null;
+  const standardError = ase1Squared !== null && ase1Squared >= 0 && Number.isFinite(ase1Squared) ? Math.sqrt(ase1Squared) : null;
+  const z = ase0 !== null && ase0 > 0 && Number.isFinite(ase0) ? estimate / ase0 : null;
   return { estimate, standardError, z, pValue: z === null ? null : twoSidedNormal(z) };
 }
 
-/** Σ n_ij (A_ij − D_ij)² − (P − Q)²/n, the core of the null variances. */
+/**
+ * Σ n_ij (A_ij − D_ij)² − (P − Q)²/n, the core of the null variances, as the
+ * centred sum Σ n_ij (Δ_ij − (P − Q)/n)² (Σ n_ij Δ_ij = P − Q), which has no
+ * cancellation.
+ */
 function nullCore(s: PairSums, counts: CountMatrix): number {
-  let sum = 0;
-  counts.forEach((row, i) => row.forEach((v, j) => (sum += v * (s.A[i][j] - s.D[i][j]) ** 2)));
-  return Math.max(0, sum - (s.P - s.Q) ** 2 / s.n);
+  const mean = s.PminusQ / s.n;
+  const terms: number[] = [];
+  counts.forEach((row, i) => row.forEach((v, j) => terms.push(v * (s.Delta[i][j] - mean) ** 2)));
+  return compensatedSum(terms);
 }
 
 export interface OrdinalMeasures {
@@ -99,49 +152,47 @@ export interface OrdinalMeasures {
  */
 export function ordinalMeasures(counts: CountMatrix): OrdinalMeasures {
   const s = pairSums(counts);
-  const { A, D, P, Q, n, rowTotals, colTotals } = s;
+  const { Delta, P, Q, PminusQ, n, rowTotals, colTotals, otherRows, otherCols } = s;
   const core = nullCore(s, counts);
   const r = counts.length;
   const c = counts[0].length;
   const sumCells = (f: (v: number, i: number, j: number) => number) => {
-    let total = 0;
-    counts.forEach((row, i) => row.forEach((v, j) => (total += f(v, i, j))));
-    return total;
+    const terms: number[] = [];
+    counts.forEach((row, i) => row.forEach((v, j) => terms.push(f(v, i, j))));
+    return compensatedSum(terms);
   };
 
-  const gammaEstimate = P + Q > 0 ? (P - Q) / (P + Q) : null;
   const gamma = estimateWith(
-    gammaEstimate,
-    P + Q > 0 ? (16 / (P + Q) ** 4) * sumCells((v, i, j) => v * (Q * A[i][j] - P * D[i][j]) ** 2) : null,
+    P + Q > 0 ? PminusQ / (P + Q) : null,
+    P + Q > 0 ? (16 / (P + Q) ** 4) * sumCells((v, i, j) => v * s.gammaTerms[i][j] ** 2) : null,
     P + Q > 0 ? (2 / (P + Q)) * Math.sqrt(core) : null,
   );
 
-  const wr = n * n - rowTotals.reduce((t, v) => t + v * v, 0);
-  const wc = n * n - colTotals.reduce((t, v) => t + v * v, 0);
-  const w = Math.sqrt(wr * wc);
-  const tauB = w > 0 ? (P - Q) / w : null;
+  // w_r = n² − Σ n_i.² = Σ n_i. (n − n_i.), likewise w_c
+  const wr = compensatedSum(rowTotals.map((v, i) => v * otherRows[i]));
+  const wc = compensatedSum(colTotals.map((v, j) => v * otherCols[j]));
+  const w = Math.sqrt(wr) * Math.sqrt(wc);
+  const tauB = w > 0 ? PminusQ / w : null;
+  // Σ n_ij (2wΔ_ij + τ v_ij)² − n³τ²(w_r + w_c)² is Σ n_ij (x_ij − x̄)² with
+  // x̄ = τ n (w_r + w_c); x_ij − x̄ = 2wΔ_ij − τ((n − n_i.) w_c + (n − n_.j) w_r).
   const kendallTauB = estimateWith(
     tauB,
-    tauB === null
-      ? null
-      : (sumCells((v, i, j) => v * (2 * w * (A[i][j] - D[i][j]) + tauB * (rowTotals[i] * wc + colTotals[j] * wr)) ** 2) -
-          n ** 3 * tauB * tauB * (wr + wc) ** 2) /
-          w ** 4,
+    tauB === null ? null : sumCells((v, i, j) => v * (2 * w * Delta[i][j] - tauB * (otherRows[i] * wc + otherCols[j] * wr)) ** 2) / (wr * wr * wc * wc),
     w > 0 ? (2 / w) * Math.sqrt(core) : null,
   );
 
   const m = Math.min(r, c);
   const tauCFactor = m > 1 ? (2 * m) / ((m - 1) * n * n) : null;
   const kendallTauC = estimateWith(
-    m > 1 ? (m * (P - Q)) / (n * n * (m - 1)) : null,
+    m > 1 ? (m * PminusQ) / (n * n * (m - 1)) : null,
     tauCFactor === null ? null : tauCFactor * tauCFactor * core,
     tauCFactor === null ? null : tauCFactor * Math.sqrt(core),
   );
 
-  const somers = (weight: number, margin: (i: number, j: number) => number) =>
+  const somers = (weight: number, other: (i: number, j: number) => number) =>
     estimateWith(
-      weight > 0 ? (P - Q) / weight : null,
-      weight > 0 ? (4 / weight ** 4) * sumCells((v, i, j) => v * (weight * (A[i][j] - D[i][j]) - (P - Q) * (n - margin(i, j))) ** 2) : null,
+      weight > 0 ? PminusQ / weight : null,
+      weight > 0 ? (4 / weight ** 4) * sumCells((v, i, j) => v * (weight * Delta[i][j] - PminusQ * other(i, j)) ** 2) : null,
       weight > 0 ? (2 / weight) * Math.sqrt(core) : null,
     );
 
@@ -149,8 +200,8 @@ export function ordinalMeasures(counts: CountMatrix): OrdinalMeasures {
     gamma,
     kendallTauB,
     kendallTauC,
-    somersDColsGivenRows: somers(wr, (i) => rowTotals[i]),
-    somersDRowsGivenCols: somers(wc, (_i, j) => colTotals[j]),
+    somersDColsGivenRows: somers(wr, (i) => otherRows[i]),
+    somersDRowsGivenCols: somers(wc, (_i, j) => otherCols[j]),
   };
 }
 
@@ -158,18 +209,33 @@ export function ordinalMeasures(counts: CountMatrix): OrdinalMeasures {
  * Linear-by-linear association test M² = (n − 1) r², df 1, where r is the
  * Pearson correlation of integer scores 1..R and 1..C over the table
  * (Mantel 1963, J. Am. Stat. Assoc. 58, 690–700; Agresti 2013 §3.4.1).
+ * The cross-product sum is formed from the departures from independence,
+ *   n·s_xy = Σ_ij (n n_ij − n_i. n_.j) i j,
+ * each numerator exact in double-double, and the sums of squares from pairs
+ * of levels, n·s_xx = Σ_{i<k} n_i. n_k. (k − i)², all terms non-negative, so
+ * a correlation near 0 keeps its relative accuracy.
  */
 export function linearByLinear(counts: CountMatrix): TestResult | null {
   const { rowTotals, colTotals, total: n } = margins(counts);
   if (n < 2) return null;
-  const rowMean = rowTotals.reduce((s, v, i) => s + (i + 1) * v, 0) / n;
-  const colMean = colTotals.reduce((s, v, j) => s + (j + 1) * v, 0) / n;
-  let sxy = 0;
-  counts.forEach((row, i) => row.forEach((v, j) => (sxy += v * (i + 1 - rowMean) * (j + 1 - colMean))));
-  const sxx = rowTotals.reduce((s, v, i) => s + v * (i + 1 - rowMean) ** 2, 0);
-  const syy = colTotals.reduce((s, v, j) => s + v * (j + 1 - colMean) ** 2, 0);
+  let crossProducts = ddZero;
+  counts.forEach((row, i) =>
+    row.forEach((v, j) => {
+      const numerator = ddSubtract(ddProduct(n, v), ddProduct(rowTotals[i], colTotals[j]));
+      crossProducts = ddAdd(crossProducts, ddScale(numerator, (i + 1) * (j + 1)));
+    }),
+  );
+  const pairSquares = (totals: readonly number[]) => {
+    const terms: number[] = [];
+    for (let i = 0; i < totals.length; i++) for (let k = i + 1; k < totals.length; k++) terms.push(totals[i] * totals[k] * (k - i) ** 2);
+    return compensatedSum(terms);
+  };
+  const sxx = pairSquares(rowTotals);
+  const syy = pairSquares(colTotals);
   if (!(sxx > 0 && syy > 0)) return null;
-  const correlation = sxy / Math.sqrt(sxx * syy);
-  const statistic = (n - 1) * correlation * correlation;
+  const sxy = ddValue(crossProducts);
+  // r² = s_xy² / (s_xx s_yy); the common factors 1/n cancel
+  const correlationSquared = Math.min(1, (sxy / sxx) * (sxy / syy));
+  const statistic = (n - 1) * correlationSquared;
   return { statistic, df: 1, pValue: upperTailChiSquare(statistic, 1) };
 }

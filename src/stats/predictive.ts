@@ -1,4 +1,6 @@
-import { CountMatrix, margins, transpose } from './contingency.js';
+import { likelihoodRatioChiSquare } from './chiSquareTests.js';
+import { compensatedSum, CountMatrix, deviationsFromIndependence, margins, transpose } from './contingency.js';
+import { complementsInSum } from './exactArithmetic.js';
 
 /**
  * Proportional-reduction-in-error measures of association, in both
@@ -42,60 +44,88 @@ export function lambdaSymmetric(counts: CountMatrix): number | null {
 /**
  * Goodman–Kruskal tau, predicting columns from rows:
  *   τ(C|R) = (n Σ_ij n_ij²/n_i. − Σ_j n_.j²) / (n² − Σ_j n_.j²)
- * (Goodman & Kruskal 1954; Agresti 2013 §2.4.7).
+ * (Goodman & Kruskal 1954; Agresti 2013, Categorical Data Analysis, 3rd ed., §2.4.7).
+ * With d_ij = n_ij − n_i. n_.j / n the departures from independence, the
+ * numerator equals n Σ_ij d_ij²/n_i. (the cross terms vanish because each
+ * column of d sums to 0), and the denominator Σ_j n_.j (n − n_.j): sums of
+ * non-negative terms, so a tau near 0 keeps its relative accuracy (and is
+ * never negative) at any n. null when one column holds everything.
+ *
+ * @example
+ * // Goodman & Kruskal's kind of table: [[30, 10], [5, 25]]
+ * goodmanKruskalTauColsGivenRows([[30, 10], [5, 25]]) // 0.3333… (816.7/2450)
  */
 export function goodmanKruskalTauColsGivenRows(counts: CountMatrix): number | null {
   const { rowTotals, colTotals, total } = margins(counts);
-  const sumColSquares = colTotals.reduce((s, v) => s + v * v, 0);
-  const denominator = total * total - sumColSquares;
-  if (denominator <= 0) return null;
-  let within = 0;
-  counts.forEach((row, i) => {
-    if (rowTotals[i] > 0) for (const v of row) within += (v * v) / rowTotals[i];
+  const others = complementsInSum(colTotals);
+  const denominator = compensatedSum(colTotals.map((v, j) => v * others[j]));
+  if (!(denominator > 0)) return null;
+  const { deviation } = deviationsFromIndependence(counts);
+  const terms: number[] = [];
+  deviation.forEach((row, i) => {
+    if (rowTotals[i] > 0) for (const d of row) terms.push((d * d) / rowTotals[i]);
   });
-  return (total * within - sumColSquares) / denominator;
+  return (total * compensatedSum(terms)) / denominator;
 }
 
 export function goodmanKruskalTauRowsGivenCols(counts: CountMatrix): number | null {
   return goodmanKruskalTauColsGivenRows(transpose(counts));
 }
 
-/** Shannon entropy −Σ p log p of a list of counts (natural log; 0·log 0 = 0). */
-function entropy(values: Iterable<number>, total: number): number {
-  let h = 0;
-  for (const v of values) if (v > 0) h -= (v / total) * Math.log(v / total);
-  return h;
+/**
+ * Shannon entropy −Σ p log p of a list of counts (natural log; 0·log 0 = 0).
+ * A share near 1 takes its log as log1p(−(others)/n), the others summed
+ * directly, so a dominant level does not lose the digits of its complement.
+ */
+function entropy(values: readonly number[], total: number): number {
+  const others = complementsInSum(values);
+  const terms: number[] = [];
+  values.forEach((v, k) => {
+    if (v > 0) terms.push(-(v / total) * (v > total / 2 ? Math.log1p(-others[k] / total) : Math.log(v / total)));
+  });
+  return compensatedSum(terms);
 }
 
-interface Entropies {
-  rows: number;
-  cols: number;
-  joint: number;
-}
-
-function entropies(counts: CountMatrix): Entropies {
-  const { rowTotals, colTotals, total } = margins(counts);
-  return { rows: entropy(rowTotals, total), cols: entropy(colTotals, total), joint: entropy(counts.flat(), total) };
+/**
+ * The mutual information I(R; C) = H(R) + H(C) − H(R, C) = Σ p_ij log(p_ij/(p_i. p_.j)),
+ * which is G²/(2n): taken from the likelihood-ratio statistic, whose terms are
+ * formed from the exact departures from independence, so that it keeps its
+ * relative accuracy where the entropies nearly cancel.
+ */
+function mutualInformation(counts: CountMatrix): number {
+  const { total } = margins(counts);
+  return likelihoodRatioChiSquare(counts).statistic / (2 * total);
 }
 
 /**
  * Theil's uncertainty coefficient, predicting columns from rows:
- *   U(C|R) = (H(R) + H(C) − H(R,C)) / H(C)
- * (Theil 1970, Am. J. Sociology 76, 103–154; Press et al., Numerical Recipes §14.4).
+ *   U(C|R) = (H(R) + H(C) − H(R,C)) / H(C) = I(R; C) / H(C)
+ * (Theil 1970, Am. J. Sociology 76, 103–154; Press et al., Numerical Recipes,
+ * 3rd ed., §14.7.4). null when one column holds everything.
+ *
+ * @example
+ * uncertaintyColsGivenRows([[30, 10], [5, 25]]) // 0.2578…
  */
 export function uncertaintyColsGivenRows(counts: CountMatrix): number | null {
-  const h = entropies(counts);
-  if (h.cols <= 0) return null;
-  return Math.max(0, (h.rows + h.cols - h.joint) / h.cols);
+  const { colTotals, total } = margins(counts);
+  const hCols = entropy(colTotals, total);
+  if (!(hCols > 0)) return null;
+  return Math.min(1, mutualInformation(counts) / hCols);
 }
 
 export function uncertaintyRowsGivenCols(counts: CountMatrix): number | null {
   return uncertaintyColsGivenRows(transpose(counts));
 }
 
-/** Symmetric uncertainty coefficient U = 2 (H(R) + H(C) − H(R,C)) / (H(R) + H(C)). */
+/**
+ * Symmetric uncertainty coefficient U = 2 I(R; C) / (H(R) + H(C)) (Theil 1970).
+ *
+ * @example
+ * uncertaintySymmetric([[30, 10], [5, 25]]) // 0.2597…
+ */
 export function uncertaintySymmetric(counts: CountMatrix): number | null {
-  const h = entropies(counts);
-  if (h.rows + h.cols <= 0) return null;
-  return Math.max(0, (2 * (h.rows + h.cols - h.joint)) / (h.rows + h.cols));
+  const { rowTotals, colTotals, total } = margins(counts);
+  const h = entropy(rowTotals, total) + entropy(colTotals, total);
+  if (!(h > 0)) return null;
+  return Math.min(1, (2 * mutualInformation(counts)) / h);
 }

@@ -1,4 +1,5 @@
 import { CountMatrix, deviationsFromIndependence, margins } from './contingency.js';
+import { complementsInSum } from './exactArithmetic.js';
 
 /** Pearson residuals e_ij = (n_ij − E_ij) / √E_ij (Agresti 2013 §2.4.5). */
 export function pearsonResiduals(counts: CountMatrix): number[][] {
@@ -16,9 +17,13 @@ export function pearsonResiduals(counts: CountMatrix): number[][] {
 export function adjustedResiduals(counts: CountMatrix): (number | null)[][] {
   const { rowTotals, colTotals, total } = margins(counts);
   const { deviation, expected } = deviationsFromIndependence(counts);
+  // 1 − n_i./n as (n − n_i.)/n with n − n_i. summed from the other rows, so a
+  // dominant row (10⁹ beside single digits) keeps the digits of its complement.
+  const otherRows = complementsInSum(rowTotals);
+  const otherCols = complementsInSum(colTotals);
   return deviation.map((row, i) =>
     row.map((d, j) => {
-      const variance = expected[i][j] * (1 - rowTotals[i] / total) * (1 - colTotals[j] / total);
+      const variance = expected[i][j] * (otherRows[i] / total) * (otherCols[j] / total);
       return variance > 0 ? d / Math.sqrt(variance) : null;
     }),
   );

@@ -1,4 +1,5 @@
 import { CountMatrix, isTwoByTwo } from './contingency.js';
+import { differenceOfProducts } from './exactArithmetic.js';
 
 /**
  * Strength-of-association measures built on Pearson's X². Each returns null
@@ -42,16 +43,27 @@ export function tschuprowT(chiSquare: number, n: number, r: number, c: number): 
   return Math.sqrt(chiSquare / (n * Math.sqrt((r - 1) * (c - 1))));
 }
 
+/** Relative size of φ² − correction below which it is taken as rounding noise (2^-46, about 64 units in the last place). */
+const BIAS_CORRECTION_NOISE = 2 ** -46;
+
 /**
  * Bias-corrected Cramér's V (Bergsma 2013, J. Korean Stat. Soc. 42, 323–328):
  *   φ̃² = max(0, φ² − (r−1)(c−1)/(n−1)),
  *   r̃ = r − (r−1)²/(n−1),  c̃ = c − (c−1)²/(n−1),
  *   Ṽ = √(φ̃² / min(r̃ − 1, c̃ − 1)).
+ * When φ² and the correction agree to 2^-46 relative (the rounding error of
+ * X²), φ̃² is 0: the value then has an absolute error bound of
+ * √(2^-46 φ² / min(r̃ − 1, c̃ − 1)) ≈ 1.2·10⁻⁷ V instead of a relative one.
  */
 export function biasCorrectedCramersV(chiSquare: number, n: number, r: number, c: number): number | null {
   if (!(n > 1) || r < 2 || c < 2) return null;
   const phiSquared = chiSquare / n;
-  const phiSquaredCorrected = Math.max(0, phiSquared - ((r - 1) * (c - 1)) / (n - 1));
+  const correction = ((r - 1) * (c - 1)) / (n - 1);
+  // X² carries a relative rounding error of a few units in the last place;
+  // where φ² and the correction agree that closely the difference is noise,
+  // and the exact value may well be 0 (as for [[1, 0], [0, 1]]): clamp it.
+  const difference = phiSquared - correction;
+  const phiSquaredCorrected = difference > BIAS_CORRECTION_NOISE * Math.max(phiSquared, correction) ? difference : 0;
   const rCorrected = r - ((r - 1) * (r - 1)) / (n - 1);
   const cCorrected = c - ((c - 1) * (c - 1)) / (n - 1);
   const denominator = Math.min(rCorrected - 1, cCorrected - 1);
@@ -70,7 +82,8 @@ export function yulesQ(counts: CountMatrix): number | null {
   const concordant = a * d;
   const discordant = b * c;
   if (concordant + discordant === 0) return null;
-  return (concordant - discordant) / (concordant + discordant);
+  // ad − bc from error-free products: near independence the two nearly cancel
+  return differenceOfProducts(a, d, b, c) / (concordant + discordant);
 }
 
 /** Yule's Y (coefficient of colligation) = (√(ad) − √(bc)) / (√(ad) + √(bc)) (Yule 1912). */
@@ -80,7 +93,8 @@ export function yulesY(counts: CountMatrix): number | null {
   const s = Math.sqrt(a * d);
   const t = Math.sqrt(b * c);
   if (s + t === 0) return null;
-  return (s - t) / (s + t);
+  // (√ad − √bc)/(√ad + √bc) = (ad − bc)/(√ad + √bc)², with ad − bc formed exactly
+  return differenceOfProducts(a, d, b, c) / ((s + t) * (s + t));
 }
 
 /**
@@ -92,5 +106,5 @@ export function signedPhi(counts: CountMatrix): number | null {
   const [[a, b], [c, d]] = counts;
   const denominator = Math.sqrt((a + b) * (c + d) * (a + c) * (b + d));
   if (denominator === 0) return null;
-  return (a * d - b * c) / denominator;
+  return differenceOfProducts(a, d, b, c) / denominator;
 }
