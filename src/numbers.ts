@@ -1,0 +1,101 @@
+/**
+ * One rule for numbers a person reads, in every human-facing format (text,
+ * Markdown, HTML, SVG and the sentences of the record's messages). JSON and
+ * CSV/TSV carry full-precision numbers instead.
+ *
+ * - a negative number takes the minus sign − (U+2212), never a hyphen;
+ * - a signed measure (one whose sign means a direction) always shows its sign;
+ * - thousands are grouped with commas, counts and expected counts alike;
+ * - p-values: three significant digits, written 1.23e−5 below 0.001, and
+ *   "< 1e−300" below 1e−300 (underflow, subnormal numbers and 0 alike);
+ * - an undefined value is an em dash —.
+ */
+
+export const MINUS = '−';
+export const UNDEFINED = '—';
+
+function minus(text: string): string {
+  return text.replace(/-/g, MINUS);
+}
+
+function grouped(x: number, digits: number): string {
+  return minus(x.toLocaleString('en-US', { minimumFractionDigits: digits, maximumFractionDigits: digits }));
+}
+
+function defined(x: number | null | undefined): x is number {
+  return x !== null && x !== undefined && !Number.isNaN(x);
+}
+
+/** Below this a p-value is shown as a bound: it is at or near the limit of double precision. */
+export const P_FLOOR = 1e-300;
+
+export function formatP(p: number | null | undefined): string {
+  if (!defined(p)) return UNDEFINED;
+  if (p < P_FLOOR) return `< 1e${MINUS}300`;
+  if (p < 0.001) {
+    const [mantissa, exponent] = p.toExponential(2).split('e');
+    return `${mantissa}e${minus(exponent.replace('+', ''))}`;
+  }
+  if (p >= 1) return '1';
+  const text = p.toPrecision(3);
+  return text === '1.00' ? '1' : text;
+}
+
+/** A count: whole numbers as they are, weighted sums with one decimal; grouped. */
+export function formatCount(x: number | null | undefined): string {
+  if (!defined(x)) return UNDEFINED;
+  return grouped(x, Number.isInteger(x) ? 0 : 1);
+}
+
+/** An expected count: one decimal, grouped; two significant digits below 1 (so that 0.04 is not 0.0). */
+export function formatExpected(x: number | null | undefined): string {
+  if (!defined(x)) return UNDEFINED;
+  if (x > 0 && x < 0.95) return x.toPrecision(2);
+  return grouped(x, 1);
+}
+
+/** A test statistic: two decimals, grouped; exponent form from 1e9. */
+export function formatStatistic(x: number | null | undefined, digits = 2): string {
+  if (!defined(x)) return UNDEFINED;
+  if (!Number.isFinite(x)) return x > 0 ? '∞' : `${MINUS}∞`;
+  if (Math.abs(x) >= 1e9) return minus(x.toExponential(3).replace('+', ''));
+  return grouped(x, digits);
+}
+
+/** A measure on a 0–1 (or −1–1) scale: three decimals. */
+export function formatMeasure(x: number | null | undefined): string {
+  if (!defined(x)) return UNDEFINED;
+  return minus(x.toFixed(3));
+}
+
+/** A signed measure: three decimals (or `digits`) and always its sign; 0 without one. */
+export function formatSigned(x: number | null | undefined, digits = 3): string {
+  if (!defined(x)) return UNDEFINED;
+  const text = Math.abs(x).toFixed(digits);
+  if (Number(text) === 0) return text;
+  return (x > 0 ? '+' : MINUS) + text;
+}
+
+/** A ratio (odds, risk): about four significant digits, grouped; ∞ for an infinite one. */
+export function formatRatio(x: number | null | undefined): string {
+  if (!defined(x)) return UNDEFINED;
+  if (!Number.isFinite(x)) return '∞';
+  const size = Math.abs(x);
+  return grouped(x, size < 10 ? 3 : size < 100 ? 2 : size < 1000 ? 1 : 0);
+}
+
+/** A percentage 0–100, one decimal, with its sign. */
+export function formatPercent(x: number | null | undefined, digits = 1): string {
+  if (!defined(x)) return UNDEFINED;
+  return `${grouped(x, digits)}%`;
+}
+
+/** A level such as alpha or a confidence: as given (0.05, 0.01, 0.95). */
+export function formatLevel(x: number): string {
+  return String(x);
+}
+
+/** A confidence level as a percentage: 95%, 99%, 99.9%. */
+export function formatConfidence(confidence: number): string {
+  return `${Number((confidence * 100).toPrecision(6))}%`;
+}
