@@ -2,8 +2,9 @@ import { pearsonChiSquare, likelihoodRatioChiSquare, yatesChiSquare, TestResult 
 import { expectedCounts, margins } from '../stats/contingency.js';
 import { expectedCountRule, ExpectedCountCheck } from '../stats/expectedCountRule.js';
 import { ExactDeclined, ExactOutcome, fisherExact2x2, fisherFreemanHalton } from '../stats/fisherExact.js';
-import { DEFAULT_SEED, DEFAULT_SIMULATIONS, monteCarloExactTest, MonteCarloResult } from '../stats/monteCarlo.js';
-import { cramersVInterval } from '../stats/noncentralChiSquare.js';
+import { DEFAULT_SEED, DEFAULT_SIMULATION_BOUND, DEFAULT_SIMULATIONS, monteCarloExactTest, MonteCarloResult, simulationWorkPerTable } from '../stats/monteCarlo.js';
+import { cramersVInterval, cramersVMedianEstimate } from '../stats/noncentralChiSquare.js';
+import { normalQuantile } from '../stats/normalDistribution.js';
 import { linearByLinear, ordinalMeasures, OrdinalMeasures } from '../stats/ordinal.js';
 import {
   goodmanKruskalTauColsGivenRows,
@@ -28,6 +29,7 @@ import {
   yulesY,
 } from '../stats/strength.js';
 import { TwoWayTable } from '../table/twoWayTable.js';
+import { formatCount, formatExpected, formatMeasure } from '../numbers.js';
 import { effectiveSampleSize, rescaleToEffectiveSize, unweighted, Weighting } from '../table/weighting.js';
 
 export type ExactPolicy = 'auto' | 'always' | 'never';
@@ -35,20 +37,36 @@ export type ExactPolicy = 'auto' | 'always' | 'never';
 export interface AnalysisOptions {
   ordinal: boolean;
   confidence: number;
+  /** The significance level every decision of the record uses. */
+  alpha: number;
   exact: ExactPolicy;
   simulations: number;
   seed: number;
-  /** Work bound of the r×c exact test (network node expansions). */
+  /** Work bound of the r×c exact test (network node expansions); the same for pair and scan. */
   exactWorkLimit: number;
+  /**
+   * 'full': a simulated p-value draws all `simulations` tables (pair).
+   * 'deferred': it is left for the caller to draw, sequentially (scan).
+   */
+  simulation: 'full' | 'deferred';
 }
+
+/**
+ * Work bound of the r×c exact test, shared by pair and scan so that both
+ * give the same record for the same table. A table the network algorithm
+ * cannot finish within it gets a simulated p-value instead.
+ */
+export const EXACT_WORK_LIMIT = 2_000_000;
 
 export const DEFAULT_ANALYSIS_OPTIONS: AnalysisOptions = {
   ordinal: false,
   confidence: 0.95,
+  alpha: 0.05,
   exact: 'auto',
   simulations: DEFAULT_SIMULATIONS,
   seed: DEFAULT_SEED,
-  exactWorkLimit: 2_000_000,
+  exactWorkLimit: EXACT_WORK_LIMIT,
+  simulation: 'full',
 };
 
 export interface Warning {
@@ -67,23 +85,104 @@ export interface NotableCell {
   adjustedResidual: number;
   /** 'more' when the cell holds more than independence predicts. */
   direction: 'more' | 'fewer';
-  /** 2 when |r| > 2, 3 when |r| > 3. */
+  /**
+   * 2: beyond the single-cell critical value (findings.cellThreshold.single);
+   * 3: beyond the critical value adjusted for the number of cells (.adjusted).
+   */
   level: 2 | 3;
 }
 
 export type Strength = 'negligible' | 'weak' | 'moderate' | 'strong';
+export type Evidence = 'strong' | 'clear' | 'some' | 'none';
+
+/** The tests a verdict can rest on: three of `tests`, or the layered test of `stratified`. */
+export type TestName = 'pearson' | 'fisher' | 'monteCarlo' | 'cmh';
+
+/** Why a test leads. */
+export type LeadReason =
+  /** The expected counts pass the rule: the chi-square approximation holds. */
+  | 'expected-counts-large'
+  /** The expected counts fail the rule and the exact test finished. */
+  | 'exact-for-small-counts'
+  /** The expected counts fail the rule, the exact test is out of reach (or declined): simulated. */
+  | 'simulated-for-small-counts'
+  /** The expected counts fail the rule and no exact or simulated p-value exists (see `exactUnavailable`). */
+  | 'small-counts-no-exact'
+  /** --by: the layered test asks the question within levels of the variable held fixed. */
+  | 'held-fixed';
+
+/** How a p-value was reached. */
+export type Route = 'chi-square' | 'exact' | 'simulated' | 'simulated-sequential';
+
+/** Why no exact or simulated p-value exists for a sparse table. */
+export type ExactUnavailable = 'weighted' | 'non-integer' | 'exact-never' | 'no-simulations' | 'declined' | null;
+
+export interface LeadingTest {
+  test: 'pearson' | 'fisher' | 'monteCarlo';
+  pValue: number;
+  /** A sentence saying why (kept for readers of earlier versions; `reasonCode` is the fact). */
+  reason: string;
+  reasonCode: Exclude<LeadReason, 'held-fixed'>;
+  route: Route;
+  exactUnavailable: ExactUnavailable;
+}
+
+/** The decision of the record: every renderer and the exit status show this, and only this. */
+export interface Verdict {
+  test: TestName;
+  /** The leading p-value, before any adjustment for multiple testing. */
+  pValue: number;
+  reason: LeadReason;
+  route: Route;
+  /** scan: where a sequentially simulated p-value stopped and why. */
+  stoppedBecause: 'clearly-passes' | 'clearly-fails' | 'limit' | null;
+  /** scan: the leading p-value adjusted for the pairs tested. */
+  adjustment: { method: 'bh' | 'holm' | 'bonferroni' | 'none'; tests: number; pValue: number } | null;
+  /** The p-value compared with alpha: the adjusted one in scan, the leading one otherwise. */
+  decidingPValue: number;
+  alpha: number;
+  confidence: number;
+  passes: boolean;
+  /** Word for the deciding p-value: strong ≤ α/50, clear ≤ α/5, some ≤ α, none above (at α 0.05: 0.001, 0.01, 0.05; common practice). */
+  evidence: Evidence;
+  /** Word for the bias-corrected V (thresholds 0.1, 0.2, 0.4; common practice). */
+  strength: Strength | null;
+}
+
+export interface CellThreshold {
+  alpha: number;
+  /** Cells that carry distinct information: r·c, but one per mirror pair in a table with two rows or two columns. */
+  cells: number;
+  /** z at 1 − α/2: a single cell looked at on its own. */
+  single: number;
+  /** z at 1 − α/(2·cells): Bonferroni-adjusted for the cells looked at (Beasley & Schumacker 1995; Sharpe 2015). */
+  adjusted: number;
+}
+
+/** Sentence facts, in reading order; renderers put them into words. */
+export type Statement =
+  | { kind: 'held-fixed'; by: string; test: 'cmh'; pValue: number; passes: boolean; evidence: Evidence; pooledPasses: boolean; commonOddsRatio: number | null }
+  | { kind: 'association'; scope: 'table' | 'pooled'; test: 'pearson' | 'fisher' | 'monteCarlo'; pValue: number; decidingPValue: number; adjusted: boolean; passes: boolean; evidence: Evidence; strength: Strength | null; biasCorrectedV: number | null }
+  | { kind: 'diagonal'; which: 'main' | 'off'; first: [string, string]; second: [string, string]; yulesQ: number; earned: boolean; corrected: boolean }
+  | { kind: 'cell'; row: string; col: string; direction: 'more' | 'fewer'; adjustedResidual: number }
+  | { kind: 'more-cells'; count: number }
+  | { kind: 'no-cell-stands-out'; because: 'not-significant' | 'none-beyond-threshold'; critical: number }
+  | { kind: 'mirror-cells'; removed: number };
 
 export interface Findings {
   /** Strength word for the bias-corrected V (common practice thresholds 0.1 / 0.2 / 0.4). */
   strength: Strength | null;
   /** For 2×2: which diagonal holds more than its share. */
   diagonal: 'main' | 'off' | 'balanced' | null;
-  /** Cells whose adjusted residual passes ±2, largest first. */
+  /** Critical values for adjusted residuals. */
+  cellThreshold: CellThreshold;
+  /** Cells whose adjusted residual passes the single-cell critical value, largest first. */
   notableCells: NotableCell[];
-  /** The p-value the report leads with, and why. */
-  primaryTest: { test: 'pearson' | 'fisher' | 'monteCarlo'; pValue: number; reason: string };
+  /** The p-value of this table (pooled over any layer), and why it leads. */
+  primaryTest: LeadingTest;
+  /** What "In words" says, as facts. */
+  statements: Statement[];
 }
-
 export interface AnalysisRecord {
   rows: NamedVariable;
   cols: NamedVariable;
@@ -108,7 +207,7 @@ export interface AnalysisRecord {
     fisher: { pValue: number; method: string } | null;
     /** Why an exact p-value that was wanted was not computed (its work estimate and bound). */
     exactDeclined: Omit<ExactDeclined, 'status'> | null;
-    monteCarlo: MonteCarloResult | null;
+    monteCarlo: (MonteCarloResult & { sequential: boolean }) | null;
     linearByLinear: TestResult | null;
   };
   measures: {
@@ -116,11 +215,13 @@ export interface AnalysisRecord {
     contingencyC: number | null;
     correctedC: number | null;
     cramersV: number | null;
-    cramersVInterval: { lower: number; upper: number; confidence: number; method: string } | null;
+    cramersVInterval: { estimate: number; lower: number; upper: number; confidence: number; method: string } | null;
     tschuprowT: number | null;
     biasCorrectedV: number | null;
     yulesQ: number | null;
     yulesY: number | null;
+    /** True when ½ was added to every cell of a 2×2 table with a zero cell, for the odds ratio, risk ratio, Q and Y alike. */
+    zeroCellCorrection: boolean;
     oddsRatio: (IntervalEstimate & { confidence: number }) | null;
     relativeRisk: (IntervalEstimate & { confidence: number; outcome: string; exposed: string; reference: string }) | null;
     lambdaColsGivenRows: number | null;
@@ -138,6 +239,7 @@ export interface AnalysisRecord {
   percentages: Percentages;
   expectedCountRule: ExpectedCountCheck;
   findings: Findings;
+  verdict: Verdict;
   warnings: Warning[];
 }
 
@@ -149,12 +251,79 @@ export function strengthOf(v: number | null): Strength | null {
   return 'strong';
 }
 
+/** Evidence word for a p-value judged at α: strong ≤ α/50, clear ≤ α/5, some ≤ α (common practice, scaled to α). */
+export function evidenceOf(p: number, alpha: number): Evidence {
+  if (!(p <= alpha)) return 'none';
+  if (p <= alpha / 50) return 'strong';
+  if (p <= alpha / 5) return 'clear';
+  return 'some';
+}
+
+/**
+ * Critical values for adjusted residuals: z at 1 − α/2 for one cell on its
+ * own, and the Bonferroni-adjusted z at 1 − α/(2k) for k cells looked at
+ * together (Beasley & Schumacker 1995, J. Exp. Educ. 64, 79–93; Sharpe 2015,
+ * Pract. Assess. Res. Eval. 20(8)). In a table with two rows (or two
+ * columns) the cells of each column (row) mirror each other, residuals of
+ * equal size and opposite sign, so k counts one of each mirror pair.
+ */
+export function cellThresholdFor(r: number, c: number, alpha: number): CellThreshold {
+  const cells = (r === 2 ? 1 : r) * (c === 2 ? 1 : c);
+  return { alpha, cells, single: normalQuantile(1 - alpha / 2), adjusted: normalQuantile(1 - alpha / (2 * cells)) };
+}
+
 function isIntegerTable(counts: number[][]): boolean {
   return counts.every((row) => row.every((v) => Number.isInteger(v)));
 }
 
 function formatNumber(x: number): string {
-  return x.toLocaleString('en-US', { maximumFractionDigits: 1 });
+  return formatCount(Math.round(x * 10) / 10);
+}
+
+const REASONS: Record<LeadingTest['reasonCode'], string> = {
+  'expected-counts-large': 'the expected counts are large enough for the chi-square approximation',
+  'exact-for-small-counts': 'expected counts are small, so the exact test replaces the chi-square approximation',
+  'simulated-for-small-counts': 'expected counts are small and the exact test is out of reach, so a simulated exact p-value replaces the chi-square approximation',
+  'small-counts-no-exact': 'expected counts are small but no exact p-value exists for this table; treat this p-value with care',
+};
+
+function leadingTest(
+  rulePasses: boolean,
+  fisher: AnalysisRecord['tests']['fisher'],
+  simulated: { pValue: number; sequential: boolean } | null,
+  pearson: TestResult,
+  exactUnavailable: ExactUnavailable,
+): LeadingTest {
+  const lead = (test: LeadingTest['test'], pValue: number, reasonCode: LeadingTest['reasonCode'], route: Route): LeadingTest => ({
+    test,
+    pValue,
+    reason: REASONS[reasonCode],
+    reasonCode,
+    route,
+    exactUnavailable: reasonCode === 'small-counts-no-exact' ? exactUnavailable : null,
+  });
+  if (rulePasses) return lead('pearson', pearson.pValue, 'expected-counts-large', 'chi-square');
+  if (fisher !== null) return lead('fisher', fisher.pValue, 'exact-for-small-counts', 'exact');
+  if (simulated !== null) return lead('monteCarlo', simulated.pValue, 'simulated-for-small-counts', simulated.sequential ? 'simulated-sequential' : 'simulated');
+  return lead('pearson', pearson.pValue, 'small-counts-no-exact', 'chi-square');
+}
+
+/** The verdict of one table on its own (no adjustment, no layer). */
+function tableVerdict(lead: LeadingTest, options: Pick<AnalysisOptions, 'alpha' | 'confidence'>, strength: Strength | null): Verdict {
+  return {
+    test: lead.test,
+    pValue: lead.pValue,
+    reason: lead.reasonCode,
+    route: lead.route,
+    stoppedBecause: null,
+    adjustment: null,
+    decidingPValue: lead.pValue,
+    alpha: options.alpha,
+    confidence: options.confidence,
+    passes: lead.pValue <= options.alpha,
+    evidence: evidenceOf(lead.pValue, options.alpha),
+    strength,
+  };
 }
 
 /**
@@ -177,6 +346,7 @@ export function analyzeTable(
   const effectiveN = weighting.kind === 'weight' ? effectiveSampleSize(weighting) : n;
   const counts = rescaleToEffectiveSize(weightedCounts, weighting);
   const expected = expectedCounts(counts);
+  const shownExpected = expectedCounts(weightedCounts);
   const pearson = pearsonChiSquare(counts);
   const likelihoodRatio = likelihoodRatioChiSquare(counts);
   const yates = yatesChiSquare(counts);
@@ -187,7 +357,9 @@ export function analyzeTable(
   // Exact and simulated p-values.
   let fisher: AnalysisRecord['tests']['fisher'] = null;
   let exactDeclined: AnalysisRecord['tests']['exactDeclined'] = null;
-  let monteCarlo: MonteCarloResult | null = null;
+  let monteCarlo: AnalysisRecord['tests']['monteCarlo'] = null;
+  let simulationPending = false;
+  let simulationDeclined: string | null = null;
   if (integerCounts) {
     let exact: ExactOutcome | null = null;
     if (r === 2 && c === 2) {
@@ -201,84 +373,110 @@ export function analyzeTable(
       exactDeclined = declined;
     }
     const wantSimulation = options.exact === 'always' || (options.exact === 'auto' && !rule.passes);
-    const simulated = wantSimulation && fisher === null && options.simulations > 0 ? monteCarloExactTest(counts, options.simulations, options.seed) : null;
-    if (simulated?.status === 'computed') {
-      const { status: _status, ...result } = simulated;
-      monteCarlo = result;
+    if (wantSimulation && fisher === null && options.simulations > 0) {
+      if (options.simulation === 'deferred') {
+        // Drawn later, sequentially, under the same work bound as a full run.
+        const { rowTotals: rt, colTotals: ct } = margins(counts);
+        const work = options.simulations * simulationWorkPerTable(rt.filter((t) => t > 0), ct.filter((t) => t > 0));
+        if (work > DEFAULT_SIMULATION_BOUND.maxWork || n > Number.MAX_SAFE_INTEGER) simulationDeclined = `its work estimate (${work.toExponential(2)} steps) is above the bound of ${DEFAULT_SIMULATION_BOUND.maxWork.toExponential(2)}`;
+        else simulationPending = true;
+      } else {
+        const simulated = monteCarloExactTest(counts, options.simulations, options.seed);
+        if (simulated?.status === 'computed') {
+          const { status: _status, ...result } = simulated;
+          monteCarlo = { ...result, sequential: false };
+        } else if (simulated?.status === 'declined') simulationDeclined = simulated.reason;
+      }
+    }
+    if (monteCarlo !== null || simulationPending) {
       warnings.push({
         code: 'exact-out-of-reach',
-        message: `the exact test was not run (${exactDeclined?.reason ?? 'out of reach'}); a simulated p-value from ${options.simulations.toLocaleString('en-US')} random tables (seed ${options.seed}) stands in for it`,
+        message: `the exact test was not run (${exactDeclined?.reason ?? 'out of reach'}); a simulated p-value from random tables with the same margins stands in for it`,
       });
-    } else if (simulated?.status === 'declined') {
+    } else if (simulationDeclined !== null) {
       warnings.push({
         code: 'exact-declined',
-        message: `no exact p-value: ${exactDeclined === null ? '' : `the exact test was not run because ${exactDeclined.reason}, and `}the simulation was not run because ${simulated.reason}`,
+        message: `no exact p-value: ${exactDeclined === null ? '' : `the exact test was not run because ${exactDeclined.reason}, and `}the simulation was not run because ${simulationDeclined}`,
       });
     } else if (exactDeclined !== null) {
       warnings.push({ code: 'exact-declined', message: `no exact p-value: the exact test was not run because ${exactDeclined.reason}` });
     }
   }
+  const exactUnavailable: ExactUnavailable =
+    weighting.kind === 'weight' ? 'weighted' : !integerCounts ? 'non-integer' : options.exact === 'never' ? 'exact-never' : options.simulations <= 0 ? 'no-simulations' : simulationDeclined !== null || exactDeclined !== null ? 'declined' : null;
 
-  // The p-value to lead with.
-  let primaryTest: Findings['primaryTest'] = { test: 'pearson', pValue: pearson.pValue, reason: 'the expected counts are large enough for the chi-square approximation' };
-  if (!rule.passes) {
-    if (fisher !== null) primaryTest = { test: 'fisher', pValue: fisher.pValue, reason: 'expected counts are small, so the exact test replaces the chi-square approximation' };
-    else if (monteCarlo !== null) primaryTest = { test: 'monteCarlo', pValue: monteCarlo.pValue, reason: 'expected counts are small and the exact test is out of reach, so a simulated exact p-value replaces the chi-square approximation' };
-    else primaryTest = { test: 'pearson', pValue: pearson.pValue, reason: 'expected counts are small but no exact p-value was computed; treat this p-value with care' };
-  }
+  const lead = leadingTest(rule.passes, fisher, monteCarlo ?? (simulationPending ? { pValue: Number.NaN, sequential: true } : null), pearson, exactUnavailable);
 
   if (!rule.passes) {
-    const cellWord = rule.cellsBelowFive === 1 ? 'cell has' : 'cells have';
+    // The rule is judged on the table the tests use; with sampling weights
+    // that is the effective-size table, whose expected counts differ from
+    // the weighted ones shown beside the counts, so both are named.
+    const smallest = formatExpected(rule.smallestExpected);
+    const scale = weighting.kind === 'weight' ? ` on the effective-sample scale the tests use; ${formatExpected(Math.min(...shownExpected.flat()))} in the weighted table shown` : '';
+    const advice =
+      lead.test !== 'pearson'
+        ? 'the exact p-value leads instead; merging sparse levels (--recode, --other) also helps'
+        : exactUnavailable === 'weighted'
+          ? 'exact tests need whole counts, which sampling weights do not give; merge sparse levels (--recode, --other)'
+          : exactUnavailable === 'non-integer'
+            ? 'exact tests need whole counts; merge sparse levels (--recode, --other)'
+            : exactUnavailable === 'exact-never'
+              ? 'drop --exact never for an exact or simulated p-value, or merge sparse levels (--recode, --other)'
+              : exactUnavailable === 'no-simulations'
+                ? 'give --simulations more than 0 for a simulated p-value, or merge sparse levels (--recode, --other)'
+                : exactUnavailable === 'declined'
+                  ? 'the exact test and the simulation are beyond their work bounds here; merge sparse levels (--recode, --other)'
+                : 'merge sparse levels (--recode, --other)';
     warnings.push({
       code: 'low-expected',
       message:
-        `${rule.cellsBelowFive} of ${rule.cells} ${cellWord} an expected count below 5 (smallest ${rule.smallestExpected.toPrecision(3)}), ` +
-        `so the chi-square p-value may be off; ` +
-        (fisher !== null || monteCarlo !== null ? 'rely on the exact p-value, or merge sparse levels' : 'use --exact always for an exact p-value, or merge sparse levels'),
+        `sparse table: ${rule.cellsBelowFive} of ${rule.cells} expected counts are under 5 and ${rule.cellsBelowOne} under 1 (lowest ${smallest}${scale}); ` +
+        `the chi-square approximation asks for none under 1 and at most a fifth under 5 (a 2×2 table: none under 5; Cochran 1954). ${advice[0].toUpperCase()}${advice.slice(1)}`,
     });
   }
 
   const phi = phiCoefficient(pearson.statistic, effectiveN);
   const biasCorrectedV = biasCorrectedCramersV(pearson.statistic, effectiveN, r, c);
   const vInterval = cramersVInterval(pearson.statistic, pearson.df, effectiveN, r, c, options.confidence);
-  const or = oddsRatio(counts, options.confidence);
-  const rr = relativeRisk(counts, options.confidence);
-  if (or?.haldaneCorrection) {
-    warnings.push({ code: 'zero-cell', message: 'a cell is zero, so 0.5 was added to every cell before computing the odds ratio (Haldane) and its interval' });
+  const vMedian = cramersVMedianEstimate(pearson.statistic, pearson.df, effectiveN, r, c);
+  // A 2×2 table with a zero cell: ½ is added to every cell (Haldane 1956)
+  // for the odds ratio, the risk ratio, Q and Y alike, so that all four
+  // describe one table and agree in direction.
+  const zeroCell = r === 2 && c === 2 && counts.some((row) => row.some((v) => v === 0));
+  const ratioTable = zeroCell ? counts.map((row) => row.map((v) => v + 0.5)) : counts;
+  const or = oddsRatio(ratioTable, options.confidence);
+  const rr = relativeRisk(ratioTable, options.confidence);
+  const q = yulesQ(ratioTable);
+  if (zeroCell) {
+    warnings.push({ code: 'zero-cell', message: "a cell is zero, so 0.5 was added to every cell before computing the odds ratio, the risk ratio, Yule's Q and Y and their intervals (Haldane 1956)" });
   }
   if (weighting.kind === 'weight') {
     warnings.push({
       code: 'weighted',
-      message: `counts are sums of sampling weights (n = ${formatNumber(n)} from ${weighting.unweightedN.toLocaleString('en-US')} rows); tests use the table rescaled to Kish's effective sample size ${formatNumber(effectiveN)}, an approximation that ignores clustering and stratification of the survey design`,
+      message: `counts are sums of sampling weights (n = ${formatNumber(n)} from ${formatCount(weighting.unweightedN)} rows); tests use the table rescaled to Kish's effective sample size ${formatNumber(effectiveN)}, an approximation that ignores clustering and stratification of the survey design`,
     });
   } else if (!integerCounts) {
     warnings.push({ code: 'non-integer-counts', message: 'the counts are not whole numbers, so exact and simulated tests were not computed' });
   }
-  if (effectiveN >= 10_000 && pearson.pValue < 0.05 && biasCorrectedV !== null && biasCorrectedV < 0.1) {
-    warnings.push({
-      code: 'large-sample',
-      message: `with ${formatNumber(Math.round(effectiveN))} observations even a negligible association is statistically significant; judge it by its strength (bias-corrected V ${biasCorrectedV.toFixed(3)})`,
-    });
-  }
 
   const adjusted = adjustedResiduals(counts);
+  const cellThreshold = cellThresholdFor(r, c, options.alpha);
   const notableCells: NotableCell[] = [];
   adjusted.forEach((row, i) =>
     row.forEach((value, j) => {
-      if (value !== null && Math.abs(value) > 2) {
+      if (value !== null && Math.abs(value) > cellThreshold.single) {
         notableCells.push({
           row: table.rowLevels[i],
           col: table.colLevels[j],
           adjustedResidual: value,
           direction: value > 0 ? 'more' : 'fewer',
-          level: Math.abs(value) > 3 ? 3 : 2,
+          level: Math.abs(value) > cellThreshold.adjusted ? 3 : 2,
         });
       }
     }),
   );
   notableCells.sort((x, y) => Math.abs(y.adjustedResidual) - Math.abs(x.adjustedResidual));
 
-  const q = yulesQ(counts);
   const diagonal = r === 2 && c === 2 ? (q === null || q === 0 ? 'balanced' : q > 0 ? 'main' : 'off') : null;
 
   let ordinal: OrdinalMeasures | null = null;
@@ -287,8 +485,9 @@ export function analyzeTable(
     ordinal = ordinalMeasures(counts);
     lbl = linearByLinear(counts);
   }
+  const strength = strengthOf(biasCorrectedV);
 
-  return {
+  const record: AnalysisRecord = {
     rows: { name: table.rowName, levels: table.rowLevels },
     cols: { name: table.colName, levels: table.colLevels },
     n,
@@ -300,23 +499,24 @@ export function analyzeTable(
     counts: weightedCounts,
     rowTotals,
     colTotals,
-    expected: expectedCounts(weightedCounts),
+    expected: shownExpected,
     tests: { pearson, likelihoodRatio, yates, fisher, exactDeclined, monteCarlo, linearByLinear: lbl },
     measures: {
       phi,
       contingencyC: contingencyCoefficient(pearson.statistic, effectiveN),
       correctedC: correctedContingencyCoefficient(pearson.statistic, effectiveN, r, c),
       cramersV: cramersV(pearson.statistic, effectiveN, r, c),
-      cramersVInterval: vInterval === null ? null : { ...vInterval, confidence: options.confidence, method: 'noncentral-chi-square inversion' },
+      cramersVInterval: vInterval === null || vMedian === null ? null : { estimate: vMedian, ...vInterval, confidence: options.confidence, method: 'noncentral-chi-square inversion' },
       tschuprowT: tschuprowT(pearson.statistic, effectiveN, r, c),
       biasCorrectedV,
       yulesQ: q,
-      yulesY: yulesY(counts),
-      oddsRatio: or === null ? null : { ...or, confidence: options.confidence },
+      yulesY: yulesY(ratioTable),
+      zeroCellCorrection: zeroCell,
+      oddsRatio: or === null ? null : { ...or, haldaneCorrection: zeroCell, confidence: options.confidence },
       relativeRisk:
         rr === null
           ? null
-          : { ...rr, confidence: options.confidence, outcome: table.colLevels[0], exposed: table.rowLevels[0], reference: table.rowLevels[1] },
+          : { ...rr, haldaneCorrection: zeroCell, confidence: options.confidence, outcome: table.colLevels[0], exposed: table.rowLevels[0], reference: table.rowLevels[1] },
       lambdaColsGivenRows: lambdaColsGivenRows(counts),
       lambdaRowsGivenCols: lambdaRowsGivenCols(counts),
       lambdaSymmetric: lambdaSymmetric(counts),
@@ -331,7 +531,138 @@ export function analyzeTable(
     contributions: chiSquareContributions(counts, pearson.statistic),
     percentages: percentages(weightedCounts),
     expectedCountRule: rule,
-    findings: { strength: strengthOf(biasCorrectedV), diagonal, notableCells, primaryTest },
+    findings: { strength, diagonal, cellThreshold, notableCells, primaryTest: lead, statements: [] },
+    verdict: tableVerdict(lead, options, strength),
     warnings,
   };
+  if (!simulationPending) decide(record, { large: largeSampleLimit(effectiveN) });
+  return record;
+}
+
+/** Effective samples from this size on get the large-sample caution when significant but negligible (common practice). */
+function largeSampleLimit(effectiveN: number): boolean {
+  return effectiveN >= 10_000;
+}
+
+/** Whether the record still waits for a simulated p-value (analysis with simulation 'deferred'). */
+export function simulationPending(record: AnalysisRecord): boolean {
+  return record.findings.primaryTest.test === 'monteCarlo' && record.tests.monteCarlo === null;
+}
+
+/** Gives a deferred record its simulated p-value and settles its own verdict. */
+export function completeSimulation(record: AnalysisRecord, result: MonteCarloResult, stoppedBecause: Verdict['stoppedBecause']): void {
+  record.tests.monteCarlo = { ...result, sequential: true };
+  record.findings.primaryTest = { ...record.findings.primaryTest, pValue: result.pValue };
+  record.verdict = { ...record.verdict, pValue: result.pValue, decidingPValue: result.pValue, stoppedBecause };
+  decide(record, { large: largeSampleLimit(record.effectiveN) });
+}
+
+/** A deferred record whose table cannot be simulated: the chi-square p-value leads, flagged. */
+export function abandonSimulation(record: AnalysisRecord): void {
+  const lead = leadingTest(false, null, null, record.tests.pearson, null);
+  record.findings.primaryTest = lead;
+  record.verdict = tableVerdict(lead, record.verdict, record.findings.strength);
+  record.warnings = record.warnings.filter((w) => w.code !== 'exact-out-of-reach');
+  decide(record, { large: largeSampleLimit(record.effectiveN) });
+}
+
+export interface Decision {
+  /** scan: the leading p-value adjusted for the pairs tested. */
+  adjustment?: Verdict['adjustment'];
+  /** --by: the layered test decides. */
+  heldFixed?: { by: string; pValue: number; commonOddsRatio: number | null } | null;
+  large: boolean;
+}
+
+/**
+ * Settles the verdict of a record from its leading test (and, in scan, the
+ * adjustment; with --by, the layered test), and the facts "In words" states.
+ * The one place where a p-value meets alpha.
+ */
+export function decide(record: AnalysisRecord, decision: Decision): void {
+  const { alpha, confidence } = record.verdict;
+  const lead = record.findings.primaryTest;
+  const pooledDeciding = decision.adjustment && !decision.heldFixed ? decision.adjustment.pValue : lead.pValue;
+  const pooledPasses = pooledDeciding <= alpha;
+  const held = decision.heldFixed ?? null;
+  const deciding = held ? (decision.adjustment ? decision.adjustment.pValue : held.pValue) : pooledDeciding;
+  const verdict: Verdict = {
+    test: held ? 'cmh' : lead.test,
+    pValue: held ? held.pValue : lead.pValue,
+    reason: held ? 'held-fixed' : lead.reasonCode,
+    route: held ? 'chi-square' : lead.route,
+    stoppedBecause: held ? null : record.verdict.stoppedBecause,
+    adjustment: decision.adjustment ?? null,
+    decidingPValue: deciding,
+    alpha,
+    confidence,
+    passes: deciding <= alpha,
+    evidence: evidenceOf(deciding, alpha),
+    strength: record.findings.strength,
+  };
+  record.verdict = verdict;
+
+  const statements: Statement[] = [];
+  if (held) {
+    statements.push({ kind: 'held-fixed', by: held.by, test: 'cmh', pValue: held.pValue, passes: verdict.passes, evidence: verdict.evidence, pooledPasses, commonOddsRatio: held.commonOddsRatio });
+  }
+  statements.push({
+    kind: 'association',
+    scope: held ? 'pooled' : 'table',
+    test: lead.test,
+    pValue: lead.pValue,
+    decidingPValue: pooledDeciding,
+    adjusted: Boolean(decision.adjustment) && !held,
+    passes: pooledPasses,
+    evidence: evidenceOf(pooledDeciding, alpha),
+    strength: record.findings.strength,
+    biasCorrectedV: record.measures.biasCorrectedV,
+  });
+  // Claims about where the association sits are earned only when the test
+  // that decides rejects independence (and, with a layer, the pooled one too).
+  const earned = verdict.passes && pooledPasses;
+  const q = record.measures.yulesQ;
+  const { findings, rows, cols } = record;
+  if ((findings.diagonal === 'main' || findings.diagonal === 'off') && q !== null && Math.abs(q) >= 0.1) {
+    const [r1, r2] = rows.levels;
+    const [c1, c2] = cols.levels;
+    statements.push({
+      kind: 'diagonal',
+      which: findings.diagonal,
+      first: findings.diagonal === 'main' ? [r1, c1] : [r1, c2],
+      second: findings.diagonal === 'main' ? [r2, c2] : [r2, c1],
+      yulesQ: q,
+      earned,
+      corrected: record.measures.zeroCellCorrection,
+    });
+  }
+  const twoByTwo = rows.levels.length === 2 && cols.levels.length === 2;
+  if (!twoByTwo) {
+    if (!earned) statements.push({ kind: 'no-cell-stands-out', because: 'not-significant', critical: findings.cellThreshold.adjusted });
+    else {
+      const beyond = findings.notableCells.filter((cell) => cell.level === 3);
+      // With two rows, the cells of a column mirror each other: say it once, for the cell above expectation.
+      const mirror = rows.levels.length === 2 || cols.levels.length === 2;
+      const mention = mirror ? beyond.filter((cell) => cell.direction === 'more') : beyond;
+      if (mention.length === 0) statements.push({ kind: 'no-cell-stands-out', because: 'none-beyond-threshold', critical: findings.cellThreshold.adjusted });
+      for (const cell of mention.slice(0, 6)) statements.push({ kind: 'cell', row: cell.row, col: cell.col, direction: cell.direction, adjustedResidual: cell.adjustedResidual });
+      if (mention.length > 6) statements.push({ kind: 'more-cells', count: mention.length - 6 });
+      if (mirror && beyond.length > mention.length) statements.push({ kind: 'mirror-cells', removed: beyond.length - mention.length });
+    }
+  }
+  record.findings.statements = statements;
+
+  record.warnings = record.warnings.filter((w) => w.code !== 'large-sample');
+  const v = record.measures.biasCorrectedV;
+  if (decision.large && pooledPasses && v !== null && v < 0.1) {
+    record.warnings.push({
+      code: 'large-sample',
+      message: `with ${formatNumber(Math.round(record.effectiveN))} observations even a negligible association is statistically significant; judge it by its strength (bias-corrected V ${formatMeasure(v)})`,
+    });
+  }
+}
+
+/** The large-sample caution applies from this effective size on. */
+export function isLargeSample(record: Pick<AnalysisRecord, 'effectiveN'>): boolean {
+  return largeSampleLimit(record.effectiveN);
 }

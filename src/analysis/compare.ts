@@ -4,7 +4,8 @@ import { noThreeWayInteraction } from '../stats/threeWay.js';
 import { compareNatural } from '../table/naturalOrder.js';
 import { dropEmptyLevels, relabelTable, TwoWayTable } from '../table/twoWayTable.js';
 import { rescaleToEffectiveSize, Weighting } from '../table/weighting.js';
-import { AnalysisOptions, AnalysisRecord, analyzeTable, Warning } from './analyzeTable.js';
+import { AnalysisOptions, AnalysisRecord, analyzeTable, Evidence, evidenceOf, Warning } from './analyzeTable.js';
+import { formatP } from '../numbers.js';
 import type { InputSummary } from './report.js';
 import { TOOL_VERSION } from '../version.js';
 
@@ -37,6 +38,13 @@ export interface CompareReport {
   rowShift: TestResult | null;
   colShift: TestResult | null;
   deltaBiasCorrectedV: number | null;
+  /** The decision: did the association change at alpha? null when the change test cannot be computed. */
+  verdict: { alpha: number; test: ChangeTest['method']; pValue: number; changed: boolean; evidence: Evidence } | null;
+  /** Margins judged at alpha: did the row (column) distribution shift? */
+  rowShifted: boolean | null;
+  colShifted: boolean | null;
+  /** With --weight: the tests use each period's table rescaled to its effective sample size. */
+  weighted: boolean;
   /** Levels seen in one period only. */
   onlyBefore: { rows: string[]; cols: string[] };
   onlyAfter: { rows: string[]; cols: string[] };
@@ -107,9 +115,13 @@ export function comparePeriods(before: PeriodInput, after: PeriodInput, options:
   const v = (r: PeriodRecord) => (r.testable ? r.measures.biasCorrectedV : null);
   const vb = v(beforeRecord);
   const va = v(afterRecord);
-  if (change && change.pValue < 0.05) {
-    warnings.push({ code: 'association-changed', message: `the association between ${before.table.rowName} and ${before.table.colName} changed between ${before.label} and ${after.label} (p ${change.pValue.toPrecision(3)})` });
+  const alpha = options.alpha;
+  const verdict = change ? { alpha, test: change.method, pValue: change.pValue, changed: change.pValue <= alpha, evidence: evidenceOf(change.pValue, alpha) } : null;
+  if (verdict?.changed) {
+    warnings.push({ code: 'association-changed', message: `the association between ${before.table.rowName} and ${before.table.colName} changed between ${before.label} and ${after.label} (p ${formatP(verdict.pValue)}, at most α ${alpha})` });
   }
+  const rowShift = homogeneity(rowMargins);
+  const colShift = homogeneity(colMargins);
   return {
     tool: { name: 'tabsight', version: TOOL_VERSION },
     command: 'compare',
@@ -119,9 +131,13 @@ export function comparePeriods(before: PeriodInput, after: PeriodInput, options:
     after: afterRecord,
     change,
     interaction,
-    rowShift: homogeneity(rowMargins),
-    colShift: homogeneity(colMargins),
+    rowShift,
+    colShift,
     deltaBiasCorrectedV: vb !== null && va !== null ? va - vb : null,
+    verdict,
+    rowShifted: rowShift ? rowShift.pValue <= alpha : null,
+    colShifted: colShift ? colShift.pValue <= alpha : null,
+    weighted: before.weighting.kind === 'weight' || after.weighting.kind === 'weight',
     onlyBefore,
     onlyAfter,
     warnings,

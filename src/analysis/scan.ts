@@ -4,7 +4,9 @@ import { EncodedColumn, recodeColumn } from '../table/encodedColumn.js';
 import { OrderedColumn, orderColumn } from '../table/orderedColumn.js';
 import { relabelTable } from '../table/twoWayTable.js';
 import { analyzeStrata, StratifiedSummary, StratumRecord } from './stratify.js';
-import { AnalysisOptions, AnalysisRecord, analyzeTable } from './analyzeTable.js';
+import { AnalysisOptions, AnalysisRecord, analyzeTable, decide, isLargeSample } from './analyzeTable.js';
+import { simulateSequentially } from './simulate.js';
+import { decideHeldFixed } from './report.js';
 import type { InputSummary } from './report.js';
 import { TOOL_VERSION } from '../version.js';
 
@@ -62,8 +64,10 @@ export interface ScanReport {
   pairs: ScanPair[];
   skipped: SkippedColumn[];
   untestable: UntestablePair[];
-  /** The layer held fixed, when --by was given. */
+  /** The variable held fixed, when --by was given. */
   by: string | null;
+  /** With --weight or --freq: how rows were weighted ("none" otherwise). */
+  weighting: 'none' | 'weight' | 'freq';
 }
 
 const IDENTIFIER_SHARE = 0.9;
@@ -139,15 +143,26 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
       } else records.push(record);
     }
   }
-  const adjusted = adjustPValues(records.map((r) => r.tests.pearson.pValue), options.adjustment);
+  // The p-value that decides each pair: the layered test's with --by (never
+  // simulated), else the pair's leading p-value, whose simulated ones are
+  // drawn only as far as the family's decision needs.
+  const { alpha } = options;
+  if (layer) {
+    for (const record of records) simulateSequentially([record], 'none', alpha, options.analysis.simulations, options.analysis.seed);
+  } else simulateSequentially(records, options.adjustment, alpha, options.analysis.simulations, options.analysis.seed);
+  const deciding = records.map((r) => (r.layered?.stratified.cmh ? r.layered.stratified.cmh.pValue : r.findings.primaryTest.pValue));
+  const adjusted = adjustPValues(deciding, options.adjustment);
   let pairs: ScanPair[] = records.map((record, k) => {
+    const adjustment = { method: options.adjustment, tests: records.length, pValue: adjusted[k] };
+    if (record.layered) decideHeldFixed(record, record.layered.stratified, adjustment);
+    else decide(record, { adjustment, large: isLargeSample(record) });
     const { counts, rowTotals, colTotals, expected, residuals, contributions, percentages, layered, ...rest } = record;
-    const pair: ScanPair = { ...rest, rank: 0, pAdjusted: adjusted[k], passes: adjusted[k] <= options.alpha };
+    const pair: ScanPair = { ...rest, rank: 0, pAdjusted: adjusted[k], passes: record.verdict.passes };
     if (layered) pair.stratified = layered.stratified;
     if (options.full) Object.assign(pair, { counts, rowTotals, colTotals, expected, residuals, contributions, percentages }, layered ? { strata: layered.strata } : {});
     return pair;
   });
-  pairs.sort((x, y) => (y.measures.biasCorrectedV ?? -1) - (x.measures.biasCorrectedV ?? -1) || x.tests.pearson.pValue - y.tests.pearson.pValue);
+  pairs.sort((x, y) => (y.measures.biasCorrectedV ?? -1) - (x.measures.biasCorrectedV ?? -1) || x.verdict.pValue - y.verdict.pValue);
   pairs.forEach((p, k) => (p.rank = k + 1));
   const pairsPassing = pairs.filter((p) => p.passes).length;
   if (options.top !== null) pairs = pairs.slice(0, options.top);
@@ -165,5 +180,6 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
     skipped,
     untestable,
     by: layer ? layer.name : null,
+    weighting: records[0]?.weighting ?? options.weights?.kind ?? 'none',
   };
 }

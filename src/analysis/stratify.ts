@@ -1,8 +1,10 @@
 import { TestResult } from '../stats/chiSquareTests.js';
+import { formatP, formatRatio } from '../numbers.js';
 import { breslowDay, CommonOddsRatio, cochranMantelHaenszel, mantelHaenszelOddsRatio } from '../stats/stratified.js';
 import { dropEmptyLevels, TwoWayTable } from '../table/twoWayTable.js';
 import { rescaleToEffectiveSize, Weighting } from '../table/weighting.js';
 import { AnalysisOptions, AnalysisRecord, analyzeTable, Warning } from './analyzeTable.js';
+import { simulateSequentially } from './simulate.js';
 
 export interface StratumInput {
   level: string;
@@ -43,6 +45,10 @@ export function analyzeStrata(
     }
     return { level: s.level, testable: true, ...analyzeTable(own, 0, options, s.weighting) };
   });
+  // Deferred (scan): each layer's simulated p-value is drawn until it is clearly on one side of alpha.
+  if (options.simulation === 'deferred') {
+    for (const record of records) if (record.testable) simulateSequentially([record], 'none', options.alpha, options.simulations, options.seed);
+  }
   const scaled = strata.map((s) => rescaleToEffectiveSize(s.table.counts, s.weighting));
   const cmh = cochranMantelHaenszel(scaled);
   const twoByTwo = pooled.rows.levels.length === 2 && pooled.cols.levels.length === 2;
@@ -60,22 +66,23 @@ export function analyzeStrata(
       warnings.push({
         code: 'reversal',
         message:
-          `the layers reverse the association: pooled over ${by}, "${r1}" has ${a > 0 ? 'higher' : 'lower'} odds of "${c1}" than "${r2}" (odds ratio ${pooledOddsRatio.toFixed(3)}), ` +
-          `but within levels of ${by} the odds run the other way (common odds ratio ${commonOddsRatio.estimate.toFixed(3)}); the pooled table misleads here`,
+          `holding ${by} fixed reverses the association: pooled over ${by}, "${r1}" has ${a > 0 ? 'higher' : 'lower'} odds of "${c1}" than "${r2}" (odds ratio ${formatRatio(pooledOddsRatio)}), ` +
+          `but within levels of ${by} the odds run the other way (common odds ratio ${formatRatio(commonOddsRatio.estimate)}); the pooled table misleads here`,
       });
     }
   }
+  const alpha = options.alpha;
   if (cmh !== null) {
-    const pooledSignificant = pooled.findings.primaryTest.pValue < 0.05;
-    const layeredSignificant = cmh.pValue < 0.05;
+    const pooledSignificant = pooled.findings.primaryTest.pValue <= alpha;
+    const layeredSignificant = cmh.pValue <= alpha;
     if (pooledSignificant && !layeredSignificant) {
-      warnings.push({ code: 'layer-explains', message: `the association in the pooled table is not there once ${by} is held fixed (layered test p ${cmh.pValue.toPrecision(3)}); ${by} may account for it` });
+      warnings.push({ code: 'layer-explains', message: `the association of the table pooled over ${by} is not there within its levels (Cochran–Mantel–Haenszel p ${formatP(cmh.pValue)}, above α ${alpha}); ${by} may account for it` });
     } else if (!pooledSignificant && layeredSignificant) {
-      warnings.push({ code: 'layer-reveals', message: `holding ${by} fixed reveals an association that the pooled table hides (layered test p ${cmh.pValue.toPrecision(3)})` });
+      warnings.push({ code: 'layer-reveals', message: `within levels of ${by} there is an association that the pooled table hides (Cochran–Mantel–Haenszel p ${formatP(cmh.pValue)}, at most α ${alpha})` });
     }
   }
-  if (bd !== null && bd.pValue < 0.05) {
-    warnings.push({ code: 'heterogeneous-odds', message: `the odds ratio differs between levels of ${by} (Breslow–Day p ${bd.pValue.toPrecision(3)}), so one common odds ratio summarises unlike layers` });
+  if (bd !== null && bd.pValue <= alpha) {
+    warnings.push({ code: 'heterogeneous-odds', message: `the odds ratio differs between levels of ${by} (Breslow–Day p ${formatP(bd.pValue)}, at most α ${alpha}), so one common odds ratio summarises unlike groups` });
   }
   return { strata: records, stratified: { by, levels: strata.length, cmh, commonOddsRatio, breslowDay: bd, pooledOddsRatio }, warnings };
 }

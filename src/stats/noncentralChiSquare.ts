@@ -132,3 +132,17 @@ export function cramersVInterval(chiSquare: number, df: number, n: number, r: nu
   const toV = (lambda: number) => Math.min(1, Math.sqrt(lambda / (n * (m - 1))));
   return { lower: toV(lower), upper: toV(upper) };
 }
+
+/**
+ * Median-unbiased estimate of the population Cramér's V: √(λ̂ / (n (m − 1)))
+ * with λ̂ solving P(X ≥ x; λ̂) = ½, 0 when even λ = 0 gives less (the point
+ * the pivot interval above is built around, Smithson 2003, ch. 4). Because
+ * P(X ≥ x; λ) rises with λ, it always lies between the interval's limits,
+ * whatever the confidence level; the sample V need not.
+ */
+export function cramersVMedianEstimate(chiSquare: number, df: number, n: number, r: number, c: number): number | null {
+  const m = Math.min(r, c);
+  if (!(n > 0) || m < 2 || df < 1) return null;
+  const { lower } = noncentralityInterval(chiSquare, df, 0);
+  return Math.min(1, Math.sqrt(lower / (n * (m - 1))));
+}
