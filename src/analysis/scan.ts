@@ -180,6 +180,6 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
     skipped,
     untestable,
     by: layer ? layer.name : null,
-    weighting: records[0]?.weighting ?? options.weights?.kind ?? 'none',
+    weighting: records[0]?.weighting ?? 'none',
   };
 }

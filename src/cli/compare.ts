@@ -24,7 +24,8 @@ import {
   readerFor,
   tablePlan,
 } from './options.js';
-import { CliIo, emit, painter, writeSideFile } from './output.js';
+import { CELL_VIEWS, CellView } from '../render/pairText.js';
+import { CliIo, emit, pageWidth, painter, writeSideFile } from './output.js';
 import type { Outcome } from './outcome.js';
 
 export interface ComparePlan {
@@ -37,6 +38,8 @@ export interface ComparePlan {
   analysis: AnalysisOptions;
   alpha: number;
   format: CompareFormat;
+  /** What the cells of the text tables show. */
+  cells: CellView;
   report: ReportPlan;
 }
 
@@ -44,6 +47,7 @@ interface RawCompareOptions extends RawTableOptions, RawReportOptions {
   period?: string;
   levels?: string;
   format: CompareFormat;
+  cells: CellView;
 }
 
 export function comparePlan(beforeFile: string, afterFile: string | undefined, raw: RawCompareOptions): ComparePlan {
@@ -58,7 +62,7 @@ export function comparePlan(beforeFile: string, afterFile: string | undefined, r
     if (afterFile === undefined) throw usageError('compare needs two files (before and after), or one file with --period');
     periods = { kind: 'files', before: beforeFile, after: afterFile };
   }
-  return { periods, reader, table: { ...table, allowDegenerate: true }, order, analysis, alpha, format: raw.format, report: reportPlan(raw) };
+  return { periods, reader, table: { ...table, allowDegenerate: true }, order, analysis, alpha, format: raw.format, cells: raw.cells, report: reportPlan(raw) };
 }
 
 export function compareCommand(accept: (plan: ComparePlan) => void): Command {
@@ -73,7 +77,8 @@ export function compareCommand(accept: (plan: ComparePlan) => void): Command {
     .option('--row-order <levels>', 'comma-separated order of the row levels')
     .option('--col-order <levels>', 'comma-separated order of the column levels')
     .addOption(new Option('--format <format>', 'output format').choices(Object.keys(COMPARE_RENDERERS)).default('text'))
-    .option('--alpha <level>', 'significance level for the change test and --exit-status', '0.05')
+    .option('--alpha <level>', 'significance level of every decision in the report (and of --exit-status)', '0.05')
+    .addOption(new Option('--cells <view>', 'what the cells of the text tables show: compact (count and row share), counts, row, col, total (shares), expected, residuals').choices(CELL_VIEWS).default('compact'))
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addSurveyOptions(command, false);
@@ -133,11 +138,12 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
   }
   const report = comparePeriods(before, after, plan.analysis, plan.order);
   report.warnings.unshift(...unknownOrderWarnings('--row-order', (plan.order.rows ?? []).filter((l) => !report.rows.levels.includes(l))));
-  const text = COMPARE_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, plan.report.output !== undefined), alpha: plan.alpha });
+  const toFile = plan.report.output !== undefined;
+  const text = COMPARE_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: plan.cells });
   if (plan.report.plot !== undefined) {
     const pictures = [report.before, report.after].filter((r) => r.testable).map((r) => residualHeatMap(r as never, `Adjusted residuals, ${r.label}`));
     writeSideFile(io, plan.report.plot, stackSvg(pictures));
   }
   await emit(io, text, plan.report.output);
-  return { found: report.change !== null && report.change.pValue <= plan.alpha, exitStatusWanted: plan.report.exitStatus };
+  return { found: report.verdict?.changed === true, exitStatusWanted: plan.report.exitStatus };
 }

@@ -47,11 +47,11 @@ export function inputSummary(
   };
 }
 
-export function addAnalysisOptions(command: Command, defaultSimulations = DEFAULT_ANALYSIS_OPTIONS.simulations): Command {
+export function addAnalysisOptions(command: Command): Command {
   return command
     .option('--ordinal', 'both variables are ordered, in the level order in force: adds ordinal measures and the linear-by-linear test')
     .addOption(new Option('--exact <when>', 'exact p-values: auto (when counts are small), always, never').choices(['auto', 'always', 'never']).default('auto'))
-    .option('--simulations <n>', 'random tables for the simulated exact p-value', String(defaultSimulations))
+    .option('--simulations <n>', 'random tables for a simulated exact p-value (scan: at most this many, fewer once the decision is clear)', String(DEFAULT_ANALYSIS_OPTIONS.simulations))
     .option('--seed <n>', 'seed of the random tables, so runs repeat', String(DEFAULT_ANALYSIS_OPTIONS.seed))
     .option('--confidence <level>', 'confidence level of the intervals', '0.95');
 }
@@ -118,16 +118,20 @@ export interface RawAnalysisOptions {
   simulations: string;
   seed: string;
   confidence: string;
+  alpha: string;
 }
 
-export function analysisPlan(raw: RawAnalysisOptions, exactWorkLimit = DEFAULT_ANALYSIS_OPTIONS.exactWorkLimit): AnalysisOptions {
+/** The analysis options, parsed once; the same exact-test bound in every command, so pair and scan give the same record. */
+export function analysisPlan(raw: RawAnalysisOptions, simulation: AnalysisOptions['simulation'] = 'full'): AnalysisOptions {
   return {
     ordinal: raw.ordinal === true,
     exact: raw.exact as ExactPolicy,
     simulations: positiveInteger(raw.simulations, '--simulations', 0),
     seed: positiveInteger(raw.seed, '--seed', 0),
     confidence: probability(raw.confidence, '--confidence'),
-    exactWorkLimit,
+    alpha: probability(raw.alpha, '--alpha'),
+    exactWorkLimit: DEFAULT_ANALYSIS_OPTIONS.exactWorkLimit,
+    simulation,
   };
 }
 

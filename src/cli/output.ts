@@ -103,3 +103,10 @@ export async function emit(io: CliIo, text: string, output: string | undefined):
   if (output !== undefined) writeFileAtomically(output, text, injectedFailure(io));
   else await writeOut(io, text);
 }
+
+/** Page width of a text report: the terminal's when printing to one (at least 60 columns), 80 otherwise. */
+export function pageWidth(io: CliIo, toFile: boolean): number {
+  const columns = (io.stdout as { columns?: number }).columns;
+  if (!toFile && io.stdout.isTTY === true && typeof columns === 'number' && columns > 0) return Math.max(60, columns);
+  return 80;
+}

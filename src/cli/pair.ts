@@ -7,7 +7,8 @@ import { checkReadable, inputSource } from '../io/source.js';
 import { PAIR_RENDERERS, PairFormat } from '../render/renderers.js';
 import { mosaicPlot, residualHeatMap, stackSvg } from '../render/svg.js';
 import { addAnalysisOptions, addReaderOptions, addReportOptions, addSummedWeightsOption, addSurveyOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan, readerFor } from './options.js';
-import { CliIo, emit, painter, writeSideFile } from './output.js';
+import { CliIo, emit, pageWidth, painter, writeSideFile } from './output.js';
+import { CELL_VIEWS, CellView } from '../render/pairText.js';
 import type { Outcome } from './outcome.js';
 
 export interface PairPlan {
@@ -19,16 +20,19 @@ export interface PairPlan {
   analysis: AnalysisOptions;
   alpha: number;
   format: PairFormat;
+  /** What the cells of the text table show. */
+  cells: CellView;
   report: ReportPlan;
 }
 
 interface RawPairOptions extends RawTableOptions, RawReportOptions {
   format: PairFormat;
+  cells: CellView;
 }
 
 export function pairPlan(file: string | undefined, raw: RawPairOptions): PairPlan {
   const { reader, analysis, table, order, alpha } = tablePlan(raw);
-  return { input: file ?? '-', reader, table: { ...table, rowOrder: order.rows, colOrder: order.cols }, analysis, alpha, format: raw.format, report: reportPlan(raw) };
+  return { input: file ?? '-', reader, table: { ...table, rowOrder: order.rows, colOrder: order.cols }, analysis, alpha, format: raw.format, cells: raw.cells, report: reportPlan(raw) };
 }
 
 export function pairCommand(accept: (plan: PairPlan) => void): Command {
@@ -40,7 +44,8 @@ export function pairCommand(accept: (plan: PairPlan) => void): Command {
     .option('--row-order <levels>', 'comma-separated order of the row levels (others follow in natural order)')
     .option('--col-order <levels>', 'comma-separated order of the column levels')
     .addOption(new Option('--format <format>', 'output format').choices(Object.keys(PAIR_RENDERERS)).default('text'))
-    .option('--alpha <level>', 'significance level for --exit-status', '0.05')
+    .option('--alpha <level>', 'significance level of every decision in the report (and of --exit-status)', '0.05')
+    .addOption(new Option('--cells <view>', 'what the cells of the text table show: compact (count and row share), counts, row, col, total (shares), expected, residuals').choices(CELL_VIEWS).default('compact'))
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addSurveyOptions(command);
@@ -56,13 +61,13 @@ Examples:
   tabsight pair survey.csv --rows visit_frequency --cols satisfaction --ordinal \\
     --row-order 'rarely,a few times a year,monthly,weekly'
 
-Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no association at --alpha (only with --exit-status).`,
+Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no association at --alpha (only with --exit-status): the decision the report shows.`,
   );
   command.action((file: string | undefined, raw: RawPairOptions) => accept(pairPlan(file, raw)));
   return command;
 }
 
-/** Counts the table, analyses it, writes the report; found = the leading p-value is at most --alpha. */
+/** Counts the table, analyses it, writes the report; found = the record's verdict passes. */
 export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
   checkReadable(source);
@@ -75,9 +80,11 @@ export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
     [...unknownOrderWarnings('--row-order', counted.unknownRowLevels), ...unknownOrderWarnings('--col-order', counted.unknownColLevels)],
     counted.weighting,
     counted.strata && counted.by ? { by: counted.by, strata: counted.strata } : undefined,
+    { rows: plan.table.rowOrder ? 'given' : 'natural', cols: plan.table.colOrder ? 'given' : 'natural' },
   );
-  const text = PAIR_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, plan.report.output !== undefined), alpha: plan.alpha });
+  const toFile = plan.report.output !== undefined;
+  const text = PAIR_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: plan.cells });
   if (plan.report.plot !== undefined) writeSideFile(io, plan.report.plot, stackSvg([residualHeatMap(report), mosaicPlot(report)]));
   await emit(io, text, plan.report.output);
-  return { found: report.findings.primaryTest.pValue <= plan.alpha, exitStatusWanted: plan.report.exitStatus };
+  return { found: report.verdict.passes, exitStatusWanted: plan.report.exitStatus };
 }

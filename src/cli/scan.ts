@@ -9,7 +9,7 @@ import { SCAN_RENDERERS, ScanFormat } from '../render/renderers.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
 import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary, readerFor } from './options.js';
 import { recodesByColumn } from '../io/rowRules.js';
-import { CliIo, emit, painter, writeSideFile } from './output.js';
+import { CliIo, emit, pageWidth, painter, writeSideFile } from './output.js';
 import type { Outcome } from './outcome.js';
 import { stackSvg, strengthChart } from '../render/svg.js';
 
@@ -45,7 +45,7 @@ export interface ScanPlan {
 
 export function scanPlan(file: string | undefined, raw: RawScanOptions): ScanPlan {
   const reader = readerPlan(raw);
-  const analysis = analysisPlan(raw, SCAN_EXACT_WORK);
+  const analysis = analysisPlan(raw, 'deferred');
   const bins = raw.bins === undefined ? null : positiveInteger(raw.bins, '--bins', 2);
   const alpha = probability(raw.alpha, '--alpha');
   const top = raw.top === undefined ? null : positiveInteger(raw.top, '--top');
@@ -66,9 +66,6 @@ export function scanPlan(file: string | undefined, raw: RawScanOptions): ScanPla
   };
 }
 
-/** A scan runs many tables: a smaller exact-test budget and fewer random tables per sparse pair. */
-export const SCAN_SIMULATIONS = 10_000;
-export const SCAN_EXACT_WORK = 100_000;
 
 /** Progress on stderr, only for a terminal and only once the work takes more than a moment. */
 function progressReporter(io: CliIo): { tick: (rows: number) => void; done: () => void } {
@@ -97,7 +94,7 @@ export function scanCommand(accept: (plan: ScanPlan) => void): Command {
     .option('--exclude <names>', 'comma-separated columns to leave out')
     .option('--bins <k>', 'cut numeric columns with many values into k equal-frequency bins')
     .addOption(new Option('--adjust <method>', 'multiple-testing adjustment of the p-values').choices(['bh', 'holm', 'bonferroni', 'none']).default('bh'))
-    .option('--alpha <level>', 'a pair passes when its adjusted p-value is at most this', '0.05')
+    .option('--alpha <level>', 'a pair passes when its adjusted leading p-value is at most this', '0.05')
     .option('--top <k>', 'keep only the k strongest pairs')
     .option('--max-columns <n>', 'refuse a file with more candidate columns than this', '300')
     .option('--full', 'include each pair\'s counts, expected counts, residuals and percentages (json)')
@@ -105,7 +102,7 @@ export function scanCommand(accept: (plan: ScanPlan) => void): Command {
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addSurveyOptions(command);
-  addAnalysisOptions(command, SCAN_SIMULATIONS);
+  addAnalysisOptions(command);
   addReportOptions(command);
   command.addHelpText(
     'after',
@@ -159,7 +156,8 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
     const countPair = await encoded.countPairs(prepared.ordered, prepared.layer);
     return scorePairs(prepared, encoded.rows, inputSummary(source.label, encoded), options, countPair);
   });
-  const text = SCAN_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, plan.report.output !== undefined), alpha: plan.alpha });
+  const toFile = plan.report.output !== undefined;
+  const text = SCAN_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: 'compact' });
   if (plan.report.plot !== undefined) writeSideFile(io, plan.report.plot, stackSvg([strengthChart(report)]));
   await emit(io, text, plan.report.output);
   return { found: report.pairsPassing > 0, exitStatusWanted: plan.report.exitStatus };

@@ -1,43 +1,81 @@
 import type { ChalkInstance } from 'chalk';
 import type { CompareReport, PeriodRecord } from '../analysis/compare.js';
-import { clip, formatCount, formatMeasure, formatP, formatSigned, formatStatistic, padLeft, padRight } from './format.js';
-import { CAUTION, wrap } from './pairText.js';
+import { formatCount, formatMeasure, formatP, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';
+import { renderGrid } from './grid.js';
+import { glued, wrapText } from './layout.js';
+import { cautionLines, DEFAULT_TEXT, heading, tableView, TextOptions } from './pairText.js';
+import { comparison, evidenceWords, testName } from './words.js';
 
-function value(r: PeriodRecord, f: (x: Extract<PeriodRecord, { testable: true }>) => string): string {
-  return r.testable ? f(r) : '—';
+type Testable = Extract<PeriodRecord, { testable: true }>;
+
+export function changeTestName(method: 'breslow-day' | 'no-three-way-interaction'): string {
+  return method === 'breslow-day' ? 'Breslow–Day test of equal odds ratios' : 'G² test of no three-way interaction';
 }
 
-export function renderCompareText(report: CompareReport, paint: ChalkInstance, alpha: number, width = 80): string {
+/** The decision of a comparison in words: did the association change, and did either margin shift? */
+export function compareHeadline(report: CompareReport): string {
+  const v = report.verdict;
+  if (!v) return 'Whether the association changed cannot be tested for these tables';
+  return v.changed
+    ? `The association changed between the periods (${evidenceWords(v.evidence)}): ${comparison(v.pValue, v.alpha, true)}, ${changeTestName(v.test)}`
+    : `No evidence that the association changed: ${comparison(v.pValue, v.alpha, false)}, ${changeTestName(v.test)}`;
+}
+
+export function shiftWords(report: CompareReport, side: 'rows' | 'cols'): string {
+  const test = side === 'rows' ? report.rowShift : report.colShift;
+  const shifted = side === 'rows' ? report.rowShifted : report.colShifted;
+  const name = side === 'rows' ? report.rows.name : report.cols.name;
+  if (!test || shifted === null) return `${name}: its distribution cannot be compared`;
+  const alpha = report.verdict?.alpha;
+  return `${name}: ${shifted ? 'its distribution shifted' : 'no evidence its distribution shifted'} (${alpha === undefined ? glued('p', formatP(test.pValue)) : comparison(test.pValue, alpha, shifted)}, chi-square ${glued('df', String(test.df))})`;
+}
+
+export function renderCompareText(report: CompareReport, paint: ChalkInstance, options: TextOptions = DEFAULT_TEXT): string {
+  const width = options.width;
   const out: string[] = [];
   const { before, after } = report;
-  out.push(paint.bold(`${report.rows.name} × ${report.cols.name}: ${before.label} against ${after.label}`));
+  out.push(...wrapText(`${report.rows.name} × ${report.cols.name}: ${before.label} against ${after.label}`, width).map((l) => paint.bold(l)));
+  if (report.weighted) out.push(...wrapText('Counts are sums of sampling weights; each period is tested on its table rescaled to its effective sample size.', width).map((l) => paint.dim(l)));
   out.push('');
-  const col = 20;
-  const line = (label: string, a: string, b: string, change = '') => padRight(label, 26) + padLeft(a, col - 4) + padLeft(b, col - 4) + padLeft(change, 14);
-  out.push(paint.bold(line('', clip(before.label, col - 6), clip(after.label, col - 6), 'change')));
-  out.push(line('observations', formatCount(before.testable ? before.n : before.n), formatCount(after.testable ? after.n : after.n)));
-  out.push(line('Pearson chi-square', value(before, (r) => formatStatistic(r.tests.pearson.statistic)), value(after, (r) => formatStatistic(r.tests.pearson.statistic))));
-  out.push(line('leading p-value', value(before, (r) => formatP(r.findings.primaryTest.pValue)), value(after, (r) => formatP(r.findings.primaryTest.pValue))));
-  out.push(line('bias-corrected V', value(before, (r) => formatMeasure(r.measures.biasCorrectedV)), value(after, (r) => formatMeasure(r.measures.biasCorrectedV)), formatSigned(report.deltaBiasCorrectedV, 3)));
-  out.push(line("Cramér's V", value(before, (r) => formatMeasure(r.measures.cramersV)), value(after, (r) => formatMeasure(r.measures.cramersV))));
-  out.push('');
-  out.push(paint.bold.underline('Did it change?'));
-  if (report.change) {
-    const name = report.change.method === 'breslow-day' ? 'same odds ratio in both (Breslow–Day)' : 'same association in both (G², no three-way interaction)';
-    out.push('  ' + padRight(name, 56) + `df ${report.change.df}   p ${formatP(report.change.pValue)}`);
-    const verdict = report.change.pValue <= alpha ? `The association changed between the periods (p ${formatP(report.change.pValue)} ≤ ${alpha}).` : `No evidence that the association changed (p ${formatP(report.change.pValue)} > ${alpha}).`;
-    out.push(...wrap(verdict, width, '  '));
-  } else out.push('  the change test cannot be computed for these tables');
-  const shift = (label: string, t: CompareReport['rowShift']) => out.push('  ' + padRight(label, 56) + (t ? `df ${t.df}   p ${formatP(t.pValue)}` : '—'));
-  shift(`${clip(report.rows.name, 30)} distribution shifted?`, report.rowShift);
-  shift(`${clip(report.cols.name, 30)} distribution shifted?`, report.colShift);
-  for (const r of [before, after]) if (!r.testable) out.push(...wrap(`! ${r.label}: ${r.reason}`, width, '  ').map((l) => paint.yellow(l)));
-  if (report.warnings.length > 0) {
-    out.push('');
-    out.push(paint.bold.underline('Checks'));
-    for (const w of report.warnings) out.push(...wrap(`! ${w.message}`, width, '  ').map((l) => paint.yellow(l)));
+  out.push(...wrapText(`${report.verdict?.changed ? '■' : '□'} ${compareHeadline(report)}`, width, '', '  ').map((l) => paint.bold(l)));
+  out.push(...wrapText(shiftWords(report, 'rows'), width, '  ', '    '));
+  out.push(...wrapText(shiftWords(report, 'cols'), width, '  ', '    '));
+
+  out.push(...heading(paint, 'Side by side', width));
+  const value = (r: PeriodRecord, f: (x: Testable) => string) => (r.testable ? f(r) : UNDEFINED);
+  const figures: [string, (r: PeriodRecord) => string, string][] = [
+    ['n', (r) => formatCount(r.n), ''],
+    ['leading p', (r) => value(r, (x) => formatP(x.verdict.pValue)), ''],
+    ['test leading', (r) => value(r, (x) => testName(x.verdict.test, x).replace(/ test.*$/, '')), ''],
+    ['chi-square', (r) => value(r, (x) => formatStatistic(x.tests.pearson.statistic)), ''],
+    ['bias-corrected V', (r) => value(r, (x) => formatMeasure(x.measures.biasCorrectedV)), formatSigned(report.deltaBiasCorrectedV)],
+    ["Cramér's V", (r) => value(r, (x) => formatMeasure(x.measures.cramersV)), ''],
+  ];
+  out.push(
+    ...renderGrid(
+      {
+        rowTitle: '',
+        colTitle: '',
+        rowLabels: figures.map(([label]) => label),
+        colLabels: [before.label, after.label, 'change'],
+        cells: figures.map(([, f, change]) => [f(before), f(after), change]),
+        strong: (s) => paint.bold(s),
+        faint: (s) => paint.dim(s),
+      },
+      width,
+    ),
+  );
+  for (const r of [before, after]) {
+    if (!r.testable) {
+      out.push(...wrapText(`! ${r.label}: ${r.reason}`, width, '  ').map((l) => paint.yellow(l)));
+      continue;
+    }
+    out.push(...tableView(r, paint, options, `${r.label}: `));
   }
-  out.push('');
-  out.push(...wrap(CAUTION, width).map((l) => paint.dim(l)));
+  if (report.warnings.length > 0) {
+    out.push(...heading(paint, 'Check before relying on it', width));
+    for (const w of report.warnings) out.push(...wrapText(`! ${w.message}`, width, '  ', '    ').map((l) => paint.yellow(l)));
+  }
+  out.push(...cautionLines(paint, width));
   return out.join('\n') + '\n';
 }

@@ -1,105 +1,221 @@
+import type { AnalysisRecord } from '../analysis/analyzeTable.js';
 import type { CompareReport } from '../analysis/compare.js';
 import type { PairReport } from '../analysis/report.js';
 import type { ScanReport } from '../analysis/scan.js';
-import { formatCount, formatMeasure, formatP, formatStatistic } from './format.js';
-import { CAUTION, inputLine, summarySentence, cellSentence } from './pairText.js';
-import { pairFlags } from './scanTable.js';
+import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';
+import { changeTestName, compareHeadline, shiftWords } from './compareText.js';
+import { inputLine } from './pairText.js';
+import { pairFlags, scanSummary, FLAG_LEGEND } from './scanTable.js';
 import { escapeXml, mosaicPlot, residualHeatMap, strengthChart } from './svg.js';
+import { ADJUSTMENT_NAMES, CAUTION, comparison, headline, intervalWords, markLegend, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
 
 const STYLE = `
   :root { color-scheme: light; }
-  body { font: 15px/1.45 system-ui, -apple-system, "Segoe UI", sans-serif; color: #1d1d1d; max-width: 980px; margin: 2rem auto; padding: 0 1.2rem; }
+  body { font: 15px/1.45 system-ui, -apple-system, "Segoe UI", sans-serif; color: #1d1d1d; max-width: 1000px; margin: 2rem auto; padding: 0 1.2rem; }
   h1 { font-size: 1.5rem; margin-bottom: 0.2rem; }
-  h2 { font-size: 1.1rem; border-bottom: 2px solid #2b7a78; padding-bottom: 0.2rem; margin-top: 2rem; }
+  h2 { font-size: 1.1rem; border-bottom: 2px solid #2166ac; padding-bottom: 0.2rem; margin-top: 2rem; }
+  h3 { font-size: 1rem; margin: 1.2rem 0 0.3rem; }
   .meta { color: #555; margin-top: 0; }
+  .answer { border-left: 5px solid #2166ac; background: #f3f6fa; padding: 0.6rem 1rem; }
+  .answer.fails { border-left-color: #999; background: #f5f5f5; }
+  .answer p { margin: 0.3rem 0; }
   table { border-collapse: collapse; margin: 0.6rem 0; font-variant-numeric: tabular-nums; }
-  th, td { padding: 0.25rem 0.6rem; border-bottom: 1px solid #ddd; text-align: right; }
+  th, td { padding: 0.25rem 0.6rem; border-bottom: 1px solid #ddd; text-align: right; vertical-align: top; }
   th:first-child, td:first-child { text-align: left; }
+  td.margin, th.margin { border-left: 2px solid #bbb; }
+  tr.margin td, tr.margin th { border-top: 2px solid #bbb; }
+  .share { color: #666; font-size: 0.85em; margin-left: 0.3em; }
   .figures { display: flex; flex-wrap: wrap; gap: 1.5rem; align-items: flex-start; }
   .figures svg { max-width: 100%; height: auto; }
-  .note { background: #f4f1ea; border-left: 4px solid #c45a38; padding: 0.5rem 0.8rem; margin: 0.4rem 0; }
+  .note { background: #fdf6e8; border-left: 4px solid #b35806; padding: 0.5rem 0.8rem; margin: 0.4rem 0; }
   .caution { color: #555; font-size: 0.9rem; margin-top: 2rem; }
-  .dim { color: #888; }
-  @media print { body { margin: 0; max-width: none; } h2 { break-after: avoid; } .figures { break-inside: avoid; } }
+  .dim { color: #777; }
+  .lead { font-weight: 600; }
+  details { margin: 0.6rem 0; }
+  @media print { body { margin: 0; max-width: none; } h2 { break-after: avoid; } .figures { break-inside: avoid; } details { display: block; } }
 `;
 
+const e = (s: string) => escapeXml(s.replace(/\u00a0/g, ' '));
+
 function page(title: string, body: string): string {
-  return `<!doctype html>\n<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>${escapeXml(title)}</title><style>${STYLE}</style></head><body>${body}<p class="caution">${escapeXml(CAUTION)}</p></body></html>\n`;
+  return `<!doctype html>\n<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>${e(title)}</title><style>${STYLE}</style></head><body>${body}<p class="caution">${e(CAUTION)}</p></body></html>\n`;
 }
 
-function pairBody(report: PairReport): string {
-  const t = report.tests;
-  const m = report.measures;
-  const rows = report.rows.levels
-    .map((l, i) => `<tr><th>${escapeXml(l)}</th>${report.counts[i].map((v, j) => `<td>${formatCount(v)}<br><span class="dim">${report.expected[i][j].toFixed(1)}</span></td>`).join('')}</tr>`)
+type Cell = (i: number, j: number) => string;
+
+/** A table of the record with margins: totals and their shares of the whole. */
+function gridTable(record: AnalysisRecord, cell: Cell, margins: boolean): string {
+  const share = (x: number) => (record.n > 0 ? formatPercent((100 * x) / record.n) : UNDEFINED);
+  const head = `<tr><th>${e(record.rows.name)} ↓ · ${e(record.cols.name)} →</th>${record.cols.levels.map((l) => `<th>${e(l)}</th>`).join('')}${margins ? '<th class="margin">all</th>' : ''}</tr>`;
+  const body = record.rows.levels
+    .map(
+      (l, i) =>
+        `<tr><th>${e(l)}</th>${record.cols.levels.map((_c, j) => `<td>${cell(i, j)}</td>`).join('')}${margins ? `<td class="margin">${formatCount(record.rowTotals[i])}<span class="share">${share(record.rowTotals[i])}</span></td>` : ''}</tr>`,
+    )
     .join('');
+  const foot = margins
+    ? `<tr class="margin"><th>all</th>${record.colTotals.map((t) => `<td>${formatCount(t)}<span class="share">${share(t)}</span></td>`).join('')}<td class="margin">${formatCount(record.n)}<span class="share">100%</span></td></tr>`
+    : '';
+  return `<table>${head}${body}${foot}</table>`;
+}
+
+function residualCell(record: AnalysisRecord, i: number, j: number): string {
+  const v = record.residuals.adjusted[i][j];
+  if (v === null) return UNDEFINED;
+  const t = record.findings.cellThreshold;
+  const mark = Math.abs(v) > t.adjusted ? (v > 0 ? '▲▲ ' : '▼▼ ') : Math.abs(v) > t.single ? (v > 0 ? '▲ ' : '▼ ') : '';
+  return `${mark}${formatSigned(v, 1)}`;
+}
+
+/** The answer, the table in every view, where it sits, and every supporting number the text report has. */
+function recordSections(record: AnalysisRecord, by?: string): string {
+  const v = record.verdict;
+  const m = record.measures;
+  const t = record.tests;
+  const lead = record.findings.primaryTest.test;
+  const compare = comparison(v.adjustment ? v.decidingPValue : v.pValue, v.alpha, v.passes, v.adjustment !== null);
+  const answer = `<div class="answer${v.passes ? '' : ' fails'}"><p class="lead">${e(`${headline(v, by)}: ${compare}, ${testName(v.test, record)}`)}</p>
+<p>${e(reasonSentence(record, by))}</p>
+<p>Strength: ${e(record.measures.biasCorrectedV === null ? 'not defined for this table' : `${v.strength}, bias-corrected V ${formatMeasure(m.biasCorrectedV)}. ${vIntervalWords(record)}.`)}</p>${
+    record.weighted ? `<p>Counts are sums of sampling weights; the tests use the effective sample of ${formatCount(Math.round(record.effectiveN * 10) / 10)}.</p>` : ''
+  }</div>`;
+  const compact = gridTable(record, (i, j) => `${formatCount(record.counts[i][j])}<span class="share">${formatPercent(record.percentages.row[i][j], 0)}</span>`, true);
+  const views = [
+    ['Shares of each column', (i: number, j: number) => formatPercent(record.percentages.col[i][j])],
+    ['Shares of the whole table', (i: number, j: number) => formatPercent(record.percentages.total[i][j])],
+    ['Counts expected if the two were independent', (i: number, j: number) => formatExpected(record.expected[i][j])],
+  ] as const;
+  const more = views.map(([title, cell]) => `<details><summary>${title}</summary>${gridTable(record, cell, false)}</details>`).join('');
+  const statements = record.findings.statements.map((s) => `<li>${e(statementWords(record, s))}</li>`).join('');
+  const testRow = (name: string, r: { statistic: number; df: number; pValue: number } | null, isLead: boolean) =>
+    r ? `<tr${isLead ? ' class="lead"' : ''}><td>${isLead ? '► ' : ''}${name}</td><td>${formatStatistic(r.statistic)}</td><td>${r.df}</td><td>${formatP(r.pValue)}</td></tr>` : '';
   const tests = [
-    ['Pearson chi-square', t.pearson],
-    ['likelihood ratio G²', t.likelihoodRatio],
-    ['continuity-corrected', t.yates],
-    ['linear-by-linear', t.linearByLinear],
-  ]
-    .filter(([, v]) => v)
-    .map(([name, v]) => {
-      const r = v as { statistic: number; df: number; pValue: number };
-      return `<tr><td>${name}</td><td>${formatStatistic(r.statistic)}</td><td>${r.df}</td><td>${formatP(r.pValue)}</td></tr>`;
-    })
+    testRow("chi-square (Pearson's X²)", t.pearson, lead === 'pearson' && v.test !== 'cmh'),
+    testRow('likelihood ratio (G²)', t.likelihoodRatio, false),
+    testRow("chi-square, Yates' correction", t.yates, false),
+    t.fisher ? `<tr${lead === 'fisher' ? ' class="lead"' : ''}><td>${lead === 'fisher' ? '► ' : ''}${e(testName('fisher', record))}</td><td></td><td></td><td>${formatP(t.fisher.pValue)}</td></tr>` : '',
+    t.monteCarlo
+      ? `<tr${lead === 'monteCarlo' ? ' class="lead"' : ''}><td>${lead === 'monteCarlo' ? '► ' : ''}simulated exact test (${formatCount(t.monteCarlo.simulations)} tables, seed ${t.monteCarlo.seed})</td><td></td><td></td><td>${formatP(t.monteCarlo.pValue)} ± ${formatP(t.monteCarlo.standardError)}</td></tr>`
+      : '',
+    testRow('trend across ordered levels', t.linearByLinear, false),
+  ].join('');
+  const measureRow = (name: string, value: string, detail = '') => `<tr><td>${e(name)}</td><td>${value}</td><td>${e(detail)}</td></tr>`;
+  const vi = m.cramersVInterval;
+  const strength = [
+    measureRow('bias-corrected V', formatMeasure(m.biasCorrectedV), v.strength ?? ''),
+    measureRow("Cramér's V", formatMeasure(m.cramersV), vi ? `population ${formatMeasure(vi.estimate)}, ${intervalWords(vi.lower, vi.upper, vi.confidence, formatMeasure)}` : ''),
+    measureRow('phi', formatMeasure(m.phi)),
+    measureRow("Tschuprow's T", formatMeasure(m.tschuprowT)),
+    measureRow('contingency coefficient', formatMeasure(m.contingencyC), `corrected ${formatMeasure(m.correctedC)}`),
+  ].join('');
+  const corrected = m.zeroCellCorrection ? ' (0.5 added to every cell: a cell is zero)' : '';
+  const twoByTwo =
+    m.oddsRatio || m.yulesQ !== null
+      ? `<h3>Two by two: direction and size${e(corrected)}</h3><table>${[
+          m.oddsRatio ? measureRow('odds ratio', formatRatio(m.oddsRatio.estimate), intervalWords(m.oddsRatio.lower, m.oddsRatio.upper, m.oddsRatio.confidence)) : '',
+          m.relativeRisk
+            ? measureRow('ratio of shares', formatRatio(m.relativeRisk.estimate), `share of "${m.relativeRisk.outcome}" among "${m.relativeRisk.exposed}" ÷ among "${m.relativeRisk.reference}"; ${intervalWords(m.relativeRisk.lower, m.relativeRisk.upper, m.relativeRisk.confidence)}`)
+            : '',
+          m.yulesQ !== null ? measureRow("Yule's Q", formatSigned(m.yulesQ), `Yule's Y ${formatSigned(m.yulesY)}`) : '',
+        ].join('')}</table>`
+      : '';
+  const guessing = `<h3>Guessing one from the other (share of errors removed)</h3><table><tr><th></th><th>lambda</th><th>tau</th><th>Theil's U</th></tr>
+<tr><td>${e(`${record.cols.name} from ${record.rows.name}`)}</td><td>${formatMeasure(m.lambdaColsGivenRows)}</td><td>${formatMeasure(m.gkTauColsGivenRows)}</td><td>${formatMeasure(m.uncertaintyColsGivenRows)}</td></tr>
+<tr><td>${e(`${record.rows.name} from ${record.cols.name}`)}</td><td>${formatMeasure(m.lambdaRowsGivenCols)}</td><td>${formatMeasure(m.gkTauRowsGivenCols)}</td><td>${formatMeasure(m.uncertaintyRowsGivenCols)}</td></tr>
+<tr><td>either way</td><td>${formatMeasure(m.lambdaSymmetric)}</td><td>${UNDEFINED}</td><td>${formatMeasure(m.uncertaintySymmetric)}</td></tr></table>`;
+  const o = record.ordinal;
+  const ordinal = o
+    ? `<h3>With order (--ordinal: levels read in the order shown)</h3><table><tr><th></th><th>estimate</th><th>se</th><th>p</th></tr>${(
+        [
+          ['gamma', o.gamma],
+          ["Kendall's tau-b", o.kendallTauB],
+          ["Stuart's tau-c", o.kendallTauC],
+          [`Somers' d, ${record.cols.name} predicted`, o.somersDColsGivenRows],
+          [`Somers' d, ${record.rows.name} predicted`, o.somersDRowsGivenCols],
+        ] as const
+      )
+        .map(([name, x]) => `<tr><td>${e(name)}</td><td>${formatSigned(x.estimate)}</td><td>${formatMeasure(x.standardError)}</td><td>${formatP(x.pValue)}</td></tr>`)
+        .join('')}</table><p class="dim">The standard errors come from the observed table; each p-value from the standard error under independence.</p>`
+    : '';
+  return `${answer}
+<h2>The table</h2><p class="dim">Each cell: the count and its share of the row; "all": totals with their share of the whole table.</p>${compact}${more}
+<h2>Where it sits</h2><div class="figures">${residualHeatMap(record)}${mosaicPlot(record)}</div>
+<details><summary>Adjusted residuals as numbers</summary>${gridTable(record, (i, j) => residualCell(record, i, j), false)}<p class="dim">${e(markLegend(record))}</p></details>
+<ul>${statements}</ul>
+<!--held-fixed-->
+<h2>Supporting numbers</h2><h3>The same question, other tests (► the one that leads)</h3><table><tr><th>test</th><th>statistic</th><th>df</th><th>p-value</th></tr>${tests}</table>
+<h3>Strength on other scales (0 none, 1 complete)</h3><table>${strength}</table>${twoByTwo}${guessing}${ordinal}`;
+}
+
+function heldFixedSection(report: PairReport): string {
+  const { stratified, strata } = report;
+  if (!stratified || !strata) return '';
+  const twoByTwo = report.rows.levels.length === 2 && report.cols.levels.length === 2;
+  const rows = strata
+    .map((s) =>
+      s.testable
+        ? `<tr><td>${e(s.level)}</td><td>${formatCount(s.n)}</td><td>${formatP(s.verdict.pValue)}</td><td>${e(testName(s.verdict.test, s))}</td><td>${formatMeasure(s.measures.biasCorrectedV)}</td>${twoByTwo ? `<td>${formatRatio(s.measures.oddsRatio?.estimate)}</td>` : ''}</tr>`
+        : `<tr><td>${e(s.level)}</td><td>${formatCount(s.n)}</td><td colspan="${twoByTwo ? 4 : 3}">not testable: ${e(s.reason)}</td></tr>`,
+    )
     .join('');
-  const exact = [t.fisher ? `<tr><td>exact</td><td></td><td></td><td>${formatP(t.fisher.pValue)}</td></tr>` : '', t.monteCarlo ? `<tr><td>simulated exact</td><td></td><td></td><td>${formatP(t.monteCarlo.pValue)}</td></tr>` : ''].join('');
-  const measures = (
-    [
-      ['bias-corrected V', m.biasCorrectedV],
-      ["Cramér's V", m.cramersV],
-      ['phi', m.phi],
-      ['contingency C', m.contingencyC],
-      ['corrected C', m.correctedC],
-      ["Tschuprow's T", m.tschuprowT],
-      ["Yule's Q", m.yulesQ],
-    ] as [string, number | null][]
-  )
-    .filter(([, v]) => v !== null)
-    .map(([name, v]) => `<tr><td>${name}</td><td>${formatMeasure(v)}</td></tr>`)
-    .join('');
-  const notes = report.warnings.map((w) => `<p class="note">${escapeXml(w.message)}</p>`).join('');
-  const cells = report.findings.notableCells.slice(0, 8).map((c) => `<li>${escapeXml(cellSentence(report, c))}</li>`).join('');
-  return `<h1>${escapeXml(report.rows.name)} × ${escapeXml(report.cols.name)}</h1>
-<p class="meta">${escapeXml(inputLine(report))}</p>
-<p>${escapeXml(summarySentence(report))}</p>${cells ? `<ul>${cells}</ul>` : ''}
-<h2>Pictures</h2><div class="figures">${residualHeatMap(report)}${mosaicPlot(report)}</div>
-<h2>Counts</h2><table><tr><th>${escapeXml(report.rows.name)} \\ ${escapeXml(report.cols.name)}</th>${report.cols.levels.map((l) => `<th>${escapeXml(l)}</th>`).join('')}</tr>${rows}</table>
-<p class="dim">Each cell: the count, and below it the count expected under independence.</p>
-<h2>Evidence</h2><table><tr><th>test</th><th>statistic</th><th>df</th><th>p-value</th></tr>${tests}${exact}</table>
-<h2>Strength</h2><table>${measures}</table>
-${notes ? `<h2>Checks</h2>${notes}` : ''}`;
+  const c = stratified.cmh;
+  const o = stratified.commonOddsRatio;
+  const b = stratified.breslowDay;
+  const tests = [
+    c ? `<tr class="lead"><td>► Cochran–Mantel–Haenszel (association within the levels)</td><td>${formatStatistic(c.statistic)}</td><td>${c.df}</td><td>${formatP(c.pValue)}</td></tr>` : '<tr><td>Cochran–Mantel–Haenszel</td><td colspan="3">not computable for these levels</td></tr>',
+    o ? `<tr><td>common odds ratio (Mantel–Haenszel)</td><td>${formatRatio(o.estimate)}</td><td></td><td>${e(intervalWords(o.lower, o.upper, o.confidence))}</td></tr>` : '',
+    stratified.pooledOddsRatio !== null ? `<tr><td>odds ratio, pooled table</td><td>${formatRatio(stratified.pooledOddsRatio)}</td><td></td><td></td></tr>` : '',
+    b ? `<tr><td>equal odds in every level? (Breslow–Day)</td><td>${formatStatistic(b.statistic)}</td><td>${b.df}</td><td>${formatP(b.pValue)}</td></tr>` : '',
+  ].join('');
+  return `<h2>Within each level of ${e(stratified.by)}</h2><table><tr><th>${e(stratified.by)}</th><th>n</th><th>p</th><th>test</th><th>bias-corrected V</th>${twoByTwo ? '<th>odds ratio</th>' : ''}</tr>${rows}</table>
+<table><tr><th>pooling the levels</th><th>statistic / estimate</th><th>df</th><th>p-value / interval</th></tr>${tests}</table>`;
+}
+
+function notes(warnings: readonly { message: string }[]): string {
+  return warnings.length === 0 ? '' : `<h2>Check before relying on it</h2>${warnings.map((w) => `<p class="note">${e(w.message)}</p>`).join('')}`;
 }
 
 export function renderPairHtml(report: PairReport): string {
-  return page(`${report.rows.name} × ${report.cols.name}`, pairBody(report));
+  const body = `<h1>${e(report.rows.name)} × ${e(report.cols.name)}</h1>
+<p class="meta">${e(inputLine(report))}</p>
+${recordSections(report, report.stratified?.by).replace('<!--held-fixed-->', heldFixedSection(report))}
+${notes(report.warnings)}`;
+  return page(`${report.rows.name} × ${report.cols.name}`, body);
 }
 
 export function renderScanHtml(report: ScanReport): string {
   const rows = report.pairs
-    .map((p) => `<tr class="${p.passes ? '' : 'dim'}"><td>${p.rank}</td><td>${escapeXml(p.rows.name)} × ${escapeXml(p.cols.name)}</td><td>${formatMeasure(p.measures.biasCorrectedV)}</td><td>${formatMeasure(p.measures.cramersV)}</td><td>${formatP(p.pAdjusted)}</td><td>${pairFlags(p).join(' ')}</td></tr>`)
+    .map(
+      (p) =>
+        `<tr class="${p.passes ? '' : 'dim'}"><td>${p.rank}</td><td>${p.passes ? '✓ passes' : '—'}</td><td>${e(p.rows.name)} × ${e(p.cols.name)}</td><td>${formatMeasure(p.measures.biasCorrectedV)}</td><td>${formatMeasure(p.measures.cramersV)}</td><td>${formatP(p.verdict.pValue)}</td><td>${e(testName(p.verdict.test, p))}</td><td>${formatP(p.pAdjusted)}</td><td>${pairFlags(p).join(' ')}</td></tr>`,
+    )
     .join('');
-  const skipped = report.skipped.map((s) => `<li>${escapeXml(s.column)}: ${escapeXml(s.reason)}</li>`).join('');
-  const body = `<h1>Pairs of ${escapeXml(report.input.file)}</h1>
-<p class="meta">${formatCount(report.n)} rows, ${report.pairsTested} pairs tested, ${escapeXml(report.adjustment)} adjustment at α ${report.alpha}: ${report.pairsPassing} pass.</p>
+  const skipped = report.skipped.map((s) => `<li>${e(s.column)}: ${e(s.reason)}</li>`).join('');
+  const untestable = report.untestable.map((u) => `<li>${e(u.rows)} × ${e(u.cols)}: ${e(u.reason)}</li>`).join('');
+  const used = [...new Set(report.pairs.flatMap(pairFlags))];
+  const body = `<h1>Pairs of ${e(report.input.file)}</h1>
+<p class="meta">${e(scanSummary(report))}</p>
+<p>Adjustment for multiple testing: ${e(ADJUSTMENT_NAMES[report.adjustment])}, over the ${report.pairsTested} pairs tested; a pair passes when its adjusted leading p-value is at most α ${report.alpha}.</p>
 <div class="figures">${strengthChart(report)}</div>
-<h2>All pairs</h2><table><tr><th>#</th><th>pair</th><th>bias-corrected V</th><th>Cramér's V</th><th>adjusted p</th><th>flags</th></tr>${rows}</table>
-${skipped ? `<h2>Columns left out</h2><ul>${skipped}</ul>` : ''}`;
+<h2>Pairs, strongest first</h2><table><tr><th>#</th><th>passes</th><th>pair</th><th>bias-corrected V</th><th>Cramér's V</th><th>leading p</th><th>test</th><th>adjusted p</th><th>notes</th></tr>${rows}</table>
+${used.length ? `<p class="dim">${e(used.map((f) => `${f} = ${FLAG_LEGEND[f]}`).join('; '))}</p>` : ''}
+${report.pairs.length < report.pairsTested ? `<p class="dim">${report.pairsTested - report.pairs.length} weaker pairs not shown (--top); ${report.pairsPassing} of all ${report.pairsTested} pairs pass.</p>` : ''}
+${skipped ? `<h2>Columns left out</h2><ul>${skipped}</ul>` : ''}${untestable ? `<h2>Pairs that could not be tested</h2><ul>${untestable}</ul>` : ''}`;
   return page(`Pairs of ${report.input.file}`, body);
 }
 
 export function renderCompareHtml(report: CompareReport): string {
-  const side = (label: string, r: CompareReport['before']) =>
+  const side = (r: CompareReport['before']) =>
     r.testable
-      ? `<div><h2>${escapeXml(label)}</h2><p>bias-corrected V ${formatMeasure(r.measures.biasCorrectedV)}, p ${formatP(r.findings.primaryTest.pValue)}, n ${formatCount(r.n)}</p><div class="figures">${residualHeatMap(r, `Adjusted residuals, ${label}`)}</div></div>`
-      : `<div><h2>${escapeXml(label)}</h2><p class="note">${escapeXml(r.reason)}</p></div>`;
-  const change = report.change ? `${report.change.method === 'breslow-day' ? 'Breslow–Day' : 'no three-way interaction (G²)'}: ${formatStatistic(report.change.statistic)}, df ${report.change.df}, p ${formatP(report.change.pValue)}` : 'not computable';
-  const notes = report.warnings.map((w) => `<p class="note">${escapeXml(w.message)}</p>`).join('');
-  const body = `<h1>${escapeXml(report.rows.name)} × ${escapeXml(report.cols.name)}: ${escapeXml(report.before.label)} against ${escapeXml(report.after.label)}</h1>
-<p>Did the association change? ${escapeXml(change)}. Change in bias-corrected V: ${report.deltaBiasCorrectedV === null ? '—' : (report.deltaBiasCorrectedV >= 0 ? '+' : '') + report.deltaBiasCorrectedV.toFixed(3)}.</p>
-<p>Row distribution shift: p ${formatP(report.rowShift?.pValue)} · column distribution shift: p ${formatP(report.colShift?.pValue)}</p>
-${notes}<div class="figures">${side(report.before.label, report.before)}${side(report.after.label, report.after)}</div>`;
+      ? `<div><h2>${e(r.label)}</h2><div class="answer${r.verdict.passes ? '' : ' fails'}"><p class="lead">${e(`${headline(r.verdict)}: ${comparison(r.verdict.pValue, r.verdict.alpha, r.verdict.passes)}, ${testName(r.verdict.test, r)}`)}</p><p>n ${formatCount(r.n)}; bias-corrected V ${formatMeasure(r.measures.biasCorrectedV)}; ${e(vIntervalWords(r))}</p></div>
+<p class="dim">Each cell: the count and its share of the row.</p>${gridTable(r, (i, j) => `${formatCount(r.counts[i][j])}<span class="share">${formatPercent(r.percentages.row[i][j], 0)}</span>`, true)}
+<div class="figures">${residualHeatMap(r, `Adjusted residuals, ${r.label}`)}</div></div>`
+      : `<div><h2>${e(r.label)}</h2><p class="note">${e(r.reason)}</p></div>`;
+  const change = report.change ? `${changeTestName(report.change.method)}: ${formatStatistic(report.change.statistic)}, df ${report.change.df}, p ${formatP(report.change.pValue)}` : 'not computable';
+  const body = `<h1>${e(report.rows.name)} × ${e(report.cols.name)}: ${e(report.before.label)} against ${e(report.after.label)}</h1>
+<div class="answer${report.verdict?.changed ? '' : ' fails'}"><p class="lead">${e(compareHeadline(report))}</p><p>${e(change)}. Change in bias-corrected V: ${formatSigned(report.deltaBiasCorrectedV)}.</p>
+<p>${e(shiftWords(report, 'rows'))}</p><p>${e(shiftWords(report, 'cols'))}</p>${report.weighted ? '<p>Counts are sums of sampling weights; each period is tested on its table rescaled to its effective sample size.</p>' : ''}</div>
+${side(report.before)}${side(report.after)}
+${notes(report.warnings)}`;
   return page(`${report.rows.name} × ${report.cols.name}: ${report.before.label} against ${report.after.label}`, body);
 }

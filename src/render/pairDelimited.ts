@@ -1,61 +1,113 @@
+import type { AnalysisRecord } from '../analysis/analyzeTable.js';
 import type { PairReport } from '../analysis/report.js';
-import { CAUTION } from './pairText.js';
+import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';
+import { inputLine } from './pairText.js';
 import { delimitedField, exactNumber } from './scanTable.js';
-import { formatCount, formatMeasure, formatP, formatStatistic } from './format.js';
+import { CAUTION, comparison, headline, intervalWords, markLegend, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
 
-/** Stable column names of `pair --format csv|tsv`: one line per table cell, test or measure. */
-export const PAIR_COLUMNS = ['section', 'name', 'row', 'col', 'value', 'df', 'p_value'] as const;
+/**
+ * Stable column names of `pair --format csv|tsv`: one line per table cell,
+ * margin, test or measure. `level` names the level of the --by variable a
+ * line belongs to (empty for the whole table); `text` carries a word where
+ * the line's value is one (the leading test, the strength).
+ */
+export const PAIR_COLUMNS = ['section', 'name', 'row', 'col', 'value', 'df', 'p_value', 'level', 'text'] as const;
 
-type Line = [string, string, string, string, number | null, number | null, number | null];
+type Line = [string, string, string, string, number | null, number | null, number | null, string, string];
 
-const MEASURE_NAMES: [keyof PairReport['measures'], string][] = [
-  ['phi', 'phi'],
-  ['contingencyC', 'contingency_c'],
-  ['correctedC', 'corrected_c'],
-  ['cramersV', 'cramers_v'],
-  ['tschuprowT', 'tschuprow_t'],
-  ['biasCorrectedV', 'bias_corrected_v'],
-  ['yulesQ', 'yules_q'],
-  ['yulesY', 'yules_y'],
-  ['lambdaColsGivenRows', 'lambda_cols_given_rows'],
-  ['lambdaRowsGivenCols', 'lambda_rows_given_cols'],
-  ['lambdaSymmetric', 'lambda_symmetric'],
-  ['gkTauColsGivenRows', 'gk_tau_cols_given_rows'],
-  ['gkTauRowsGivenCols', 'gk_tau_rows_given_cols'],
-  ['uncertaintyColsGivenRows', 'uncertainty_cols_given_rows'],
-  ['uncertaintyRowsGivenCols', 'uncertainty_rows_given_cols'],
-  ['uncertaintySymmetric', 'uncertainty_symmetric'],
+const MEASURE_NAMES: [keyof AnalysisRecord['measures'], string, string][] = [
+  ['phi', 'phi', 'phi'],
+  ['contingencyC', 'contingency_c', 'contingency coefficient'],
+  ['correctedC', 'corrected_c', 'corrected contingency coefficient'],
+  ['cramersV', 'cramers_v', "Cramér's V"],
+  ['tschuprowT', 'tschuprow_t', "Tschuprow's T"],
+  ['biasCorrectedV', 'bias_corrected_v', 'bias-corrected V'],
+  ['yulesQ', 'yules_q', "Yule's Q"],
+  ['yulesY', 'yules_y', "Yule's Y"],
+  ['lambdaColsGivenRows', 'lambda_cols_given_rows', 'lambda, columns from rows'],
+  ['lambdaRowsGivenCols', 'lambda_rows_given_cols', 'lambda, rows from columns'],
+  ['lambdaSymmetric', 'lambda_symmetric', 'lambda, either way'],
+  ['gkTauColsGivenRows', 'gk_tau_cols_given_rows', 'tau, columns from rows'],
+  ['gkTauRowsGivenCols', 'gk_tau_rows_given_cols', 'tau, rows from columns'],
+  ['uncertaintyColsGivenRows', 'uncertainty_cols_given_rows', "Theil's U, columns from rows"],
+  ['uncertaintyRowsGivenCols', 'uncertainty_rows_given_cols', "Theil's U, rows from columns"],
+  ['uncertaintySymmetric', 'uncertainty_symmetric', "Theil's U, either way"],
 ];
 
-export function pairLines(report: PairReport): Line[] {
+/** The lines of one table's record (the whole table, or one level of the --by variable). */
+function recordLines(record: AnalysisRecord, level: string): Line[] {
   const lines: Line[] = [];
+  const line = (section: string, name: string, value: number | null, df: number | null = null, p: number | null = null, row = '', col = '', text = ''): void => {
+    lines.push([section, name, row, col, value, df, p, level, text]);
+  };
+  const v = record.verdict;
+  line('verdict', 'leading_p_value', null, null, v.pValue, '', '', v.test);
+  line('verdict', 'deciding_p_value', null, null, v.decidingPValue, '', '', v.route);
+  line('verdict', 'alpha', v.alpha);
+  line('verdict', 'passes', v.passes ? 1 : 0, null, null, '', '', String(v.passes));
+  line('verdict', 'strength', record.measures.biasCorrectedV, null, null, '', '', v.strength ?? '');
   const cells = (section: string, matrix: readonly (readonly (number | null)[])[]) =>
-    report.rows.levels.forEach((rl, i) => report.cols.levels.forEach((cl, j) => lines.push([section, section, rl, cl, matrix[i][j], null, null])));
-  cells('count', report.counts);
-  cells('expected', report.expected);
-  cells('adjusted_residual', report.residuals.adjusted);
-  const t = report.tests;
-  const test = (name: string, r: { statistic: number; df: number; pValue: number } | null) => r && lines.push(['test', name, '', '', r.statistic, r.df, r.pValue]);
+    record.rows.levels.forEach((rl, i) => record.cols.levels.forEach((cl, j) => line(section, section, matrix[i][j], null, null, rl, cl)));
+  cells('count', record.counts);
+  cells('row_share', record.percentages.row);
+  cells('col_share', record.percentages.col);
+  cells('total_share', record.percentages.total);
+  cells('expected', record.expected);
+  cells('adjusted_residual', record.residuals.adjusted);
+  record.rows.levels.forEach((rl, i) => line('margin', 'row_total', record.rowTotals[i], null, null, rl, ''));
+  record.cols.levels.forEach((cl, j) => line('margin', 'col_total', record.colTotals[j], null, null, '', cl));
+  const t = record.tests;
+  const test = (name: string, r: { statistic: number; df: number; pValue: number } | null) => r && line('test', name, r.statistic, r.df, r.pValue);
   test('pearson_chi_square', t.pearson);
   test('likelihood_ratio', t.likelihoodRatio);
   test('yates', t.yates);
-  if (t.fisher) lines.push(['test', 'fisher_exact', '', '', null, null, t.fisher.pValue]);
-  if (t.monteCarlo) lines.push(['test', 'simulated_exact', '', '', t.monteCarlo.standardError, t.monteCarlo.simulations, t.monteCarlo.pValue]);
+  if (t.fisher) line('test', 'fisher_exact', null, null, t.fisher.pValue);
+  if (t.monteCarlo) line('test', 'simulated_exact', t.monteCarlo.standardError, t.monteCarlo.simulations, t.monteCarlo.pValue);
   test('linear_by_linear', t.linearByLinear);
-  for (const [key, name] of MEASURE_NAMES) lines.push(['measure', name, '', '', report.measures[key] as number | null, null, null]);
-  const vi = report.measures.cramersVInterval;
+  for (const [key, name] of MEASURE_NAMES) line('measure', name, record.measures[key] as number | null);
+  const vi = record.measures.cramersVInterval;
   if (vi) {
-    lines.push(['measure', 'cramers_v_lower', '', '', vi.lower, null, null]);
-    lines.push(['measure', 'cramers_v_upper', '', '', vi.upper, null, null]);
+    line('measure', 'cramers_v_population', vi.estimate);
+    line('measure', 'cramers_v_lower', vi.lower);
+    line('measure', 'cramers_v_upper', vi.upper);
   }
-  if (report.measures.oddsRatio) {
-    const o = report.measures.oddsRatio;
-    lines.push(['measure', 'odds_ratio', '', '', o.estimate, null, null], ['measure', 'odds_ratio_lower', '', '', o.lower, null, null], ['measure', 'odds_ratio_upper', '', '', o.upper, null, null]);
+  for (const [key, name] of [
+    ['oddsRatio', 'odds_ratio'],
+    ['relativeRisk', 'relative_risk'],
+  ] as const) {
+    const x = record.measures[key];
+    if (!x) continue;
+    line('measure', name, x.estimate, null, null, '', '', x.haldaneCorrection ? 'half added to every cell' : '');
+    line('measure', `${name}_lower`, x.lower);
+    line('measure', `${name}_upper`, x.upper);
   }
-  if (report.ordinal) {
-    for (const [key, e] of Object.entries(report.ordinal)) lines.push(['ordinal', key, '', '', e.estimate, null, e.pValue]);
+  if (record.ordinal) {
+    for (const [key, e] of Object.entries(record.ordinal)) line('ordinal', key, e.estimate, null, e.pValue);
   }
-  lines.push(['sample', 'n', '', '', report.n, null, null], ['sample', 'effective_n', '', '', report.effectiveN, null, null], ['sample', 'excluded', '', '', report.excluded, null, null]);
+  line('sample', 'n', record.n);
+  line('sample', 'effective_n', record.effectiveN);
+  line('sample', 'excluded', record.excluded);
+  return lines;
+}
+
+export function pairLines(report: PairReport): Line[] {
+  const lines = recordLines(report, '');
+  const { stratified, strata } = report;
+  if (stratified && strata) {
+    const held = (name: string, value: number | null, df: number | null = null, p: number | null = null) => lines.push(['held_fixed', name, '', '', value, df, p, '', stratified.by]);
+    if (stratified.cmh) held('cochran_mantel_haenszel', stratified.cmh.statistic, stratified.cmh.df, stratified.cmh.pValue);
+    if (stratified.commonOddsRatio) {
+      held('common_odds_ratio', stratified.commonOddsRatio.estimate);
+      held('common_odds_ratio_lower', stratified.commonOddsRatio.lower);
+      held('common_odds_ratio_upper', stratified.commonOddsRatio.upper);
+    }
+    if (stratified.breslowDay) held('breslow_day', stratified.breslowDay.statistic, stratified.breslowDay.df, stratified.breslowDay.pValue);
+    if (stratified.pooledOddsRatio !== null) held('pooled_odds_ratio', stratified.pooledOddsRatio);
+    for (const s of strata) {
+      if (s.testable) lines.push(...recordLines(s, s.level));
+      else lines.push(['stratum', 'not_testable', '', '', s.n, null, null, s.level, s.reason]);
+    }
+  }
   return lines;
 }
 
@@ -65,41 +117,144 @@ export function renderPairDelimited(report: PairReport, delimiter: ',' | '\t'): 
   return out.join('\n') + '\n';
 }
 
-const cell = (s: string) => s.replace(/\|/g, '\\|').replace(/\n/g, ' ');
+/** Text for a Markdown table cell or paragraph: pipes escaped, one line, glue as plain spaces. */
+export function md(s: string): string {
+  return s.replace(/\u00a0/g, ' ').replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/[*_`[\]<>]/g, (c) => `\\${c}`).replace(/\r?\n/g, ' ');
+}
+
+function markdownGrid(record: AnalysisRecord, cell: (i: number, j: number) => string, margins: boolean): string[] {
+  const share = (x: number) => (record.n > 0 ? formatPercent((100 * x) / record.n) : UNDEFINED);
+  const out = [`| ${md(record.rows.name)} ↓ · ${md(record.cols.name)} → | ${record.cols.levels.map(md).join(' | ')} |${margins ? ' all |' : ''}`];
+  out.push(`|---|${record.cols.levels.map(() => '--:').join('|')}|${margins ? '--:|' : ''}`);
+  record.rows.levels.forEach((l, i) => {
+    out.push(`| ${md(l)} | ${record.cols.levels.map((_c, j) => cell(i, j)).join(' | ')} |${margins ? ` ${formatCount(record.rowTotals[i])} (${share(record.rowTotals[i])}) |` : ''}`);
+  });
+  if (margins) out.push(`| all | ${record.colTotals.map((t) => `${formatCount(t)} (${share(t)})`).join(' | ')} | ${formatCount(record.n)} (100%) |`);
+  return out;
+}
+
+function markdownRecord(record: AnalysisRecord, by?: string): string[] {
+  const out: string[] = [];
+  const v = record.verdict;
+  const m = record.measures;
+  const compare = comparison(v.adjustment ? v.decidingPValue : v.pValue, v.alpha, v.passes, v.adjustment !== null);
+  out.push(`**${md(`${headline(v, by)}: ${compare}, ${testName(v.test, record)}`)}**`);
+  out.push('');
+  out.push(`- Why this test: ${md(reasonSentence(record, by))}`);
+  out.push(`- Strength: ${md(m.biasCorrectedV === null ? 'not defined for this table' : `${v.strength}, bias-corrected V ${formatMeasure(m.biasCorrectedV)}. ${vIntervalWords(record)}.`)}`);
+  if (record.weighted) out.push(`- Weights: counts are sums of sampling weights; the tests use the effective sample of ${formatCount(Math.round(record.effectiveN * 10) / 10)}.`);
+  out.push('');
+  out.push('Counts, each with its share of the row; "all": totals with their share of the whole table.');
+  out.push('');
+  out.push(...markdownGrid(record, (i, j) => `${formatCount(record.counts[i][j])} (${formatPercent(record.percentages.row[i][j], 0)})`, true));
+  out.push('');
+  out.push('Shares of each column:');
+  out.push('');
+  out.push(...markdownGrid(record, (i, j) => formatPercent(record.percentages.col[i][j]), false));
+  out.push('');
+  out.push('Counts expected if the two were independent:');
+  out.push('');
+  out.push(...markdownGrid(record, (i, j) => formatExpected(record.expected[i][j]), false));
+  out.push('');
+  out.push(`Where it sits: adjusted residuals; ${md(markLegend(record))}.`);
+  out.push('');
+  const t = record.findings.cellThreshold;
+  out.push(
+    ...markdownGrid(
+      record,
+      (i, j) => {
+        const x = record.residuals.adjusted[i][j];
+        if (x === null) return UNDEFINED;
+        const mark = Math.abs(x) > t.adjusted ? (x > 0 ? '▲▲ ' : '▼▼ ') : Math.abs(x) > t.single ? (x > 0 ? '▲ ' : '▼ ') : '';
+        return `${mark}${formatSigned(x, 1)}`;
+      },
+      false,
+    ),
+  );
+  out.push('');
+  for (const s of record.findings.statements) out.push(`- ${md(statementWords(record, s))}`);
+  out.push('');
+  const tests = record.tests;
+  const lead = record.findings.primaryTest.test;
+  out.push('| test (► leads) | statistic | df | p-value |');
+  out.push('|---|--:|--:|--:|');
+  const row = (name: string, r: { statistic: number; df: number; pValue: number } | null, isLead = false) => r && out.push(`| ${isLead ? '► ' : ''}${name} | ${formatStatistic(r.statistic)} | ${r.df} | ${formatP(r.pValue)} |`);
+  row("chi-square (Pearson's X²)", tests.pearson, lead === 'pearson' && v.test !== 'cmh');
+  row('likelihood ratio (G²)', tests.likelihoodRatio);
+  row("chi-square, Yates' correction", tests.yates);
+  if (tests.fisher) out.push(`| ${lead === 'fisher' ? '► ' : ''}${md(testName('fisher', record))} | | | ${formatP(tests.fisher.pValue)} |`);
+  if (tests.monteCarlo) out.push(`| ${lead === 'monteCarlo' ? '► ' : ''}simulated exact test (${formatCount(tests.monteCarlo.simulations)} tables, seed ${tests.monteCarlo.seed}) | | | ${formatP(tests.monteCarlo.pValue)} ± ${formatP(tests.monteCarlo.standardError)} |`);
+  row('trend across ordered levels', tests.linearByLinear);
+  out.push('');
+  out.push('| measure | value | detail |');
+  out.push('|---|--:|---|');
+  const vi = m.cramersVInterval;
+  for (const [key, , label] of MEASURE_NAMES) {
+    const x = m[key] as number | null;
+    if (x === null) continue;
+    const signed = key === 'yulesQ' || key === 'yulesY';
+    const detail = key === 'cramersV' && vi ? `population ${formatMeasure(vi.estimate)}, ${intervalWords(vi.lower, vi.upper, vi.confidence, formatMeasure)}` : key === 'biasCorrectedV' ? (v.strength ?? '') : '';
+    out.push(`| ${md(label)} | ${signed ? formatSigned(x) : formatMeasure(x)} | ${md(detail)} |`);
+  }
+  const corrected = m.zeroCellCorrection ? '; 0.5 added to every cell (a cell is zero)' : '';
+  if (m.oddsRatio) out.push(`| odds ratio | ${formatRatio(m.oddsRatio.estimate)} | ${md(intervalWords(m.oddsRatio.lower, m.oddsRatio.upper, m.oddsRatio.confidence) + corrected)} |`);
+  if (m.relativeRisk) {
+    const rr = m.relativeRisk;
+    out.push(`| ratio of shares | ${formatRatio(rr.estimate)} | ${md(`share of "${rr.outcome}" among "${rr.exposed}" ÷ among "${rr.reference}"; ${intervalWords(rr.lower, rr.upper, rr.confidence)}${corrected}`)} |`);
+  }
+  if (record.ordinal) {
+    out.push('');
+    out.push('| with order (--ordinal) | estimate | se | p-value |');
+    out.push('|---|--:|--:|--:|');
+    const o = record.ordinal;
+    for (const [name, e] of [
+      ['gamma', o.gamma],
+      ["Kendall's tau-b", o.kendallTauB],
+      ["Stuart's tau-c", o.kendallTauC],
+      [`Somers' d, ${record.cols.name} predicted`, o.somersDColsGivenRows],
+      [`Somers' d, ${record.rows.name} predicted`, o.somersDRowsGivenCols],
+    ] as const) {
+      out.push(`| ${md(name)} | ${formatSigned(e.estimate)} | ${formatMeasure(e.standardError)} | ${formatP(e.pValue)} |`);
+    }
+  }
+  return out;
+}
 
 export function renderPairMarkdown(report: PairReport): string {
   const out: string[] = [];
-  out.push(`**${cell(report.rows.name)} × ${cell(report.cols.name)}** — ${formatCount(report.n)} in the table, ${formatCount(report.excluded)} left out for a missing value.`);
+  out.push(`### ${md(report.rows.name)} × ${md(report.cols.name)}`);
   out.push('');
-  out.push(`| ${cell(report.rows.name)} \\ ${cell(report.cols.name)} | ${report.cols.levels.map(cell).join(' | ')} | all |`);
-  out.push(`|---|${report.cols.levels.map(() => '--:').join('|')}|--:|`);
-  report.rows.levels.forEach((l, i) => {
-    const total = report.rowTotals[i];
-    out.push(`| ${cell(l)} | ${report.counts[i].map((v, j) => `${formatCount(v)} (${report.expected[i][j].toFixed(1)})`).join(' | ')} | ${formatCount(total)} |`);
-  });
+  out.push(md(inputLine(report)));
   out.push('');
-  out.push('Counts, with expected counts under independence in parentheses.');
-  out.push('');
-  out.push('| test | statistic | df | p-value |');
-  out.push('|---|--:|--:|--:|');
-  const t = report.tests;
-  out.push(`| Pearson chi-square | ${formatStatistic(t.pearson.statistic)} | ${t.pearson.df} | ${formatP(t.pearson.pValue)} |`);
-  out.push(`| likelihood ratio | ${formatStatistic(t.likelihoodRatio.statistic)} | ${t.likelihoodRatio.df} | ${formatP(t.likelihoodRatio.pValue)} |`);
-  if (t.yates) out.push(`| continuity-corrected | ${formatStatistic(t.yates.statistic)} | 1 | ${formatP(t.yates.pValue)} |`);
-  if (t.fisher) out.push(`| exact | | | ${formatP(t.fisher.pValue)} |`);
-  if (t.monteCarlo) out.push(`| simulated exact | | | ${formatP(t.monteCarlo.pValue)} |`);
-  out.push('');
-  out.push('| measure | value |');
-  out.push('|---|--:|');
-  for (const [key, name] of MEASURE_NAMES) {
-    const v = report.measures[key] as number | null;
-    if (v !== null) out.push(`| ${name.replace(/_/g, ' ')} | ${formatMeasure(v)} |`);
+  out.push(...markdownRecord(report, report.stratified?.by));
+  const { stratified, strata } = report;
+  if (stratified && strata) {
+    out.push('');
+    out.push(`#### Within each level of ${md(stratified.by)}`);
+    out.push('');
+    out.push(`| ${md(stratified.by)} | n | p | test | bias-corrected V | odds ratio |`);
+    out.push('|---|--:|--:|---|--:|--:|');
+    for (const s of strata) {
+      if (s.testable) out.push(`| ${md(s.level)} | ${formatCount(s.n)} | ${formatP(s.verdict.pValue)} | ${md(testName(s.verdict.test, s))} | ${formatMeasure(s.measures.biasCorrectedV)} | ${formatRatio(s.measures.oddsRatio?.estimate)} |`);
+      else out.push(`| ${md(s.level)} | ${formatCount(s.n)} | | not testable: ${md(s.reason)} | | |`);
+    }
+    out.push('');
+    if (stratified.cmh) out.push(`- ► Cochran–Mantel–Haenszel (association within the levels): ${formatStatistic(stratified.cmh.statistic)}, df ${stratified.cmh.df}, p ${formatP(stratified.cmh.pValue)}`);
+    else out.push('- Cochran–Mantel–Haenszel: not computable for these levels');
+    if (stratified.commonOddsRatio) {
+      const o = stratified.commonOddsRatio;
+      out.push(`- Common odds ratio (Mantel–Haenszel): ${formatRatio(o.estimate)}, ${md(intervalWords(o.lower, o.upper, o.confidence))}`);
+    }
+    if (stratified.pooledOddsRatio !== null) out.push(`- Odds ratio of the pooled table: ${formatRatio(stratified.pooledOddsRatio)}`);
+    if (stratified.breslowDay) out.push(`- Equal odds in every level? Breslow–Day ${formatStatistic(stratified.breslowDay.statistic)}, df ${stratified.breslowDay.df}, p ${formatP(stratified.breslowDay.pValue)}`);
   }
   if (report.warnings.length > 0) {
     out.push('');
-    for (const w of report.warnings) out.push(`- ${cell(w.message)}`);
+    out.push('Check before relying on it:');
+    out.push('');
+    for (const w of report.warnings) out.push(`- ${md(w.message)}`);
   }
   out.push('');
-  out.push(`_${CAUTION}_`);
+  out.push(`_${md(CAUTION)}_`);
   return out.join('\n') + '\n';
 }

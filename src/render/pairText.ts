@@ -1,254 +1,311 @@
 import type { ChalkInstance } from 'chalk';
-import type { AnalysisRecord, NotableCell } from '../analysis/analyzeTable.js';
+import type { AnalysisRecord } from '../analysis/analyzeTable.js';
 import type { PairReport } from '../analysis/report.js';
-import { clip, formatCount, formatMeasure, formatP, formatSigned, formatStatistic, padLeft, padRight, quoteLevel } from './format.js';
+import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';
+import { renderGrid } from './grid.js';
+import { displayWidth, glued, padEnd, padStart, wrapText } from './layout.js';
+import { CAUTION, comparison, headline, intervalWords, markLegend, quoteLevel, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
 
-const LABEL_WIDTH = 16;
+/** What the cells of the table show (--cells). */
+export type CellView = 'compact' | 'counts' | 'row' | 'col' | 'total' | 'expected' | 'residuals';
+export const CELL_VIEWS: CellView[] = ['compact', 'counts', 'row', 'col', 'total', 'expected', 'residuals'];
 
-export const CAUTION =
-  'Association is not causation. Large samples make trivial effects significant, and many tests ' +
-  'inflate false findings; weights change what a p-value means. Review the data yourself, and seek ' +
-  'qualified statistical review before decisions that affect people (health, hiring, lending).';
-
-export function wrap(text: string, width: number, indent = ''): string[] {
-  const words = text.split(/\s+/).filter((w) => w !== '');
-  const lines: string[] = [];
-  let line = indent;
-  for (const word of words) {
-    if (line.trim() !== '' && (line + ' ' + word).length > width) {
-      lines.push(line);
-      line = indent + word;
-    } else line = line.trim() === '' ? indent + word : line + ' ' + word;
-  }
-  if (line.trim() !== '') lines.push(line);
-  return lines;
+export interface TextOptions {
+  width: number;
+  cells: CellView;
 }
 
-/** Column width for a grid: wide enough for the numbers, labels clipped so the grid fits the page. */
-function gridWidth(labels: readonly string[], numbers: readonly string[], fixed: number, columns: number, page: number): number {
-  const numberWidth = Math.max(...numbers.map((s) => s.length)) + 2;
-  const labelWidth = Math.max(...labels.map((l) => l.length)) + 1;
-  const fitting = Math.floor((page - fixed) / columns);
-  return Math.max(numberWidth, Math.min(labelWidth, 12, fitting));
-}
+export const DEFAULT_TEXT: TextOptions = { width: 80, cells: 'compact' };
 
-/** The count grid: per row level, the count, the expected count and the row share. */
-function countGrid(record: AnalysisRecord, paint: ChalkInstance, page: number): string[] {
-  const { rows, cols, counts, expected, percentages, rowTotals, colTotals } = record;
-  const stub = LABEL_WIDTH + 9;
-  const width = gridWidth(cols.levels, [formatCount(record.n), ...expected.flat().map((v) => v.toFixed(1))], stub + 2, cols.levels.length + 1, page);
-  const lines = [
-    paint.dim(padRight('', stub) + clip(`${cols.name} →`, width * cols.levels.length)),
-    paint.bold(padRight(clip(`${rows.name} ↓`, LABEL_WIDTH - 1), stub) + cols.levels.map((l) => padLeft(clip(l, width - 1), width)).join('') + ' │' + padLeft('all', width)),
-  ];
-  rows.levels.forEach((level, i) => {
-    const label = padRight(clip(level, LABEL_WIDTH - 1), LABEL_WIDTH);
-    lines.push(label + padRight('count', 9) + counts[i].map((v) => padLeft(formatCount(v), width)).join('') + paint.dim(' │') + padLeft(formatCount(rowTotals[i]), width));
-    lines.push(paint.dim(padRight('', LABEL_WIDTH) + padRight('expected', 9) + expected[i].map((v) => padLeft(v.toFixed(1), width)).join('') + ' │'));
-    lines.push(paint.dim(padRight('', LABEL_WIDTH) + padRight('row %', 9) + percentages.row[i].map((v) => padLeft(v.toFixed(1), width)).join('') + ' │' + padLeft('100.0', width)));
-  });
-  const n = record.n;
-  lines.push(paint.dim('─'.repeat(stub + width * cols.levels.length) + '─┼' + '─'.repeat(width - 1)));
-  lines.push(padRight('all', LABEL_WIDTH) + padRight('count', 9) + colTotals.map((v) => padLeft(formatCount(v), width)).join('') + paint.dim(' │') + padLeft(formatCount(n), width));
-  lines.push(paint.dim(padRight('', LABEL_WIDTH) + padRight('col %', 9) + colTotals.map((v) => padLeft((n > 0 ? (100 * v) / n : 0).toFixed(1), width)).join('') + ' │'));
-  return lines;
-}
-
-/** Marks for an adjusted residual that read without colour: ▲/▼ beyond ±2, doubled beyond ±3. */
-export function residualMark(value: number | null): string {
+/** Marks for an adjusted residual that read without colour, at the record's thresholds. */
+export function residualMark(value: number | null, record: Pick<AnalysisRecord, 'findings'>): string {
+  const t = record.findings.cellThreshold;
   if (value === null) return '  ';
-  if (value > 3) return '▲▲';
-  if (value > 2) return '▲ ';
-  if (value < -3) return '▼▼';
-  if (value < -2) return '▼ ';
+  if (value > t.adjusted) return '▲▲';
+  if (value > t.single) return '▲ ';
+  if (value < -t.adjusted) return '▼▼';
+  if (value < -t.single) return '▼ ';
   return '· ';
 }
 
-function residualGrid(record: AnalysisRecord, paint: ChalkInstance, page: number): string[] {
-  const { rows, cols } = record;
-  const width = gridWidth(cols.levels, ['▲▲+10.0'], LABEL_WIDTH, cols.levels.length, page);
-  const lines = [paint.bold(padRight('', LABEL_WIDTH) + cols.levels.map((l) => padLeft(clip(l, width - 1), width)).join(''))];
-  rows.levels.forEach((level, i) => {
-    const cells = record.residuals.adjusted[i].map((value) => {
-      const text = padLeft(`${residualMark(value)}${formatSigned(value)}`, width);
-      if (value === null) return text;
-      if (value > 3) return paint.bold.green(text);
-      if (value > 2) return paint.green(text);
-      if (value < -3) return paint.bold.red(text);
-      if (value < -2) return paint.red(text);
-      return paint.dim(text);
-    });
-    lines.push(padRight(clip(level, LABEL_WIDTH - 1), LABEL_WIDTH) + cells.join(''));
-  });
-  return lines;
+/** Colours that colour-blind readers tell apart: blue above, yellow below (with the marks carrying the meaning). */
+function paintResidual(paint: ChalkInstance, value: number | null, record: Pick<AnalysisRecord, 'findings'>, text: string): string {
+  const t = record.findings.cellThreshold;
+  if (value === null) return text;
+  if (value > t.adjusted) return paint.bold.blue(text);
+  if (value > t.single) return paint.blue(text);
+  if (value < -t.adjusted) return paint.bold.yellow(text);
+  if (value < -t.single) return paint.yellow(text);
+  return paint.dim(text);
 }
 
-export function cellSentence(record: Pick<AnalysisRecord, 'rows' | 'cols'>, cell: NotableCell): string {
-  const strength = cell.level === 3 ? 'clearly ' : '';
-  return `${record.rows.name} ${quoteLevel(cell.row)} goes with ${record.cols.name} ${quoteLevel(cell.col)} ${strength}${cell.direction === 'more' ? 'more' : 'less'} often than independence predicts (adjusted residual ${formatSigned(cell.adjustedResidual)})`;
+export function heading(paint: ChalkInstance, title: string, width: number, note = ''): string[] {
+  const text = note ? `${title}  ${note}` : title;
+  const rule = Math.max(0, width - displayWidth(text) - 1);
+  if (displayWidth(text) + 4 > width) return ['', paint.bold(title), ...(note ? wrapText(note, width).map((l) => paint.dim(l)) : [])];
+  return ['', paint.bold(title) + (note ? paint.dim('  ' + note) : '') + ' ' + paint.dim('─'.repeat(rule))];
 }
 
-export function summarySentence(record: AnalysisRecord): string {
-  const { findings, measures, rows, cols } = record;
-  const p = findings.primaryTest.pValue;
-  const evidence = p < 0.001 ? 'strong evidence' : p < 0.01 ? 'clear evidence' : p < 0.05 ? 'some evidence' : 'no convincing evidence';
-  const parts = [`There is ${evidence} of an association between ${rows.name} and ${cols.name} (p ${formatP(p)})`];
-  if (findings.strength !== null) parts[0] += `; its strength is ${findings.strength} (bias-corrected V ${formatMeasure(measures.biasCorrectedV)})`;
-  parts[0] += '.';
-  // Which diagonal dominates: said plainly for an association the data show,
-  // with a caveat for one they do not, and not at all for a negligible one.
-  if ((findings.diagonal === 'main' || findings.diagonal === 'off') && Math.abs(measures.yulesQ ?? 0) >= 0.1) {
-    const [r1, r2] = rows.levels;
-    const [c1, c2] = cols.levels;
-    const pairs = findings.diagonal === 'main' ? [`${quoteLevel(r1)} with ${quoteLevel(c1)}`, `${quoteLevel(r2)} with ${quoteLevel(c2)}`] : [`${quoteLevel(r1)} with ${quoteLevel(c2)}`, `${quoteLevel(r2)} with ${quoteLevel(c1)}`];
-    const which = findings.diagonal === 'main' ? 'main' : 'off';
-    if (p < 0.05) {
-      parts.push(`The ${which} diagonal dominates: ${pairs[0]} and ${pairs[1]} occur together more than independence predicts (Yule's Q ${formatSigned(measures.yulesQ, 3)}).`);
-    } else {
-      parts.push(`In this sample the ${which} diagonal holds more than its share (${pairs[0]}, ${pairs[1]}; Yule's Q ${formatSigned(measures.yulesQ, 3)}), but the data do not show that this is more than chance.`);
-    }
-  }
-  return parts.join(' ');
-}
-
-const PAGE = 80;
-
-/** A label, a value and a detail; a detail too long for the page goes on to lines of its own. */
-function row(label: string, value: string, detail = ''): string {
-  const head = '  ' + padRight(label, 26) + padLeft(value, 10);
-  if (!detail) return head;
-  if (head.length + 3 + detail.length <= PAGE) return head + '   ' + detail;
-  return [head, ...wrap(detail, PAGE, ' '.repeat(head.length + 3))].join('\n');
+/** A label, then text that wraps under itself (a hanging indent), never orphaning a value. */
+function labelled(label: string, text: string, width: number, labelWidth = 16, indent = '  '): string[] {
+  const head = indent + padEnd(label, labelWidth);
+  if (displayWidth(head) + 12 > width) return [indent + label, ...wrapText(text, width, indent + '  ')];
+  return wrapText(text, width, head, ' '.repeat(displayWidth(head)));
 }
 
 /** What was read and what was left out, with the reason for each row left out. */
 export function inputLine(report: PairReport): string {
   const { input } = report;
-  const plural = (n: number, word: string) => `${formatCount(n)} ${word}${n === 1 ? '' : 's'}`;
+  const plural = (n: number, word: string) => `${glued(formatCount(n), word)}${n === 1 ? '' : 's'}`;
   const parts = [`${input.file}: ${plural(input.rowsRead, 'row')} read`];
   if (report.weighting === 'weight') {
-    parts.push(`${formatCount(report.unweightedN)} in the table, weighted n ${formatCount(report.n)} (effective sample ${formatCount(Math.round(report.effectiveN * 10) / 10)})`);
+    parts.push(`${glued(formatCount(report.unweightedN))} in the table, weighted ${glued('n', formatCount(report.n))} (effective sample ${glued(formatCount(Math.round(report.effectiveN * 10) / 10))})`);
   } else if (report.weighting === 'freq') {
-    parts.push(`${formatCount(report.unweightedN)} in the table standing for ${formatCount(report.n)} observations`);
-  } else parts.push(`${formatCount(report.n)} in the table`);
-  if (report.excluded > 0) parts.push(`${formatCount(report.excluded)} left out for a missing value`);
-  if (input.filtered > 0) parts.push(`${formatCount(input.filtered)} filtered out by --where`);
+    parts.push(`${glued(formatCount(report.unweightedN))} in the table standing for ${glued(formatCount(report.n))} observations`);
+  } else parts.push(`${glued(formatCount(report.n))} in the table`);
+  if (report.excluded > 0) parts.push(`${glued(formatCount(report.excluded))} left out for a missing value`);
+  if (input.filtered > 0) parts.push(`${glued(formatCount(input.filtered))} filtered out by --where`);
   if (input.badRowsSkipped > 0) parts.push(`${plural(input.badRowsSkipped, 'malformed row')} skipped`);
   if (input.badWeightsSkipped > 0) parts.push(`${plural(input.badWeightsSkipped, 'row')} with an unusable weight skipped`);
   return parts.join(', ');
 }
 
-function layerLines(report: PairReport, paint: ChalkInstance, width: number): string[] {
+/** The answer first: the decision, the leading p-value and why, the strength with its interval. */
+export function answerLines(record: AnalysisRecord, paint: ChalkInstance, width: number, by?: string): string[] {
+  const v = record.verdict;
   const out: string[] = [];
-  const { stratified, strata } = report;
-  if (!stratified || !strata) return out;
-  const twoByTwo = stratified.commonOddsRatio !== null || (report.rows.levels.length === 2 && report.cols.levels.length === 2);
-  out.push(paint.bold(padRight(clip(stratified.by, LABEL_WIDTH - 1), LABEL_WIDTH) + padLeft('n', 9) + padLeft('chi-square', 12) + padLeft('p', 10) + padLeft('bias-corr. V', 14) + (twoByTwo ? padLeft('odds ratio', 12) : '')));
-  for (const s of strata) {
-    if (!s.testable) {
-      out.push(padRight(clip(s.level, LABEL_WIDTH - 1), LABEL_WIDTH) + padLeft(formatCount(s.n), 9) + paint.dim(`   not testable: ${s.reason}`));
-      continue;
-    }
-    out.push(
-      padRight(clip(s.level, LABEL_WIDTH - 1), LABEL_WIDTH) +
-        padLeft(formatCount(s.n), 9) +
-        padLeft(formatStatistic(s.tests.pearson.statistic), 12) +
-        padLeft(formatP(s.findings.primaryTest.pValue), 10) +
-        padLeft(formatMeasure(s.measures.biasCorrectedV), 14) +
-        (twoByTwo ? padLeft(formatStatistic(s.measures.oddsRatio?.estimate, 3), 12) : ''),
-    );
-  }
-  if (stratified.cmh) {
-    out.push(row(`layered test (CMH)`, formatStatistic(stratified.cmh.statistic), `df ${stratified.cmh.df}   p ${formatP(stratified.cmh.pValue)}`));
-  } else out.push(paint.dim('  layered test (CMH): not computable for these layers'));
-  if (stratified.commonOddsRatio) {
-    const o = stratified.commonOddsRatio;
-    out.push(row('common odds ratio', formatStatistic(o.estimate, 3), `${Math.round(o.confidence * 100)}% interval ${formatStatistic(o.lower, 3)} to ${formatStatistic(o.upper, 3)}`));
-  }
-  if (stratified.pooledOddsRatio !== null) out.push(row('pooled-table odds ratio', formatStatistic(stratified.pooledOddsRatio, 3)));
-  if (stratified.breslowDay) {
-    out.push(row('same odds in every layer?', formatStatistic(stratified.breslowDay.statistic), `Breslow–Day df ${stratified.breslowDay.df}   p ${formatP(stratified.breslowDay.pValue)}`));
-  }
-  out.push(...wrap(`The layered test asks whether ${report.rows.name} and ${report.cols.name} are related once ${stratified.by} is held fixed.`, width, '  ').map((l) => paint.dim(l)));
+  const mark = v.passes ? '■' : '□';
+  const compare = comparison(v.adjustment ? v.decidingPValue : v.pValue, v.alpha, v.passes, v.adjustment !== null);
+  out.push(...wrapText(`${mark} ${headline(v, by)}: ${compare}, ${testName(v.test, record)}`, width, '', '  ').map((l) => paint.bold(l)));
+  out.push(...labelled('why this test', reasonSentence(record, by), width));
+  const strength = record.measures.biasCorrectedV === null ? 'not defined for this table' : `${record.verdict.strength}: bias-corrected V ${glued(formatMeasure(record.measures.biasCorrectedV))}. ${vIntervalWords(record)}.`;
+  out.push(...labelled('strength', strength, width));
+  if (record.weighted) out.push(...labelled('weights', `counts are sums of sampling weights; the tests use the effective sample of ${glued(formatCount(Math.round(record.effectiveN * 10) / 10))}.`, width));
   return out;
 }
 
-export function renderPairText(report: PairReport, paint: ChalkInstance, width = 80): string {
-  const out: string[] = [];
-  const { tests, measures, findings } = report;
-  const heading = (title: string, note = '') => {
-    out.push('');
-    out.push(paint.bold.underline(title) + (note ? paint.dim('  ' + note) : ''));
-  };
-  out.push(paint.bold(`${report.rows.name} × ${report.cols.name}`));
-  out.push(...wrap(inputLine(report), width).map((l) => paint.dim(l)));
+const VIEW_TITLES: Record<CellView, string> = {
+  compact: 'Counts, each with its share of the row',
+  counts: 'Counts',
+  row: 'Shares of each row (%)',
+  col: 'Shares of each column (%)',
+  total: 'Shares of the whole table (%)',
+  expected: 'Counts expected if the two were independent',
+  residuals: 'Adjusted residuals (departure from independence, in standard errors)',
+};
+
+/** One chosen view of the table, with margins: totals and their shares of the whole. */
+export function tableView(record: AnalysisRecord, paint: ChalkInstance, options: TextOptions, prefix = ''): string[] {
+  const { rows, cols, counts, expected, percentages, rowTotals, colTotals, n } = record;
+  const share = (x: number) => (n > 0 ? formatPercent((100 * x) / n) : UNDEFINED);
+  let cells: string[][];
+  switch (options.cells) {
+    case 'compact': {
+      const countWidth = Math.max(...counts.flat().map((v) => displayWidth(formatCount(v))));
+      cells = counts.map((row, i) => row.map((v, j) => padStart(formatCount(v), countWidth) + ' ' + paint.dim(padStart(formatPercent(percentages.row[i][j], 0), 4))));
+      break;
+    }
+    case 'counts':
+      cells = counts.map((row) => row.map((v) => formatCount(v)));
+      break;
+    case 'row':
+      cells = percentages.row.map((row) => row.map((v) => formatPercent(v)));
+      break;
+    case 'col':
+      cells = percentages.col.map((row) => row.map((v) => formatPercent(v)));
+      break;
+    case 'total':
+      cells = percentages.total.map((row) => row.map((v) => formatPercent(v)));
+      break;
+    case 'expected':
+      cells = expected.map((row) => row.map((v) => formatExpected(v)));
+      break;
+    case 'residuals':
+      cells = record.residuals.adjusted.map((row) => row.map((v) => paintResidual(paint, v, record, `${residualMark(v, record)}${v === null ? UNDEFINED : formatSigned(v, 1)}`)));
+      break;
+  }
+  const totalCell = (x: number) => `${formatCount(x)} ${paint.dim(padStart(share(x), 6))}`;
+  const marginsShown = options.cells !== 'residuals';
+  const lines = [...heading(paint, prefix + VIEW_TITLES[options.cells], options.width, options.cells === 'compact' ? '(--cells for others)' : '')];
+  lines.push(
+    ...renderGrid(
+      {
+        rowTitle: rows.name,
+        colTitle: `${cols.name} →`,
+        rowLabels: rows.levels,
+        colLabels: cols.levels,
+        cells,
+        rowMargin: marginsShown ? { title: 'all', cells: rowTotals.map((t) => totalCell(t)) } : undefined,
+        colMargin: marginsShown ? { title: 'all', cells: colTotals.map((t) => totalCell(t)), corner: `${formatCount(n)} ${paint.dim('100%')}` } : undefined,
+        strong: (s) => paint.bold(s),
+        faint: (s) => paint.dim(s),
+      },
+      options.width,
+    ),
+  );
+  if (marginsShown) lines.push(...wrapText('"all": totals, with their share of the whole table.', options.width).map((l) => paint.dim(l)));
+  return lines;
+}
+
+/** Where the association sits: the residual grid with marks, then the record's statements in words. */
+function whereLines(record: AnalysisRecord, paint: ChalkInstance, options: TextOptions): string[] {
+  const out = heading(paint, 'Where it sits', options.width);
+  if (options.cells !== 'residuals') {
+    const cells = record.residuals.adjusted.map((row) => row.map((v) => paintResidual(paint, v, record, `${residualMark(v, record)}${v === null ? UNDEFINED : formatSigned(v, 1)}`)));
+    out.push(...renderGrid({ rowTitle: record.rows.name, colTitle: `${record.cols.name} →`, rowLabels: record.rows.levels, colLabels: record.cols.levels, cells, strong: (s) => paint.bold(s), faint: (s) => paint.dim(s) }, options.width));
+  }
+  out.push(...wrapText(`Adjusted residuals: ${markLegend(record)}; above (▲, blue) or below (▼, yellow) independence.`, options.width).map((l) => paint.dim(l)));
   out.push('');
-  out.push(...countGrid(report, paint, width));
+  for (const s of record.findings.statements) {
+    const bullet = s.kind === 'cell' || s.kind === 'more-cells' || s.kind === 'mirror-cells';
+    out.push(...wrapText(statementWords(record, s), options.width, bullet ? '  – ' : '  ', bullet ? '    ' : '  '));
+  }
+  return out;
+}
 
-  heading('Evidence', 'is there an association?');
-  out.push(row('Pearson chi-square', formatStatistic(tests.pearson.statistic), `df ${tests.pearson.df}   p ${formatP(tests.pearson.pValue)}`));
-  out.push(row('likelihood ratio G²', formatStatistic(tests.likelihoodRatio.statistic), `df ${tests.likelihoodRatio.df}   p ${formatP(tests.likelihoodRatio.pValue)}`));
-  if (tests.yates) out.push(row('continuity-corrected', formatStatistic(tests.yates.statistic), `df 1   p ${formatP(tests.yates.pValue)}`));
-  if (tests.fisher) out.push(row(report.counts.length === 2 && report.counts[0].length === 2 ? 'Fisher exact' : 'exact (Fisher–Freeman–Halton)', '', `p ${formatP(tests.fisher.pValue)}`));
+/** A row of supporting numbers: label, value, and a detail that wraps under itself. */
+function figure(label: string, value: string, detail: string, width: number): string[] {
+  const head = '  ' + padEnd(label, 30) + padStart(value, 9);
+  if (!detail) return [head];
+  if (displayWidth(head) + 14 > width) return [head, ...wrapText(detail, width, '      ')];
+  return wrapText(detail, width, head + '   ', ' '.repeat(displayWidth(head) + 3));
+}
+
+function testLine(label: string, t: { statistic: number; df: number; pValue: number } | null, width: number, lead: boolean): string[] {
+  if (!t) return [];
+  return figure((lead ? '► ' : '') + label, formatStatistic(t.statistic), `${glued('df', String(t.df))}, ${glued('p', formatP(t.pValue))}`, width);
+}
+
+function detailLines(report: PairReport, paint: ChalkInstance, width: number): string[] {
+  const { tests, measures } = report;
+  const lead = report.findings.primaryTest.test;
+  const out = heading(paint, 'Supporting numbers', width);
+  out.push(paint.dim('  The same question, other tests (► the one that leads)'));
+  out.push(...testLine("chi-square (Pearson's X²)", tests.pearson, width, lead === 'pearson' && report.verdict.test !== 'cmh'));
+  out.push(...testLine('likelihood ratio (G²)', tests.likelihoodRatio, width, false));
+  if (tests.yates) out.push(...testLine("chi-square, Yates' correction", tests.yates, width, false));
+  if (tests.fisher) out.push(...figure((lead === 'fisher' ? '► ' : '') + testName('fisher', report), '', glued('p', formatP(tests.fisher.pValue)), width));
   if (tests.monteCarlo) {
-    out.push(row('simulated exact', '', `p ${formatP(tests.monteCarlo.pValue)} ± ${formatP(tests.monteCarlo.standardError)} (${formatCount(tests.monteCarlo.simulations)} tables, seed ${tests.monteCarlo.seed})`));
+    const mc = tests.monteCarlo;
+    out.push(...figure((lead === 'monteCarlo' ? '► ' : '') + 'simulated exact test', '', `${glued('p', formatP(mc.pValue))} ± ${glued(formatP(mc.standardError))} (${glued(formatCount(mc.simulations), 'tables,')} ${glued('seed', String(mc.seed))})`, width));
   }
-  if (tests.linearByLinear) out.push(row('linear-by-linear M²', formatStatistic(tests.linearByLinear.statistic), `df 1   p ${formatP(tests.linearByLinear.pValue)}`));
-  const leadName = { pearson: 'Pearson chi-square', fisher: 'the exact test', monteCarlo: 'the simulated exact test' }[findings.primaryTest.test];
-  out.push(...wrap(`Leading p-value: ${leadName}, because ${findings.primaryTest.reason}.`, width, '  ').map((l) => paint.dim(l)));
+  if (tests.linearByLinear) out.push(...testLine('trend across ordered levels', tests.linearByLinear, width, false));
 
-  heading('Strength', 'how strong is it?');
-  const vi = measures.cramersVInterval;
-  out.push(row('bias-corrected V', formatMeasure(measures.biasCorrectedV), findings.strength ?? ''));
-  out.push(row("Cramér's V", formatMeasure(measures.cramersV), vi ? `${Math.round(vi.confidence * 100)}% interval ${formatMeasure(vi.lower)} to ${formatMeasure(vi.upper)}` : ''));
-  out.push(row('phi', formatMeasure(measures.phi)));
-  out.push(row('contingency C', formatMeasure(measures.contingencyC), `corrected ${formatMeasure(measures.correctedC)}`));
-  out.push(row("Tschuprow's T", formatMeasure(measures.tschuprowT)));
-  if (measures.yulesQ !== null) out.push(row("Yule's Q", formatSigned(measures.yulesQ, 3), `Yule's Y ${formatSigned(measures.yulesY, 3)}`));
-  if (measures.oddsRatio) {
-    const o = measures.oddsRatio;
-    out.push(row('odds ratio', formatStatistic(o.estimate, 3), `${Math.round(o.confidence * 100)}% interval ${formatStatistic(o.lower, 3)} to ${formatStatistic(o.upper, 3)}${o.haldaneCorrection ? ' (0.5 added to cells)' : ''}`));
+  out.push(paint.dim('  Strength on other scales (0 none, 1 complete)'));
+  out.push(...figure("Cramér's V", formatMeasure(measures.cramersV), measures.cramersVInterval ? `population ${glued(formatMeasure(measures.cramersVInterval.estimate))}, ${intervalWords(measures.cramersVInterval.lower, measures.cramersVInterval.upper, measures.cramersVInterval.confidence, formatMeasure)}` : '', width));
+  out.push(...figure('phi', formatMeasure(measures.phi), `Tschuprow's ${glued('T', formatMeasure(measures.tschuprowT))}`, width));
+  out.push(...figure('contingency coefficient', formatMeasure(measures.contingencyC), `corrected ${glued(formatMeasure(measures.correctedC))}`, width));
+
+  if (measures.oddsRatio || measures.yulesQ !== null) {
+    const corrected = measures.zeroCellCorrection ? ' (0.5 added to every cell: a cell is zero)' : '';
+    out.push(paint.dim(`  Two by two: direction and size${corrected}`));
+    if (measures.oddsRatio) {
+      const o = measures.oddsRatio;
+      out.push(...figure('odds ratio', formatRatio(o.estimate), intervalWords(o.lower, o.upper, o.confidence), width));
+    }
+    if (measures.relativeRisk) {
+      const rr = measures.relativeRisk;
+      out.push(...figure('ratio of shares', formatRatio(rr.estimate), `share of ${quoteLevel(rr.outcome)} among ${quoteLevel(rr.exposed)} ÷ among ${quoteLevel(rr.reference)}; ${intervalWords(rr.lower, rr.upper, rr.confidence)}`, width));
+    }
+    if (measures.yulesQ !== null) out.push(...figure("Yule's Q", formatSigned(measures.yulesQ), `Yule's ${glued('Y', formatSigned(measures.yulesY))}`, width));
   }
-  if (measures.relativeRisk) {
-    const rr = measures.relativeRisk;
-    out.push(row(`risk ratio of ${clip(rr.outcome, 12)}`, formatStatistic(rr.estimate, 3), `${Math.round(rr.confidence * 100)}% interval ${formatStatistic(rr.lower, 3)} to ${formatStatistic(rr.upper, 3)} ("${clip(rr.exposed, 12)}" over "${clip(rr.reference, 12)}")`));
-  }
-  const predicting = (target: string, from: string, lambda: number | null, tau: number | null, u: number | null) =>
-    wrap(`predicting ${target} from ${from}: lambda ${formatMeasure(lambda)}, tau ${formatMeasure(tau)}, uncertainty ${formatMeasure(u)}`, width, '  ').map((l, k) => paint.dim(k === 0 ? l : '  ' + l));
-  out.push(...predicting(report.cols.name, report.rows.name, measures.lambdaColsGivenRows, measures.gkTauColsGivenRows, measures.uncertaintyColsGivenRows));
-  out.push(...predicting(report.rows.name, report.cols.name, measures.lambdaRowsGivenCols, measures.gkTauRowsGivenCols, measures.uncertaintyRowsGivenCols));
+
+  out.push(paint.dim('  Guessing one from the other (share of errors removed)'));
+  const guessLabels = [`${report.cols.name} from ${report.rows.name}`, `${report.rows.name} from ${report.cols.name}`, 'either way'];
+  const valuesWidth = 9 + 8 + 11;
+  const labelColumn = Math.min(Math.max(30, ...guessLabels.map(displayWidth)) + 1, width - valuesWidth - 2);
+  out.push(paint.dim('  ' + padEnd('', labelColumn) + padStart('lambda', 9) + padStart('tau', 8) + padStart("Theil's U", 11)));
+  const guess = (label: string, l: number | null, t: number | null, u: number | null) => {
+    const values = padStart(formatMeasure(l), 9) + padStart(t === null ? UNDEFINED : formatMeasure(t), 8) + padStart(formatMeasure(u), 11);
+    const folded = wrapText(label, labelColumn - 1, '');
+    return [...folded.slice(0, -1).map((x) => '  ' + x), '  ' + padEnd(folded[folded.length - 1] ?? '', labelColumn) + values];
+  };
+  out.push(...guess(`${report.cols.name} from ${report.rows.name}`, measures.lambdaColsGivenRows, measures.gkTauColsGivenRows, measures.uncertaintyColsGivenRows));
+  out.push(...guess(`${report.rows.name} from ${report.cols.name}`, measures.lambdaRowsGivenCols, measures.gkTauRowsGivenCols, measures.uncertaintyRowsGivenCols));
+  out.push(...guess('either way', measures.lambdaSymmetric, null, measures.uncertaintySymmetric));
 
   if (report.ordinal) {
-    heading('Order', 'both variables declared ordered (--ordinal), in the level order shown');
     const o = report.ordinal;
-    const ordinalRow = (label: string, e: typeof o.gamma) =>
-      row(label, formatSigned(e.estimate, 3), `se ${formatMeasure(e.standardError)}   p ${formatP(e.pValue)}`);
-    out.push(ordinalRow('gamma', o.gamma));
-    out.push(ordinalRow("Kendall's tau-b", o.kendallTauB));
-    out.push(ordinalRow("Stuart's tau-c", o.kendallTauC));
-    out.push(ordinalRow(`Somers' d (${clip(report.cols.name, 13)})`, o.somersDColsGivenRows));
-    out.push(ordinalRow(`Somers' d (${clip(report.rows.name, 13)})`, o.somersDRowsGivenCols));
-    out.push(...wrap("Somers' d (name) treats that variable as the one predicted. Ordinal measures only make sense when the categories have a real order.", width, '  ').map((l) => paint.dim(l)));
+    out.push(paint.dim('  With order (--ordinal: levels read in the order shown)'));
+    const ord = (label: string, e: typeof o.gamma) => figure(label, formatSigned(e.estimate), `${glued('se', formatMeasure(e.standardError))}, ${glued('p', formatP(e.pValue))}`, width);
+    out.push(...ord('gamma', o.gamma));
+    out.push(...ord("Kendall's tau-b", o.kendallTauB));
+    out.push(...ord("Stuart's tau-c", o.kendallTauC));
+    const somers = (name: string, e: typeof o.gamma) => figure("Somers' d", formatSigned(e.estimate), `${name} predicted; ${glued('se', formatMeasure(e.standardError))}, ${glued('p', formatP(e.pValue))}`, width);
+    out.push(...somers(report.cols.name, o.somersDColsGivenRows));
+    out.push(...somers(report.rows.name, o.somersDRowsGivenCols));
+    out.push(...wrapText('The standard errors come from the observed table; each p-value from the standard error under independence.', width, '  ').map((l) => paint.dim(l)));
   }
+  return out;
+}
 
-  if (report.stratified) {
-    heading('Layers', `${report.stratified.by} held fixed`);
-    out.push(...layerLines(report, paint, width));
-  }
-
-  heading('Where', 'adjusted residuals: ▲ above, ▼ below independence past ±2, ▲▲ ▼▼ past ±3');
-  out.push(...residualGrid(report, paint, width));
-
-  heading('In words');
-  out.push(...wrap(summarySentence(report), width, '  '));
-  for (const cell of findings.notableCells.slice(0, 6)) out.push(...wrap('- ' + cellSentence(report, cell) + '.', width, '  ').map((l, k) => (k === 0 ? l : '  ' + l)));
-  if (findings.notableCells.length > 6) out.push(`  - and ${findings.notableCells.length - 6} more cells beyond ±2 (see --format json).`);
-
-  if (report.warnings.length > 0) {
-    heading('Checks');
-    for (const w of report.warnings) out.push(...wrap(`! ${w.message}`, width, '  ').map((l) => paint.yellow(l)));
-  }
+/** --by: each level held fixed on its own, then the tests that pool them. */
+export function heldFixedLines(report: PairReport, paint: ChalkInstance, width: number): string[] {
+  const { stratified, strata } = report;
+  if (!stratified || !strata) return [];
+  const out = heading(paint, `Within each level of ${stratified.by}`, width);
+  const twoByTwo = report.rows.levels.length === 2 && report.cols.levels.length === 2;
+  const cells = strata.map((s) =>
+    s.testable
+      ? [formatCount(s.n), formatP(s.verdict.pValue), formatMeasure(s.measures.biasCorrectedV), ...(twoByTwo ? [formatRatio(s.measures.oddsRatio?.estimate)] : [])]
+      : [formatCount(s.n), 'not testable', '', ...(twoByTwo ? [''] : [])],
+  );
+  out.push(
+    ...renderGrid(
+      {
+        rowTitle: stratified.by,
+        colTitle: '',
+        rowLabels: strata.map((s) => s.level),
+        colLabels: ['n', 'p', 'bias-corrected V', ...(twoByTwo ? ['odds ratio'] : [])],
+        cells,
+        strong: (s) => paint.bold(s),
+        faint: (s) => paint.dim(s),
+      },
+      width,
+    ),
+  );
+  for (const s of strata) if (!s.testable) out.push(...wrapText(`${s.level}: ${s.reason}`, width, '  ').map((l) => paint.dim(l)));
   out.push('');
-  out.push(...wrap(CAUTION, width).map((l) => paint.dim(l)));
+  if (stratified.cmh) {
+    const c = stratified.cmh;
+    out.push(...figure(`${report.verdict.test === 'cmh' ? '► ' : ''}Cochran–Mantel–Haenszel`, formatStatistic(c.statistic), `${glued('df', String(c.df))}, ${glued('p', formatP(c.pValue))}: association within the levels`, width));
+  } else out.push(paint.dim('  Cochran–Mantel–Haenszel: not computable for these levels'));
+  if (stratified.commonOddsRatio) {
+    const o = stratified.commonOddsRatio;
+    out.push(...figure('common odds ratio', formatRatio(o.estimate), `${intervalWords(o.lower, o.upper, o.confidence)} (Mantel–Haenszel)`, width));
+  }
+  if (stratified.pooledOddsRatio !== null) out.push(...figure('odds ratio, pooled table', formatRatio(stratified.pooledOddsRatio), 'ignoring the levels', width));
+  if (stratified.breslowDay) {
+    const b = stratified.breslowDay;
+    out.push(...figure('equal odds in every level?', formatStatistic(b.statistic), `Breslow–Day ${glued('df', String(b.df))}, ${glued('p', formatP(b.pValue))}`, width));
+  }
+  return out;
+}
+
+function checkLines(warnings: readonly { message: string }[], paint: ChalkInstance, width: number): string[] {
+  if (warnings.length === 0) return [];
+  const out = heading(paint, 'Check before relying on it', width);
+  for (const w of warnings) out.push(...wrapText(`! ${w.message}`, width, '  ', '    ').map((l) => paint.yellow(l)));
+  return out;
+}
+
+export function cautionLines(paint: ChalkInstance, width: number): string[] {
+  return ['', ...wrapText(CAUTION, width).map((l) => paint.dim(l))];
+}
+
+export function renderPairText(report: PairReport, paint: ChalkInstance, options: TextOptions = DEFAULT_TEXT): string {
+  const width = options.width;
+  const out: string[] = [];
+  out.push(...wrapText(`${report.rows.name} × ${report.cols.name}`, width).map((l) => paint.bold(l)));
+  out.push(...wrapText(inputLine(report), width).map((l) => paint.dim(l)));
+  out.push('');
+  out.push(...answerLines(report, paint, width, report.stratified?.by));
+  out.push(...tableView(report, paint, options));
+  out.push(...whereLines(report, paint, options));
+  out.push(...heldFixedLines(report, paint, width));
+  out.push(...detailLines(report, paint, width));
+  out.push(...checkLines(report.warnings, paint, width));
+  out.push(...cautionLines(paint, width));
   return out.join('\n') + '\n';
 }
+

@@ -11,19 +11,20 @@ import { renderCompareText } from './compareText.js';
 import { renderCompareHtml, renderPairHtml, renderScanHtml } from './html.js';
 import { toJson } from './json.js';
 import { renderPairDelimited, renderPairMarkdown } from './pairDelimited.js';
-import { renderPairText } from './pairText.js';
+import { CellView, renderPairText } from './pairText.js';
 import { renderScanDelimited, renderScanMarkdown, renderScanText } from './scanTable.js';
 
-/** What a renderer may need besides the record: the colours of the terminal, and the --alpha in force. */
+/** What a renderer may need besides the record: the colours of the terminal, the page width and the cell view of text tables (decisions come from the record alone). */
 export interface RenderContext {
   paint: ChalkInstance;
-  alpha: number;
+  width: number;
+  cells: CellView;
 }
 
 type Renderers<R> = Record<string, (report: R, context: RenderContext) => string>;
 
 export const PAIR_RENDERERS = {
-  text: (report, { paint }) => renderPairText(report, paint),
+  text: (report, { paint, width, cells }) => renderPairText(report, paint, { width, cells }),
   json: (report) => toJson(report),
   csv: (report) => renderPairDelimited(report, ','),
   tsv: (report) => renderPairDelimited(report, '\t'),
@@ -32,7 +33,7 @@ export const PAIR_RENDERERS = {
 } satisfies Renderers<PairReport>;
 
 export const SCAN_RENDERERS = {
-  text: (report, { paint }) => renderScanText(report, paint),
+  text: (report, { paint, width }) => renderScanText(report, paint, { width }),
   json: (report) => toJson(report),
   csv: (report) => renderScanDelimited(report, ','),
   tsv: (report) => renderScanDelimited(report, '\t'),
@@ -41,7 +42,7 @@ export const SCAN_RENDERERS = {
 } satisfies Renderers<ScanReport>;
 
 export const COMPARE_RENDERERS = {
-  text: (report, { paint, alpha }) => renderCompareText(report, paint, alpha),
+  text: (report, { paint, width, cells }) => renderCompareText(report, paint, { width, cells }),
   json: (report) => toJson(report),
   html: (report) => renderCompareHtml(report),
 } satisfies Renderers<CompareReport>;

@@ -1,7 +1,10 @@
 import type { ChalkInstance } from 'chalk';
 import type { ScanPair, ScanReport } from '../analysis/scan.js';
-import { clip, formatCount, formatMeasure, formatP, padLeft, padRight } from './format.js';
-import { CAUTION, wrap } from './pairText.js';
+import { formatCount, formatMeasure, formatP } from '../numbers.js';
+import { displayWidth, foldLabel, glued, padEnd, padStart, wrapText } from './layout.js';
+import { cautionLines, heading } from './pairText.js';
+import { ADJUSTMENT_NAMES, alphaPhrase, CAUTION, testName } from './words.js';
+import { md } from './pairDelimited.js';
 
 /** Short flags for a pair, the same words in every format. */
 export function pairFlags(pair: ScanPair): string[] {
@@ -10,7 +13,7 @@ export function pairFlags(pair: ScanPair): string[] {
   if (pair.findings.primaryTest.test !== 'pearson') flags.push('exact-p');
   if (pair.warnings.some((w) => w.code === 'large-sample')) flags.push('large-n');
   if (pair.warnings.some((w) => w.code === 'reversal')) flags.push('reversal');
-  else if (pair.warnings.some((w) => w.code === 'layer-explains' || w.code === 'layer-reveals')) flags.push('layer');
+  else if (pair.warnings.some((w) => w.code === 'layer-explains' || w.code === 'layer-reveals')) flags.push('by-changes');
   return flags;
 }
 
@@ -22,59 +25,73 @@ export function strengthBar(value: number | null, width = 10): string {
   const eighths = Math.round(Math.max(0, Math.min(1, value)) * width * 8);
   const full = Math.floor(eighths / 8);
   const bar = '█'.repeat(full) + BLOCKS[eighths % 8];
-  return padRight(bar, width);
+  return padEnd(bar, width);
 }
 
-const ADJUSTMENT_NAMES = { bh: 'Benjamini–Hochberg', holm: 'Holm', bonferroni: 'Bonferroni', none: 'no' } as const;
-
-export function renderScanText(report: ScanReport, paint: ChalkInstance, width = 80): string {
-  const out: string[] = [];
-  out.push(...wrap(`Pairs of ${report.input.file}, strongest first`, width).map((l) => paint.bold(l)));
-  out.push(
-    ...wrap(
-      `${formatCount(report.n)} rows, ${report.columnsScored.length} columns scored, ${report.pairsTested} pairs tested; ` +
-        `${ADJUSTMENT_NAMES[report.adjustment]} adjustment, α ${report.alpha}: ${report.pairsPassing} pass`,
-      width,
-    ).map((l) => paint.dim(l)),
+/** The scan's setting in words: rows, pairs, the adjustment and how many pass in all. */
+export function scanSummary(report: ScanReport): string {
+  const weighting = report.weighting === 'weight' ? '; rows carry sampling weights, so the tests use effective sample sizes' : report.weighting === 'freq' ? '; rows carry frequency weights' : '';
+  const layer = report.by ? `; each pair judged within levels of ${report.by} (Cochran–Mantel–Haenszel)` : '';
+  return (
+    `${glued(formatCount(report.n), 'rows')}, ${glued(String(report.columnsScored.length), 'columns')} scored, ${glued(String(report.pairsTested), 'pairs')} tested${weighting}${layer}. ` +
+    `Each pair's leading p-value is adjusted by ${ADJUSTMENT_NAMES[report.adjustment]} and judged at ${alphaPhrase(report.alpha)}: ` +
+    `${glued(String(report.pairsPassing), 'of', String(report.pairsTested))} pass${report.pairs.length < report.pairsTested ? ` (the ${report.pairs.length} strongest are shown)` : ''}.`
   );
+}
+
+export const FLAG_LEGEND: Record<string, string> = {
+  sparse: 'fails the expected-count rule',
+  'exact-p': 'the leading p-value is exact or simulated',
+  'large-n': 'significant but negligible in strength',
+  reversal: 'holding the --by variable fixed reverses the association',
+  'by-changes': 'holding the --by variable fixed changes whether it passes',
+};
+
+export function renderScanText(report: ScanReport, paint: ChalkInstance, options: { width: number } = { width: 80 }): string {
+  const width = options.width;
+  const out: string[] = [];
+  out.push(...wrapText(`Pairs of ${report.input.file}, strongest first`, width).map((l) => paint.bold(l)));
+  out.push(...wrapText(scanSummary(report), width).map((l) => paint.dim(l)));
   out.push('');
-  const flagWidth = Math.max(5, ...report.pairs.map((p) => pairFlags(p).join(' ').length));
-  const pairWidth = Math.max(20, Math.min(40, width - 35 - flagWidth));
-  out.push(paint.bold(padLeft('#', 4) + '  ' + padRight('pair', pairWidth) + padRight('bias-corr. V', 18) + padLeft('adj. p', 9) + '  flags'));
+  const flagText = (p: ScanPair) => pairFlags(p).join(' ');
+  const flagWidth = Math.max(5, ...report.pairs.map((p) => displayWidth(flagText(p))));
+  const fixed = 4 + 2 + 6 + 16 + 11 + 2;
+  const pairWidth = Math.max(16, Math.min(44, width - fixed - Math.min(flagWidth, 18)));
+  out.push(paint.bold(padStart('#', 4) + '  ' + padEnd('passes', 6) + padEnd('pair', pairWidth) + padEnd('bias-corrected V', 16) + padStart('adj. p', 11) + '  notes'));
   for (const pair of report.pairs) {
-    const name = clip(`${pair.rows.name} × ${pair.cols.name}`, pairWidth - 1);
+    const name = foldLabel(`${pair.rows.name} × ${pair.cols.name}`, pairWidth - 1, Number.MAX_SAFE_INTEGER) ?? [`${pair.rows.name} × ${pair.cols.name}`];
     const v = pair.measures.biasCorrectedV;
     const line =
-      padLeft(String(pair.rank), 4) +
+      padStart(String(pair.rank), 4) +
       '  ' +
-      padRight(name, pairWidth) +
-      strengthBar(v) +
-      padLeft(formatMeasure(v), 7) +
-      ' ' +
-      padLeft(formatP(pair.pAdjusted), 9) +
+      padEnd(pair.passes ? 'yes' : '—', 6) +
+      padEnd(name[0], pairWidth) +
+      strengthBar(v, 10) +
+      padStart(formatMeasure(v), 6) +
+      padStart(formatP(pair.pAdjusted), 11) +
       '  ' +
-      pairFlags(pair).join(' ');
-    out.push(pair.passes ? line : paint.dim(line));
+      flagText(pair);
+    const lines = [line, ...name.slice(1).map((more) => ' '.repeat(12) + more)];
+    out.push(...(pair.passes ? lines : lines.map((l) => paint.dim(l))));
   }
-  if (report.pairs.length < report.pairsTested) out.push(paint.dim(`  … ${report.pairsTested - report.pairs.length} more pairs not shown (--top)`));
+  if (report.pairs.length < report.pairsTested) {
+    out.push(...wrapText(`… ${report.pairsTested - report.pairs.length} weaker pairs not shown (--top); ${report.pairsPassing} of all ${report.pairsTested} pairs pass.`, width, '  ').map((l) => paint.dim(l)));
+  }
   out.push('');
+  const used = [...new Set(report.pairs.flatMap(pairFlags))];
   const legend =
-    'Dimmed pairs do not pass after adjustment. Flags: sparse = fails the expected-count rule (its exact p-value is in ' +
-    "--format json and in 'tabsight pair'); exact-p = the leading p-value is exact or simulated; large-n = significant but negligible in strength" +
-    (report.by ? `; reversal = holding ${report.by} fixed reverses the association; layer = holding ${report.by} fixed changes whether it is significant.` : '.');
-  out.push(...wrap(legend, width).map((l) => paint.dim(l)));
+    `"passes": the adjusted leading p-value is at most ${glued('α', String(report.alpha))}. The leading p-value is the chi-square one, or the exact or simulated one where expected counts are small (simulated ones drawn until the decision is clear).` +
+    (used.length > 0 ? ' Notes: ' + used.map((f) => `${f} = ${FLAG_LEGEND[f]}`).join('; ') + '.' : '');
+  out.push(...wrapText(legend, width).map((l) => paint.dim(l)));
   if (report.skipped.length > 0) {
-    out.push('');
-    out.push(paint.bold('Columns left out'));
-    for (const s of report.skipped) out.push(...wrap(`${s.column}: ${s.reason}`, width, '  '));
+    out.push(...heading(paint, 'Columns left out', width));
+    for (const s of report.skipped) out.push(...wrapText(`${s.column}: ${s.reason}`, width, '  ', '    '));
   }
   if (report.untestable.length > 0) {
-    out.push('');
-    out.push(paint.bold('Pairs that could not be tested'));
-    for (const u of report.untestable) out.push(...wrap(`${u.rows} × ${u.cols}: ${u.reason}`, width, '  '));
+    out.push(...heading(paint, 'Pairs that could not be tested', width));
+    for (const u of report.untestable) out.push(...wrapText(`${u.rows} × ${u.cols}: ${u.reason}`, width, '  ', '    '));
   }
-  out.push('');
-  out.push(...wrap(CAUTION, width).map((l) => paint.dim(l)));
+  out.push(...cautionLines(paint, width));
   return out.join('\n') + '\n';
 }
 
@@ -113,6 +130,9 @@ export const SCAN_COLUMNS = [
   'layered_chi_square',
   'layered_df',
   'layered_p_value',
+  'leading_route',
+  'simulations',
+  'strength',
 ] as const;
 
 function scanRow(pair: ScanPair): (string | number | boolean | null)[] {
@@ -133,8 +153,8 @@ function scanRow(pair: ScanPair): (string | number | boolean | null)[] {
     pair.tests.likelihoodRatio.statistic,
     pair.tests.likelihoodRatio.pValue,
     pair.tests.fisher?.pValue ?? pair.tests.monteCarlo?.pValue ?? null,
-    pair.findings.primaryTest.pValue,
-    pair.findings.primaryTest.test,
+    pair.verdict.pValue,
+    pair.verdict.test,
     m.biasCorrectedV,
     m.cramersV,
     m.tschuprowT,
@@ -151,6 +171,9 @@ function scanRow(pair: ScanPair): (string | number | boolean | null)[] {
     pair.stratified?.cmh?.statistic ?? null,
     pair.stratified?.cmh?.df ?? null,
     pair.stratified?.cmh?.pValue ?? null,
+    pair.verdict.route,
+    pair.tests.monteCarlo?.simulations ?? null,
+    pair.verdict.strength,
   ];
 }
 
@@ -171,28 +194,38 @@ export function renderScanDelimited(report: ScanReport, delimiter: ',' | '\t'): 
   return lines.join('\n') + '\n';
 }
 
-function markdownCell(s: string): string {
-  return s.replace(/\|/g, '\\|').replace(/\n/g, ' ');
-}
-
 export function renderScanMarkdown(report: ScanReport): string {
   const out: string[] = [];
-  out.push(`**Pairs of ${markdownCell(report.input.file)}**, strongest first: ${formatCount(report.n)} rows, ${report.pairsTested} pairs tested, ` +
-    `${ADJUSTMENT_NAMES[report.adjustment]} adjustment at α ${report.alpha}, ${report.pairsPassing} pass.`);
+  out.push(`### Pairs of ${md(report.input.file)}, strongest first`);
   out.push('');
-  out.push('| # | rows | cols | bias-corrected V | Cramér\'s V | chi-square (df) | adjusted p | passes | flags |');
-  out.push('|--:|---|---|--:|--:|--:|--:|:-:|---|');
+  out.push(md(scanSummary(report)));
+  out.push('');
+  out.push("| # | passes | rows | cols | bias-corrected V | Cramér's V | leading p | test | adjusted p | notes |");
+  out.push('|--:|:-:|---|---|--:|--:|--:|---|--:|---|');
   for (const p of report.pairs) {
     out.push(
-      `| ${p.rank} | ${markdownCell(p.rows.name)} | ${markdownCell(p.cols.name)} | ${formatMeasure(p.measures.biasCorrectedV)} | ${formatMeasure(p.measures.cramersV)} | ` +
-        `${p.tests.pearson.statistic.toFixed(2)} (${p.tests.pearson.df}) | ${formatP(p.pAdjusted)} | ${p.passes ? 'yes' : 'no'} | ${pairFlags(p).join(', ')} |`,
+      `| ${p.rank} | ${p.passes ? 'yes' : 'no'} | ${md(p.rows.name)} | ${md(p.cols.name)} | ${formatMeasure(p.measures.biasCorrectedV)} | ${formatMeasure(p.measures.cramersV)} | ` +
+        `${formatP(p.verdict.pValue)} | ${md(testName(p.verdict.test, p))} | ${formatP(p.pAdjusted)} | ${pairFlags(p).join(', ')} |`,
     );
+  }
+  const used = [...new Set(report.pairs.flatMap(pairFlags))];
+  if (used.length > 0) {
+    out.push('');
+    out.push('Notes: ' + used.map((f) => `${f} = ${FLAG_LEGEND[f]}`).join('; ') + '.');
+  }
+  if (report.pairs.length < report.pairsTested) {
+    out.push('');
+    out.push(`${report.pairsTested - report.pairs.length} weaker pairs not shown (--top); ${report.pairsPassing} of all ${report.pairsTested} pairs pass.`);
   }
   if (report.skipped.length > 0) {
     out.push('');
-    out.push('Columns left out: ' + report.skipped.map((s) => `${markdownCell(s.column)} (${markdownCell(s.reason)})`).join('; ') + '.');
+    out.push('Columns left out: ' + report.skipped.map((s) => `${md(s.column)} (${md(s.reason)})`).join('; ') + '.');
+  }
+  if (report.untestable.length > 0) {
+    out.push('');
+    out.push('Pairs that could not be tested: ' + report.untestable.map((u) => `${md(u.rows)} × ${md(u.cols)} (${md(u.reason)})`).join('; ') + '.');
   }
   out.push('');
-  out.push(`_${CAUTION}_`);
+  out.push(`_${md(CAUTION)}_`);
   return out.join('\n') + '\n';
 }

@@ -15,18 +15,18 @@ export class GrowingSimulation {
   draws = 0;
   asExtreme = 0;
   private readonly sampler: RandomTableSampler | null;
-  private readonly threshold: number;
+  private readonly observed: number[];
 
   constructor(
     counts: CountMatrix,
     readonly seed: number,
   ) {
     const { rowTotals, colTotals } = margins(counts);
-    const rows = rowTotals.filter((t) => t > 0);
-    const cols = colTotals.filter((t) => t > 0);
-    const usable = counts.every((row) => row.every((v) => Number.isInteger(v) && v >= 0)) && rows.length >= 2 && cols.length >= 2;
-    this.sampler = usable ? new RandomTableSampler(rows, cols, new SeededRandom(seed)) : null;
-    this.threshold = this.sampler ? this.sampler.logFactorialSum(counts.flat()) - Math.log1p(EXACT_RELATIVE_TOLERANCE) : 0;
+    const rowKeep = rowTotals.map((t, i) => (t > 0 ? i : -1)).filter((i) => i >= 0);
+    const colKeep = colTotals.map((t, j) => (t > 0 ? j : -1)).filter((j) => j >= 0);
+    const usable = counts.every((row) => row.every((v) => Number.isInteger(v) && v >= 0)) && rowKeep.length >= 2 && colKeep.length >= 2;
+    this.sampler = usable ? new RandomTableSampler(rowKeep.map((i) => rowTotals[i]), colKeep.map((j) => colTotals[j]), new SeededRandom(seed)) : null;
+    this.observed = rowKeep.flatMap((i) => colKeep.map((j) => counts[i][j]));
   }
 
   get usable(): boolean {
@@ -37,8 +37,10 @@ export class GrowingSimulation {
   extendTo(total: number): void {
     const sampler = this.sampler;
     if (!sampler) return;
+    // The rule of monteCarloExactTest: P(draw) ≤ P(observed)(1 + 1e-7).
+    const threshold = -Math.log1p(EXACT_RELATIVE_TOLERANCE);
     for (; this.draws < total; this.draws++) {
-      if (sampler.logFactorialSum(sampler.draw()) >= this.threshold) this.asExtreme++;
+      if (sampler.logProbabilityRatio(this.observed, sampler.draw()) >= threshold) this.asExtreme++;
     }
   }
 

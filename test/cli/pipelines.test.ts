@@ -39,8 +39,8 @@ describe('compare', () => {
     expect(out.onlyAfter.rows).toEqual(['new']);
     expect(out.warnings.find((w: any) => w.code === 'level-in-one-period').message).toMatch(/g "new" occurs only in wave 2026/);
     expect(out.change.method).toBe('no-three-way-interaction');
-    const text = (await run(['compare', file, '--period', 'wave', '--rows', 'g', '--cols', 'a'])).stdout;
-    expect(text).toMatch(/Did it change\?/);
+    const text = (await run(['compare', file, '--period', 'wave', '--rows', 'g', '--cols', 'a'])).stdout.replace(/\s+/g, ' ');
+    expect(text).toMatch(/No evidence that the association changed: p [\d.]+ > α 0\.05, G² test of no three-way interaction/);
     expect((await run(['compare', file, '--period', 'wave', '--levels', '2025,2030', '--rows', 'g', '--cols', 'a'])).status).toBe(2);
   });
 });
@@ -115,7 +115,7 @@ describe('the scripting contract', () => {
 
   it('pair writes CSV/TSV with stable columns and Markdown with the table, tests and measures', async () => {
     const csv = (await run(['pair', DEMO, '--rows', 'age_band', '--cols', 'preferred_format', '--format', 'csv'])).stdout.split('\n');
-    expect(csv[0]).toBe('section,name,row,col,value,df,p_value');
+    expect(csv[0]).toBe('section,name,row,col,value,df,p_value,level,text');
     expect(csv.some((l) => l.startsWith('test,pearson_chi_square,,,'))).toBe(true);
     expect(csv.some((l) => l.startsWith('count,count,16-24,audiobook,'))).toBe(true);
     expect(csv.some((l) => l.startsWith('measure,cramers_v,,,'))).toBe(true);
@@ -124,11 +124,16 @@ describe('the scripting contract', () => {
     expect(Number(pearson[4])).toBe(json.tests.pearson.statistic);
     expect(Number(pearson[6])).toBe(json.tests.pearson.pValue);
     const tsv = (await run(['pair', DEMO, '--rows', 'age_band', '--cols', 'preferred_format', '--format', 'tsv'])).stdout;
-    expect(tsv.split('\n')[0]).toBe('section\tname\trow\tcol\tvalue\tdf\tp_value');
+    expect(tsv.split('\n')[0]).toBe('section\tname\trow\tcol\tvalue\tdf\tp_value\tlevel\ttext');
+    // shares travel with the counts (percentages 0–100, as in the JSON)
+    const share = csv.find((l) => l.startsWith('row_share,row_share,16-24,audiobook,'))!.split(',');
+    expect(Number(share[4])).toBe(json.percentages.row[0][0]);
     const md = (await run(['pair', DEMO, '--rows', 'age_band', '--cols', 'preferred_format', '--format', 'markdown'])).stdout;
-    expect(md).toMatch(/\| test \| statistic \| df \| p-value \|/);
-    expect(md).toMatch(/\| Pearson chi-square \|/);
-    expect(md).toMatch(/\| cramers v \|/);
+    expect(md).toMatch(/\| test \(► leads\) \| statistic \| df \| p-value \|/);
+    expect(md).toMatch(/\| ► chi-square \(Pearson's X²\) \|/);
+    expect(md).toMatch(/\| Cramér's V \|/);
+    expect(md).toMatch(/\| 77 \(24%\) \|/); // the count with its row share
+    expect(md).not.toMatch(/cramers v/);
   });
 
   it('html is one self-contained file; --plot writes the same pictures as standalone SVG', async () => {

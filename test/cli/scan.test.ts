@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { parse } from 'csv-parse/sync';
+import stringWidth from 'string-width';
 import { describe, expect, it } from 'vitest';
 import { expectClose } from '../helpers.js';
 import { DEMO, run, runJson, tempFile } from './cliHelpers.js';
@@ -66,13 +67,16 @@ describe('tabsight scan', () => {
     const vs = out.pairs.map((p: any) => p.measures.biasCorrectedV);
     expect([...vs].sort((a, b) => b - a)).toEqual(vs);
     for (const p of out.pairs) {
-      expect(p.pAdjusted).toBeGreaterThanOrEqual(p.tests.pearson.pValue);
-      expect(p.passes).toBe(p.pAdjusted <= 0.05);
+      // the leading p-value is the one adjusted (Pearson's where the expected counts allow it)
+      expect(p.pAdjusted).toBeGreaterThanOrEqual(p.verdict.pValue);
+      expect(p.verdict.adjustment.pValue).toBe(p.pAdjusted);
+      expect(p.verdict.passes).toBe(p.passes);
+      expect(p.passes).toBe(p.pAdjusted <= out.alpha);
       expect(p.counts).toBeUndefined();
     }
     const bonferroni = await runJson(['scan', DEMO, '--adjust', 'bonferroni']);
     const m = bonferroni.pairsTested;
-    for (const p of bonferroni.pairs) expectClose(p.pAdjusted, Math.min(1, m * p.tests.pearson.pValue), 1e-14);
+    for (const p of bonferroni.pairs) expectClose(p.pAdjusted, Math.min(1, m * p.verdict.pValue), 1e-14);
     expect((await runJson(['scan', DEMO, '--top', '3'])).pairs).toHaveLength(3);
   });
 
@@ -104,7 +108,7 @@ describe('tabsight scan', () => {
     const csv = parse((await run(['scan', DEMO, '--format', 'csv'])).stdout, { columns: true }) as Record<string, string>[];
     for (const p of sparse) expect(csv[p.rank - 1].flags).toContain('sparse');
     const md = (await run(['scan', DEMO, '--format', 'markdown'])).stdout;
-    expect(md).toMatch(/\| # \| rows \| cols \|/);
+    expect(md).toMatch(/\| # \| passes \| rows \| cols \|/);
     expect(md).toMatch(/sparse/);
     expect((await run(['scan', DEMO])).stdout).toMatch(/sparse/);
   });
@@ -122,6 +126,6 @@ describe('tabsight scan', () => {
     const r = await run(['scan', '-'], readFileSync(DEMO));
     expect(r.stderr).toBe('');
     expect(r.stdout).not.toMatch(/\x1b\[/);
-    for (const line of r.stdout.split('\n')) expect([...line].length, line).toBeLessThanOrEqual(80);
+    for (const line of r.stdout.split('\n')) expect(stringWidth(line), line).toBeLessThanOrEqual(80);
   });
 });

@@ -125,8 +125,15 @@ describe(`layers (--by): ${reference.stratified2x2.name}`, () => {
     expect(out.stratified.pooledOddsRatio).toBeGreaterThan(1);
     expect(out.stratified.commonOddsRatio.estimate).toBeLessThan(1);
     const text = (await run(args)).stdout.replace(/\s+/g, ' ');
-    expect(text).toMatch(/the layers reverse the association/);
-    expect(text).toMatch(/Layers department held fixed/);
+    expect(text).toMatch(/holding department fixed reverses the association/);
+    expect(text).toMatch(/Within each level of department/);
+    // "In words" leads with the within-department result, and the decision follows the layered test
+    expect(out.verdict.test).toBe('cmh');
+    expect(out.verdict.passes).toBe(false);
+    expect(out.findings.statements[0].kind).toBe('held-fixed');
+    expect(text).toMatch(/Holding department fixed, there is no convincing evidence that gender and decision are associated within its levels/);
+    expect(text.indexOf('Holding department fixed')).toBeLessThan(text.indexOf('In the pooled table'));
+    expect((await run([...args, '--exit-status'])).status).toBe(3);
   });
 
   it('a layer that is also --rows is a usage error', async () => {
