@@ -49,6 +49,41 @@ export async function scanFile() {
   return path;
 }
 
+/**
+ * A survey-sized file: 4,642 rows × 28 categorical columns of 2 to 15
+ * levels with skewed (Zipf-like) shares, some columns depending on the one
+ * before, 3% missing: many pairs fail the expected-count rule, as in real
+ * survey exports of that size.
+ */
+export async function surveyFile() {
+  const path = join(DATA, 'survey-4642.csv');
+  if (existsSync(path)) return path;
+  mkdirSync(DATA, { recursive: true });
+  const random = mulberry32(4642);
+  const columns = 28;
+  const levels = Array.from({ length: columns }, (_v, k) => [2, 3, 4, 5, 6, 7, 9, 12, 15][k % 9]);
+  const draw = (k) => {
+    const weights = Array.from({ length: levels[k] }, (_v, i) => 1 / (i + 1) ** 1.3);
+    let u = random() * weights.reduce((a, b) => a + b);
+    for (let i = 0; i < weights.length; i++) {
+      u -= weights[i];
+      if (u <= 0) return i;
+    }
+    return levels[k] - 1;
+  };
+  const header = Array.from({ length: columns }, (_v, k) => `v${k + 1}`).join(',');
+  await writeLines(path, header, 4642, () => {
+    const row = [];
+    for (let k = 0; k < columns; k++) {
+      let level = draw(k);
+      if (k % 4 === 1 && random() < 0.3) level = Math.min(levels[k] - 1, Math.floor((row[k - 1] * levels[k]) / levels[k - 1]));
+      row.push(level);
+    }
+    return row.map((l) => (random() < 0.03 ? '' : `L${l}`)).join(',');
+  });
+  return path;
+}
+
 export async function pairFile(rows = 1_000_000, name = 'pair-1m.csv') {
   const path = join(DATA, name);
   if (existsSync(path)) return path;

@@ -8,7 +8,7 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, statSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { pairFile, scanFile } from './generate.mjs';
+import { pairFile, scanFile, surveyFile } from './generate.mjs';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const root = join(here, '..');
@@ -71,6 +71,13 @@ console.log('scenario                              tabsight   reference   ratio 
 for (const r of results) {
   console.log(`${r.name.padEnd(36)} ${r.mine.toFixed(2).padStart(8)} s ${r.reference.toFixed(2).padStart(9)} s ${r.ratio.toFixed(3).padStart(7)}   ≤ ${r.goal} ${r.met ? 'met' : 'NOT MET'}`);
 }
+// Exact and simulated p-values in scan: the sparse pairs of a survey-sized
+// file with --exact auto (exact within the work bound, else simulated with
+// sequential stopping) against --exact never (chi-square only), same run.
+const survey = await surveyFile();
+const exactBudget = compare('scan --exact auto vs never, 4,642 x 28', [process.execPath, [bin, 'scan', survey, '--format', 'csv', '--engine', 'builtin']], [process.execPath, [bin, 'scan', survey, '--format', 'csv', '--engine', 'builtin', '--exact', 'never']], 3);
+console.log(`\nscan exact budget: --exact auto ${exactBudget.mine.toFixed(2)} s, --exact never ${exactBudget.reference.toFixed(2)} s, ratio ${exactBudget.ratio.toFixed(2)} (goal ≤ 3) ${exactBudget.met ? 'met' : 'NOT MET'}`);
+
 const pairResult = results[1];
 const megabytes = statSync(pair).size / 1e6;
 console.log(`\npair throughput: ${(megabytes / pairResult.mine).toFixed(0)} MB/s, ${(1e6 / pairResult.mine / 1e6).toFixed(2)} million rows/s (whole process, ${megabytes.toFixed(0)} MB file)`);

@@ -119,7 +119,7 @@ export function renderPairDelimited(report: PairReport, delimiter: ',' | '\t'): 
 
 /** Text for a Markdown table cell or paragraph: pipes escaped, one line, glue as plain spaces. */
 export function md(s: string): string {
-  return s.replace(/\u00a0/g, ' ').replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/[*_`[\]<>]/g, (c) => `\\${c}`).replace(/\r?\n/g, ' ');
+  return s.replace(/\u00a0/g, ' ').replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/[*_`[\]<]/g, (c) => `\\${c}`).replace(/\r?\n/g, ' ');
 }
 
 function markdownGrid(record: AnalysisRecord, cell: (i: number, j: number) => string, margins: boolean): string[] {
