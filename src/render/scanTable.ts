@@ -54,24 +54,30 @@ export function renderScanText(report: ScanReport, paint: ChalkInstance, options
   out.push(...wrapText(scanSummary(report), width).map((l) => paint.dim(l)));
   out.push('');
   const flagText = (p: ScanPair) => pairFlags(p).join(' ');
-  const flagWidth = Math.max(5, ...report.pairs.map((p) => displayWidth(flagText(p))));
-  const fixed = 4 + 2 + 6 + 16 + 11 + 2;
-  const pairWidth = Math.max(16, Math.min(44, width - fixed - Math.min(flagWidth, 18)));
-  out.push(paint.bold(padStart('#', 4) + '  ' + padEnd('passes', 6) + padEnd('pair', pairWidth) + padEnd('bias-corrected V', 16) + padStart('adj. p', 11) + '  notes'));
+  // # · passes · pair · bar and V · adjusted p · notes; the pair column takes the room the page leaves,
+  // and a pair's notes go on a line of their own when they do not fit beside it.
+  const fixed = 4 + 2 + 8 + 16 + 11 + 2;
+  const longest = Math.max(4, ...report.pairs.map((p) => displayWidth(`${p.rows.name} × ${p.cols.name}`)));
+  const pairWidth = Math.max(16, Math.min(longest + 2, width - fixed - 5));
+  const notesRoom = width - fixed - pairWidth;
+  out.push(paint.bold((padStart('#', 4) + '  ' + padEnd('passes', 8) + padEnd('pair', pairWidth) + padEnd('bias-corrected V', 16) + padStart('adj. p', 11) + '  notes').trimEnd()));
   for (const pair of report.pairs) {
-    const name = foldLabel(`${pair.rows.name} × ${pair.cols.name}`, pairWidth - 1, Number.MAX_SAFE_INTEGER) ?? [`${pair.rows.name} × ${pair.cols.name}`];
+    const name = foldLabel(`${pair.rows.name} × ${pair.cols.name}`, pairWidth - 2, Number.MAX_SAFE_INTEGER) ?? [`${pair.rows.name} × ${pair.cols.name}`];
     const v = pair.measures.biasCorrectedV;
+    const notes = flagText(pair);
+    const inline = displayWidth(notes) <= notesRoom;
     const line =
       padStart(String(pair.rank), 4) +
       '  ' +
-      padEnd(pair.passes ? 'yes' : '—', 6) +
+      padEnd(pair.passes ? 'yes' : '—', 8) +
       padEnd(name[0], pairWidth) +
       strengthBar(v, 10) +
       padStart(formatMeasure(v), 6) +
       padStart(formatP(pair.pAdjusted), 11) +
       '  ' +
-      flagText(pair);
-    const lines = [line, ...name.slice(1).map((more) => ' '.repeat(12) + more)];
+      (inline ? notes : '');
+    const lines = [line.trimEnd(), ...name.slice(1).map((more) => ' '.repeat(14) + more)];
+    if (!inline && notes !== '') lines.push(...wrapText(`notes: ${notes}`, width, ' '.repeat(14)));
     out.push(...(pair.passes ? lines : lines.map((l) => paint.dim(l))));
   }
   if (report.pairs.length < report.pairsTested) {

@@ -99,7 +99,7 @@ describe('one verdict, every format', async () => {
     expect(flat(text)).toContain(`${all.pairsPassing} of all ${all.pairsTested} pairs pass`);
     const rows = text.split('\n').filter((l) => /^\s+\d+ {2}/.test(l));
     expect(rows).toHaveLength(3);
-    all.pairs.slice(0, 3).forEach((p: any, k: number) => expect(rows[k].slice(6, 12).trim()).toBe(p.passes ? 'yes' : '—'));
+    all.pairs.slice(0, 3).forEach((p: any, k: number) => expect(rows[k].slice(6, 14).trim()).toBe(p.passes ? 'yes' : '—'));
     expect(flat((await run(['scan', DEMO, '--format', 'html'])).stdout)).toContain('Adjustment for multiple testing: Benjamini–Hochberg (false discovery rate)');
   });
 
