@@ -1,0 +1,268 @@
+import { cellVariance, type CellCovariance } from './designCovariance.js';
+import { dot, orthonormalBasis, symmetricEigenvalues } from './linearAlgebra.js';
+
+/**
+ * Generalized design effects of the test of independence in an r × c table
+ * (Rao & Scott 1981, JASA 76, 221–230; Rao & Scott 1984, Ann. Statist. 12,
+ * 46–60), with the conventions of design-based-tests.md §6:
+ *
+ *   Δ = (C' D⁻¹ C / n)⁻¹ (C' D⁻¹ V D⁻¹ C),
+ *
+ * C an rc × k basis of the k = (r−1)(c−1) interaction contrasts (orthogonal
+ * to the constant and to every row and column indicator), D = diag(p) of the
+ * estimated cell proportions, V their design covariance, n the unweighted
+ * complete rows. The eigenvalues δ_1..δ_k of Δ do not depend on the basis;
+ * the tests use their mean δ̄ = trace(Δ)/k and trace(Δ²).
+ *
+ * Computation, without forming C. With G = D^(−1/2) C and
+ * S = n D^(−1/2) V D^(−1/2), Δ = (G'G)⁻¹ G' S G has the eigenvalues of
+ * Q' S Q for an orthonormal basis Q of span(G). Because C is orthogonal to
+ * the main-effect space M (constant, row and column indicators), span(G) is
+ * exactly the orthogonal complement of D^(1/2) M (same dimension
+ * rc − (r + c − 1) = k), so Q Q' = P = I − H H' with H an orthonormal basis
+ * of the r + c − 1 vectors √p ∘ (row or column indicator). Hence
+ *
+ *   trace(Δ) = trace(P S P),   trace(Δ²) = trace((P S P)²),
+ *
+ * and the eigenvalues of Δ are those of P S P after the r + c − 1 zeros that
+ * belong to H. V arrives as diag(d) + Σ_l λ_l u_l u_l' (designCovariance.ts);
+ * with E = n diag(d/p), z_l = P (√n u_l/√p) and h_j = ‖row j of H‖²:
+ *
+ *   trace(PSP)     = Σ_j e_j (1 − h_j) + Σ_l λ_l ‖z_l‖²
+ *   trace((PSP)²)  = Σ e_j² − 2 Σ e_j² h_j + ‖H'EH‖²_F + 2 Σ_l λ_l z_l'E z_l + Σ_{l,m} λ_l λ_m (z_l·z_m)²
+ *
+ * in O(L K (r + c) + L² K) for L factors and K = rc cells; when L exceeds K
+ * the dense K × K form of S is used instead (O(L K² + K²(r + c))).
+ * Eigenvalues: with clusters or replicates (no diagonal part) they are the
+ * non-zero eigenvalues of the L × L matrix Λ^½ Z Z' Λ^½ (padded with zeros
+ * up to k), computed when L ≤ 600; otherwise from the dense P S P when
+ * K ≤ 500. Beyond both (e.g. a 25 × 25 table without clusters) the mean and
+ * the F test are still exact, but the individual eigenvalues, minimum and
+ * maximum are not computed (null), which the result says.
+ *
+ * A cell with p_j = 0 carries no information: S is zero in its row and
+ * column and its contrast directions contribute eigenvalues 0 (so δ̄ stays
+ * trace/k as the conventions define it).
+ *
+ * The design effect of one cell's proportion is Kish's
+ * deff_j = V_jj / (p_j (1 − p_j) / n) (Kish 1965, Survey Sampling, §8.2).
+ */
+
+export interface GeneralizedDesignEffects {
+  /** k = (r − 1)(c − 1) */
+  k: number;
+  trace: number;
+  traceOfSquare: number;
+  /** δ̄ = trace(Δ)/k */
+  mean: number;
+  /** a = √(trace(Δ²)/(k δ̄²) − 1), the coefficient of variation of the eigenvalues */
+  coefficientOfVariation: number;
+  /** the k eigenvalues ascending, or null when not computed (see method) */
+  eigenvalues: Float64Array | null;
+  min: number | null;
+  max: number | null;
+  /** how the eigenvalues were found: from the factors, from the dense matrix, or not at all */
+  eigenvalueMethod: 'factors' | 'dense' | 'not computed';
+  /** deff of each cell's proportion (row-major), null where p is 0 or 1 */
+  cellDesignEffects: (number | null)[];
+}
+
+const GRAM_EIGEN_LIMIT = 600;
+const DENSE_EIGEN_LIMIT = 500;
+
+/** H: an orthonormal basis of √p ∘ (row indicators, column indicators), r + c − 1 vectors. */
+function mainEffectBasis(p: Float64Array, rows: number, cols: number): Float64Array[] {
+  const K = rows * cols;
+  const vectors: Float64Array[] = [];
+  for (let i = 0; i < rows; i++) {
+    const v = new Float64Array(K);
+    for (let j = 0; j < cols; j++) v[i * cols + j] = Math.sqrt(p[i * cols + j]);
+    vectors.push(v);
+  }
+  for (let j = 0; j < cols; j++) {
+    const v = new Float64Array(K);
+    for (let i = 0; i < rows; i++) v[i * cols + j] = Math.sqrt(p[i * cols + j]);
+    vectors.push(v);
+  }
+  return orthonormalBasis(vectors);
+}
+
+function project(v: Float64Array, basis: Float64Array[]): Float64Array {
+  const out = Float64Array.from(v);
+  for (const h of basis) {
+    const a = dot(h, out);
+    for (let j = 0; j < out.length; j++) out[j] -= a * h[j];
+  }
+  return out;
+}
+
+/**
+ * Generalized design effects of the independence contrasts of an r × c
+ * table with cell proportions p (row-major), design covariance V and n
+ * unweighted complete rows (see the module comment).
+ * @example With every row its own PSU, one stratum and equal weights, V = n/(n−1) · (diag(p) − pp')/n,
+ *          so every eigenvalue and every cell design effect is n/(n − 1) (test/stats/designEffects.test.ts).
+ */
+export function generalizedDesignEffects(p: Float64Array, covariance: CellCovariance, n: number, rows: number, cols: number): GeneralizedDesignEffects {
+  const K = rows * cols;
+  if (p.length !== K || covariance.size !== K) throw new Error(`generalizedDesignEffects: ${p.length} proportions for a ${rows} × ${cols} table`);
+  const k = (rows - 1) * (cols - 1);
+  const scale = p.map((pj) => (pj > 0 ? Math.sqrt(n / pj) : 0)); // √n / √p, 0 on empty cells
+  const H = mainEffectBasis(p, rows, cols);
+  const leverage = new Float64Array(K);
+  for (const h of H) for (let j = 0; j < K; j++) leverage[j] += h[j] * h[j];
+  const e = new Float64Array(K);
+  if (covariance.diagonal) for (let j = 0; j < K; j++) e[j] = covariance.diagonal[j] * scale[j] * scale[j];
+  const L = covariance.factors.length;
+
+  let trace: number;
+  let traceOfSquare: number;
+  let eigenvalues: Float64Array | null = null;
+  let eigenvalueMethod: GeneralizedDesignEffects['eigenvalueMethod'] = 'not computed';
+
+  if (L <= K) {
+    const Z = covariance.factors.map((u) => project(u.map((v, j) => v * scale[j]), H));
+    const lambda = covariance.weights;
+    // diagonal part
+    let traceE = 0;
+    let eSquares = 0;
+    let eSquaresLeverage = 0;
+    for (let j = 0; j < K; j++) {
+      traceE += e[j] * (1 - leverage[j]);
+      eSquares += e[j] * e[j];
+      eSquaresLeverage += e[j] * e[j] * leverage[j];
+    }
+    let hEh = 0;
+    if (covariance.diagonal) {
+      for (let a = 0; a < H.length; a++) {
+        for (let b = 0; b < H.length; b++) {
+          let s = 0;
+          for (let j = 0; j < K; j++) s += H[a][j] * e[j] * H[b][j];
+          hEh += s * s;
+        }
+      }
+    }
+    trace = traceE;
+    traceOfSquare = eSquares - 2 * eSquaresLeverage + hEh;
+    const gram = new Float64Array(L * L);
+    for (let l = 0; l < L; l++) {
+      trace += lambda[l] * dot(Z[l], Z[l]);
+      if (covariance.diagonal) {
+        let s = 0;
+        for (let j = 0; j < K; j++) s += e[j] * Z[l][j] * Z[l][j];
+        traceOfSquare += 2 * lambda[l] * s;
+      }
+      for (let m = 0; m <= l; m++) {
+        const g = dot(Z[l], Z[m]);
+        gram[l * L + m] = g;
+        gram[m * L + l] = g;
+        traceOfSquare += (m === l ? 1 : 2) * lambda[l] * lambda[m] * g * g;
+      }
+    }
+    if (!covariance.diagonal && lambda.every((w) => w >= 0) && L <= GRAM_EIGEN_LIMIT) {
+      const weighted = new Float64Array(L * L);
+      for (let l = 0; l < L; l++) for (let m = 0; m < L; m++) weighted[l * L + m] = Math.sqrt(lambda[l] * lambda[m]) * gram[l * L + m];
+      const values = symmetricEigenvalues(weighted, L);
+      eigenvalues = padToK(values, k);
+      eigenvalueMethod = 'factors';
+    }
+  } else {
+    const S = denseScaled(covariance, scale, e);
+    const SH = H.map((h) => multiply(S, h, K));
+    trace = 0;
+    traceOfSquare = 0;
+    for (let j = 0; j < K; j++) trace += S[j * K + j];
+    for (let i = 0; i < K * K; i++) traceOfSquare += S[i] * S[i];
+    H.forEach((h, a) => {
+      trace -= dot(h, SH[a]);
+      traceOfSquare -= 2 * dot(SH[a], SH[a]);
+      H.forEach((_g, b) => {
+        const v = dot(H[b], SH[a]);
+        traceOfSquare += v * v;
+      });
+    });
+  }
+
+  if (eigenvalues === null && K <= DENSE_EIGEN_LIMIT) {
+    const S = denseScaled(covariance, scale, e);
+    const PSP = projectBothSides(S, H, K);
+    const values = symmetricEigenvalues(PSP, K);
+    // the r + c − 1 smallest are the zeros of the H directions (all eigenvalues are ≥ 0)
+    eigenvalues = clampNoise(values.slice(K - k));
+    eigenvalueMethod = 'dense';
+  }
+
+  const mean = trace / k;
+  const coefficientOfVariation = Math.sqrt(Math.max(0, traceOfSquare / (k * mean * mean) - 1));
+  const cellDesignEffects = Array.from(p, (pj, j) => (pj > 0 && pj < 1 ? (cellVariance(covariance, j) * n) / (pj * (1 - pj)) : null));
+  return {
+    k,
+    trace,
+    traceOfSquare,
+    mean,
+    coefficientOfVariation,
+    eigenvalues,
+    min: eigenvalues ? eigenvalues[0] : null,
+    max: eigenvalues ? eigenvalues[k - 1] : null,
+    eigenvalueMethod,
+    cellDesignEffects,
+  };
+}
+
+/** The k largest of the values (the rest are zeros of a lower-rank V), padded with zeros when fewer. */
+function padToK(values: Float64Array, k: number): Float64Array {
+  const out = new Float64Array(k);
+  const take = Math.min(k, values.length);
+  for (let i = 0; i < take; i++) out[k - 1 - i] = values[values.length - 1 - i];
+  return clampNoise(out);
+}
+
+/** Rounding leaves eigenvalues that are exactly 0 in theory at ±1e-16 of the largest: set them to 0. */
+function clampNoise(values: Float64Array): Float64Array {
+  const largest = values.length ? Math.abs(values[values.length - 1]) : 0;
+  return values.map((v) => (Math.abs(v) <= 1e-12 * largest ? 0 : v)).sort();
+}
+
+/** S = diag(e) + Σ λ_l (s∘u_l)(s∘u_l)' as a dense K × K matrix. */
+function denseScaled(covariance: CellCovariance, scale: Float64Array, e: Float64Array): Float64Array {
+  const K = covariance.size;
+  const S = new Float64Array(K * K);
+  for (let j = 0; j < K; j++) S[j * K + j] = e[j];
+  covariance.factors.forEach((u, l) => {
+    const w = covariance.weights[l];
+    const v = u.map((x, j) => x * scale[j]);
+    for (let i = 0; i < K; i++) {
+      const wi = w * v[i];
+      if (wi === 0) continue;
+      const row = i * K;
+      for (let j = 0; j < K; j++) S[row + j] += wi * v[j];
+    }
+  });
+  return S;
+}
+
+function multiply(S: Float64Array, v: Float64Array, K: number): Float64Array {
+  const out = new Float64Array(K);
+  for (let i = 0; i < K; i++) {
+    let s = 0;
+    const row = i * K;
+    for (let j = 0; j < K; j++) s += S[row + j] * v[j];
+    out[i] = s;
+  }
+  return out;
+}
+
+/** P S P with P = I − Σ h h'. */
+function projectBothSides(S: Float64Array, H: Float64Array[], K: number): Float64Array {
+  const out = Float64Array.from(S);
+  // S ← (I − hh') S (I − hh') for each orthonormal h in turn (they commute)
+  for (const h of H) {
+    const Sh = multiply(out, h, K);
+    const hSh = dot(h, Sh);
+    for (let i = 0; i < K; i++) {
+      const row = i * K;
+      for (let j = 0; j < K; j++) out[row + j] += -h[i] * Sh[j] - Sh[i] * h[j] + h[i] * h[j] * hSh;
+    }
+  }
+  return out;
+}
