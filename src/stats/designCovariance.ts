@@ -373,6 +373,18 @@ export function quadraticForm(covariance: CellCovariance, g: ArrayLike<number>):
   return value;
 }
 
+/** g' V g for a g that is non-zero only at `indices` (values there in `values`): O(L · support). */
+export function sparseQuadraticForm(covariance: CellCovariance, indices: ArrayLike<number>, values: ArrayLike<number>): number {
+  let value = 0;
+  if (covariance.diagonal) for (let a = 0; a < indices.length; a++) value += covariance.diagonal[indices[a]] * values[a] * values[a];
+  covariance.factors.forEach((u, l) => {
+    let projection = 0;
+    for (let a = 0; a < indices.length; a++) projection += u[indices[a]] * values[a];
+    value += covariance.weights[l] * projection * projection;
+  });
+  return value;
+}
+
 /** V_jj, the variance of one cell proportion. */
 export function cellVariance(covariance: CellCovariance, j: number): number {
   let value = covariance.diagonal ? covariance.diagonal[j] : 0;

@@ -40,9 +40,14 @@ import { dot, orthonormalBasis, symmetricEigenvalues } from './linearAlgebra.js'
  * the F test are still exact, but the individual eigenvalues, minimum and
  * maximum are not computed (null), which the result says.
  *
- * A cell with p_j = 0 carries no information: S is zero in its row and
- * column and its contrast directions contribute eigenvalues 0 (so δ̄ stays
- * trace/k as the conventions define it).
+ * Empty cells (p_j = 0): D⁻¹ is replaced by its generalized inverse (1/p_j,
+ * and 0 on empty cells), as the reference library does, so the contrasts are
+ * C restricted to the occupied cells. Then span(G) is the orthogonal
+ * complement, within the vectors that vanish on the empty cells (N), of
+ * D^(1/2)(M ∩ N), where M ∩ N are the main-effect vectors a_i + b_j with
+ * a_i + b_j = 0 on every empty cell; H is a basis of that. Its dimension is
+ * still k unless the empty cells cover a whole interaction contrast (a
+ * rectangle of empty cells), in which case the missing eigenvalues are 0.
  *
  * The design effect of one cell's proportion is Kish's
  * deff_j = V_jj / (p_j (1 − p_j) / n) (Kish 1965, Survey Sampling, §8.2).
@@ -70,20 +75,39 @@ export interface GeneralizedDesignEffects {
 const GRAM_EIGEN_LIMIT = 600;
 const DENSE_EIGEN_LIMIT = 500;
 
-/** H: an orthonormal basis of √p ∘ (row indicators, column indicators), r + c − 1 vectors. */
+/**
+ * H: an orthonormal basis of D^(1/2)(M ∩ N), M the main-effect space (vectors a_i + b_j over
+ * the cells), N the vectors that are zero on the empty cells (p = 0). Without empty cells this is
+ * √p ∘ (row indicators, column indicators), r + c − 1 vectors; with them, (a, b) must satisfy
+ * a_i + b_j = 0 on every empty cell (i, j).
+ */
 function mainEffectBasis(p: Float64Array, rows: number, cols: number): Float64Array[] {
   const K = rows * cols;
-  const vectors: Float64Array[] = [];
+  const m = rows + cols;
+  const constraints: Float64Array[] = [];
   for (let i = 0; i < rows; i++) {
-    const v = new Float64Array(K);
-    for (let j = 0; j < cols; j++) v[i * cols + j] = Math.sqrt(p[i * cols + j]);
-    vectors.push(v);
+    for (let j = 0; j < cols; j++) {
+      if (p[i * cols + j] > 0) continue;
+      const v = new Float64Array(m);
+      v[i] = 1;
+      v[rows + j] = 1;
+      constraints.push(v);
+    }
   }
-  for (let j = 0; j < cols; j++) {
+  const constraintBasis = orthonormalBasis(constraints);
+  // the (a, b) allowed: the standard basis of R^(r+c) with the constraint directions removed
+  const free = orthonormalBasis(
+    Array.from({ length: m }, (_x, t) => {
+      const v = new Float64Array(m);
+      v[t] = 1;
+      return project(v, constraintBasis);
+    }),
+  );
+  const vectors = free.map((ab) => {
     const v = new Float64Array(K);
-    for (let i = 0; i < rows; i++) v[i * cols + j] = Math.sqrt(p[i * cols + j]);
-    vectors.push(v);
-  }
+    for (let i = 0; i < rows; i++) for (let j = 0; j < cols; j++) v[i * cols + j] = Math.sqrt(p[i * cols + j]) * (ab[i] + ab[rows + j]);
+    return v;
+  });
   return orthonormalBasis(vectors);
 }
 
@@ -109,6 +133,9 @@ export function generalizedDesignEffects(p: Float64Array, covariance: CellCovari
   const k = (rows - 1) * (cols - 1);
   const scale = p.map((pj) => (pj > 0 ? Math.sqrt(n / pj) : 0)); // √n / √p, 0 on empty cells
   const H = mainEffectBasis(p, rows, cols);
+  const emptyCells = p.reduce((count, pj) => count + (pj > 0 ? 0 : 1), 0);
+  // dimension of span(D^(+1/2) C): k unless empty cells make some contrast vanish
+  const kEffective = K - emptyCells - H.length;
   const leverage = new Float64Array(K);
   for (const h of H) for (let j = 0; j < K; j++) leverage[j] += h[j] * h[j];
   const e = new Float64Array(K);
@@ -163,7 +190,7 @@ export function generalizedDesignEffects(p: Float64Array, covariance: CellCovari
       const weighted = new Float64Array(L * L);
       for (let l = 0; l < L; l++) for (let m = 0; m < L; m++) weighted[l * L + m] = Math.sqrt(lambda[l] * lambda[m]) * gram[l * L + m];
       const values = symmetricEigenvalues(weighted, L);
-      eigenvalues = padToK(values, k);
+      eigenvalues = padToK(values, kEffective, k);
       eigenvalueMethod = 'factors';
     }
   } else {
@@ -187,8 +214,8 @@ export function generalizedDesignEffects(p: Float64Array, covariance: CellCovari
     const S = denseScaled(covariance, scale, e);
     const PSP = projectBothSides(S, H, K);
     const values = symmetricEigenvalues(PSP, K);
-    // the r + c − 1 smallest are the zeros of the H directions (all eigenvalues are ≥ 0)
-    eigenvalues = clampNoise(values.slice(K - k));
+    // the K − kEffective smallest are the zeros of the H directions and of the empty cells (all eigenvalues are ≥ 0)
+    eigenvalues = padToK(values.slice(K - kEffective), kEffective, k);
     eigenvalueMethod = 'dense';
   }
 
@@ -209,10 +236,10 @@ export function generalizedDesignEffects(p: Float64Array, covariance: CellCovari
   };
 }
 
-/** The k largest of the values (the rest are zeros of a lower-rank V), padded with zeros when fewer. */
-function padToK(values: Float64Array, k: number): Float64Array {
+/** The kEffective largest of the values (the rest are zeros of a lower-rank V), padded with zeros to k. */
+function padToK(values: Float64Array, kEffective: number, k: number): Float64Array {
   const out = new Float64Array(k);
-  const take = Math.min(k, values.length);
+  const take = Math.min(kEffective, values.length);
   for (let i = 0; i < take; i++) out[k - 1 - i] = values[values.length - 1 - i];
   return clampNoise(out);
 }

@@ -225,32 +225,32 @@ export function betaQuantileLogOdds(target: number, a: number, b: number, side: 
     if (!(tail > 0)) return { g: -Infinity, slope: Number.NaN };
     return { g: Math.log(tail) - logTarget, slope: (sign * tails.power) / tail };
   };
-  // Start at the mean's log odds, log(a/b), then bracket by doubling steps.
+  // Newton's method from the mean's log odds, log(a/b). The density in u, x^a y^b / B(a, b), is
+  // log-concave, hence so are both tails (Prékopa 1973, Acta Sci. Math. 34, 335–343), and g is concave
+  // and monotone: after the first step Newton's iterates approach the root from one side. A bracket is
+  // kept all the same, for the steps where the tail underflows (g = −∞) or rounding misleads.
   let u = Math.log(a / b);
   let current = evaluate(u);
   let low = -Infinity;
   let high = Infinity;
-  const note = (v: number, g: number): void => {
-    // g·sign < 0 means u is below the root
-    if (g * sign < 0) low = Math.max(low, v);
-    else high = Math.min(high, v);
-  };
-  note(u, current.g);
-  for (let step = 1; !(Number.isFinite(low) && Number.isFinite(high)); step *= 2) {
-    u = Number.isFinite(low) ? low + step : high - step;
-    if (Math.abs(u) > 1e6) return u > 0 ? Infinity : -Infinity; // far beyond the double range of x or y
-    current = evaluate(u);
-    note(u, current.g);
-  }
-  u = Math.min(Math.max(u, low), high);
-  current = evaluate(u);
-  for (let iteration = 0; iteration < 200; iteration++) {
+  let step = 1;
+  for (let iteration = 0; iteration < 400; iteration++) {
     if (current.g === 0) return u;
-    note(u, current.g);
+    // g·sign < 0 means u is below the root
+    if (current.g * sign < 0) low = Math.max(low, u);
+    else high = Math.min(high, u);
     let next = u - current.g / current.slope;
-    if (!(next > low && next < high) || !Number.isFinite(current.g)) next = 0.5 * (low + high);
+    const bracketed = Number.isFinite(low) && Number.isFinite(high);
+    if (!Number.isFinite(next) || (bracketed && !(next > low && next < high))) {
+      if (bracketed) next = 0.5 * (low + high);
+      else {
+        next = Number.isFinite(low) ? low + step : high - step;
+        step *= 2;
+      }
+    }
+    if (Math.abs(next) > 1e6) return next > 0 ? Infinity : -Infinity; // far beyond the double range of x or y
     if (Math.abs(next - u) <= 1e-15 * Math.max(1, Math.abs(u))) return next;
-    if (high - low <= 4e-16 * Math.max(1, Math.abs(low), Math.abs(high))) return next;
+    if (bracketed && high - low <= 4e-16 * Math.max(1, Math.abs(low), Math.abs(high))) return next;
     u = next;
     current = evaluate(u);
   }

@@ -6,6 +6,19 @@ import { upperQuantileStudentT } from './studentTDistribution.js';
  * given its design-based standard error and the design degrees of freedom.
  */
 
+/** t_(df, 1−α/2), remembered: a table asks for the same few (α, df) thousands of times. */
+const criticalValues = new Map<string, number>();
+function criticalT(alpha: number, df: number): number {
+  const key = `${alpha}:${df}`;
+  let t = criticalValues.get(key);
+  if (t === undefined) {
+    if (criticalValues.size > 4096) criticalValues.clear();
+    t = upperQuantileStudentT(alpha / 2, df);
+    criticalValues.set(key, t);
+  }
+  return t;
+}
+
 export interface ProportionInterval {
   lower: number;
   upper: number;
@@ -22,7 +35,7 @@ export interface ProportionInterval {
  */
 export function logitInterval(p: number, standardError: number, df: number, level = 0.95): ProportionInterval | null {
   if (!(p > 0 && p < 1) || !(df > 0) || !(standardError >= 0)) return null;
-  const t = upperQuantileStudentT((1 - level) / 2, df);
+  const t = criticalT(1 - level, df);
   const centre = Math.log(p / (1 - p));
   const half = (t * standardError) / (p * (1 - p));
   const expit = (x: number): number => 1 / (1 + Math.exp(-x));
@@ -45,7 +58,7 @@ export function kornGraubardInterval(p: number, variance: number, n: number, df:
   if (!(p >= 0 && p <= 1) || !(n >= 2) || !(df > 0) || !(variance >= 0)) return null;
   const alpha = 1 - level;
   const raw = variance > 0 && p > 0 && p < 1 ? (p * (1 - p)) / variance : n;
-  const ratio = upperQuantileStudentT(alpha / 2, n - 1) / upperQuantileStudentT(alpha / 2, df);
+  const ratio = criticalT(alpha, n - 1) / criticalT(alpha, df);
   const effectiveSize = raw * ratio * ratio;
   const x = effectiveSize * p;
   const lower = p > 0 ? betaQuantile(alpha / 2, x, effectiveSize - x + 1) : 0;

@@ -85,7 +85,7 @@ export function designF(pearson: number, effects: GeneralizedDesignEffects, desi
  * tests are null, with the reason, when the design variance of the
  * independence contrasts is zero or the design has no degrees of freedom.
  * @example On the one-stage cluster sample of the California Academic Performance Index (apiclus1, 15 school
- *          districts), sch.wide × stype gives F = 4.1 on 1.64 and 22.9 df, p = 0.036
+ *          districts, fpc), sch.wide × stype gives F = 5.193 on 1.495 and 20.92 df, p = 0.0217, δ̄ = 1.150
  *          (test/stats/raoScott.test.ts, recorded from the survey library for R).
  */
 export function designTests(estimate: DesignEstimate, rows: number, cols: number): DesignTests {
