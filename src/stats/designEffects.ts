@@ -1,4 +1,4 @@
-import { cellVariance, type CellCovariance } from './designCovariance.js';
+import { cellVariance, denseCovariance, type CellCovariance } from './designCovariance.js';
 import { dot, orthonormalBasis, symmetricEigenvalues } from './linearAlgebra.js';
 
 /**
@@ -194,7 +194,7 @@ export function generalizedDesignEffects(p: Float64Array, covariance: CellCovari
       eigenvalueMethod = 'factors';
     }
   } else {
-    const S = denseScaled(covariance, scale, e);
+    const S = denseScaled(covariance, scale);
     const SH = H.map((h) => multiply(S, h, K));
     trace = 0;
     traceOfSquare = 0;
@@ -211,7 +211,7 @@ export function generalizedDesignEffects(p: Float64Array, covariance: CellCovari
   }
 
   if (eigenvalues === null && K <= DENSE_EIGEN_LIMIT) {
-    const S = denseScaled(covariance, scale, e);
+    const S = denseScaled(covariance, scale);
     const PSP = projectBothSides(S, H, K);
     const values = symmetricEigenvalues(PSP, K);
     // the K − kEffective smallest are the zeros of the H directions and of the empty cells (all eigenvalues are ≥ 0)
@@ -250,21 +250,11 @@ function clampNoise(values: Float64Array): Float64Array {
   return values.map((v) => (Math.abs(v) <= 1e-12 * largest ? 0 : v)).sort();
 }
 
-/** S = diag(e) + Σ λ_l (s∘u_l)(s∘u_l)' as a dense K × K matrix. */
-function denseScaled(covariance: CellCovariance, scale: Float64Array, e: Float64Array): Float64Array {
+/** S = diag(s) V diag(s) as a dense K × K matrix (s = √n/√p; its diagonal part is e = s² d). */
+function denseScaled(covariance: CellCovariance, scale: Float64Array): Float64Array {
   const K = covariance.size;
-  const S = new Float64Array(K * K);
-  for (let j = 0; j < K; j++) S[j * K + j] = e[j];
-  covariance.factors.forEach((u, l) => {
-    const w = covariance.weights[l];
-    const v = u.map((x, j) => x * scale[j]);
-    for (let i = 0; i < K; i++) {
-      const wi = w * v[i];
-      if (wi === 0) continue;
-      const row = i * K;
-      for (let j = 0; j < K; j++) S[row + j] += wi * v[j];
-    }
-  });
+  const S = denseCovariance(covariance);
+  for (let i = 0; i < K; i++) for (let j = 0; j < K; j++) S[i * K + j] *= scale[i] * scale[j];
   return S;
 }
 
