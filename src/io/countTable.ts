@@ -7,13 +7,13 @@
  * src/table's.
  */
 import { dataError, usageError } from '../errors.js';
-import { pairFromBuckets } from '../table/compensatedSum.js';
+import { pairFromBuckets } from '../numerics/compensatedSum.js';
 import { CountedTable, mergeRareLevels, Stratum } from '../table/countedTable.js';
 import { compareNatural } from '../table/naturalOrder.js';
 import { TableCounter } from '../table/tableCounter.js';
 import { dropEmptyLevels, MISSING_LEVEL, relabelTable, TwoWayTable } from '../table/twoWayTable.js';
 import type { Weighting } from '../table/weighting.js';
-import { twoProduct } from '../stats/exactArithmetic.js';
+import { twoProduct } from '../numerics/errorFree.js';
 import { resolveColumn } from './columns.js';
 import type { CountedInput } from './counting.js';
 import { EngineInput } from './engine/files.js';

@@ -1,6 +1,7 @@
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { devianceTermFromDifference } from './gamma.js';
-import { CountMatrix, compensatedSum, degreesOfFreedom, deviationsFromIndependence, isTwoByTwo } from './contingency.js';
+import { compensatedSum } from '../numerics/compensatedSum.js';
+import { CountMatrix, degreesOfFreedom, deviationsFromIndependence, isTwoByTwo } from './contingency.js';
 
 export interface TestResult {
   statistic: number;

@@ -1,4 +1,5 @@
-import { differenceOfProducts } from './exactArithmetic.js';
+import { compensatedSum } from '../numerics/compensatedSum.js';
+import { differenceOfProducts } from '../numerics/errorFree.js';
 
 /** A two-way table of counts: counts[i][j] for row level i and column level j. */
 export type CountMatrix = readonly (readonly number[])[];
@@ -7,19 +8,6 @@ export interface Margins {
   rowTotals: number[];
   colTotals: number[];
   total: number;
-}
-
-/** Neumaier's compensated sum (Neumaier 1974), stable for large n. */
-export function compensatedSum(values: Iterable<number>): number {
-  let sum = 0;
-  let compensation = 0;
-  for (const v of values) {
-    const t = sum + v;
-    if (Math.abs(sum) >= Math.abs(v)) compensation += sum - t + v;
-    else compensation += v - t + sum;
-    sum = t;
-  }
-  return sum + compensation;
 }
 
 /** Row totals n_i., column totals n_.j and the grand total n. */

@@ -1,6 +1,6 @@
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
-import { compensatedSum } from './contingency.js';
+import { compensatedSum } from '../numerics/compensatedSum.js';
 import { devianceTerm } from './gamma.js';
 import { normalQuantile } from './normalDistribution.js';
 import { LayerStack } from './threeWay.js';

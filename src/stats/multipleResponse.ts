@@ -1,6 +1,6 @@
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
-import { compensatedSum } from './contingency.js';
+import { compensatedSum } from '../numerics/compensatedSum.js';
 
 /**
  * Tests of independence for multiple-response ("pick any") questions, where

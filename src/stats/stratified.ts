@@ -1,6 +1,7 @@
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
-import { compensatedSum, CountMatrix, margins } from './contingency.js';
+import { compensatedSum } from '../numerics/compensatedSum.js';
+import { CountMatrix, margins } from './contingency.js';
 import { normalQuantile } from './normalDistribution.js';
 
 /**

@@ -1,6 +1,6 @@
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
-import { compensatedSum } from './contingency.js';
+import { compensatedSum } from '../numerics/compensatedSum.js';
 import { devianceTerm } from './gamma.js';
 
 /** A stack of K two-way tables with the same r row and c column levels: layers[k][i][j]. */

@@ -3,7 +3,7 @@
  * their codes: the scan's way, for codes per row (the built-in reader) or
  * per entry with grouped counts and exact weight sums (the engine).
  */
-import { addCompensated, CompensatedSum } from './compensatedSum.js';
+import { addCompensated, CompensatedSum } from '../numerics/compensatedSum.js';
 import type { CountedTable } from './countedTable.js';
 import { compareNatural } from './naturalOrder.js';
 import type { OrderedColumn } from './orderedColumn.js';

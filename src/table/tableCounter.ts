@@ -4,7 +4,7 @@
  * (compensated when weighted), and the sums of the weighting.
  */
 import { dataError } from '../errors.js';
-import { addCompensated, CompensatedSum } from './compensatedSum.js';
+import { addCompensated, CompensatedSum } from '../numerics/compensatedSum.js';
 import { orderLevels, TwoWayTable } from './twoWayTable.js';
 import type { Weighting } from './weighting.js';
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { likelihoodRatioChiSquare, pearsonChiSquare } from '../../src/stats/chiSquareTests.js';
-import { differenceOfProducts, twoProduct } from '../../src/stats/exactArithmetic.js';
+import { differenceOfProducts, twoProduct } from '../../src/numerics/errorFree.js';
 import { expectClose, reference } from '../helpers.js';
 
 describe('numerical limits against exact rational arithmetic and 60-digit mpmath (recorded)', () => {

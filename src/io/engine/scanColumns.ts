@@ -8,7 +8,7 @@
  * the analysis are the scan's own.
  */
 import { dataError } from '../../errors.js';
-import { pairFromBuckets } from '../../table/compensatedSum.js';
+import { pairFromBuckets } from '../../numerics/compensatedSum.js';
 import type { CountedTable, CountPair } from '../../table/countedTable.js';
 import { countPair } from '../../table/countPair.js';
 import type { EncodedColumn } from '../../table/encodedColumn.js';

@@ -1,33 +1,32 @@
 /**
- * Sums of weights that do not depend on the order of the rows. Each total
- * is carried as an unevaluated pair hi + lo: every addition is error-free
- * (Knuth's TwoSum, TAOCP vol. 2, §4.2.2) and the rounding errors gather in
- * lo, which is cascaded summation (Ogita, Rump & Oishi 2005, "Accurate sum
- * and dot product", SIAM J. Sci. Comput. 26, Algorithm 4.4 "Sum2"). The
- * result is as accurate as a sum in twice the working precision, rounded
- * once; so the same weights, read in any order or added up by another
- * engine from exact partial sums, give the same double in practice (they
- * could differ only for a total within about n²·2⁻¹⁰⁶ of a rounding
- * boundary).
+ * Compensated sums: sums that keep their digits for large n and do not
+ * depend on the order of the terms. Each total is carried as an unevaluated
+ * pair hi + lo: every addition is error-free (TwoSum, errorFree.ts) and the
+ * rounding errors gather in lo, which is cascaded summation (Ogita, Rump &
+ * Oishi 2005, "Accurate sum and dot product", SIAM J. Sci. Comput. 26,
+ * Algorithm 4.4 "Sum2"; for a list, the same as Neumaier 1974). The result
+ * is as accurate as a sum in twice the working precision, rounded once; so
+ * the same weights, read in any order or added up by another engine from
+ * exact partial sums, give the same double in practice (they could differ
+ * only for a total within about n²·2⁻¹⁰⁶ of a rounding boundary).
  */
+import { sumError } from './errorFree.js';
 
-/** Adds x to the pair stored at hi[i], lo[i]. */
+/** Adds x to the pair stored at hi[i], lo[i] (arrays of cells, updated in place). */
 export function addCompensated(hi: { [k: number]: number }, lo: { [k: number]: number }, i: number, x: number): void {
   const a = hi[i];
   const s = a + x;
-  const bb = s - a;
-  lo[i] += a - (s - bb) + (x - bb);
+  lo[i] += sumError(a, x, s);
   hi[i] = s;
 }
 
-/** A running total of weights, carried as hi + lo. */
+/** A running total, carried as hi + lo. */
 export class CompensatedSum {
   hi = 0;
   lo = 0;
   add(x: number): void {
     const s = this.hi + x;
-    const bb = s - this.hi;
-    this.lo += this.hi - (s - bb) + (x - bb);
+    this.lo += sumError(this.hi, x, s);
     this.hi = s;
   }
   /** Adds a value that is itself a pair hi + lo. */
@@ -40,9 +39,16 @@ export class CompensatedSum {
   }
 }
 
+/** The compensated sum of a list of numbers (Sum2; the same result as Neumaier's 1974 algorithm). */
+export function compensatedSum(values: Iterable<number>): number {
+  const total = new CompensatedSum();
+  for (const v of values) total.add(v);
+  return total.value;
+}
+
 /**
  * An exact sum of integers m_b · 2^(b−52), one per binary exponent bucket b
- * (as an analytical engine returns them, see io/engine.ts), as a pair
+ * (as the engine returns them, see io/engine/sql.ts: weightedRowsSql), as a pair
  * hi + lo: hi is the correctly rounded sum, lo the rounded remainder.
  */
 export function pairFromBuckets(buckets: Iterable<[number, bigint]>): [number, number] {

@@ -1,11 +1,11 @@
-// Order-free sums of weights (src/table/compensatedSum.ts). The reference is
+// Order-free sums of weights (src/numerics/compensatedSum.ts). The reference is
 // exact integer arithmetic: weights are drawn as multiples of 2^-60 below
 // 2^40, so Σw·2^60 is an exact BigInt, and ECMAScript's BigInt → Number
 // conversion is specified to round to nearest, ties to even (ECMA-262,
 // §21.1.1.1 Number(value) → "the Number value for ℝ(prim)").
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { CompensatedSum, pairFromBuckets } from '../../src/table/compensatedSum.js';
+import { addCompensated, CompensatedSum, compensatedSum, pairFromBuckets } from '../../src/numerics/compensatedSum.js';
 
 const SCALE = 2n ** 60n;
 const weight = fc.tuple(fc.bigInt({ min: 0n, max: 2n ** 100n - 1n }), fc.integer({ min: 0, max: 60 })).map(([m, shift]) => {
@@ -38,6 +38,12 @@ describe('compensated sums of weights', () => {
         for (const w of shuffled) b.add(w);
         const exact = exactlyRounded(values);
         expect(a.value).toBe(exact);
+        // the list sum and the in-place cell sum are the same algorithm
+        expect(compensatedSum(shuffled)).toBe(exact);
+        const hi = [0];
+        const lo = [0];
+        for (const w of values) addCompensated(hi, lo, 0, w);
+        expect(hi[0] + lo[0]).toBe(exact);
         expect(b.value).toBe(exact);
       }),
       { numRuns: 300, seed: 7 },

@@ -1,21 +1,30 @@
 /**
- * Error-free transformations for sums and products of doubles (Dekker 1971,
- * "A floating-point technique for extending the available precision",
- * Numer. Math. 18, 224–242; Knuth, TAOCP vol. 2, §4.2.2). They let the
- * deviation n·n_ij − n_i.·n_.j be formed exactly enough that tables with
- * counts near 10^12, or close to independence, keep their digits.
+ * Error-free transformations of doubles: a sum or a product as the rounded
+ * result plus its exact rounding error (Dekker 1971, "A floating-point
+ * technique for extending the available precision", Numer. Math. 18,
+ * 224–242; Knuth, TAOCP vol. 2, §4.2.2). The compensated sums
+ * (compensatedSum.ts) and the exact deviations of the chi-square tests
+ * (stats/contingency.ts) are built on them.
  */
+
+/**
+ * The rounding error of s = fl(a + b): a + b = s + e exactly (Knuth's TwoSum,
+ * no branch and no condition on |a|, |b|), barring overflow.
+ */
+export function sumError(a: number, b: number, s: number): number {
+  const bb = s - a;
+  return a - (s - bb) + (b - bb);
+}
 
 /** a + b = s + e exactly (Knuth's TwoSum). */
 export function twoSum(a: number, b: number): [number, number] {
   const s = a + b;
-  const bb = s - a;
-  const e = a - (s - bb) + (b - bb);
-  return [s, e];
+  return [s, sumError(a, b, s)];
 }
 
 const SPLITTER = 134217729; // 2^27 + 1
 
+/** Veltkamp's split: a = hi + lo, each with at most 26 significant bits. */
 function split(a: number): [number, number] {
   const c = SPLITTER * a;
   const hi = c - (c - a);
