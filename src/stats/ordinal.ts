@@ -1,7 +1,8 @@
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
-import { compensatedSum, CountMatrix, margins } from './contingency.js';
-import { complementsInSum, ddAdd, ddFromNumber, ddMultiply, ddProduct, ddScale, ddSubtract, ddValue, ddZero, DoubleDouble } from './exactArithmetic.js';
+import { compensatedSum } from '../numerics/compensatedSum.js';
+import { CountMatrix, margins } from './contingency.js';
+import { complementsInSum, ddAdd, ddFromNumber, ddMultiply, ddProduct, ddScale, ddSubtract, ddValue, ddZero, DoubleDouble } from '../numerics/doubleDouble.js';
 
 /**
  * Ordinal measures for a table whose rows and columns are both ordered (in

@@ -1,6 +1,7 @@
 import { likelihoodRatioChiSquare } from './chiSquareTests.js';
-import { compensatedSum, CountMatrix, deviationsFromIndependence, margins, transpose } from './contingency.js';
-import { complementsInSum } from './exactArithmetic.js';
+import { compensatedSum } from '../numerics/compensatedSum.js';
+import { CountMatrix, deviationsFromIndependence, margins, transpose } from './contingency.js';
+import { complementsInSum } from '../numerics/doubleDouble.js';
 
 /**
  * Proportional-reduction-in-error measures of association, in both

@@ -1,5 +1,5 @@
 import { CountMatrix, deviationsFromIndependence, margins } from './contingency.js';
-import { complementsInSum } from './exactArithmetic.js';
+import { complementsInSum } from '../numerics/doubleDouble.js';
 
 /** Pearson residuals e_ij = (n_ij − E_ij) / √E_ij (Agresti 2013 §2.4.5). */
 export function pearsonResiduals(counts: CountMatrix): number[][] {

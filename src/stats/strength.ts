@@ -1,5 +1,5 @@
 import { CountMatrix, isTwoByTwo } from './contingency.js';
-import { differenceOfProducts } from './exactArithmetic.js';
+import { differenceOfProducts } from '../numerics/errorFree.js';
 
 /**
  * Strength-of-association measures built on Pearson's X². Each returns null
