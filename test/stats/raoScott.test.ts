@@ -112,6 +112,32 @@ describe('lonely PSU treatments (NHANES with stratum 89 left one PSU)', () => {
   }
 });
 
+describe('published worked example', () => {
+  // Lumley, T., documentation of the survey package for R, worked example "chi-squared tests" on the one-stage
+  // cluster sample apiclus1 (fpc): the weighted table of sch.wide by stype, then F = 5.1934 on ndf 1.495 and
+  // ddf 20.925, p = 0.02175 (second order), and "X-squared = 11.9409, df = 2, p-value = 0.005553" for the first
+  // order, as printed. The printed X-squared there is the Pearson X² of the table rescaled to n (not yet divided
+  // by δ̄); its p-value is that of X²/δ̄ (= k·F = 10.387 here).
+  it('apiclus1, sch.wide × stype: the printed weighted table and both Rao–Scott tests, to the printed digits', () => {
+    const design = survey.taylor[1];
+    const table = design.tables[0];
+    expect(table.rowLevels).toEqual(['No', 'Yes']);
+    expect(table.colLevels).toEqual(['E', 'H', 'M']);
+    const estimate = taylorEstimate(design.data, design.design, table);
+    const printed = [406.164, 101.541, 270.776, 4467.8035, 372.317, 575.3989];
+    printed.forEach((total, j) => expect(Math.abs(estimate.proportions[j] * estimate.weightTotal - total)).toBeLessThan(5e-4));
+    const tests = designTests(estimate, 2, 3);
+    expect(Math.abs(tests.designF!.statistic - 5.1934)).toBeLessThan(5e-5);
+    expect(Math.abs(tests.designF!.numDf - 1.495)).toBeLessThan(5e-4);
+    expect(Math.abs(tests.designF!.denDf - 20.925)).toBeLessThan(5e-4);
+    expect(Math.abs(tests.designF!.pValue - 0.02175)).toBeLessThan(5e-6);
+    expect(Math.abs(tests.pearson - 11.9409)).toBeLessThan(5e-5);
+    expect(Math.abs(tests.designPearson!.statistic - 11.9409 / tests.designEffects.mean)).toBeLessThan(1e-3);
+    expect(tests.designPearson!.df).toBe(2);
+    expect(Math.abs(tests.designPearson!.pValue - 0.005553)).toBeLessThan(5e-7);
+  });
+});
+
 describe('Rao–Scott identities (design-based-tests conventions §7)', () => {
   it('for a 2 × 2 table numDf = 1 and the first-order statistic is k × F', () => {
     const design = survey.taylor[0];
