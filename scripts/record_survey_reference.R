@@ -191,8 +191,10 @@ percent_reference <- function(design, rowvar, colvar, our_df) {
     dj <- d[cv == cl[j], ]
     cols[[length(cols) + 1]] <- one_proportion(dj, as.numeric(as.character(dj$variables[[rowvar]]) == rl[i]), our_df)
   }
+  rowMargins <- lapply(rl, function(level) one_proportion(d, as.numeric(rv == level), our_df))
+  colMargins <- lapply(cl, function(level) one_proportion(d, as.numeric(cv == level), our_df))
   list(rowVariable = rowvar, colVariable = colvar, rowLevels = I(rl), colLevels = I(cl), designDf = our_df, level = 0.95,
-       cell = cells, row = rows, column = cols)
+       cell = cells, row = rows, column = cols, rowMargins = rowMargins, columnMargins = colMargins)
 }
 
 psus_minus_strata <- function(strata, psu) length(unique(paste(strata, psu))) - length(unique(strata))

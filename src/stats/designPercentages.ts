@@ -7,6 +7,7 @@ import type { DesignTests } from './raoScott.js';
  * design-based standard errors and confidence intervals.
  *
  *   cell     p_ij,              Var = V_(ij,ij)
+ *   margins  p_i+ and p_+j,     Var = 1'V1 over the level's cells
  *   row      R_ij = p_ij/p_i+,  Var = g'Vg,  g_kl = [k = i]([l = j] − R_ij)/p_i+
  *   column   C_ij = p_ij/p_+j,  Var = g'Vg,  g_kl = [l = j]([k = i] − C_ij)/p_+j
  *
@@ -38,6 +39,10 @@ export interface DesignPercentages {
   cell: DesignProportion[][];
   row: DesignProportion[][];
   column: DesignProportion[][];
+  /** p_i+, the share of each row level among the complete rows */
+  rowMargins: DesignProportion[];
+  /** p_+j, the share of each column level */
+  columnMargins: DesignProportion[];
 }
 
 function describe(proportion: number, variance: number, domainSize: number, df: number, level: number): DesignProportion {
@@ -122,7 +127,17 @@ export function designPercentages(estimate: DesignEstimate, rows: number, cols: 
       column[i].push(describe(C, colTotals[j] > 0 ? ratioVariance(at, C, colTotals[j], colSums, j) : 0, colCounts[j], df, level));
     }
   }
-  return { level, degreesOfFreedom: df, cell, row, column };
+  // margins: g = 1 on the level's cells, so u·g is the factor's sum over them
+  const marginVariance = (sums: { factors: Float64Array[]; diagonal: Float64Array | null }, domain: number): number => {
+    let value = sums.diagonal ? sums.diagonal[domain] : 0;
+    covariance.factors.forEach((_u, l) => {
+      value += covariance.weights[l] * sums.factors[l][domain] * sums.factors[l][domain];
+    });
+    return value;
+  };
+  const rowMargins = Array.from(rowTotals, (total, i) => describe(total, marginVariance(rowSums, i), estimate.n, df, level));
+  const columnMargins = Array.from(colTotals, (total, j) => describe(total, marginVariance(colSums, j), estimate.n, df, level));
+  return { level, degreesOfFreedom: df, cell, row, column, rowMargins, columnMargins };
 }
 
 /**

@@ -33,7 +33,7 @@ function compare(label: string, ours: DesignProportion, ref: ProportionReference
 describe('weighted percentages with design-based standard errors and intervals agree with survey for R (r-cran-survey 4.1-1-1, recorded)', () => {
   for (const fixture of survey.percentages) {
     const { ref } = fixture;
-    it(`${fixture.name}: ${ref.rowVariable} × ${ref.colVariable}, cell, row and column proportions (delta method through V)`, () => {
+    it(`${fixture.name}: ${ref.rowVariable} × ${ref.colVariable}, cell, row and column proportions (delta method through V) and margins`, () => {
       const r = ref.rowLevels.length;
       const c = ref.colLevels.length;
       const estimate = taylorEstimate(fixture.data, fixture.design, ref);
@@ -47,6 +47,8 @@ describe('weighted percentages with design-based standard errors and intervals a
           compare(`column ${at}`, result.column[i][j], ref.column[at], ref.designDf);
         }
       }
+      ref.rowMargins.forEach((margin, i) => compare(`row margin ${i}`, result.rowMargins[i], margin, ref.designDf));
+      ref.columnMargins.forEach((margin, j) => compare(`column margin ${j}`, result.columnMargins[j], margin, ref.designDf));
     });
   }
 

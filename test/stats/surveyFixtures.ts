@@ -61,7 +61,7 @@ export interface SurveyReference {
   taylor: { name: string; data: string; design: DesignSpec; tables: TableReference[] }[];
   domain: { name: string; data: string; filter: { column: string; value: string }; design: DesignSpec; table: TableReference };
   lonely: { data: string; design: DesignSpec; failMessage: string; certainty: TableReference; adjust: TableReference; average: TableReference };
-  percentages: { name: string; data: string; design: DesignSpec; ref: { rowVariable: string; colVariable: string; rowLevels: string[]; colLevels: string[]; designDf: number; level: number; cell: ProportionReference[]; row: ProportionReference[]; column: ProportionReference[] } }[];
+  percentages: { name: string; data: string; design: DesignSpec; ref: { rowVariable: string; colVariable: string; rowLevels: string[]; colLevels: string[]; designDf: number; level: number; cell: ProportionReference[]; row: ProportionReference[]; column: ProportionReference[]; rowMargins: ProportionReference[]; columnMargins: ProportionReference[] } }[];
   replicates: {
     method: ReplicateMethod;
     rho: number | null;
