@@ -337,22 +337,24 @@ export function analyzeTable(
   options: AnalysisOptions = DEFAULT_ANALYSIS_OPTIONS,
   weighting: Weighting = unweighted(margins(table.counts).total),
 ): AnalysisRecord {
-  const weightedCounts = table.counts;
-  const r = weightedCounts.length;
-  const c = weightedCounts[0].length;
-  const { rowTotals, colTotals, total: n } = margins(weightedCounts);
-  // Sampling weights: the tests, intervals and residuals use the weighted
-  // table rescaled to Kish's effective sample size (Kish 1965), not Σw.
+  // Two tables: reportedCounts are the counts as counted (Σw with sampling
+  // weights), the record's `counts`; testedCounts are what every test,
+  // interval and residual uses (the same, rescaled to n_eff when weighted).
+  const reportedCounts = table.counts;
+  const r = reportedCounts.length;
+  const c = reportedCounts[0].length;
+  const { rowTotals, colTotals, total: n } = margins(reportedCounts);
+  // Kish's effective sample size (Kish 1965) for sampling weights, not Σw.
   const effectiveN = weighting.kind === 'weight' ? effectiveSampleSize(weighting) : n;
-  const counts = rescaleToEffectiveSize(weightedCounts, weighting);
-  const expected = expectedCounts(counts);
-  const shownExpected = expectedCounts(weightedCounts);
-  const pearson = pearsonChiSquare(counts);
-  const likelihoodRatio = likelihoodRatioChiSquare(counts);
-  const yates = yatesChiSquare(counts);
+  const testedCounts = rescaleToEffectiveSize(reportedCounts, weighting);
+  const expected = expectedCounts(testedCounts);
+  const shownExpected = expectedCounts(reportedCounts);
+  const pearson = pearsonChiSquare(testedCounts);
+  const likelihoodRatio = likelihoodRatioChiSquare(testedCounts);
+  const yates = yatesChiSquare(testedCounts);
   const rule = expectedCountRule(expected);
   const warnings: Warning[] = [];
-  const integerCounts = isIntegerTable(counts);
+  const integerCounts = isIntegerTable(testedCounts);
 
   // Exact and simulated p-values.
   let fisher: AnalysisRecord['tests']['fisher'] = null;
@@ -363,9 +365,9 @@ export function analyzeTable(
   if (integerCounts) {
     let exact: ExactOutcome | null = null;
     if (r === 2 && c === 2) {
-      exact = fisherExact2x2(counts);
+      exact = fisherExact2x2(testedCounts);
     } else if (options.exact !== 'never' && (options.exact === 'always' || !rule.passes || n <= 300)) {
-      exact = fisherFreemanHalton(counts, { maxWork: options.exactWorkLimit });
+      exact = fisherFreemanHalton(testedCounts, { maxWork: options.exactWorkLimit });
     }
     if (exact?.status === 'computed') fisher = { pValue: exact.pValue, method: exact.method };
     else if (exact?.status === 'declined') {
@@ -376,12 +378,12 @@ export function analyzeTable(
     if (wantSimulation && fisher === null && options.simulations > 0) {
       if (options.simulation === 'deferred') {
         // Drawn later, sequentially, under the same work bound as a full run.
-        const { rowTotals: rt, colTotals: ct } = margins(counts);
+        const { rowTotals: rt, colTotals: ct } = margins(testedCounts);
         const work = options.simulations * simulationWorkPerTable(rt.filter((t) => t > 0), ct.filter((t) => t > 0));
         if (work > DEFAULT_SIMULATION_BOUND.maxWork || n > Number.MAX_SAFE_INTEGER) simulationDeclined = `its work estimate (${work.toExponential(2)} steps) is above the bound of ${DEFAULT_SIMULATION_BOUND.maxWork.toExponential(2)}`;
         else simulationPending = true;
       } else {
-        const simulated = monteCarloExactTest(counts, options.simulations, options.seed);
+        const simulated = monteCarloExactTest(testedCounts, options.simulations, options.seed);
         if (simulated?.status === 'computed') {
           const { status: _status, ...result } = simulated;
           monteCarlo = { ...result, sequential: false };
@@ -442,8 +444,8 @@ export function analyzeTable(
   // A 2×2 table with a zero cell: ½ is added to every cell (Haldane 1956)
   // for the odds ratio, the risk ratio, Q and Y alike, so that all four
   // describe one table and agree in direction.
-  const zeroCell = r === 2 && c === 2 && counts.some((row) => row.some((v) => v === 0));
-  const ratioTable = zeroCell ? counts.map((row) => row.map((v) => v + 0.5)) : counts;
+  const zeroCell = r === 2 && c === 2 && testedCounts.some((row) => row.some((v) => v === 0));
+  const ratioTable = zeroCell ? testedCounts.map((row) => row.map((v) => v + 0.5)) : testedCounts;
   const or = oddsRatio(ratioTable, options.confidence);
   const rr = relativeRisk(ratioTable, options.confidence);
   const q = yulesQ(ratioTable);
@@ -459,7 +461,7 @@ export function analyzeTable(
     warnings.push({ code: 'non-integer-counts', message: 'the counts are not whole numbers, so exact and simulated tests were not computed' });
   }
 
-  const adjusted = adjustedResiduals(counts);
+  const adjusted = adjustedResiduals(testedCounts);
   const cellThreshold = cellThresholdFor(r, c, options.alpha);
   const notableCells: NotableCell[] = [];
   adjusted.forEach((row, i) =>
@@ -482,8 +484,8 @@ export function analyzeTable(
   let ordinal: OrdinalMeasures | null = null;
   let lbl: TestResult | null = null;
   if (options.ordinal) {
-    ordinal = ordinalMeasures(counts);
-    lbl = linearByLinear(counts);
+    ordinal = ordinalMeasures(testedCounts);
+    lbl = linearByLinear(testedCounts);
   }
   const strength = strengthOf(biasCorrectedV);
 
@@ -496,7 +498,7 @@ export function analyzeTable(
     weighted: weighting.kind === 'weight',
     effectiveN,
     unweightedN: weighting.unweightedN,
-    counts: weightedCounts,
+    counts: reportedCounts,
     rowTotals,
     colTotals,
     expected: shownExpected,
@@ -517,19 +519,19 @@ export function analyzeTable(
         rr === null
           ? null
           : { ...rr, haldaneCorrection: zeroCell, confidence: options.confidence, outcome: table.colLevels[0], exposed: table.rowLevels[0], reference: table.rowLevels[1] },
-      lambdaColsGivenRows: lambdaColsGivenRows(counts),
-      lambdaRowsGivenCols: lambdaRowsGivenCols(counts),
-      lambdaSymmetric: lambdaSymmetric(counts),
-      gkTauColsGivenRows: goodmanKruskalTauColsGivenRows(counts),
-      gkTauRowsGivenCols: goodmanKruskalTauRowsGivenCols(counts),
-      uncertaintyColsGivenRows: uncertaintyColsGivenRows(counts),
-      uncertaintyRowsGivenCols: uncertaintyRowsGivenCols(counts),
-      uncertaintySymmetric: uncertaintySymmetric(counts),
+      lambdaColsGivenRows: lambdaColsGivenRows(testedCounts),
+      lambdaRowsGivenCols: lambdaRowsGivenCols(testedCounts),
+      lambdaSymmetric: lambdaSymmetric(testedCounts),
+      gkTauColsGivenRows: goodmanKruskalTauColsGivenRows(testedCounts),
+      gkTauRowsGivenCols: goodmanKruskalTauRowsGivenCols(testedCounts),
+      uncertaintyColsGivenRows: uncertaintyColsGivenRows(testedCounts),
+      uncertaintyRowsGivenCols: uncertaintyRowsGivenCols(testedCounts),
+      uncertaintySymmetric: uncertaintySymmetric(testedCounts),
     },
     ordinal,
-    residuals: { pearson: pearsonResiduals(counts), adjusted },
-    contributions: chiSquareContributions(counts, pearson.statistic),
-    percentages: percentages(weightedCounts),
+    residuals: { pearson: pearsonResiduals(testedCounts), adjusted },
+    contributions: chiSquareContributions(testedCounts, pearson.statistic),
+    percentages: percentages(reportedCounts),
     expectedCountRule: rule,
     findings: { strength, diagonal, cellThreshold, notableCells, primaryTest: lead, statements: [] },
     verdict: tableVerdict(lead, options, strength),

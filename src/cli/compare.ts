@@ -1,5 +1,5 @@
 /** `tabsight compare`: its options, parsed once into a ComparePlan, and runCompare, which counts two periods and compares them. */
-import { Command, Option } from 'commander';
+import { Command } from 'commander';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { comparePeriods, PeriodInput } from '../analysis/compare.js';
 import { unknownOrderWarnings } from '../analysis/report.js';
@@ -14,6 +14,7 @@ import {
   addReportOptions,
   addSummedWeightsOption,
   addSurveyOptions,
+  addTableOptions,
   inputSummary,
   RawReportOptions,
   RawTableOptions,
@@ -24,7 +25,7 @@ import {
   readerFor,
   tablePlan,
 } from './options.js';
-import { CELL_VIEWS, CellView } from '../render/pairText.js';
+import type { CellView } from '../render/pairText.js';
 import { CliIo, emit, pageWidth, painter, writeSideFile } from './output.js';
 import type { Outcome } from './outcome.js';
 
@@ -70,16 +71,9 @@ export function compareCommand(accept: (plan: ComparePlan) => void): Command {
     .description('compare the same pair in two periods: did the association or the margins change?')
     .argument('<before>', 'CSV of the earlier period (or the only file, with --period)')
     .argument('[after]', 'CSV of the later period')
-    .requiredOption('--rows <column>', 'column whose levels form the rows')
-    .requiredOption('--cols <column>', 'column whose levels form the columns')
     .option('--period <column>', 'one file holding both periods: the column that tells them apart')
-    .option('--levels <before,after>', 'with --period: the two levels to compare (default: the two levels, in natural order)')
-    .option('--row-order <levels>', 'comma-separated order of the row levels')
-    .option('--col-order <levels>', 'comma-separated order of the column levels')
-    .addOption(new Option('--format <format>', 'output format').choices(Object.keys(COMPARE_RENDERERS)).default('text'))
-    .option('--alpha <level>', 'significance level of every decision in the report (and of --exit-status)', '0.05')
-    .addOption(new Option('--cells <view>', 'what the cells of the text tables show: compact (count and row share), counts, row, col, total (shares), expected, residuals').choices(CELL_VIEWS).default('compact'))
-    .option('--no-color', 'plain text without colour');
+    .option('--levels <before,after>', 'with --period: the two levels to compare (default: the two levels, in natural order)');
+  addTableOptions(command, Object.keys(COMPARE_RENDERERS));
   addReaderOptions(command);
   addSurveyOptions(command, false);
   addSummedWeightsOption(command);

@@ -10,7 +10,25 @@ import { AnalysisOptions, DEFAULT_ANALYSIS_OPTIONS, ExactPolicy } from '../analy
 import { parseRecode, parseWhere, Recode, WhereClause } from '../io/rowRules.js';
 import type { InputSummary } from '../analysis/report.js';
 import type { TableRequest } from '../io/counting.js';
+import { CELL_VIEWS } from '../render/pairText.js';
 import { CliIo, noteWriter } from './output.js';
+
+/**
+ * The options of a command that analyses one pair of columns (pair,
+ * compare): the two columns and their level order, the output format, the
+ * significance level, what the cells of text tables show, colour.
+ */
+export function addTableOptions(command: Command, formats: readonly string[]): Command {
+  return command
+    .requiredOption('--rows <column>', 'column whose levels form the rows')
+    .requiredOption('--cols <column>', 'column whose levels form the columns')
+    .option('--row-order <levels>', 'comma-separated order of the row levels (others follow in natural order)')
+    .option('--col-order <levels>', 'comma-separated order of the column levels')
+    .addOption(new Option('--format <format>', 'output format').choices(formats).default('text'))
+    .option('--alpha <level>', 'significance level of every decision in the report (and of --exit-status)', '0.05')
+    .addOption(new Option('--cells <view>', 'what the cells of the text tables show: compact (count and row share), counts, row, col, total (shares), expected, residuals').choices(CELL_VIEWS).default('compact'))
+    .option('--no-color', 'plain text without colour');
+}
 
 /** Options every reading command shares, declared once. */
 export function addReaderOptions(command: Command): Command {

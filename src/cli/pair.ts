@@ -1,14 +1,14 @@
 /** `tabsight pair`: its options, parsed once into a PairPlan, and runPair, which counts, analyses and renders one table. */
-import { Command, Option } from 'commander';
+import { Command } from 'commander';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { pairReport, unknownOrderWarnings } from '../analysis/report.js';
 import { countTable, TableRequest } from '../io/counting.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { PAIR_RENDERERS, PairFormat } from '../render/renderers.js';
 import { mosaicPlot, residualHeatMap, stackSvg } from '../render/svg.js';
-import { addAnalysisOptions, addReaderOptions, addReportOptions, addSummedWeightsOption, addSurveyOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan, readerFor } from './options.js';
+import { addAnalysisOptions, addReaderOptions, addReportOptions, addSummedWeightsOption, addSurveyOptions, addTableOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan, readerFor } from './options.js';
 import { CliIo, emit, pageWidth, painter, writeSideFile } from './output.js';
-import { CELL_VIEWS, CellView } from '../render/pairText.js';
+import type { CellView } from '../render/pairText.js';
 import type { Outcome } from './outcome.js';
 
 export interface PairPlan {
@@ -38,15 +38,8 @@ export function pairPlan(file: string | undefined, raw: RawPairOptions): PairPla
 export function pairCommand(accept: (plan: PairPlan) => void): Command {
   const command = new Command('pair')
     .description('analyse the two-way table of two columns: tests, strength, where the association sits')
-    .argument('[file]', 'CSV file, or - (or nothing) for standard input')
-    .requiredOption('--rows <column>', 'column whose levels form the rows')
-    .requiredOption('--cols <column>', 'column whose levels form the columns')
-    .option('--row-order <levels>', 'comma-separated order of the row levels (others follow in natural order)')
-    .option('--col-order <levels>', 'comma-separated order of the column levels')
-    .addOption(new Option('--format <format>', 'output format').choices(Object.keys(PAIR_RENDERERS)).default('text'))
-    .option('--alpha <level>', 'significance level of every decision in the report (and of --exit-status)', '0.05')
-    .addOption(new Option('--cells <view>', 'what the cells of the text table show: compact (count and row share), counts, row, col, total (shares), expected, residuals').choices(CELL_VIEWS).default('compact'))
-    .option('--no-color', 'plain text without colour');
+    .argument('[file]', 'CSV file, or - (or nothing) for standard input');
+  addTableOptions(command, Object.keys(PAIR_RENDERERS));
   addReaderOptions(command);
   addSurveyOptions(command);
   addSummedWeightsOption(command);

@@ -97,8 +97,8 @@ class Slots {
   }
 }
 
-/** The counting state of one request: the pooled table, one per layer level, and the rows left out. */
-class Tally {
+/** The counters of one request: the pooled table, one per layer level, and the rows left out for a missing value. */
+class LayeredCounter {
   readonly pooled: TableCounter;
   readonly strata = new Map<string, TableCounter>();
   private stratumOfId: (TableCounter | undefined)[] = [];
@@ -109,10 +109,10 @@ class Tally {
     private readonly slots: Slots,
     private readonly label: (slot: number, id: number) => string,
   ) {
-    this.pooled = this.counter();
+    this.pooled = this.tableCounter();
   }
 
-  private counter(): TableCounter {
+  private tableCounter(): TableCounter {
     return new TableCounter(this.request.rows, this.request.cols, this.request.maxLevels, this.request.weight !== undefined);
   }
 
@@ -137,7 +137,7 @@ class Tally {
       stratum = this.strata.get(level);
       if (stratum === undefined) {
         if (this.strata.size >= this.request.maxLevels) throw dataError(`--by "${this.request.by}" has more than --max-levels ${this.request.maxLevels} levels; raise --max-levels or merge levels`);
-        stratum = this.counter();
+        stratum = this.tableCounter();
         this.strata.set(level, stratum);
       }
       if (b >= 0) this.stratumOfId[b] = stratum;
@@ -146,8 +146,8 @@ class Tally {
   }
 }
 
-/** Reads the built-in reader's rows into the tally; returns what was read. */
-async function tallyRows(source: InputSource, reader: ReaderOptions, request: TableRequest, slots: Slots, gate: RowGate, tally: Tally, onLabels: (labels: (readonly string[])[]) => void): Promise<ReadSummary> {
+/** Reads the built-in reader's rows into the counter; returns what was read. */
+async function countRows(source: InputSource, reader: ReaderOptions, request: TableRequest, slots: Slots, gate: RowGate, counter: LayeredCounter, onLabels: (labels: (readonly string[])[]) => void): Promise<ReadSummary> {
   const recodes = recodesByColumn(request.recodes);
   let labelsKnown = false;
   const read = await readRecords(
@@ -162,7 +162,7 @@ async function tallyRows(source: InputSource, reader: ReaderOptions, request: Ta
       const w = gate.admit(ids, texts, line);
       if (w < 0) return;
       if (slots.sum < 0) {
-        tally.add(ids, 1, w, 0, w * w, 0);
+        counter.add(ids, 1, w, 0, w * w, 0);
         return;
       }
       // A cell counted elsewhere: w rows, with Σw and Σw² as given.
@@ -171,7 +171,7 @@ async function tallyRows(source: InputSource, reader: ReaderOptions, request: Ta
         if (typeof value === 'string') throw weightError(source.label, line, '--summed-weights', slots.names[slot], value);
         return value;
       });
-      tally.add(ids, w, sums[0], 0, sums[1], 0);
+      counter.add(ids, w, sums[0], 0, sums[1], 0);
     },
     undefined,
     new Set([slots.weight, slots.sum, slots.squares].filter((slot) => slot >= 0)),
@@ -182,11 +182,11 @@ async function tallyRows(source: InputSource, reader: ReaderOptions, request: Ta
 }
 
 /**
- * Reads the engine's groups into the tally: each group's values are interned
+ * Reads the engine's groups into the counter: each group's values are interned
  * and filtered like a row's, and its weight sums (exact, from the engine) or
  * its unusable weight (judged by the reader's rule) are counted.
  */
-async function tallyGroups(engine: Engine, input: EngineInput, source: InputSource, reader: ReaderOptions, request: TableRequest, slots: Slots, gate: RowGate, tally: Tally, onLabels: (labels: (readonly string[])[]) => void): Promise<ReadSummary> {
+async function countGroups(engine: Engine, input: EngineInput, source: InputSource, reader: ReaderOptions, request: TableRequest, slots: Slots, gate: RowGate, counter: LayeredCounter, onLabels: (labels: (readonly string[])[]) => void): Promise<ReadSummary> {
   const recodes = recodesByColumn(request.recodes);
   const missing = new Set(reader.missing.map((m) => m.trim()));
   const interners = slots.names.map(() => new FieldInterner(missing, DEFAULT_DISTINCT_LIMIT));
@@ -208,7 +208,7 @@ async function tallyGroups(engine: Engine, input: EngineInput, source: InputSour
         return;
       }
       if (weight === undefined) {
-        tally.add(ids, group.rows, group.rows, 0, group.rows, 0);
+        counter.add(ids, group.rows, group.rows, 0, group.rows, 0);
         return;
       }
       if (group.badWeight !== null) {
@@ -224,12 +224,12 @@ async function tallyGroups(engine: Engine, input: EngineInput, source: InputSour
         }
         const [w, wLow] = twoProduct(group.rows, parsed);
         const [q, qLow] = twoProduct(group.rows, parsed * parsed);
-        tally.add(ids, group.rows, w, wLow, q, qLow);
+        counter.add(ids, group.rows, w, wLow, q, qLow);
         return;
       }
       const [w, wLow] = pairFromBuckets(group.weightBuckets ?? []);
       const [q, qLow] = pairFromBuckets(group.squareBuckets ?? []);
-      tally.add(ids, group.rows, w, wLow, q, qLow);
+      counter.add(ids, group.rows, w, wLow, q, qLow);
     },
   );
 }
@@ -239,19 +239,19 @@ async function tallyGroups(engine: Engine, input: EngineInput, source: InputSour
  * applied, each layer laid out on the pooled table's levels; a side with
  * fewer than two levels is refused (unless the request allows it).
  */
-function finishTables(request: TableRequest, tally: Tally, label: (slot: number, id: number) => string, slots: Slots, filtered: number, kind: Weighting['kind']): { counted: CountedTable; unknownRowLevels: string[]; unknownColLevels: string[] } {
+function finishTables(request: TableRequest, counter: LayeredCounter, label: (slot: number, id: number) => string, slots: Slots, filtered: number, kind: Weighting['kind']): { counted: CountedTable; unknownRowLevels: string[]; unknownColLevels: string[] } {
   const rowLabel = (id: number) => label(slots.row, id);
   const colLabel = (id: number) => label(slots.col, id);
-  const finished = tally.pooled.finish(rowLabel, colLabel, request.rowOrder, request.colOrder);
+  const finished = counter.pooled.finish(rowLabel, colLabel, request.rowOrder, request.colOrder);
   let table = dropEmptyLevels(finished.table);
   const own: Stratum[] | null =
     slots.by >= 0
-      ? [...tally.strata.entries()].sort((x, y) => compareNatural(x[0], y[0])).map(([level, counter]) => ({ level, table: counter.finish(rowLabel, colLabel).table, weighting: counter.weighting(kind) }))
+      ? [...counter.strata.entries()].sort((x, y) => compareNatural(x[0], y[0])).map(([level, layer]) => ({ level, table: layer.finish(rowLabel, colLabel).table, weighting: layer.weighting(kind) }))
       : null;
   let strata = own?.map((s) => ({ ...s, table: relabelTable(s.table, table.rowLevels, table.colLevels) })) ?? null;
   if (request.other) ({ table, strata } = mergeRareLevels(table, own, request.other.k, request.other.label));
-  checkTestable(request, table, tally.excluded, filtered);
-  return { counted: { table, weighting: tally.pooled.weighting(kind), strata, excluded: tally.excluded }, unknownRowLevels: finished.unknownRowLevels, unknownColLevels: finished.unknownColLevels };
+  checkTestable(request, table, counter.excluded, filtered);
+  return { counted: { table, weighting: counter.pooled.weighting(kind), strata, excluded: counter.excluded }, unknownRowLevels: finished.unknownRowLevels, unknownColLevels: finished.unknownColLevels };
 }
 
 function checkTestable(request: TableRequest, table: TwoWayTable, excluded: number, filtered: number): void {
@@ -286,14 +286,14 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
     reader.skipBadRows,
     source.label,
   );
-  const tally = new Tally(request, slots, label);
+  const counter = new LayeredCounter(request, slots, label);
   const onLabels = (known: (readonly string[])[]) => (labelsOf = known);
   const summary =
     engine === null
-      ? await tallyRows(source, reader, request, slots, gate, tally, onLabels)
-      : await tallyGroups(engine.engine, engine.input, source, reader, request, slots, gate, tally, onLabels);
+      ? await countRows(source, reader, request, slots, gate, counter, onLabels)
+      : await countGroups(engine.engine, engine.input, source, reader, request, slots, gate, counter, onLabels);
   if (summary.records === 0) throw dataError(`${source.label}: the header has no data rows under it`);
   const kind: Weighting['kind'] = request.summedWeights ? 'weight' : request.weight ? request.weight.kind : 'none';
-  const { counted, unknownRowLevels, unknownColLevels } = finishTables(request, tally, label, slots, gate.filtered, kind);
+  const { counted, unknownRowLevels, unknownColLevels } = finishTables(request, counter, label, slots, gate.filtered, kind);
   return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels };
 }

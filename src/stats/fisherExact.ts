@@ -1,4 +1,3 @@
-import { compensatedSum } from '../numerics/compensatedSum.js';
 import { CountMatrix, isTwoByTwo, margins, transpose } from './contingency.js';
 import { devianceTerm, logBinomialCoefficient, logFactorial, stirlingError } from './gamma.js';
 
