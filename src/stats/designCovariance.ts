@@ -304,6 +304,12 @@ export function replicateScale(method: ReplicateMethod, replicates: number, rho 
  * factors (required for jkn, refused otherwise); `centre` is 'replicate-mean'
  * (default) or 'full-sample'. A replicate whose weights sum to zero over the
  * complete rows has no estimate; it is left out and counted.
+ * @example
+ *   const totals = new ReplicateCellTotals(16);            // e.g. 16 BRR replicate columns
+ *   totals.add(cell, fullWeight, replicateWeightsOfTheRow); // per complete row
+ *   const estimate = replicateCovariance(totals, { method: 'brr', layout: { size: r * c } });
+ *   // NHANES 2009–2010 agecat × race with 16 BRR replicates: F = 20.54 on 4.73 and 71.0 df
+ *   // (test/stats/raoScott.test.ts, recorded from the survey library for R)
  */
 export function replicateCovariance(
   totals: ReplicateCellTotals,

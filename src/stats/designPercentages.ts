@@ -148,6 +148,8 @@ export function designPercentages(estimate: DesignEstimate, rows: number, cols: 
  * strength of association estimated for the population, which the design
  * does not change. What the design changes is how sure one can be of it
  * (the tests' p-values), not how strong it is. null when the tests are.
+ * @example NHANES 2009–2010 agecat × race (15 strata, 31 PSUs): δ̄ = 1.458, effective size n/δ̄ ≈ 5894 of
+ *          8591, and V equals the V of the weighted table (test/stats/designPercentages.test.ts).
  */
 export function designCramersV(tests: DesignTests, rows: number, cols: number): { value: number; effectiveSampleSize: number } | null {
   const m = Math.min(rows, cols);

@@ -58,7 +58,10 @@ export function upperTailF(f: number, df1: number, df2: number): number {
   return betaTails(x, df1 / 2, df2 / 2, y, d).upper;
 }
 
-/** Lower tail P(F ≤ f) for F ~ F(df1, df2). */
+/**
+ * Lower tail P(F ≤ f) for F ~ F(df1, df2).
+ * @example lowerTailF(3.8853, 2, 12) ≈ 0.95 (A&S table 26.9)
+ */
 export function lowerTailF(f: number, df1: number, df2: number): number {
   if (!(df1 > 0 && df2 > 0) || Number.isNaN(f)) return Number.NaN;
   if (f <= 0) return 0;
@@ -83,7 +86,10 @@ export function fQuantile(p: number, df1: number, df2: number): number {
   return fromLogOdds(betaQuantileLogOdds(p, df1 / 2, df2 / 2, 'lower'), df1, df2);
 }
 
-/** The f with P(F > f) = q, accurate for tiny q (critical values, interval ends). */
+/**
+ * The f with P(F > f) = q, accurate for tiny q (critical values, interval ends).
+ * @example upperQuantileF(0.05, 2, 12) ≈ 3.8853 (A&S table 26.9)
+ */
 export function upperQuantileF(q: number, df1: number, df2: number): number {
   if (!(df1 > 0 && df2 > 0)) return Number.NaN;
   return fromLogOdds(betaQuantileLogOdds(q, df1 / 2, df2 / 2, 'upper'), df1, df2);

@@ -46,6 +46,7 @@ const LOG_SQRT_2PI = 0.91893853320467274178032973640562;
  * Stirling's form log Γ(z) = (z − ½) log z − z + log √(2π) + δ(z) is
  * subtracted analytically first (δ as in gamma.ts), e.g. for A ≥ 10:
  *   log Γ(A) − log Γ(A + s) = (A − ½) log1p(−s/(A+s)) − s log(A+s) + s + δ(A) − δ(A+s).
+ * @example logBeta(2, 3) = log(1/12)
  */
 export function logBeta(a: number, b: number): number {
   const small = Math.min(a, b);
@@ -174,7 +175,10 @@ export function regularizedBetaComplement(x: number, a: number, b: number, y = 1
   return betaTails(x, a, b, y).upper;
 }
 
-/** The Beta(a, b) density at x (y = 1 − x): x^(a−1) y^(b−1) / B(a, b) (A&S 26.1.33). */
+/**
+ * The Beta(a, b) density at x (y = 1 − x): x^(a−1) y^(b−1) / B(a, b) (A&S 26.1.33).
+ * @example betaDensity(0.5, 2, 3) = 12 · 0.5 · 0.25 = 1.5
+ */
 export function betaDensity(x: number, a: number, b: number, y = 1 - x): number {
   if (!(x > 0 && y > 0)) {
     if (x === 0) return a < 1 ? Infinity : a === 1 ? b : 0;
@@ -270,7 +274,10 @@ export function betaQuantile(p: number, a: number, b: number): number {
   return logisticPair(u).x;
 }
 
-/** The x with P(X > x) = q for X ~ Beta(a, b): the upper quantile, accurate for tiny q. */
+/**
+ * The x with P(X > x) = q for X ~ Beta(a, b): the upper quantile, accurate for tiny q.
+ * @example upperQuantileBeta(0.3125, 2, 3) ≈ 0.5 (1 − I_0.5(2, 3) = 5/16)
+ */
 export function upperQuantileBeta(q: number, a: number, b: number): number {
   if (a === 0) return 0;
   if (b === 0) return 1;

@@ -31,7 +31,7 @@ export interface ProportionInterval {
  * (the delta method for log(p/(1−p)); Korn & Graubard 1999, Analysis of
  * Health Surveys, §3.2.3; Heeringa, West & Berglund 2017, Applied Survey Data
  * Analysis, 2nd ed., §6.2.2). null for p̂ of 0 or 1, where the logit is infinite.
- * @example logitInterval(0.2, 0.04, 30) → [0.1318, 0.2916] (t_30 = 2.0423)
+ * @example logitInterval(0.2, 0.04, 30) → [0.1305, 0.2941] (t_30 = 2.0423)
  */
 export function logitInterval(p: number, standardError: number, df: number, level = 0.95): ProportionInterval | null {
   if (!(p > 0 && p < 1) || !(df > 0) || !(standardError >= 0)) return null;
@@ -53,6 +53,9 @@ export function logitInterval(p: number, standardError: number, df: number, leve
  * B⁻¹ the beta quantile, lower = 0 when p̂ = 0 and upper = 1 when p̂ = 1.
  * n is the unweighted sample size of the domain (its complete rows).
  * null when n < 2 (no t on n − 1 df).
+ * @example With binomial variance and df = n − 1 it is Clopper–Pearson: 7 of 20 →
+ *          kornGraubardInterval(0.35, 0.35 · 0.65 / 20, 20, 19) → [0.1539, 0.5922]
+ *          (Newcombe 1998, Stat. Med. 17, 857–872, table II).
  */
 export function kornGraubardInterval(p: number, variance: number, n: number, df: number, level = 0.95): (ProportionInterval & { effectiveSize: number }) | null {
   if (!(p >= 0 && p <= 1) || !(n >= 2) || !(df > 0) || !(variance >= 0)) return null;
