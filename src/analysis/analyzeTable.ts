@@ -1,3 +1,8 @@
+/**
+ * The analysis of one table: joins the counted table to every statistic it
+ * deserves and returns the one record (tests, measures, residuals, the
+ * leading p-value, the verdict) that every renderer reads.
+ */
 import { pearsonChiSquare, likelihoodRatioChiSquare, yatesChiSquare, TestResult } from '../stats/chiSquareTests.js';
 import { expectedCounts, margins } from '../stats/contingency.js';
 import { expectedCountRule, ExpectedCountCheck } from '../stats/expectedCountRule.js';

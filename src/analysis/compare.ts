@@ -1,3 +1,7 @@
+/**
+ * The comparison of two periods of the same pair: each period's record, and
+ * whether the association or either margin changed.
+ */
 import { pearsonChiSquare, TestResult } from '../stats/chiSquareTests.js';
 import { breslowDay, mantelHaenszelOddsRatio } from '../stats/stratified.js';
 import { noThreeWayInteraction } from '../stats/threeWay.js';

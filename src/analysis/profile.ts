@@ -1,3 +1,7 @@
+/**
+ * The profile record of a file: what each column looks like and what to do
+ * with it before relating columns.
+ */
 import type { ColumnTally, ProfiledFile } from '../io/profileColumns.js';
 import { isMissingLooking, missingTokenNotes, MissingTokenFinding } from '../io/missingTokens.js';
 import { Codebook, CodebookColumn, CodebookWarning, codebookColumn, labelColumn, labellingWarnings } from '../table/codebook.js';

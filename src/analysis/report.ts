@@ -1,3 +1,7 @@
+/**
+ * The pair report (the analysis record with its input, settings and layers)
+ * and the warnings about level orders and layers held fixed.
+ */
 import { AnalysisOptions, AnalysisRecord, analyzeTable, decide, isLargeSample, Warning } from './analyzeTable.js';
 import { isNumericLabel } from '../table/naturalOrder.js';
 import { TwoWayTable } from '../table/twoWayTable.js';

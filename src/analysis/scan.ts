@@ -1,3 +1,7 @@
+/**
+ * The scan report: screening of the candidate columns, every pair analysed
+ * as a single pair would be, multiple-testing adjustment and ranking.
+ */
 import { adjustPValues, Adjustment } from '../stats/multipleTesting.js';
 import { CountPair, mergeRareLevels } from '../table/countedTable.js';
 import { EncodedColumn, recodeColumn } from '../table/encodedColumn.js';

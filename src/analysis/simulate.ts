@@ -1,3 +1,7 @@
+/**
+ * Sequential simulation for a family of records: draws the simulated
+ * p-values a scan left pending, only as far as its decisions need.
+ */
 import type { Adjustment } from '../stats/multipleTesting.js';
 import { DEFAULT_SEQUENTIAL, GrowingSimulation, sequentialDecisions } from '../stats/sequentialMonteCarlo.js';
 import { abandonSimulation, AnalysisRecord, completeSimulation, simulationPending } from './analyzeTable.js';

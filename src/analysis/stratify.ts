@@ -1,3 +1,7 @@
+/**
+ * The layered view (--by): each layer's record, and the tests that pool the
+ * layers while holding the layer variable fixed.
+ */
 import { TestResult } from '../stats/chiSquareTests.js';
 import { formatP, formatRatio } from '../numbers.js';
 import { breslowDay, CommonOddsRatio, cochranMantelHaenszel, mantelHaenszelOddsRatio } from '../stats/stratified.js';

@@ -1,3 +1,7 @@
+/**
+ * Reading a codebook file (JSON or spreadsheet CSV, docs/codebook.md) into
+ * one typed codebook, with one-line errors naming the entry.
+ */
 import { readFileSync, statSync } from 'node:fs';
 import { TabsightError, usageError } from '../errors.js';
 import { Codebook, CodebookColumn, CodeEntry, codeKey, MissingCode, Net } from '../table/codebook.js';

@@ -1,3 +1,7 @@
+/**
+ * The byte-level RFC 4180 CSV tokenizer of the built-in reader, and the
+ * detection of the delimiter from the header line.
+ */
 import { dataError } from '../errors.js';
 
 /**

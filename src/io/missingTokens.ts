@@ -1,3 +1,7 @@
+/**
+ * Values that look like "no value" (NA, -, 999, …): found per column and
+ * reported as notes, never treated as missing unless the user says so.
+ */
 import { isNumericLabel } from '../table/naturalOrder.js';
 
 /**

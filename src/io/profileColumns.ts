@@ -1,3 +1,7 @@
+/**
+ * The single read of a profile: every column's values tallied in one pass,
+ * exactly up to a limit and summarised beyond it.
+ */
 import { dataError } from '../errors.js';
 import { DistinctSketch } from '../table/distinctSketch.js';
 import { isNumericLabel } from '../table/naturalOrder.js';

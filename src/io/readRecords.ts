@@ -1,3 +1,8 @@
+/**
+ * The built-in reader: streams a CSV source record by record and delivers
+ * only the selected columns (as interned ids or text), with a summary of
+ * what was read.
+ */
 import { dataError, usageError } from '../errors.js';
 import { validateHeader } from './columns.js';
 import { CsvTokenizer, detectDelimiter } from './csvTokenizer.js';

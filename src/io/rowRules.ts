@@ -1,3 +1,7 @@
+/**
+ * The rules a row passes before counting: --where filters, --recode
+ * mappings, and the row's weight or frequency (RowGate).
+ */
 import { dataError, usageError } from '../errors.js';
 
 /** `--where 'column=v1,v2'` keeps rows whose value is one of the values; `'column!=v'` drops them. */

@@ -1,3 +1,7 @@
+/**
+ * Where the input comes from (a file, plain or gzip, or standard input) and
+ * its decoding to UTF-8, with one-line errors naming the byte and line.
+ */
 import { createReadStream, promises as fs } from 'node:fs';
 import { createGunzip } from 'node:zlib';
 import { pipeline } from 'node:stream';

@@ -1,3 +1,7 @@
+/**
+ * Writing a codebook in its two forms (JSON and spreadsheet CSV) so that it
+ * reads back the same.
+ */
 import type { Codebook } from '../table/codebook.js';
 import { delimitedField } from './scanTable.js';
 

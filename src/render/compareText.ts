@@ -1,3 +1,4 @@
+/** The compare report as text for people. */
 import type { ChalkInstance } from 'chalk';
 import type { CompareReport, PeriodRecord } from '../analysis/compare.js';
 import { formatCount, formatMeasure, formatP, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';

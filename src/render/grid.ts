@@ -1,3 +1,7 @@
+/**
+ * A two-way grid laid out by display width within the page: labels folded or
+ * keyed, wide tables split.
+ */
 import { displayWidth, foldLabel, keyFor, padEnd, padStart, shownLabel, wrapText } from './layout.js';
 
 /**

@@ -1,3 +1,7 @@
+/**
+ * The self-contained HTML pages of pair, scan and compare (inline CSS, SVG
+ * pictures).
+ */
 import type { AnalysisRecord } from '../analysis/analyzeTable.js';
 import type { CompareReport } from '../analysis/compare.js';
 import type { PairReport } from '../analysis/report.js';

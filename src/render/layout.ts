@@ -1,3 +1,7 @@
+/**
+ * Text by display width: measuring, padding, cutting and wrapping strings by
+ * the terminal columns they take.
+ */
 import stringWidth from 'string-width';
 import wrapAnsi from 'wrap-ansi';
 

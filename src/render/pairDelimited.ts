@@ -1,3 +1,7 @@
+/**
+ * The pair report as CSV/TSV lines under stable columns, and as Markdown
+ * tables.
+ */
 import type { AnalysisRecord } from '../analysis/analyzeTable.js';
 import type { PairReport } from '../analysis/report.js';
 import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';

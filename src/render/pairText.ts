@@ -1,3 +1,7 @@
+/**
+ * The pair report as text for people: the table in the --cells view, the
+ * evidence, the strength, where the association sits, the cautions.
+ */
 import type { ChalkInstance } from 'chalk';
 import type { AnalysisRecord } from '../analysis/analyzeTable.js';
 import type { PairReport } from '../analysis/report.js';

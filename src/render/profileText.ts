@@ -1,3 +1,4 @@
+/** The profile report as text and Markdown. */
 import type { ChalkInstance } from 'chalk';
 import type { ColumnProfile, ProfileReport } from '../analysis/profile.js';
 import { clip, formatCount } from './format.js';

@@ -1,3 +1,7 @@
+/**
+ * The scan report as text (ranked pairs with strength bars), CSV/TSV and
+ * Markdown.
+ */
 import type { ChalkInstance } from 'chalk';
 import type { ScanPair, ScanReport } from '../analysis/scan.js';
 import { formatCount, formatMeasure, formatP } from '../numbers.js';

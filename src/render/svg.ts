@@ -1,3 +1,7 @@
+/**
+ * The pictures as SVG: the heat map of adjusted residuals, the mosaic plot,
+ * the ranked strength chart.
+ */
 import type { AnalysisRecord } from '../analysis/analyzeTable.js';
 import type { ScanReport } from '../analysis/scan.js';
 import { formatCount, formatMeasure, formatSigned, UNDEFINED } from '../numbers.js';

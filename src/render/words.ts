@@ -1,3 +1,7 @@
+/**
+ * The words and phrases every human-facing format uses for the record's
+ * facts.
+ */
 import type { AnalysisRecord, Statement, Verdict } from '../analysis/analyzeTable.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
 import { formatConfidence, formatCount, formatLevel, formatMeasure, formatP, formatRatio, formatSigned } from '../numbers.js';

@@ -1,3 +1,4 @@
+/** Tails of the chi-square distribution. */
 import { regularizedGammaLower, regularizedGammaUpper } from './gamma.js';
 
 /**

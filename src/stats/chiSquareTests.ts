@@ -1,3 +1,7 @@
+/**
+ * Pearson's chi-square, the likelihood-ratio G² and Yates' continuity-
+ * corrected test of independence.
+ */
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { devianceTermFromDifference } from './gamma.js';
 import { compensatedSum } from '../numerics/compensatedSum.js';

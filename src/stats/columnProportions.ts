@@ -1,3 +1,7 @@
+/**
+ * Column-proportion tests of a banner: pooled two-proportion z tests between
+ * columns on effective bases, with multiple-testing control within a row.
+ */
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { adjustPValues } from './multipleTesting.js';
 

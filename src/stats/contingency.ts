@@ -1,3 +1,7 @@
+/**
+ * The basics of a two-way table of counts: margins, expected counts, degrees
+ * of freedom, and the deviations from independence formed exactly.
+ */
 import { compensatedSum } from '../numerics/compensatedSum.js';
 import { differenceOfProducts } from '../numerics/errorFree.js';
 

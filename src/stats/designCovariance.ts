@@ -1,3 +1,7 @@
+/**
+ * The design-based covariance of estimated cell proportions, by
+ * linearisation or by replicate weights.
+ */
 import { dataError, usageError } from '../errors.js';
 import { dot } from './linearAlgebra.js';
 import type { PsuCellTotals, ReplicateCellTotals } from './designTally.js';

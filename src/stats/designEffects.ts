@@ -1,3 +1,4 @@
+/** Generalized design effects of the test of independence (Rao & Scott). */
 import { cellVariance, denseCovariance, type CellCovariance } from './designCovariance.js';
 import { dot, orthonormalBasis, symmetricEigenvalues } from './linearAlgebra.js';
 

@@ -1,3 +1,7 @@
+/**
+ * Cell, row and column percentages with design-based standard errors and
+ * intervals.
+ */
 import { cellVariance, type CellCovariance, type DesignEstimate } from './designCovariance.js';
 import { chooseProportionInterval, kornGraubardInterval, logitInterval, type ProportionInterval } from './proportionIntervals.js';
 import type { DesignTests } from './raoScott.js';

@@ -1,3 +1,7 @@
+/**
+ * Accumulators for design-based estimation, fed one row at a time, per
+ * stratum and primary sampling unit.
+ */
 import { dataError } from '../errors.js';
 
 /**

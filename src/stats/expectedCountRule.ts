@@ -1,3 +1,4 @@
+/** Cochran's expected-count rule for the chi-square approximation. */
 import { CountMatrix, isTwoByTwo } from './contingency.js';
 
 export interface ExpectedCountCheck {

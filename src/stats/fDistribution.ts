@@ -1,3 +1,7 @@
+/**
+ * Snedecor's F distribution: tails and quantiles for real degrees of
+ * freedom.
+ */
 import { betaQuantileLogOdds, betaTails, logBeta } from './incompleteBeta.js';
 
 /**

@@ -1,3 +1,7 @@
+/**
+ * Exact tests of independence: Fisher's 2×2 test and the
+ * Fisher–Freeman–Halton r×c test (a network algorithm within a work bound).
+ */
 import { CountMatrix, isTwoByTwo, margins, transpose } from './contingency.js';
 import { devianceTerm, logBinomialCoefficient, logFactorial, stirlingError } from './gamma.js';
 

@@ -1,3 +1,7 @@
+/**
+ * The regularized incomplete beta function, its complement, density and
+ * quantiles.
+ */
 import { devianceTermFromDifference, logGamma, stirlingError } from './gamma.js';
 
 /**

@@ -1,3 +1,7 @@
+/**
+ * The layer-effect (uniform difference) model with a log-linear trend over
+ * ordered waves (Xie 1992).
+ */
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
 import { compensatedSum } from '../numerics/compensatedSum.js';

@@ -1,3 +1,7 @@
+/**
+ * Margin drift over waves: each variable's margin per wave and the chi-
+ * square test of homogeneity.
+ */
 import { likelihoodRatioChiSquare, pearsonChiSquare, TestResult } from './chiSquareTests.js';
 import { LayerStack } from './threeWay.js';
 

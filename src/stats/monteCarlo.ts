@@ -1,3 +1,7 @@
+/**
+ * The simulated exact p-value: random tables with the observed margins,
+ * within a work bound.
+ */
 import { CountMatrix, margins } from './contingency.js';
 import { EXACT_RELATIVE_TOLERANCE, ExactBound, logHypergeometric } from './fisherExact.js';
 import { logFactorial, stirlingError } from './gamma.js';

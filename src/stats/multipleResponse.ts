@@ -1,3 +1,7 @@
+/**
+ * Tests of independence for multiple-response questions: summed Pearson
+ * statistics with Rao–Scott-type corrections.
+ */
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
 import { compensatedSum } from '../numerics/compensatedSum.js';

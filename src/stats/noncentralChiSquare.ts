@@ -1,3 +1,7 @@
+/**
+ * Noncentral chi-square tails, and the interval for Cramér's V by inverting
+ * them.
+ */
 import { lowerTailChiSquare, upperTailChiSquare } from './chiSquareDistribution.js';
 import { poissonDensityRaw, regularizedGammaLower, regularizedGammaUpper } from './gamma.js';
 

@@ -1,3 +1,4 @@
+/** The standard normal distribution: upper tail and quantile. */
 import { regularizedGammaUpper } from './gamma.js';
 
 /**

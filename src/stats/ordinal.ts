@@ -1,3 +1,7 @@
+/**
+ * Ordinal measures (gamma, Kendall's tau-b and tau-c, Somers' d) with their
+ * standard errors, and the linear-by-linear test.
+ */
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
 import { compensatedSum } from '../numerics/compensatedSum.js';

@@ -1,3 +1,7 @@
+/**
+ * Predictive (proportional-reduction-in-error) measures: Goodman–Kruskal
+ * lambda and tau, Theil's uncertainty coefficient.
+ */
 import { likelihoodRatioChiSquare } from './chiSquareTests.js';
 import { compensatedSum } from '../numerics/compensatedSum.js';
 import { CountMatrix, deviationsFromIndependence, margins, transpose } from './contingency.js';

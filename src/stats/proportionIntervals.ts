@@ -1,3 +1,4 @@
+/** Confidence intervals for a proportion estimated from a complex sample. */
 import { betaQuantile, upperQuantileBeta } from './incompleteBeta.js';
 import { upperQuantileStudentT } from './studentTDistribution.js';
 

@@ -1,3 +1,6 @@
+/**
+ * Rao–Scott design-based tests of independence (corrected chi-square and F).
+ */
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { likelihoodRatioChiSquare, pearsonChiSquare } from './chiSquareTests.js';
 import type { DesignEstimate } from './designCovariance.js';

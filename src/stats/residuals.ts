@@ -1,3 +1,7 @@
+/**
+ * Residuals of a two-way table (Pearson, adjusted), each cell's share of X²,
+ * and percentages.
+ */
 import { CountMatrix, deviationsFromIndependence, margins } from './contingency.js';
 import { complementsInSum } from '../numerics/doubleDouble.js';
 

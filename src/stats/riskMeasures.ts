@@ -1,3 +1,4 @@
+/** The odds ratio and relative risk of a 2×2 table, with their intervals. */
 import { CountMatrix, isTwoByTwo } from './contingency.js';
 import { normalQuantile } from './normalDistribution.js';
 

@@ -1,3 +1,7 @@
+/**
+ * Sequential simulated p-values: random tables drawn a batch at a time until
+ * the decision at alpha is settled.
+ */
 import type { CountMatrix } from './contingency.js';
 import { margins } from './contingency.js';
 import { EXACT_RELATIVE_TOLERANCE } from './fisherExact.js';

@@ -1,3 +1,8 @@
+/**
+ * Tests and estimates across layers: Cochran–Mantel–Haenszel, the
+ * Mantel–Haenszel common odds ratio, Breslow–Day with its trend and
+ * residuals.
+ */
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
 import { compensatedSum } from '../numerics/compensatedSum.js';

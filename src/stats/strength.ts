@@ -1,3 +1,7 @@
+/**
+ * Strength-of-association measures built on X²: phi, C, Cramér's V and its
+ * bias-corrected form, Tschuprow's T, Yule's Q and Y.
+ */
 import { CountMatrix, isTwoByTwo } from './contingency.js';
 import { differenceOfProducts } from '../numerics/errorFree.js';
 

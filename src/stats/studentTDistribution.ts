@@ -1,3 +1,6 @@
+/**
+ * Student's t distribution: tails and quantiles for real degrees of freedom.
+ */
 import { betaQuantileLogOdds, betaTails, logBeta } from './incompleteBeta.js';
 
 /**

@@ -1,3 +1,7 @@
+/**
+ * The test of no three-way interaction across layers (iterative proportional
+ * fitting), and each layer's departure from it.
+ */
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
 import { compensatedSum } from '../numerics/compensatedSum.js';

@@ -1,3 +1,4 @@
+/** Welch's t test of two means from summary statistics. */
 import { twoSidedStudentT } from './studentTDistribution.js';
 
 /** A column's summary of a numeric question. With weights: weighted mean and SD, n the Kish effective base. */

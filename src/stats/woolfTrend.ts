@@ -1,3 +1,7 @@
+/**
+ * The trend of the log odds ratio over ordered strata, by Woolf-weighted
+ * regression.
+ */
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
 import { compensatedSum } from '../numerics/compensatedSum.js';

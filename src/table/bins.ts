@@ -1,3 +1,7 @@
+/**
+ * Binning numeric columns: equal-frequency bins (from values or from value
+ * counts) and cut-point bins, labelled by their ranges.
+ */
 import { compareNatural } from './naturalOrder.js';
 import { usageError } from '../errors.js';
 

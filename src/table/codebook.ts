@@ -1,3 +1,7 @@
+/**
+ * The typed codebook: each column's labels, missing codes and nets, and how
+ * a column's values are labelled.
+ */
 import { compareNatural, isNumericLabel } from './naturalOrder.js';
 
 /**

@@ -1,3 +1,7 @@
+/**
+ * What a column's value becomes before counting (codebook, recode, --keep-
+ * missing), and the level order those rules give.
+ */
 import { CodebookColumn, codeKey } from './codebook.js';
 import { compareNatural } from './naturalOrder.js';
 import { RangeRecode, recodeValue } from './rangeRecode.js';

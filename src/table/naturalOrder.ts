@@ -1,3 +1,7 @@
+/**
+ * The natural order of level labels, the same on every machine: numbers and
+ * ranges by value, digit runs by value, the rest by code point.
+ */
 import { compareRanges, parseRangeLabel, RangeLabel } from './rangeLabel.js';
 
 /**

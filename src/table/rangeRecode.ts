@@ -1,3 +1,7 @@
+/**
+ * Recodes whose rules name ranges of numbers as well as levels (--recode
+ * 'age:<18=minor,18-64=adult').
+ */
 import { usageError } from '../errors.js';
 import { compareNatural, isNumericLabel } from './naturalOrder.js';
 import { describeRange, parseRangeLabel, rangeContains, rangeOverlap, RangeLabel } from './rangeLabel.js';

@@ -1,3 +1,4 @@
+/** How a table's rows were weighted (none, sampling weights, frequencies), Kish's effective sample size, and the table rescaled to it. */
 /** How a table's counts were weighted, so that tests use the right sample size. */
 export interface Weighting {
   kind: 'none' | 'weight' | 'freq';
