@@ -19,6 +19,10 @@ published definition of the statistic, independently of tabsight's code:
                 exact rational arithmetic (fractions.Fraction): the probability
                 of each table relative to the observed one is a product of
                 short falling factorials
+  noncentralLarge, noncentralityIntervals
+                noncentral chi-square tails at noncentrality 3e5 to 1e8 from
+                scipy.stats.ncx2, and 95% limits for the noncentrality found by
+                scipy.optimize.brentq on those tails
   tables        tables near independence at n = 1e6 ... 1e12 and tables with a
                 dominant cell: X^2, lambda, Goodman-Kruskal tau, Somers' d,
                 gamma, tau-c, the linear-by-linear M^2 exactly in rational
@@ -356,11 +360,31 @@ battery.append({"name": "job satisfaction by income, 4x4, n 104 (the table of re
 for item in battery:
     item.update(statistics(item["counts"]))
 
+# ---- noncentral chi-square at large noncentrality ----------------------------------
+# scipy.stats.ncx2 (Boost's algorithms; scipy stops at noncentrality near 1e10),
+# and the confidence limits for the noncentrality by Brent's method on its tails.
+from scipy.optimize import brentq
+from scipy.stats import ncx2 as scipy_ncx2
+
+noncentral_large = []
+for lam in [3e5, 1e6, 1e7, 1e8]:
+    for dz in [-2, 0, 2]:
+        df = 3
+        x = float(f"{df + lam + dz * math.sqrt(2 * (df + 2 * lam)):.9g}")
+        noncentral_large.append({"x": x, "df": df, "lambda": lam, "upper": float(scipy_ncx2.sf(x, df, lam)), "lower": float(scipy_ncx2.cdf(x, df, lam))})
+noncentrality_intervals = []
+for x, df in [(3.5e5, 2), (2.5e6, 4), (4e7, 1)]:
+    lower = brentq(lambda lam: scipy_ncx2.sf(x, df, lam) - 0.025, x / 2, x, xtol=1e-9, rtol=1e-15)
+    upper = brentq(lambda lam: scipy_ncx2.cdf(x, df, lam) - 0.025, x, 2 * x, xtol=1e-9, rtol=1e-15)
+    noncentrality_intervals.append({"x": x, "df": df, "confidence": 0.95, "lower": lower, "upper": upper})
+
 OUT.parent.mkdir(parents=True, exist_ok=True)
 OUT.write_text(json.dumps({
     "recordedWith": {"python": sys.version.split()[0], "mpmath": mpmath.__version__, "numpy": np.__version__, "scipy": scipy.__version__},
     "fisher2x2": fisher2x2,
     "exactRxC": exact_rxc,
     "tables": battery,
+    "noncentralLarge": noncentral_large,
+    "noncentralityIntervals": noncentrality_intervals,
 }, indent=1) + "\n")
 print(f"wrote {OUT}")

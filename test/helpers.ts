@@ -60,6 +60,8 @@ export interface Edges {
   fisher2x2: { name: string; counts: number[][]; pValue: number }[];
   exactRxC: { counts: number[][]; pValue: number; tables: number }[];
   tables: EdgeTable[];
+  noncentralLarge: { x: number; df: number; lambda: number; upper: number; lower: number }[];
+  noncentralityIntervals: { x: number; df: number; confidence: number; lower: number; upper: number }[];
 }
 
 /** Values at the numerical edges, recorded by scripts/record_edges.py (exact fractions, mpmath, enumeration). */

@@ -33,6 +33,7 @@ import {
   yulesQ,
   yulesY,
 } from '../stats/strength.js';
+import { dataError } from '../errors.js';
 import { TwoWayTable } from '../table/twoWayTable.js';
 import { formatCount, formatExpected, formatMeasure } from '../numbers.js';
 import { effectiveSampleSize, rescaleToEffectiveSize, unweighted, Weighting } from '../table/weighting.js';
@@ -332,6 +333,28 @@ function tableVerdict(lead: LeadingTest, options: Pick<AnalysisOptions, 'alpha' 
 }
 
 /**
+ * Weighted sums beyond the range of doubles cannot be analysed, and must not
+ * be dropped quietly: refuse them in one line. The tests do not depend on the
+ * scale of the weights (Kish's effective size is scale-free), so dividing the
+ * weight column by a constant is always a remedy.
+ */
+function refuseOverflowingWeights(table: TwoWayTable, n: number, weighting: Weighting): void {
+  if (weighting.kind === 'none') return;
+  const option = weighting.kind === 'weight' ? '--weight' : '--freq';
+  const where = `the table of ${table.rowName} by ${table.colName}`;
+  if (!Number.isFinite(n) || table.counts.some((row) => row.some((v) => !Number.isFinite(v)))) {
+    throw dataError(`${where}: the ${option} values add up beyond the largest number (about 1.8e308); divide that column by a constant (the tests do not depend on the scale of the weights)`);
+  }
+  if (weighting.kind === 'weight' && n > 0 && !(Number.isFinite(weighting.sumSquaredWeights) && weighting.sumSquaredWeights > 0)) {
+    const overflow = weighting.sumSquaredWeights !== 0;
+    const direction = overflow ? 'overflow (weights above about 1e154)' : 'underflow (weights below about 1e-162)';
+    throw dataError(
+      `${where}: the squares of the --weight values ${direction}, so the effective sample size cannot be formed; ${overflow ? 'divide' : 'multiply'} that column by a constant (the tests do not depend on the scale of the weights)`,
+    );
+  }
+}
+
+/**
  * Joins a table to the statistics it deserves and returns one plain record,
  * the same record every renderer reads. The table must have at least two
  * levels on each side (the caller refuses it otherwise).
@@ -349,6 +372,7 @@ export function analyzeTable(
   const r = reportedCounts.length;
   const c = reportedCounts[0].length;
   const { rowTotals, colTotals, total: n } = margins(reportedCounts);
+  refuseOverflowingWeights(table, n, weighting);
   // Kish's effective sample size (Kish 1965) for sampling weights, not Σw.
   const effectiveN = weighting.kind === 'weight' ? effectiveSampleSize(weighting) : n;
   const testedCounts = rescaleToEffectiveSize(reportedCounts, weighting);
@@ -513,7 +537,16 @@ export function analyzeTable(
       contingencyC: contingencyCoefficient(pearson.statistic, effectiveN),
       correctedC: correctedContingencyCoefficient(pearson.statistic, effectiveN, r, c),
       cramersV: cramersV(pearson.statistic, effectiveN, r, c),
-      cramersVInterval: vInterval === null || vMedian === null ? null : { estimate: vMedian, ...vInterval, confidence: options.confidence, method: 'noncentral-chi-square inversion' },
+      cramersVInterval:
+        vInterval === null || vMedian === null
+          ? null
+          : {
+              estimate: vMedian,
+              lower: vInterval.lower,
+              upper: vInterval.upper,
+              confidence: options.confidence,
+              method: vInterval.tails === 'edgeworth' ? 'noncentral-chi-square inversion, Edgeworth tails' : 'noncentral-chi-square inversion',
+            },
       tschuprowT: tschuprowT(pearson.statistic, effectiveN, r, c),
       biasCorrectedV,
       yulesQ: q,

@@ -30,7 +30,8 @@ export function margins(counts: CountMatrix): Margins {
  */
 export function expectedCounts(counts: CountMatrix): number[][] {
   const { rowTotals, colTotals, total } = margins(counts);
-  return rowTotals.map((ri) => colTotals.map((cj) => (ri * cj) / total));
+  // n_i. · (n_.j / n): the product n_i. n_.j would overflow for sums near 1e160
+  return rowTotals.map((ri) => colTotals.map((cj) => ri * (cj / total)));
 }
 
 /** Degrees of freedom of the independence test, (r − 1)(c − 1). */

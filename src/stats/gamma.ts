@@ -153,6 +153,11 @@ export function poissonDensityRaw(a: number, x: number): number {
 }
 
 const EPSILON = 1e-16;
+/**
+ * Iteration bound of the series and the continued fraction. Both need about
+ * √a steps where x is near a; within the bound they reach a near 10¹¹, and
+ * past it they return NaN (no value) rather than a truncated one.
+ */
 const MAX_ITERATIONS = 1_000_000;
 
 /**
@@ -166,9 +171,9 @@ function lowerGammaSeries(a: number, x: number): number {
   for (let k = 1; k < MAX_ITERATIONS; k++) {
     term *= x / (a + k);
     sum += term;
-    if (term < sum * EPSILON) break;
+    if (term < sum * EPSILON) return poissonDensityRaw(a, x) * sum;
   }
-  return poissonDensityRaw(a, x) * sum;
+  return Number.NaN; // not converged within the bound (a near 10¹², x near a): no value rather than a wrong one
 }
 
 /**
@@ -193,10 +198,10 @@ function upperGammaContinuedFraction(a: number, x: number): number {
     d = 1 / d;
     const delta = d * c;
     h *= delta;
-    if (Math.abs(delta - 1) < EPSILON) break;
+    // x^a e^{−x}/Γ(a) = a · x^a e^{−x}/Γ(a+1)
+    if (Math.abs(delta - 1) < EPSILON) return a * poissonDensityRaw(a, x) * h;
   }
-  // x^a e^{−x}/Γ(a) = a · x^a e^{−x}/Γ(a+1)
-  return a * poissonDensityRaw(a, x) * h;
+  return Number.NaN; // not converged within the bound: no value rather than a wrong one
 }
 
 /**

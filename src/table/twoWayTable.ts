@@ -56,8 +56,10 @@ export function relabelTable(
 
 /** Drops levels whose margin is zero (possible with zero weights). */
 export function dropEmptyLevels(table: TwoWayTable): TwoWayTable {
-  const rowKeep = table.rowLevels.filter((_l, i) => table.counts[i].some((v) => v > 0));
-  const colKeep = table.colLevels.filter((_l, j) => table.counts.some((row) => row[j] > 0));
+  // "Empty" is exactly 0: a sum that overflowed (Infinity, NaN) stays, so that
+  // the analysis can refuse it aloud instead of losing the level quietly.
+  const rowKeep = table.rowLevels.filter((_l, i) => table.counts[i].some((v) => v !== 0));
+  const colKeep = table.colLevels.filter((_l, j) => table.counts.some((row) => row[j] !== 0));
   if (rowKeep.length === table.rowLevels.length && colKeep.length === table.colLevels.length) return table;
   return relabelTable(table, rowKeep, colKeep);
 }

@@ -21,7 +21,8 @@ export function unweighted(n: number): Weighting {
  */
 export function effectiveSampleSize(w: Weighting): number {
   if (w.kind !== 'weight') return w.sumWeights;
-  return w.sumSquaredWeights > 0 ? (w.sumWeights * w.sumWeights) / w.sumSquaredWeights : 0;
+  // Σw · (Σw / Σw²): (Σw)² itself would overflow for weights near 1e155.
+  return w.sumSquaredWeights > 0 ? w.sumWeights * (w.sumWeights / w.sumSquaredWeights) : 0;
 }
 
 /**

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { normalQuantile, upperTailNormal } from '../../src/stats/normalDistribution.js';
-import { cramersVInterval, lowerTailNoncentralChiSquare, noncentralityInterval, upperTailNoncentralChiSquare } from '../../src/stats/noncentralChiSquare.js';
+import { cramersVInterval, EDGEWORTH_THRESHOLD, lowerTailNoncentralChiSquare, noncentralityInterval, upperTailNoncentralChiSquare } from '../../src/stats/noncentralChiSquare.js';
 import { oddsRatio, relativeRisk } from '../../src/stats/riskMeasures.js';
-import { expectClose, reference } from '../helpers.js';
+import { edges, expectClose, reference } from '../helpers.js';
 
 describe('normal distribution', () => {
   for (const { p, z } of reference.normalQuantiles) {
@@ -40,6 +40,31 @@ describe('noncentral chi-square and the interval for Cramér’s V', () => {
       expectClose(lowerTailNoncentralChiSquare(point.x, point.df, point.lambda), point.lower, 1e-9);
     });
   }
+
+  for (const point of edges.noncentralLarge) {
+    const route = point.x > EDGEWORTH_THRESHOLD || point.lambda > EDGEWORTH_THRESHOLD ? 'Edgeworth series' : 'Poisson mixture';
+    it(`tails at λ = ${point.lambda.toExponential(0)}, x = ${point.x} (${route}) match scipy.stats.ncx2 to 1e-10 (scripts/record_edges.py)`, () => {
+      expectClose(upperTailNoncentralChiSquare(point.x, point.df, point.lambda), point.upper, 1e-10);
+      expectClose(lowerTailNoncentralChiSquare(point.x, point.df, point.lambda), point.lower, 1e-10);
+    });
+  }
+
+  for (const item of edges.noncentralityIntervals) {
+    it(`95% limits for λ at X² = ${item.x.toExponential(1)} match Brent's method on scipy.stats.ncx2 to 1e-10 (scripts/record_edges.py)`, () => {
+      const { lower, upper, converged } = noncentralityInterval(item.x, item.df, item.confidence);
+      expect(converged).toBe(true);
+      expectClose(lower, item.lower, 1e-10);
+      expectClose(upper, item.upper, 1e-10);
+    });
+  }
+
+  it('the V interval at X² = 2·10¹⁴ (counts near 10¹⁴) is computed, not a hang, and says its tails are Edgeworth', () => {
+    const interval = cramersVInterval(2e14, 1, 8e14, 2, 2, 0.95);
+    expect(interval?.tails).toBe('edgeworth');
+    expect(interval!.lower).toBeLessThan(0.5);
+    expect(interval!.upper).toBeGreaterThan(0.5);
+    expect(interval!.upper - interval!.lower).toBeLessThan(1e-6);
+  });
 
   it('inverts the distribution: the limits put α/2 in each tail (Smithson 2003)', () => {
     const { lower, upper } = noncentralityInterval(40, 6, 0.95);
