@@ -159,6 +159,8 @@ const EPSILON = 1e-16;
  * past it they return NaN (no value) rather than a truncated one.
  */
 const MAX_ITERATIONS = 1_000_000;
+/** A continued-fraction factor within 2^-51 of 1 changes nothing more (a factor of exactly 1 may never come). */
+const CONTINUED_FRACTION_EPSILON = 2 ** -51;
 
 /**
  * Series for the lower regularized incomplete gamma P(a, x):
@@ -199,7 +201,7 @@ function upperGammaContinuedFraction(a: number, x: number): number {
     const delta = d * c;
     h *= delta;
     // x^a e^{−x}/Γ(a) = a · x^a e^{−x}/Γ(a+1)
-    if (Math.abs(delta - 1) < EPSILON) return a * poissonDensityRaw(a, x) * h;
+    if (Math.abs(delta - 1) <= CONTINUED_FRACTION_EPSILON) return a * poissonDensityRaw(a, x) * h;
   }
   return Number.NaN; // not converged within the bound: no value rather than a wrong one
 }
