@@ -7,7 +7,7 @@
 // "never a stack trace, a hang or a silent loss").
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { analyzeTable } from '../../src/analysis/analyzeTable.js';
+import { analyzeTable, DEFAULT_ANALYSIS_OPTIONS } from '../../src/analysis/analyzeTable.js';
 import type { Weighting } from '../../src/table/weighting.js';
 
 const table = (counts: number[][]) => ({
@@ -67,7 +67,7 @@ function* numbersIn(value: unknown, path: string): Generator<[string, number]> {
   else if (value !== null && typeof value === 'object') for (const [key, v] of Object.entries(value)) yield* numbersIn(v, `${path}.${key}`);
 }
 
-const options = { ordinal: true, confidence: 0.95, exact: 'auto' as const, simulations: 200, seed: 1, exactWorkLimit: 20_000 };
+const options = { ...DEFAULT_ANALYSIS_OPTIONS, ordinal: true, simulations: 200, seed: 1, exactWorkLimit: 20_000 };
 
 describe('the whole analysis on adversarial tables (property)', () => {
   it('returns a record with no NaN and finite numbers (bar interval bounds) for every table, weighted or not', () => {
