@@ -1,6 +1,6 @@
 /** Generalized design effects of the test of independence (Rao & Scott). */
 import { cellVariance, denseCovariance, type CellCovariance } from './designCovariance.js';
-import { dot, orthonormalBasis, symmetricEigenvalues } from './linearAlgebra.js';
+import { dot, extremeEigenvalues, orthonormalBasis, symmetricEigenvalues } from './linearAlgebra.js';
 
 /**
  * Generalized design effects of the test of independence in an r × c table
@@ -36,10 +36,11 @@ import { dot, orthonormalBasis, symmetricEigenvalues } from './linearAlgebra.js'
  * the dense K × K form of S is used instead (O(L K² + K²(r + c))).
  * Eigenvalues: with clusters or replicates (no diagonal part) they are the
  * non-zero eigenvalues of the L × L matrix Λ^½ Z Z' Λ^½ (padded with zeros
- * up to k), computed when L ≤ 600; otherwise from the dense P S P when
- * K ≤ 500. Beyond both (e.g. a 25 × 25 table without clusters) the mean and
- * the F test are still exact, but the individual eigenvalues, minimum and
- * maximum are not computed (null), which the result says.
+ * up to k), computed when L ≤ 600; otherwise all of them from the dense P S P
+ * when K ≤ 500. Beyond both (e.g. a 25 × 25 table without clusters) only the
+ * smallest and largest are found, by the Lanczos method on P S P
+ * (linearAlgebra.ts, to 1e-12 of the largest), and the list of eigenvalues is
+ * null; the mean and the F test are exact in every case.
  *
  * Empty cells (p_j = 0): D⁻¹ is replaced by its generalized inverse (1/p_j,
  * and 0 on empty cells), as the reference library does, so the contrasts are
@@ -63,12 +64,12 @@ export interface GeneralizedDesignEffects {
   mean: number;
   /** a = √(trace(Δ²)/(k δ̄²) − 1), the coefficient of variation of the eigenvalues */
   coefficientOfVariation: number;
-  /** the k eigenvalues ascending, or null when not computed (see method) */
+  /** the k eigenvalues ascending, or null when not computed or only the extremes were (see method) */
   eigenvalues: Float64Array | null;
   min: number | null;
   max: number | null;
   /** how the eigenvalues were found: from the factors, from the dense matrix, or not at all */
-  eigenvalueMethod: 'factors' | 'dense' | 'not computed';
+  eigenvalueMethod: 'factors' | 'dense' | 'lanczos' | 'not computed';
   /** deff of each cell's proportion (row-major), null where p is 0 or 1 */
   cellDesignEffects: (number | null)[];
 }
@@ -316,7 +317,16 @@ function invertSymmetricPositive(A: Float64Array, n: number): Float64Array {
  * @example With every row its own PSU, one stratum and equal weights, V = n/(n−1) · (diag(p) − pp')/n,
  *          so every eigenvalue and every cell design effect is n/(n − 1) (test/stats/designEffects.test.ts).
  */
-export function generalizedDesignEffects(p: Float64Array, covariance: CellCovariance, n: number, rows: number, cols: number): GeneralizedDesignEffects {
+export function generalizedDesignEffects(
+  p: Float64Array,
+  covariance: CellCovariance,
+  n: number,
+  rows: number,
+  cols: number,
+  limits: { factors?: number; dense?: number } = {},
+): GeneralizedDesignEffects {
+  const gramLimit = limits.factors ?? GRAM_EIGEN_LIMIT;
+  const denseLimit = limits.dense ?? DENSE_EIGEN_LIMIT;
   const K = rows * cols;
   if (p.length !== K || covariance.size !== K) throw new Error(`generalizedDesignEffects: ${p.length} proportions for a ${rows} × ${cols} table`);
   const k = (rows - 1) * (cols - 1);
@@ -332,12 +342,21 @@ export function generalizedDesignEffects(p: Float64Array, covariance: CellCovari
 
   let trace: number;
   let traceOfSquare: number;
+  let applyPSP: (v: Float64Array) => Float64Array; // P S P on the range of P, for the Lanczos route
   let eigenvalues: Float64Array | null = null;
   let eigenvalueMethod: GeneralizedDesignEffects['eigenvalueMethod'] = 'not computed';
 
   if (L <= K) {
     const Z = covariance.factors.map((u) => projector.remove(u.map((v, j) => v * scale[j])));
     const lambda = covariance.weights;
+    applyPSP = (v) => {
+      const out = covariance.diagonal ? projector.remove(v.map((x, j) => x * e[j])) : new Float64Array(K);
+      Z.forEach((z, l) => {
+        const c = lambda[l] * dot(z, v);
+        for (let j = 0; j < K; j++) out[j] += c * z[j];
+      });
+      return out;
+    };
     // diagonal part
     let traceE = 0;
     let eSquares = 0;
@@ -365,7 +384,7 @@ export function generalizedDesignEffects(p: Float64Array, covariance: CellCovari
         traceOfSquare += (m === l ? 1 : 2) * lambda[l] * lambda[m] * g * g;
       }
     }
-    if (!covariance.diagonal && lambda.every((w) => w >= 0) && L <= GRAM_EIGEN_LIMIT) {
+    if (!covariance.diagonal && lambda.every((w) => w >= 0) && L <= gramLimit) {
       const weighted = new Float64Array(L * L);
       for (let l = 0; l < L; l++) for (let m = 0; m < L; m++) weighted[l * L + m] = Math.sqrt(lambda[l] * lambda[m]) * gram[l * L + m];
       const values = symmetricEigenvalues(weighted, L);
@@ -376,6 +395,7 @@ export function generalizedDesignEffects(p: Float64Array, covariance: CellCovari
     const S = denseScaled(covariance, scale);
     const H = projector.basis();
     const SH = H.map((h) => multiply(S, h, K));
+    applyPSP = (v) => projector.remove(multiply(S, v, K));
     trace = 0;
     traceOfSquare = 0;
     for (let j = 0; j < K; j++) trace += S[j * K + j];
@@ -390,13 +410,27 @@ export function generalizedDesignEffects(p: Float64Array, covariance: CellCovari
     });
   }
 
-  if (eigenvalues === null && K <= DENSE_EIGEN_LIMIT) {
+  if (eigenvalues === null && K <= denseLimit) {
     const S = denseScaled(covariance, scale);
     const PSP = projectBothSides(S, projector.basis(), K);
     const values = symmetricEigenvalues(PSP, K);
     // the K − kEffective smallest are the zeros of the H directions and of the empty cells (all eigenvalues are ≥ 0)
     eigenvalues = padToK(values.slice(K - kEffective), kEffective, k);
     eigenvalueMethod = 'dense';
+  }
+
+  let min: number | null = eigenvalues ? eigenvalues[0] : null;
+  let max: number | null = eigenvalues ? eigenvalues[k - 1] : null;
+  if (eigenvalues === null && kEffective >= 1) {
+    // only the extremes, by Lanczos on P S P from a start vector in the range of P
+    const start = projector.remove(Float64Array.from({ length: K }, (_x, j) => (p[j] > 0 ? 1.3 + Math.sin(0.7 * j + 0.1) : 0)));
+    const extremes = extremeEigenvalues(applyPSP, start, kEffective, { tolerance: 1e-12, maxSteps: 400 });
+    if (extremes) {
+      const clamp = (v: number): number => (Math.abs(v) <= 1e-12 * Math.abs(extremes.max) ? 0 : v);
+      min = kEffective < k ? 0 : clamp(extremes.min);
+      max = extremes.max;
+      eigenvalueMethod = 'lanczos';
+    }
   }
 
   const mean = trace / k;
@@ -409,8 +443,8 @@ export function generalizedDesignEffects(p: Float64Array, covariance: CellCovari
     mean,
     coefficientOfVariation,
     eigenvalues,
-    min: eigenvalues ? eigenvalues[0] : null,
-    max: eigenvalues ? eigenvalues[k - 1] : null,
+    min,
+    max,
     eigenvalueMethod,
     cellDesignEffects,
   };

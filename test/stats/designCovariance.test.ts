@@ -93,6 +93,25 @@ describe('linearised covariance: the formula of the conventions (§2), computed 
     expect(rowWise.degreesOfFreedom).toBe(clustered.degreesOfFreedom);
   });
 
+  it('a one-row stratum is treated alike without clusters and with one cluster per row, under each --lonely-psu treatment (the clustered route is the one checked against the library)', () => {
+    const design = survey.taylor[0];
+    const table = design.tables[1];
+    const data = readSurveyData(design.data);
+    const stratum = data.stype.map((s, i) => (i === 0 ? 'alone' : s));
+    for (const lonelyPsu of ['certainty', 'adjust', 'average'] as const) {
+      const estimates = [false, true].map((clustered) => {
+        const tally = new DesignTally({ clustered });
+        tally.addRows({ cell: cellsOf(data, table), weight: data.pw.map(Number), stratum, cluster: clustered ? data.pw.map((_w, i) => i) : undefined });
+        return linearizedCovariance(tally.totals, { lonelyPsu, layout: { size: 9 } });
+      });
+      expect(estimates[0].lonelyStrata).toEqual(['alone']);
+      expectMatrixNear(denseCovariance(estimates[0].covariance), denseCovariance(estimates[1].covariance));
+    }
+    const tally = new DesignTally({ clustered: false });
+    tally.addRows({ cell: cellsOf(data, table), weight: data.pw.map(Number), stratum });
+    expect(() => linearizedCovariance(tally.totals)).toThrowError('stratum "alone" has only one PSU (a single row), so its variance cannot be estimated; choose --lonely-psu certainty, adjust or average (see the methods note)');
+  });
+
   it('--fpc as the population size F_h or as the sampling fraction n_h/F_h gives the same V (conventions §3)', () => {
     const design = survey.taylor[0];
     const table = design.tables[1];

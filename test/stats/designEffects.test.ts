@@ -41,7 +41,7 @@ describe('with every row its own PSU, one stratum and equal weights (derived in 
     });
   }
 
-  it('holds beyond the size where eigenvalues are computed (26 × 26, k = 625): mean n/(n−1), trace(Δ²) = k (n/(n−1))², eigenvalues reported as not computed', () => {
+  it('holds beyond the size where all eigenvalues are computed (26 × 26, k = 625): mean n/(n−1), trace(Δ²) = k (n/(n−1))², extremes n/(n−1) by Lanczos', () => {
     const counts = Array.from({ length: 26 }, (_r, i) => Array.from({ length: 26 }, (_c, j) => 1 + ((i * 7 + j * 3) % 4)));
     const estimate = linearizedCovariance(simpleRandomSample(counts).totals, { layout: { size: 676 } });
     const n = estimate.n;
@@ -49,10 +49,32 @@ describe('with every row its own PSU, one stratum and equal weights (derived in 
     expect(effects.k).toBe(625);
     expectClose(effects.mean, n / (n - 1), 1e-10);
     expectClose(effects.traceOfSquare, 625 * (n / (n - 1)) ** 2, 1e-10);
-    expect(effects.eigenvalueMethod).toBe('not computed');
+    expect(effects.eigenvalueMethod).toBe('lanczos');
     expect(effects.eigenvalues).toBeNull();
-    expect(effects.min).toBeNull();
+    expectClose(effects.min, n / (n - 1), 1e-10);
+    expectClose(effects.max, n / (n - 1), 1e-10);
   });
+});
+
+// The Lanczos route (used where the full eigen decomposition would be too large) forced on small tables,
+// against the eigenvalues of Δ recorded from the survey package for R (r-cran-survey 4.1-1-1).
+describe('extreme design effects by the Lanczos method agree with the library\'s eigenvalues', () => {
+  const cases = [
+    ...survey.taylor.flatMap((design) => design.tables.map((table) => ({ name: design.name, file: design.data, design: design.design, table }))),
+  ].filter(({ table }) => table.eigenvalues.length >= 2);
+  for (const { name, file, design, table } of cases) {
+    it(`${name}: ${table.rowVariable} × ${table.colVariable}, smallest and largest of ${table.eigenvalues.length}`, () => {
+      const estimate = taylorEstimate(file, design, table);
+      const r = table.rowLevels.length;
+      const c = table.colLevels.length;
+      const effects = generalizedDesignEffects(estimate.proportions, estimate.covariance, estimate.n, r, c, { factors: 0, dense: 0 });
+      expect(effects.eigenvalueMethod).toBe('lanczos');
+      const largest = table.eigenvalues[table.eigenvalues.length - 1];
+      expect(Math.abs(effects.max! - largest) / largest).toBeLessThan(1e-10);
+      expect(Math.abs(effects.min! - table.eigenvalues[0]) / largest).toBeLessThan(1e-10);
+      expectClose(effects.mean, table.meanDesignEffect, 1e-10);
+    });
+  }
 });
 
 /** Helmert contrasts of size m: m × (m−1), column q = (1, …, 1, −q, 0, …) over the first q + 1 levels. */
