@@ -101,3 +101,15 @@ export function contingencyTables(maxRows: number, maxCols: number, maxCount: nu
 export function readReferenceFixture<T>(file: string): T {
   return JSON.parse(readFileSync(join(ROOT, 'fixtures/reference', file), 'utf8')) as T;
 }
+
+/** A copy of the values in an order drawn from the seed (Fisher–Yates with a linear congruential generator, Knuth TAOCP vol. 2, §3.4.2). */
+export function shuffle<T>(values: readonly T[], seed: number): T[] {
+  const shuffled = [...values];
+  let s = seed >>> 0;
+  for (let i = shuffled.length - 1; i > 0; i--) {
+    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+    const j = s % (i + 1);
+    [shuffled[i], shuffled[j]] = [shuffled[j], shuffled[i]];
+  }
+  return shuffled;
+}

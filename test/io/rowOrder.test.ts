@@ -5,6 +5,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { countTable } from '../../src/io/counting.js';
 import { inputSource } from '../../src/io/source.js';
+import { shuffle } from '../helpers.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'tabsight-order-'));
 const reader = { missing: [], skipBadRows: false, header: true };
@@ -20,13 +21,7 @@ describe('row order does not matter (property)', () => {
         async (rows, seed) => {
           const complete = rows.filter(([a]) => a !== '');
           fc.pre(new Set(complete.map(([a]) => a)).size >= 2 && new Set(complete.map(([, b]) => b)).size >= 2);
-          const shuffled = [...rows];
-          let s = seed >>> 0;
-          for (let i = shuffled.length - 1; i > 0; i--) {
-            s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
-            const j = s % (i + 1);
-            [shuffled[i], shuffled[j]] = [shuffled[j], shuffled[i]];
-          }
+          const shuffled = shuffle(rows, seed);
           const write = (lines: [string, string][]) => {
             const path = join(dir, `t${k++}.csv`);
             writeFileSync(path, ['a,b', ...lines.map(([a, b]) => `${a},${b}`)].join('\n') + '\n');

@@ -5,6 +5,7 @@
 // §21.1.1.1 Number(value) → "the Number value for ℝ(prim)").
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import { shuffle } from '../helpers.js';
 import { addCompensated, CompensatedSum, compensatedSum, pairFromBuckets } from '../../src/numerics/compensatedSum.js';
 
 const SCALE = 2n ** 60n;
@@ -25,13 +26,7 @@ describe('compensated sums of weights', () => {
   it('give the correctly rounded sum, whatever the order of the rows (exact BigInt reference)', () => {
     fc.assert(
       fc.property(fc.array(weight, { minLength: 1, maxLength: 300 }), fc.integer(), (values, seed) => {
-        const shuffled = [...values];
-        let s = seed >>> 0;
-        for (let i = shuffled.length - 1; i > 0; i--) {
-          s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
-          const j = s % (i + 1);
-          [shuffled[i], shuffled[j]] = [shuffled[j], shuffled[i]];
-        }
+        const shuffled = shuffle(values, seed);
         const a = new CompensatedSum();
         const b = new CompensatedSum();
         for (const w of values) a.add(w);
