@@ -220,7 +220,10 @@ export class DesignTally {
     if (row.cell >= 0) this.totals.add(unit, row.cell, row.weight);
   }
 
-  /** Adds parallel arrays of rows (absent arrays: one stratum; no clusters in row mode). */
+  /**
+   * Adds parallel arrays of rows (absent arrays: one stratum; no clusters in row mode). Error
+   * messages count a header line: element 0 is line 2.
+   */
   addRows(rows: { cell: ArrayLike<number>; weight: ArrayLike<number>; stratum?: ArrayLike<DesignKey>; cluster?: ArrayLike<DesignKey>; fpc?: ArrayLike<number> }): void {
     for (let i = 0; i < rows.cell.length; i++) {
       this.add({ cell: rows.cell[i], weight: rows.weight[i], stratum: rows.stratum?.[i], cluster: rows.cluster?.[i], fpc: rows.fpc?.[i], line: i + 2 });
