@@ -19,6 +19,7 @@ published definition of the statistic, independently of tabsight's code:
                 exact rational arithmetic (fractions.Fraction): the probability
                 of each table relative to the observed one is a product of
                 short falling factorials
+  chi2Df1       the upper tail of chi-square with 1 df, erfc(sqrt(x/2)), mpmath
   noncentralLarge, noncentralityIntervals
                 noncentral chi-square tails at noncentrality 3e5 to 1e8 from
                 scipy.stats.ncx2, and 95% limits for the noncentrality found by
@@ -357,6 +358,10 @@ for counts in [
     battery.append({"name": f"dominant cell {counts}", "regime": "dominant-cell", "counts": counts})
 battery.append({"name": "job satisfaction by income, 4x4, n 104 (the table of reference.json)", "regime": "moderate",
                 "counts": [[1, 2, 1, 0], [3, 3, 6, 1], [10, 10, 14, 9], [6, 7, 12, 11]]})
+battery.append({"name": "party identification by gender, 2x3, n 2757 (the table of reference.json)", "regime": "moderate",
+                "counts": [[762, 327, 468], [484, 239, 477]]})
+battery.append({"name": "aspirin and myocardial infarction (Physicians' Health Study 1989)", "regime": "moderate",
+                "counts": [[189, 10845], [104, 10933]]})
 for item in battery:
     item.update(statistics(item["counts"]))
 
@@ -378,6 +383,9 @@ for x, df in [(3.5e5, 2), (2.5e6, 4), (4e7, 1)]:
     upper = brentq(lambda lam: scipy_ncx2.cdf(x, df, lam) - 0.025, x, 2 * x, xtol=1e-9, rtol=1e-15)
     noncentrality_intervals.append({"x": x, "df": df, "confidence": 0.95, "lower": lower, "upper": upper})
 
+# ---- the chi-square tail with 1 df in closed form: erfc(sqrt(x/2)) (A&S 26.4.4 with 7.1.2)
+chi2_df1 = [{"x": x, "p": float(mpmath.erfc(mpmath.sqrt(mpmath.mpf(x) / 2)))} for x in [1e-6, 0.01, 0.5, 1, 3.841458820694124, 10, 50, 200, 700, 1380]]
+
 OUT.parent.mkdir(parents=True, exist_ok=True)
 OUT.write_text(json.dumps({
     "recordedWith": {"python": sys.version.split()[0], "mpmath": mpmath.__version__, "numpy": np.__version__, "scipy": scipy.__version__},
@@ -386,5 +394,6 @@ OUT.write_text(json.dumps({
     "tables": battery,
     "noncentralLarge": noncentral_large,
     "noncentralityIntervals": noncentrality_intervals,
+    "chi2Df1": chi2_df1,
 }, indent=1) + "\n")
 print(f"wrote {OUT}")

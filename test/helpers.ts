@@ -62,6 +62,7 @@ export interface Edges {
   tables: EdgeTable[];
   noncentralLarge: { x: number; df: number; lambda: number; upper: number; lower: number }[];
   noncentralityIntervals: { x: number; df: number; confidence: number; lower: number; upper: number }[];
+  chi2Df1: { x: number; p: number }[];
 }
 
 /** Values at the numerical edges, recorded by scripts/record_edges.py (exact fractions, mpmath, enumeration). */

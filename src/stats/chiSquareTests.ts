@@ -17,6 +17,10 @@ export interface TestResult {
  * Pearson's chi-square statistic X² = Σ (n_ij − E_ij)² / E_ij with
  * df = (r−1)(c−1), referred to the upper tail of χ²(df).
  * Pearson, K. (1900). Phil. Mag. 50, 157–175; Agresti (2013) §3.2.1.
+ *
+ * @example
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * pearsonChiSquare([[189, 10845], [104, 10933]]) // { statistic: 25.01, df: 1, pValue: 5.69e-7 }
  */
 export function pearsonChiSquare(counts: CountMatrix): TestResult {
   const df = degreesOfFreedom(counts);
@@ -30,6 +34,10 @@ export function pearsonChiSquare(counts: CountMatrix): TestResult {
 /**
  * Likelihood-ratio chi-square G² = 2 Σ n_ij log(n_ij / E_ij), with
  * 0·log 0 = 0 (Wilks 1938; Agresti 2013 §3.2.1), df = (r−1)(c−1).
+ *
+ * @example
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * likelihoodRatioChiSquare([[189, 10845], [104, 10933]]) // { statistic: 25.37, df: 1, pValue: 4.73e-7 }
  */
 export function likelihoodRatioChiSquare(counts: CountMatrix): TestResult {
   const df = degreesOfFreedom(counts);
@@ -54,6 +62,10 @@ export function likelihoodRatioChiSquare(counts: CountMatrix): TestResult {
  * X²_Y = Σ (|n_ij − E_ij| − ½)² / E_ij (Yates 1934, J. R. Stat. Soc. Suppl. 1,
  * 217–235). The correction is capped at |n_ij − E_ij| so that it never
  * overshoots (the rule scipy.stats.chi2_contingency applies). null unless 2×2.
+ *
+ * @example
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * yatesChiSquare([[189, 10845], [104, 10933]]) // { statistic: 24.43, df: 1, pValue: 7.71e-7 }
  */
 export function yatesChiSquare(counts: CountMatrix): TestResult | null {
   if (!isTwoByTwo(counts)) return null;

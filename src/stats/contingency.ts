@@ -27,6 +27,10 @@ export function margins(counts: CountMatrix): Margins {
 /**
  * Expected counts under independence, E_ij = n_i. n_.j / n
  * (Pearson 1904; Agresti 2013, Categorical Data Analysis, 3rd ed., §3.2.1).
+ *
+ * @example
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * expectedCounts([[189, 10845], [104, 10933]]) // [[146.48, 10887.52], [146.52, 10890.48]]
  */
 export function expectedCounts(counts: CountMatrix): number[][] {
   const { rowTotals, colTotals, total } = margins(counts);
@@ -41,10 +45,12 @@ export function degreesOfFreedom(counts: CountMatrix): number {
   return Math.max(0, (r - 1) * (c - 1));
 }
 
+/** True for a table of two rows and two columns. */
 export function isTwoByTwo(counts: CountMatrix): boolean {
   return counts.length === 2 && counts[0].length === 2;
 }
 
+/** The table with rows and columns exchanged. */
 export function transpose(counts: CountMatrix): number[][] {
   const c = counts.length === 0 ? 0 : counts[0].length;
   const out: number[][] = [];

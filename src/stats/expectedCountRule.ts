@@ -16,6 +16,10 @@ export interface ExpectedCountCheck {
  * Biometrics 10, 417–451): no expected count below 1 and at most 20% of
  * cells below 5; for a 2×2 table, no expected count below 5 (common practice,
  * following the same paper's advice for 2×2 tables).
+ *
+ * @example
+ * // Fisher's tea-tasting table (Fisher 1935, §2): every expected count is 2
+ * expectedCountRule([[2, 2], [2, 2]]) // { passes: false, cellsBelowFive: 4, … }
  */
 export function expectedCountRule(expected: CountMatrix): ExpectedCountCheck {
   let cells = 0;

@@ -331,8 +331,12 @@ export function networkSizeEstimate(rowTotals: readonly number[], colTotals: rea
  * the counts are not non-negative integers.
  *
  * @example
- * // Agresti (2013), Categorical Data Analysis, 3rd ed., Table 3.8 style: small counts
- * fisherFreemanHalton([[3, 1, 0], [1, 3, 2], [0, 2, 5]]) // { status: 'computed', pValue: … }
+ * // women applicants admitted/rejected by department A–F (Bickel, Hammel &
+ * // O'Connell 1975, Science 187, 398–404): n = 1835 is far beyond exact reach
+ * fisherFreemanHalton([[89, 17, 202, 131, 94, 24], [19, 8, 391, 244, 299, 317]])
+ * // { status: 'declined', workEstimate: 2.89e7, workBound: 2e6, reason: 'its work estimate … is above the bound …' }
+ * // departments A and B alone (n = 133):
+ * fisherFreemanHalton([[89, 17], [19, 8]]) // the 2×2 test: { status: 'computed', pValue: 0.1644…, … }
  */
 export function fisherFreemanHalton(counts: CountMatrix, bound: ExactBound = DEFAULT_RXC_BOUND): ExactOutcome | null {
   if (counts.length === 0 || counts[0].length === 0 || !isCountTable(counts)) return null;

@@ -5,13 +5,7 @@
 
 const LOG_SQRT_2PI = 0.91893853320467274178032973640562; // log(sqrt(2*pi))
 
-/**
- * log Γ(x) for x > 0 by the Lanczos approximation (g = 7, n = 9).
- * Lanczos, C. (1964). A precision approximation of the gamma function.
- * SIAM J. Numer. Anal. B 1, 86–96; coefficients as tabulated by
- * Godfrey (2001) for g = 7. Relative error about 1e-15.
- * Integer arguments up to 171 use the exact product instead.
- */
+/** Lanczos's g and his nine coefficients for it (Godfrey 2001), used by logGamma. */
 const LANCZOS_G = 7;
 const LANCZOS = [
   0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313,
@@ -29,6 +23,19 @@ const LOG_FACTORIAL_SMALL: number[] = (() => {
   return table;
 })();
 
+/**
+ * log Γ(x) for x > 0 by the Lanczos approximation (g = 7, n = 9):
+ *   Γ(z + 1) = √(2π) (z + g + ½)^{z+½} e^{−(z+g+½)} A_g(z),
+ *   A_g(z) = c₀ + Σ_{k=1}^{8} c_k/(z + k)
+ * (Lanczos, C. 1964, A precision approximation of the gamma function, SIAM
+ * J. Numer. Anal. B 1, 86–96; coefficients as tabulated by Godfrey 2001 for
+ * g = 7), relative error about 1e-15; below ½ by the reflection
+ * Γ(x)Γ(1−x) = π/sin(πx). Integer arguments up to 171 use the exact product.
+ *
+ * @example
+ * // Γ(½) = √π (Abramowitz & Stegun 1964, 6.1.8)
+ * logGamma(0.5) // 0.5723649429247001 = log √π
+ */
 export function logGamma(x: number): number {
   if (!(x > 0)) return Number.NaN;
   if (Number.isInteger(x) && x <= 171) return LOG_FACTORIAL_SMALL[x - 1];
@@ -211,6 +218,10 @@ function upperGammaContinuedFraction(a: number, x: number): number {
  * directly in the upper tail (never as 1 − P there). Where x < a + 1 the
  * lower series is used and Q = 1 − P; in that region Q > 0.08 for every a,
  * so the subtraction costs at most one digit.
+  *
+ * @example
+ * // Q(1, x) = e^{−x} (Abramowitz & Stegun 1964, 6.5.13 with a = 1)
+ * regularizedGammaUpper(1, 2) // 0.1353352832366127
  */
 export function regularizedGammaUpper(a: number, x: number): number {
   if (Number.isNaN(a) || Number.isNaN(x) || a <= 0) return Number.NaN;

@@ -43,8 +43,8 @@ export const EDGEWORTH_THRESHOLD = 1e6;
  * mixture would need 12√λ terms per call).
  *
  * @example
- * // P(X ≥ 10) for k = 4, λ = 3: 0.2162… (recorded with mpmath in fixtures/reference)
- * upperTailNoncentralChiSquare(10, 4, 3)
+ * // the power of the 1-df test at the observed X² = 25.01 of the aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135), if λ were 10
+ * upperTailNoncentralChiSquare(25.01, 1, 10) // 0.0330
  */
 export function upperTailNoncentralChiSquare(x: number, df: number, lambda: number): number {
   if (lambda === 0) return upperTailChiSquare(x, df);
@@ -74,8 +74,8 @@ export function upperTailNoncentralChiSquare(x: number, df: number, lambda: numb
  * P(a − 1, y) = P(a, y) + y^{a−1} e^{−y} / Γ(a) run downwards (where it only adds).
  *
  * @example
- * // P(X ≤ 10) for k = 4, λ = 3: 0.7838…
- * lowerTailNoncentralChiSquare(10, 4, 3)
+ * // X² = 25.01 of the aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135), at λ = 10
+ * lowerTailNoncentralChiSquare(25.01, 1, 10) // 0.9670
  */
 export function lowerTailNoncentralChiSquare(x: number, df: number, lambda: number): number {
   if (lambda === 0) return lowerTailChiSquare(x, df);
@@ -146,6 +146,7 @@ export function edgeworthLowerTail(x: number, df: number, lambda: number): numbe
   return Math.min(1, Math.max(0, upperTailNormal(-z) - density * correction));
 }
 
+/** Upper tail of the noncentral chi-square by the same Edgeworth series (see edgeworthLowerTail). */
 export function edgeworthUpperTail(x: number, df: number, lambda: number): number {
   const { z, correction } = edgeworth(x, df, lambda);
   const density = INVERSE_SQRT_2PI * Math.exp(-0.5 * z * z);
@@ -164,8 +165,8 @@ const MAX_ROOT_ITERATIONS = 200;
  * `converged` is false when a bound was reached.
  *
  * @example
- * // X² = 40 on 6 df, 95%: λ from 14.91… to 62.90…
- * noncentralityInterval(40, 6, 0.95)
+ * // X² = 25.01 on 1 df, the aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * noncentralityInterval(25.01, 1, 0.95) // { lower: 9.25, upper: 48.46, converged: true }
  */
 export function noncentralityInterval(x: number, df: number, confidence: number): { lower: number; upper: number; converged: boolean } {
   const alphaHalf = (1 - confidence) / 2;
@@ -228,9 +229,8 @@ export function noncentralityInterval(x: number, df: number, confidence: number)
  * did not converge within its bounds.
  *
  * @example
- * // party identification by gender (Agresti 2007, An Introduction to
- * // Categorical Data Analysis, 2nd ed., Table 2.5): X² = 30.07, n = 2757, 2×3
- * cramersVInterval(30.07, 2, 2757, 2, 3, 0.95) // V from 0.0649… to 0.1403…
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135): X² = 25.01, n = 22071
+ * cramersVInterval(25.01, 1, 22071, 2, 2, 0.95) // { lower: 0.0205, upper: 0.0469, tails: 'poisson-mixture' }
  */
 export function cramersVInterval(
   chiSquare: number,
@@ -254,6 +254,10 @@ export function cramersVInterval(
  * the pivot interval above is built around, Smithson 2003, ch. 4). Because
  * P(X ≥ x; λ) rises with λ, it always lies between the interval's limits,
  * whatever the confidence level; the sample V need not.
+  *
+ * @example
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135): X² = 25.01, n = 22071
+ * cramersVMedianEstimate(25.01, 1, 22071, 2, 2) // 0.0337
  */
 export function cramersVMedianEstimate(chiSquare: number, df: number, n: number, r: number, c: number): number | null {
   const m = Math.min(r, c);

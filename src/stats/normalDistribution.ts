@@ -5,6 +5,10 @@ import { regularizedGammaUpper } from './gamma.js';
  * Upper tail of the standard normal, P(Z ≥ z) = ½ erfc(z/√2), with
  * erfc(t) = Q(½, t²) for t ≥ 0 (A&S 7.1.2 with 6.5.17), so far tails keep
  * their relative accuracy.
+ *
+ * @example
+ * // Abramowitz & Stegun 1964, Table 26.1: the upper 2.5% point is 1.959964
+ * upperTailNormal(1.959963984540054) // 0.025
  */
 export function upperTailNormal(z: number): number {
   if (Number.isNaN(z)) return Number.NaN;
@@ -17,6 +21,10 @@ export function upperTailNormal(z: number): number {
  * starting value (the logistic-type approximation of A&S 26.2.23) is refined
  * by Halley's method on the tail function above until it is exact to double
  * precision.
+ *
+ * @example
+ * // Abramowitz & Stegun 1964, Table 26.5
+ * normalQuantile(0.975) // 1.959963984540054
  */
 export function normalQuantile(p: number): number {
   if (!(p > 0 && p < 1)) {

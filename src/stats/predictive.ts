@@ -18,6 +18,10 @@ import { complementsInSum } from '../numerics/doubleDouble.js';
  * Goodman–Kruskal lambda, predicting columns from rows:
  *   λ(C|R) = (Σ_i max_j n_ij − max_j n_.j) / (n − max_j n_.j)
  * (Goodman & Kruskal 1954, J. Am. Stat. Assoc. 49, 732–764).
+ *
+ * @example
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135): the modal outcome (no infarction) is the same in both rows
+ * lambdaColsGivenRows([[189, 10845], [104, 10933]]) // 0
  */
 export function lambdaColsGivenRows(counts: CountMatrix): number | null {
   const { colTotals, total } = margins(counts);
@@ -27,6 +31,14 @@ export function lambdaColsGivenRows(counts: CountMatrix): number | null {
   return (sumRowMax - maxCol) / (total - maxCol);
 }
 
+/**
+ * Goodman–Kruskal lambda predicting rows from columns, λ(R|C): λ(C|R) of the
+ * transposed table.
+ *
+ * @example
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * lambdaRowsGivenCols([[189, 10845], [104, 10933]]) // 0.0077
+ */
 export function lambdaRowsGivenCols(counts: CountMatrix): number | null {
   return lambdaColsGivenRows(transpose(counts));
 }
@@ -34,6 +46,10 @@ export function lambdaRowsGivenCols(counts: CountMatrix): number | null {
 /**
  * Symmetric lambda (Goodman & Kruskal 1954):
  *   λ = (Σ_i max_j n_ij + Σ_j max_i n_ij − max n_.j − max n_i.) / (2n − max n_.j − max n_i.).
+ *
+ * @example
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * lambdaSymmetric([[189, 10845], [104, 10933]]) // 0.0075
  */
 export function lambdaSymmetric(counts: CountMatrix): number | null {
   const { rowTotals, colTotals, total } = margins(counts);
@@ -57,8 +73,8 @@ export function lambdaSymmetric(counts: CountMatrix): number | null {
  * never negative) at any n. null when one column holds everything.
  *
  * @example
- * // Goodman & Kruskal's kind of table: [[30, 10], [5, 25]]
- * goodmanKruskalTauColsGivenRows([[30, 10], [5, 25]]) // 0.3333… (816.7/2450)
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * goodmanKruskalTauColsGivenRows([[189, 10845], [104, 10933]]) // 0.00113
  */
 export function goodmanKruskalTauColsGivenRows(counts: CountMatrix): number | null {
   const { rowTotals, colTotals, total } = margins(counts);
@@ -73,6 +89,14 @@ export function goodmanKruskalTauColsGivenRows(counts: CountMatrix): number | nu
   return (total * compensatedSum(terms)) / denominator;
 }
 
+/**
+ * Goodman–Kruskal tau predicting rows from columns, τ(R|C): τ(C|R) of the
+ * transposed table (for a 2×2 table both equal φ²).
+ *
+ * @example
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * goodmanKruskalTauRowsGivenCols([[189, 10845], [104, 10933]]) // 0.00113
+ */
 export function goodmanKruskalTauRowsGivenCols(counts: CountMatrix): number | null {
   return goodmanKruskalTauColsGivenRows(transpose(counts));
 }
@@ -109,7 +133,8 @@ function mutualInformation(counts: CountMatrix): number {
  * 3rd ed., §14.7.4). null when one column holds everything.
  *
  * @example
- * uncertaintyColsGivenRows([[30, 10], [5, 25]]) // 0.2578…
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * uncertaintyColsGivenRows([[189, 10845], [104, 10933]]) // 0.00815
  */
 export function uncertaintyColsGivenRows(counts: CountMatrix): number | null {
   const { colTotals, total } = margins(counts);
@@ -118,6 +143,13 @@ export function uncertaintyColsGivenRows(counts: CountMatrix): number | null {
   return Math.min(1, mutualInformation(counts) / hCols);
 }
 
+/**
+ * Theil's uncertainty coefficient predicting rows from columns, U(R|C) = I(R; C)/H(R).
+ *
+ * @example
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * uncertaintyRowsGivenCols([[189, 10845], [104, 10933]]) // 0.00083
+ */
 export function uncertaintyRowsGivenCols(counts: CountMatrix): number | null {
   return uncertaintyColsGivenRows(transpose(counts));
 }
@@ -126,7 +158,8 @@ export function uncertaintyRowsGivenCols(counts: CountMatrix): number | null {
  * Symmetric uncertainty coefficient U = 2 I(R; C) / (H(R) + H(C)) (Theil 1970).
  *
  * @example
- * uncertaintySymmetric([[30, 10], [5, 25]]) // 0.2597…
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * uncertaintySymmetric([[189, 10845], [104, 10933]]) // 0.00151
  */
 export function uncertaintySymmetric(counts: CountMatrix): number | null {
   const { rowTotals, colTotals, total } = margins(counts);

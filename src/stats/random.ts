@@ -25,6 +25,25 @@ export class SeededRandom {
     this.s3 = next();
   }
 
+  /**
+   * A generator started from the four 32-bit words of xoshiro128**'s state
+   * directly (not all zero), for the published known-answer sequences.
+   */
+  static fromState(s0: number, s1: number, s2: number, s3: number): SeededRandom {
+    if ((s0 | s1 | s2 | s3) === 0) throw new Error('xoshiro128** state must not be all zero');
+    const generator = new SeededRandom(0);
+    generator.s0 = s0 >>> 0;
+    generator.s1 = s1 >>> 0;
+    generator.s2 = s2 >>> 0;
+    generator.s3 = s3 >>> 0;
+    return generator;
+  }
+
+  /** The state words, for tests. */
+  state(): [number, number, number, number] {
+    return [this.s0 >>> 0, this.s1 >>> 0, this.s2 >>> 0, this.s3 >>> 0];
+  }
+
   /** A uniform 32-bit unsigned integer. */
   nextUint32(): number {
     const result = Math.imul(rotl(Math.imul(this.s1, 5), 7), 9) >>> 0;

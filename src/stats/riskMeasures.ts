@@ -21,6 +21,10 @@ function withHaldane(counts: CountMatrix, needs: (a: number, b: number, c: numbe
  * Woolf (logit) interval exp(log θ ± z √(1/a + 1/b + 1/c + 1/d))
  * (Woolf 1955, Ann. Hum. Genet. 19, 251–253). When any cell is zero, ½ is
  * added to every cell first (Haldane 1956, Ann. Hum. Genet. 20, 309–311).
+ *
+ * @example
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
+ * oddsRatio([[189, 10845], [104, 10933]]) // { estimate: 1.832, lower: 1.440, upper: 2.331, haldaneCorrection: false }
  */
 export function oddsRatio(counts: CountMatrix, confidence = 0.95): IntervalEstimate | null {
   if (!isTwoByTwo(counts)) return null;
@@ -37,6 +41,10 @@ export function oddsRatio(counts: CountMatrix, confidence = 0.95): IntervalEstim
  * exp(log RR ± z √(1/a − 1/(a+b) + 1/c − 1/(c+d)))
  * (Katz, Baptista, Azen & Pike 1978, Biometrics 34, 469–474). When a or c is
  * zero, ½ is added to every cell first. null when a row is empty.
+ *
+ * @example
+ * // aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135): the risk of infarction is 1.82 times higher on placebo
+ * relativeRisk([[189, 10845], [104, 10933]]) // { estimate: 1.818, lower: 1.433, upper: 2.306, haldaneCorrection: false }
  */
 export function relativeRisk(counts: CountMatrix, confidence = 0.95): IntervalEstimate | null {
   if (!isTwoByTwo(counts)) return null;

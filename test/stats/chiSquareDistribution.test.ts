@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { lowerTailChiSquare, upperTailChiSquare } from '../../src/stats/chiSquareDistribution.js';
 import { logGamma, regularizedGammaUpper } from '../../src/stats/gamma.js';
-import { expectClose, reference } from '../helpers.js';
+import { edges, expectClose, reference } from '../helpers.js';
 
 describe('upper tail of the chi-square distribution', () => {
   it(`agrees with mpmath (40 digits) to 1e-10 relative on ${reference.chi2Sf.length} points, df 1 to 100000, p down to 1e-300`, () => {
@@ -33,8 +33,13 @@ describe('upper tail of the chi-square distribution', () => {
     expectClose(upperTailChiSquare(18.307038053275146, 10), 0.05, 1e-9);
   });
 
-  it('has exact closed forms: df 2 is exp(−x/2); df 1 is erfc(√(x/2)) (A&S 26.4.4 and 26.4.5)', () => {
+  it('df 2 has the closed form exp(−x/2) (A&S 26.4.5)', () => {
     for (const x of [0.01, 1, 10, 100, 700, 1400]) expectClose(upperTailChiSquare(x, 2), Math.exp(-x / 2), 1e-13);
+  });
+
+  it('df 1 has the closed form erfc(√(x/2)) (A&S 26.4.4 with 7.1.2): against mpmath erfc, recorded by scripts/record_edges.py', () => {
+    expect(edges.chi2Df1.length).toBeGreaterThanOrEqual(8);
+    for (const point of edges.chi2Df1) expectClose(upperTailChiSquare(point.x, 1), point.p, 1e-12);
   });
 
   it('lower and upper tails sum to 1', () => {

@@ -3,29 +3,32 @@ import { likelihoodRatioChiSquare, pearsonChiSquare, yatesChiSquare } from '../.
 import { degreesOfFreedom, expectedCounts } from '../../src/stats/contingency.js';
 import { expectedCountRule } from '../../src/stats/expectedCountRule.js';
 import { adjustedResiduals, pearsonResiduals } from '../../src/stats/residuals.js';
-import { expectClose, expectMatrixClose, reference } from '../helpers.js';
+import { edges, expectClose, expectMatrixClose, reference } from '../helpers.js';
 
 const party = [
   [762, 327, 468],
   [484, 239, 477],
 ];
 
-describe('published worked example: party identification by gender (Agresti, Categorical Data Analysis; values from memory of the textbook)', () => {
-  it('X² = 30.07 and G² = 30.02 with df 2', () => {
+describe('party identification by gender (a General Social Survey table; references recorded from the definitions)', () => {
+  const recorded = edges.tables.find((t) => t.name.startsWith('party identification by gender'))!;
+
+  it('X², G² and their p-values equal the exact rational / 80-digit values (scripts/record_edges.py), and X² ≈ 30.07 on df 2', () => {
     const x2 = pearsonChiSquare(party);
     const g2 = likelihoodRatioChiSquare(party);
     expect(x2.df).toBe(2);
+    const pearson = recorded.pearson as { statistic: number; pValue: number };
+    const lr = recorded.likelihoodRatio as { statistic: number; pValue: number };
+    expectClose(x2.statistic, pearson.statistic, 1e-12);
+    expectClose(x2.pValue, pearson.pValue, 1e-10);
+    expectClose(g2.statistic, lr.statistic, 1e-12);
+    expectClose(g2.pValue, lr.pValue, 1e-10);
     expect(x2.statistic).toBeCloseTo(30.07, 2);
-    expect(g2.statistic).toBeCloseTo(30.02, 2);
-    expect(x2.pValue).toBeLessThan(1e-6);
   });
 
-  it('adjusted residuals 4.50, 0.70, −5.32 in the first row (Haberman 1973 residuals)', () => {
+  it("adjusted residuals (Haberman 1973) equal the 80-digit values; the second row mirrors the first", () => {
     const r = adjustedResiduals(party);
-    expect(r[0][0]).toBeCloseTo(4.5, 2);
-    expect(r[0][1]).toBeCloseTo(0.7, 2);
-    expect(r[0][2]).toBeCloseTo(-5.32, 2);
-    // second row mirrors the first in a 2-row table
+    expectMatrixClose(r, recorded.residualsAdjusted as number[][], 1e-12);
     r[0].forEach((v, j) => expectClose(r[1][j], -(v as number), 1e-12));
   });
 });

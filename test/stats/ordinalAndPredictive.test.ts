@@ -11,7 +11,7 @@ import {
   uncertaintyRowsGivenCols,
   uncertaintySymmetric,
 } from '../../src/stats/predictive.js';
-import { contingencyTables, expectClose, reference } from '../helpers.js';
+import { contingencyTables, edges, expectClose, reference } from '../helpers.js';
 
 const jobSatisfaction = [
   [1, 2, 1, 0],
@@ -21,8 +21,14 @@ const jobSatisfaction = [
 ];
 
 describe('ordinal measures', () => {
-  it('job satisfaction by income: gamma 0.221 with ASE 0.117 (Agresti, Categorical Data Analysis; from memory of the textbook)', () => {
+  it('job satisfaction by income: gamma ≈ 0.221 with standard error ≈ 0.117, equal to the exact-rational evaluation of Brown & Benedetti (1977) (scripts/record_edges.py)', () => {
     const m = ordinalMeasures(jobSatisfaction);
+    const recorded = edges.tables.find((t) => t.name.startsWith('job satisfaction by income'))!.ordinal as Record<string, { estimate: number; standardError: number; z: number }>;
+    for (const key of ['gamma', 'kendallTauB', 'kendallTauC', 'somersDColsGivenRows', 'somersDRowsGivenCols'] as const) {
+      expectClose(m[key].estimate, recorded[key].estimate, 1e-12);
+      expectClose(m[key].standardError, recorded[key].standardError, 1e-12);
+      expectClose(m[key].z, recorded[key].z, 1e-12);
+    }
     expect(m.gamma.estimate).toBeCloseTo(0.221, 3);
     expect(m.gamma.standardError).toBeCloseTo(0.117, 3);
   });
@@ -72,10 +78,14 @@ describe('predictive (proportional reduction in error) measures', () => {
       [30, 10],
       [5, 25],
     ];
-    // predicting columns: without rows guess col 1 (35) → errors 35; with rows 10 + 5 = 15 errors
+    // predicting columns: without the rows guess either column (35 each) → 35 errors;
+    // with them guess column 1 in row 1 (10 errors) and column 2 in row 2 (5) → 15 errors
     expectClose(lambdaColsGivenRows(t), (35 - 15) / 35, 1e-15);
-    expectClose(lambdaRowsGivenCols(t), (40 - 15 - 30 + 30) / 30 - (40 - 30 - 15 + 15) / 30 + (55 - 40) / 30 - (55 - 40) / 30 + (55 - 40) / 30 - (55 - 40) / 30 + ((30 + 25) - 40) / 30 - (55 - 40) / 30, 1e-15);
-    expectClose(lambdaSymmetric(t), (55 + 55 - 35 - 40) / (140 - 35 - 40), 1e-15);
+    // predicting rows: without the columns guess row 1 (40) → 30 errors; with them
+    // guess row 1 in column 1 (5 errors) and row 2 in column 2 (10) → 15 errors
+    expectClose(lambdaRowsGivenCols(t), (30 - 15) / 30, 1e-15);
+    // symmetric: (35 − 15 + 30 − 15) / (35 + 30)
+    expectClose(lambdaSymmetric(t), (35 - 15 + 30 - 15) / (35 + 30), 1e-15);
   });
 
   it('Goodman–Kruskal tau and the uncertainty coefficient are 0 under independence and 1 under perfect prediction', () => {
