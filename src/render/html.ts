@@ -23,7 +23,7 @@ const STYLE = `
   .answer { border-left: 5px solid #2166ac; background: #f3f6fa; padding: 0.6rem 1rem; }
   .answer.fails { border-left-color: #999; background: #f5f5f5; }
   .answer p { margin: 0.3rem 0; }
-  table { border-collapse: collapse; margin: 0.6rem 0; font-variant-numeric: tabular-nums; }
+  table { border-collapse: collapse; margin: 0.6rem 0; font-variant-numeric: tabular-nums; display: block; max-width: 100%; overflow-x: auto; }
   th, td { padding: 0.25rem 0.6rem; border-bottom: 1px solid #ddd; text-align: right; vertical-align: top; }
   th:first-child, td:first-child { text-align: left; }
   td.margin, th.margin { border-left: 2px solid #bbb; }
@@ -36,7 +36,7 @@ const STYLE = `
   .dim { color: #777; }
   .lead { font-weight: 600; }
   details { margin: 0.6rem 0; }
-  @media print { body { margin: 0; max-width: none; } h2 { break-after: avoid; } .figures { break-inside: avoid; } details { display: block; } }
+  @media print { body { margin: 0; max-width: none; } table { display: table; overflow: visible; } h2 { break-after: avoid; } .figures { break-inside: avoid; } details { display: block; } }
 `;
 
 const e = (s: string) => escapeXml(s.replace(/\u00a0/g, ' '));
