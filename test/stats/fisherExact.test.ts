@@ -102,20 +102,35 @@ describe('Fisher–Freeman–Halton exact test, r×c', () => {
     );
   });
 
-  it('a 2×7 table of n = 267 is declined from its estimate (network plus partial tables) before any table is visited', () => {
+  it('a 2×7 table of n = 267 runs: pruning brings its work far below the estimate made before pruning', () => {
     const t = [
       [19, 20, 19, 18, 20, 19, 18],
       [18, 19, 20, 19, 18, 19, 19],
     ];
     const outcome = fisherFreemanHalton(t);
+    expect(outcome?.status).toBe('computed');
+    if (outcome?.status === 'computed') expect(outcome.work).toBeLessThan(100_000);
+  });
+
+  it('declines at once, before any table is visited, when the partial tables exceed 8 times the bound (women by department, Bickel et al. 1975)', () => {
+    const women = [
+      [89, 17, 202, 131, 94, 24],
+      [19, 8, 391, 244, 299, 317],
+    ];
+    const outcome = fisherFreemanHalton(women);
     expect(outcome?.status).toBe('declined');
     if (outcome?.status === 'declined') {
-      expect(outcome.workEstimate).toBeGreaterThan(outcome.workBound);
-      expect(outcome.reason).toMatch(/partial tables/);
+      expect(outcome.workEstimate).toBeGreaterThan(8 * outcome.workBound);
+      expect(outcome.reason).toMatch(/work estimate .* partial tables\) is above the bound/);
     }
-    // with a larger bound the same table is computed, and the p-value is a probability
-    const computed = fisherFreemanHalton(t, { maxWork: 10_000_000 });
-    expect(computed?.status).toBe('computed');
+  });
+
+  it('declines when the budget is spent, saying so, where pruning was not enough', () => {
+    const outcome = fisherFreemanHalton([[2, 11, 9, 0], [3, 6, 0, 6], [10, 5, 11, 0]], { maxWork: 20_000 });
+    expect(outcome?.status).toBe('declined');
+    if (outcome?.status === 'declined') expect(outcome.reason).toMatch(/passed the bound/);
+    // and with room enough it is computed, equal to brute force
+    expectClose(exactP(fisherFreemanHalton([[2, 11, 9, 0], [3, 6, 0, 6], [10, 5, 11, 0]], { maxWork: 1_000_000 })), fisherByEnumeration([[2, 11, 9, 0], [3, 6, 0, 6], [10, 5, 11, 0]]), 1e-10);
   });
 
   it('declines at once when even the box bound on the network is far beyond the work bound', () => {
