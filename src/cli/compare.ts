@@ -26,7 +26,8 @@ import {
   tablePlan,
 } from './options.js';
 import type { CellView } from '../render/pairText.js';
-import { CliIo, emit, pageWidth, painter, writeSideFile } from './output.js';
+import { CliIo, emit, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
+import type { OutputGuard } from '../output/guard.js';
 import type { Outcome } from './outcome.js';
 
 export interface ComparePlan {
@@ -98,8 +99,8 @@ function period(label: string, counted: Pick<CountedInput, 'table' | 'weighting'
 }
 
 /** The two periods of one file, told apart by a column: its two levels, or the two named by --levels. */
-async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: string, levels: [string, string] | undefined, io: CliIo): Promise<[PeriodInput, PeriodInput]> {
-  const counted = await countTable(source, readerFor(plan.reader, io), { ...plan.table, by: column });
+async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: string, levels: [string, string] | undefined, io: CliIo, guard: OutputGuard): Promise<[PeriodInput, PeriodInput]> {
+  const counted = await countTable(source, readerFor(plan.reader, io, guard), { ...plan.table, by: column });
   const strata = counted.strata ?? [];
   const available = strata.map((s) => s.level);
   let pick: string[];
@@ -119,14 +120,16 @@ async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: s
 export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome> {
   let before: PeriodInput;
   let after: PeriodInput;
+  const guard = outputGuard(io, plan.report);
+  guard.checkInputs(plan.periods.kind === 'column' ? [plan.periods.input] : [plan.periods.before, plan.periods.after]);
   if (plan.periods.kind === 'column') {
     const source = inputSource(plan.periods.input, io.stdin);
     checkReadable(source);
-    [before, after] = await periodsOfColumn(source, plan, plan.periods.column, plan.periods.levels, io);
+    [before, after] = await periodsOfColumn(source, plan, plan.periods.column, plan.periods.levels, io, guard);
   } else {
     const sources = [inputSource(plan.periods.before, io.stdin), inputSource(plan.periods.after, io.stdin)];
     const counted: CountedInput[] = [];
-    for (const source of sources) counted.push(await countTable(source, readerFor(plan.reader, io), plan.table));
+    for (const source of sources) counted.push(await countTable(source, readerFor(plan.reader, io, guard), plan.table));
     before = period(sources[0].label, counted[0], inputSummary(sources[0].label, counted[0]));
     after = period(sources[1].label, counted[1], inputSummary(sources[1].label, counted[1]));
   }
@@ -136,7 +139,7 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
   const text = COMPARE_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: plan.cells });
   if (plan.report.plot !== undefined) {
     const pictures = [report.before, report.after].filter((r) => r.testable).map((r) => residualHeatMap(r as never, `Adjusted residuals, ${r.label}`));
-    writeSideFile(io, plan.report.plot, stackSvg(pictures));
+    await writeSideFile(io, plan.report.plot, stackSvg(pictures));
   }
   await emit(io, text, plan.report.output);
   return { found: report.verdict?.changed === true, exitStatusWanted: plan.report.exitStatus };

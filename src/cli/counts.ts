@@ -9,7 +9,7 @@ import { checkReadable, inputSource } from '../io/source.js';
 import { compareNatural } from '../table/naturalOrder.js';
 import { delimitedField } from '../render/scanTable.js';
 import { addReaderOptions, addSurveyOptions, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerPlan, surveyPlan, readerFor } from './options.js';
-import { CliIo, emit } from './output.js';
+import { CliIo, emit, outputGuard } from './output.js';
 import { DONE, Outcome } from './outcome.js';
 
 /** The long count format that `--freq count` reads back: one line per combination. */
@@ -78,8 +78,10 @@ Examples:
 /** Counts the table (and its layers) and writes one line per combination that occurs. */
 export async function runCount(plan: CountPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
+  const guard = outputGuard(io, { output: plan.output });
+  guard.checkInputs([plan.input]);
   checkReadable(source);
-  const counted = await countTable(source, readerFor(plan.reader, io), plan.table);
+  const counted = await countTable(source, readerFor(plan.reader, io, guard), plan.table);
   const lines: [string[], number][] = [];
   const add = (prefix: string[], t: typeof counted.table) =>
     t.rowLevels.forEach((rl, i) => t.colLevels.forEach((cl, j) => t.counts[i][j] > 0 && lines.push([[...prefix, rl, cl], t.counts[i][j]])));
@@ -108,6 +110,7 @@ export async function runMerge(plan: MergePlan, io: CliIo): Promise<Outcome> {
   const files = plan.files;
   let header: string[] | null = null;
   const totals = new Map<string, [string[], number]>();
+  outputGuard(io, { output: plan.output }).checkInputs(files);
   for (const file of files) {
     const source = inputSource(file, io.stdin);
     let countIndex = -1;

@@ -12,6 +12,8 @@ import { compareCommand, ComparePlan, runCompare } from './compare.js';
 import { completionCommand, CompletionPlan, runCompletion } from './completion.js';
 import { countCommand, CountPlan, mergeCommand, MergePlan, runCount, runMerge } from './counts.js';
 import { CliIo, processIo } from './output.js';
+import { ClosedPipe } from '../output/reasons.js';
+import { removeTemporariesOnSignals } from '../output/temporaries.js';
 import { Outcome, statusOf } from './outcome.js';
 import { pairCommand, PairPlan, runPair } from './pair.js';
 import { runScan, scanCommand, ScanPlan } from './scan.js';
@@ -106,6 +108,7 @@ export async function run(args: readonly string[], io: CliIo): Promise<{ status:
       if (error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.code === 'commander.help') return { status: ExitStatus.ok };
       return { status: ExitStatus.usageError };
     }
+    if (error instanceof ClosedPipe) return { status: ExitStatus.ok }; // `| head`: ends quietly
     if (error instanceof TabsightError) {
       io.stderr.write(`tabsight: ${error.message}\n`);
       return { status: error.exitStatus };
@@ -116,9 +119,12 @@ export async function run(args: readonly string[], io: CliIo): Promise<{ status:
 
 /** The program on the process's own streams (argv as process.argv gives it). */
 export async function main(argv: string[]): Promise<number> {
-  process.stdout.on('error', (error: NodeJS.ErrnoException) => {
-    if (error.code === 'EPIPE') process.exit(ExitStatus.ok); // a closed pipe (| head) ends quietly
-    throw error;
-  });
+  // Write errors reach each write's callback (src/output/standardOutput.ts),
+  // where they end the run with one line (a closed pipe: quietly); the
+  // streams' error events are then only echoes. Standard error that cannot
+  // be written (a closed pipe) must not change the status either.
+  process.stdout.on('error', () => undefined);
+  process.stderr.on('error', () => undefined);
+  removeTemporariesOnSignals();
   return (await run(argv.slice(2), processIo())).status;
 }

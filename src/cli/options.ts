@@ -12,6 +12,7 @@ import type { InputSummary } from '../analysis/report.js';
 import type { TableRequest } from '../io/counting.js';
 import { CELL_VIEWS } from '../render/pairText.js';
 import { CliIo, noteWriter } from './output.js';
+import type { OutputGuard } from '../output/guard.js';
 
 /**
  * The options of a command that analyses one pair of columns (pair,
@@ -114,8 +115,8 @@ export type ReaderPlan = ReaderOptions & { maxLevels: number };
  * error, and the engine's module (TABSIGHT_ENGINE_MODULE lets a test stand
  * for a machine without the optional package).
  */
-export function readerFor(plan: ReaderPlan, io: CliIo): ReaderPlan {
-  return { ...plan, onNote: noteWriter(io), engineModule: io.env.TABSIGHT_ENGINE_MODULE };
+export function readerFor(plan: ReaderPlan, io: CliIo, guard?: OutputGuard): ReaderPlan {
+  return { ...plan, onNote: noteWriter(io), engineModule: io.env.TABSIGHT_ENGINE_MODULE, checkInputs: guard ? (files) => guard.checkInputs(files) : undefined };
 }
 
 export function readerPlan(raw: RawReaderOptions): ReaderPlan {

@@ -1,31 +1,27 @@
 /**
  * Where a run's text goes: the streams and environment a run is given
  * (CliIo: the process's own, or a test's), standard output or an --output
- * file written atomically, notes on standard error, and colour.
+ * file, notes on standard error, and colour. The writing itself, and the
+ * rules that keep outputs from destroying data, live in src/output.
  */
-import { closeSync, openSync, renameSync, unlinkSync, writeSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
 import { Chalk, ChalkInstance } from 'chalk';
-import { dataError } from '../errors.js';
+import { OutputGuard, OutputTarget } from '../output/guard.js';
+import { writeTarget, WriteHooks } from '../output/atomicWrite.js';
+import { OutputStream, processStandardOutput, writeStandardOutput } from '../output/standardOutput.js';
 
-/** A stream a run writes to; isTTY is true only for a terminal. */
-export interface OutputStream {
-  write(text: string): boolean;
-  once(event: 'drain', listener: () => void): unknown;
-  isTTY?: boolean;
-}
+export type { OutputStream };
 
 /** What a run reads from and writes to: the process's streams in bin/tabsight.js, captured ones in tests. */
 export interface CliIo {
-  stdin: NodeJS.ReadableStream & { isTTY?: boolean };
+  stdin: NodeJS.ReadableStream & { isTTY?: boolean; fd?: number };
   stdout: OutputStream;
   stderr: OutputStream;
   env: Readonly<Record<string, string | undefined>>;
 }
 
-/** The process's own streams and environment. */
+/** The process's own streams and environment (standard output with checked writes: src/output/standardOutput.ts). */
 export function processIo(): CliIo {
-  return { stdin: process.stdin, stdout: process.stdout, stderr: process.stderr, env: process.env };
+  return { stdin: process.stdin, stdout: processStandardOutput(), stderr: process.stderr, env: process.env };
 }
 
 /** Colour only for a terminal, never when NO_COLOR is set, --no-color is given or output goes to a file. */
@@ -35,12 +31,9 @@ export function painter(io: CliIo, colorOption: boolean | undefined, toFile = fa
   return new Chalk({ level: wanted ? 1 : 0 });
 }
 
-/** Writes to standard output, waiting while the stream is full. */
+/** Writes to standard output and waits until the text is out; a failed write is one line (a closed pipe ends quietly). */
 export function writeOut(io: CliIo, text: string): Promise<void> {
-  return new Promise((resolve) => {
-    if (io.stdout.write(text)) resolve();
-    else io.stdout.once('drain', () => resolve());
-  });
+  return writeStandardOutput(io.stdout, text);
 }
 
 /** A one-line note on standard error (for example, that the engine handed a file back to the built-in reader). */
@@ -48,61 +41,34 @@ export function noteWriter(io: CliIo): (note: string) => void {
   return (note) => io.stderr.write(`tabsight: note: ${note}\n`);
 }
 
+/** The test hooks of the environment (see WriteHooks). */
+function writeHooks(io: CliIo): WriteHooks {
+  const number = (value: string | undefined) => (value === undefined || value === '' ? undefined : Number(value));
+  return { failAfter: number(io.env.TABSIGHT_FAIL_WRITE_AFTER), pauseAfter: number(io.env.TABSIGHT_PAUSE_WRITE_AFTER) };
+}
+
 /**
- * Writes a report to a file atomically: into a temporary file beside it,
- * then renamed over the target, so that a failed run never leaves a
- * half-written report. `failAfter` (bytes; TABSIGHT_FAIL_WRITE_AFTER in the
- * environment) injects a failure mid-write, for the tests.
+ * The guard of a run's outputs: refuses (status 2) an --output or --plot
+ * that is an input, or both naming one file. Call `checkInputs` with the
+ * run's inputs before reading them.
  */
-export function writeFileAtomically(path: string, text: string, failAfter = Infinity): void {
-  const temporary = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
-  const bytes = Buffer.from(text, 'utf8');
-  let fd: number;
-  try {
-    fd = openSync(temporary, 'w');
-  } catch (error) {
-    throw dataError(`--output ${path}: cannot write (${(error as NodeJS.ErrnoException).code ?? 'error'})`);
-  }
-  try {
-    let written = 0;
-    while (written < bytes.length) {
-      const size = Math.min(1 << 16, bytes.length - written);
-      if (written + size > failAfter) throw Object.assign(new Error('injected write failure'), { code: 'EIO' });
-      written += writeSync(fd, bytes, written, size);
-    }
-    closeSync(fd);
-    renameSync(temporary, path);
-  } catch (error) {
-    try {
-      closeSync(fd);
-    } catch {
-      // already closed
-    }
-    try {
-      unlinkSync(temporary);
-    } catch {
-      // nothing to remove
-    }
-    throw dataError(`--output ${path}: writing failed (${(error as NodeJS.ErrnoException).code ?? 'error'}); the previous file, if any, is untouched`);
-  }
+export function outputGuard(io: CliIo, targets: { output?: string; plot?: string }): OutputGuard {
+  const named = [targets.output !== undefined ? { option: '--output', path: targets.output } : null, targets.plot !== undefined ? { option: '--plot', path: targets.plot } : null];
+  return new OutputGuard(named, io.stdin === process.stdin ? 0 : null);
 }
 
-/** The injected write failure of the environment, if any (see writeFileAtomically). */
-function injectedFailure(io: CliIo): number {
-  const value = io.env.TABSIGHT_FAIL_WRITE_AFTER;
-  return value === undefined ? Infinity : Number(value);
+/** Writes a file beside the report (--plot). */
+export function writeSideFile(io: CliIo, path: string, text: string, option = '--plot'): Promise<void> {
+  return writeTarget({ option, path }, text, writeHooks(io));
 }
 
-/** Writes a file beside the report (--plot), atomically. */
-export function writeSideFile(io: CliIo, path: string, text: string): void {
-  writeFileAtomically(path, text, injectedFailure(io));
-}
-
-/** Sends a report to --output (atomically) or to standard output. */
+/** Sends a report to --output (a file, written atomically) or to standard output. */
 export async function emit(io: CliIo, text: string, output: string | undefined): Promise<void> {
-  if (output !== undefined) writeFileAtomically(output, text, injectedFailure(io));
+  if (output !== undefined) await writeTarget({ option: '--output', path: output }, text, writeHooks(io));
   else await writeOut(io, text);
 }
+
+export type { OutputTarget };
 
 /** Page width of a text report: the terminal's when printing to one (at least 60 columns), 80 otherwise. */
 export function pageWidth(io: CliIo, toFile: boolean): number {

@@ -7,7 +7,7 @@ import { checkReadable, inputSource } from '../io/source.js';
 import { PAIR_RENDERERS, PairFormat } from '../render/renderers.js';
 import { mosaicPlot, residualHeatMap, stackSvg } from '../render/svg.js';
 import { addAnalysisOptions, addReaderOptions, addReportOptions, addSummedWeightsOption, addSurveyOptions, addTableOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan, readerFor } from './options.js';
-import { CliIo, emit, pageWidth, painter, writeSideFile } from './output.js';
+import { CliIo, emit, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { CellView } from '../render/pairText.js';
 import type { Outcome } from './outcome.js';
 
@@ -63,8 +63,10 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no a
 /** Counts the table, analyses it, writes the report; found = the record's verdict passes. */
 export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
+  const guard = outputGuard(io, plan.report);
+  guard.checkInputs([plan.input]);
   checkReadable(source);
-  const counted = await countTable(source, readerFor(plan.reader, io), plan.table);
+  const counted = await countTable(source, readerFor(plan.reader, io, guard), plan.table);
   const report = pairReport(
     counted.table,
     counted.excluded,
@@ -77,7 +79,7 @@ export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
   );
   const toFile = plan.report.output !== undefined;
   const text = PAIR_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: plan.cells });
-  if (plan.report.plot !== undefined) writeSideFile(io, plan.report.plot, stackSvg([residualHeatMap(report), mosaicPlot(report)]));
+  if (plan.report.plot !== undefined) await writeSideFile(io, plan.report.plot, stackSvg([residualHeatMap(report), mosaicPlot(report)]));
   await emit(io, text, plan.report.output);
   return { found: report.verdict.passes, exitStatusWanted: plan.report.exitStatus };
 }

@@ -9,7 +9,7 @@ import { SCAN_RENDERERS, ScanFormat } from '../render/renderers.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
 import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary, readerFor } from './options.js';
 import { recodesByColumn } from '../io/rowRules.js';
-import { CliIo, emit, pageWidth, painter, writeSideFile } from './output.js';
+import { CliIo, emit, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { Outcome } from './outcome.js';
 import { stackSvg, strengthChart } from '../render/svg.js';
 
@@ -121,7 +121,9 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no p
 /** Encodes the columns in one read, scores every pair, writes the report; found = at least one pair passes. */
 export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
-  const reader = readerFor(plan.reader, io);
+  const guard = outputGuard(io, plan.report);
+  guard.checkInputs([plan.input]);
+  const reader = readerFor(plan.reader, io, guard);
   const survey = plan.survey;
   const recodes = recodesByColumn(survey.recodes);
   checkReadable(source);
@@ -158,7 +160,7 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
   });
   const toFile = plan.report.output !== undefined;
   const text = SCAN_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: 'compact' });
-  if (plan.report.plot !== undefined) writeSideFile(io, plan.report.plot, stackSvg([strengthChart(report)]));
+  if (plan.report.plot !== undefined) await writeSideFile(io, plan.report.plot, stackSvg([strengthChart(report)]));
   await emit(io, text, plan.report.output);
   return { found: report.pairsPassing > 0, exitStatusWanted: plan.report.exitStatus };
 }

@@ -84,6 +84,7 @@ async function onRoute<T>(source: InputSource, reader: ReaderOptions, route: Eng
   if (route === 'builtin') return work(null);
   const open = () => openEngine(reader.engineModule);
   const input = await engineInput(source, open);
+  reader.checkInputs?.(input.files);
   try {
     return await work({ engine: await open(), input });
   } catch (error) {

@@ -26,6 +26,8 @@ export interface ReaderOptions {
   engineModule?: string;
   /** Receives a one-line note the user should see (for example, that the engine fell back). */
   onNote?: (note: string) => void;
+  /** Sees the files a pattern matched before any is read, so that an output that is one of them is refused (src/output/guard.ts). */
+  checkInputs?: (files: readonly string[]) => void;
 }
 
 /** Who read the input: the built-in reader, or the embedded engine (io/engine/). */

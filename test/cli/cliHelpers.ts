@@ -23,8 +23,9 @@ export interface Run {
 class Captured implements OutputStream {
   private readonly chunks: string[] = [];
   readonly isTTY = false;
-  write(text: string): boolean {
+  write(text: string, callback?: (error?: Error | null) => void): boolean {
     this.chunks.push(text);
+    callback?.(null);
     return true;
   }
   once(): this {

@@ -104,7 +104,7 @@ describe('the scripting contract', () => {
     const target = tempFile('report.json', 'previous report\n');
     const failed = await run(['scan', DEMO, '--format', 'json', '--full', '--output', target], undefined, { TABSIGHT_FAIL_WRITE_AFTER: '70000' });
     expect(failed.status).toBe(1);
-    expect(failed.stderr).toMatch(/writing failed .* the previous file, if any, is untouched/);
+    expect(failed.stderr).toMatch(/--output .*report\.json: cannot write: .*; the previous file is untouched/);
     expect(readFileSync(target, 'utf8')).toBe('previous report\n');
     expect(readdirSync(dirname(target)).filter((f) => f.includes('.tmp'))).toEqual([]);
     const ok = await run(['scan', DEMO, '--format', 'json', '--output', target]);

@@ -4,7 +4,11 @@
 // file is legal, a correct result. Run alone: node test/hostile/corpus.mjs <dir>
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { mulberry32 } from '../../scripts/seeded-random.mjs';
+import { addOutputCases } from './outputs.mjs';
+
+const DEMO = fileURLToPath(new URL('../../fixtures/demo/patron-survey.csv', import.meta.url));
 
 
 /**
@@ -117,6 +121,7 @@ export function makeCorpus(dir, which = 'all') {
     status: 0,
     json: (out) => { if (out.n !== 5) throw new Error(`n = ${out.n}`); },
   });
+  if (which !== 'large') addOutputCases({ dir, add, demo: DEMO });
   return cases;
 }
 
