@@ -19,6 +19,9 @@ published definition of the statistic, independently of tabsight's code:
                 exact rational arithmetic (fractions.Fraction): the probability
                 of each table relative to the observed one is a product of
                 short falling factorials
+  layered       the generalized Cochran-Mantel-Haenszel statistic (Landis, Heyman &
+                Koch 1978) and the Mantel-Haenszel odds ratio of layered tables near
+                conditional independence at n = 1e6 ... 1e12, in exact rationals
   chi2Df1       the upper tail of chi-square with 1 df, erfc(sqrt(x/2)), mpmath
   noncentralLarge, noncentralityIntervals
                 noncentral chi-square tails at noncentrality 3e5 to 1e8 from
@@ -386,6 +389,66 @@ for x, df in [(3.5e5, 2), (2.5e6, 4), (4e7, 1)]:
 # ---- the chi-square tail with 1 df in closed form: erfc(sqrt(x/2)) (A&S 26.4.4 with 7.1.2)
 chi2_df1 = [{"x": x, "p": float(mpmath.erfc(mpmath.sqrt(mpmath.mpf(x) / 2)))} for x in [1e-6, 0.01, 0.5, 1, 3.841458820694124, 10, 50, 200, 700, 1380]]
 
+# ---- layered tables: the generalized Cochran-Mantel-Haenszel statistic ----------------
+def solve_exact(matrix, rhs):
+    """Gaussian elimination in exact rational arithmetic."""
+    n = len(rhs)
+    a = [list(row) + [rhs[i]] for i, row in enumerate(matrix)]
+    for col in range(n):
+        pivot = next(r for r in range(col, n) if a[r][col] != 0)
+        a[col], a[pivot] = a[pivot], a[col]
+        for r in range(n):
+            if r != col and a[r][col] != 0:
+                f = a[r][col] / a[col][col]
+                a[r] = [x - f * y for x, y in zip(a[r], a[col])]
+    return [a[i][n] / a[i][i] for i in range(n)]
+
+
+def generalized_cmh_exact(strata):
+    """Landis, Heyman & Koch (1978): Q = d' V^-1 d with d = sum_k (n_k - m_k) over the
+    first (r-1)(c-1) cells and V = sum_k n_k^2/(n_k - 1) (D_pr - pr pr') x (D_pc - pc pc'),
+    all in exact rational arithmetic; the mantel-Haenszel odds ratio sum a d/n / sum b c/n
+    for 2x2 layers."""
+    r, c = len(strata[0]), len(strata[0][0])
+    size = (r - 1) * (c - 1)
+    d = [Fraction(0)] * size
+    V = [[Fraction(0)] * size for _ in range(size)]
+    for t in strata:
+        t = [[Fraction(v) for v in row] for row in t]
+        R = [sum(row) for row in t]
+        C = [sum(t[i][j] for i in range(r)) for j in range(c)]
+        n = sum(R)
+        if n < 2:
+            continue
+        pr, pc = [x / n for x in R], [x / n for x in C]
+        factor = n * n / (n - 1)
+        for i in range(r - 1):
+            for j in range(c - 1):
+                u = i * (c - 1) + j
+                d[u] += t[i][j] - n * pr[i] * pc[j]
+                for i2 in range(r - 1):
+                    for j2 in range(c - 1):
+                        row_part = (pr[i] if i == i2 else 0) - pr[i] * pr[i2]
+                        col_part = (pc[j] if j == j2 else 0) - pc[j] * pc[j2]
+                        V[u][i2 * (c - 1) + j2] += factor * row_part * col_part
+    x = solve_exact(V, d)
+    q = sum(a * b for a, b in zip(d, x))
+    out = {"statistic": num(mpf(q)), "df": size, "pValue": num(chi2_sf(mpf(q), size))}
+    if r == 2 and c == 2:
+        num_or = sum(Fraction(t[0][0] * t[1][1], sum(map(sum, t))) for t in strata)
+        den_or = sum(Fraction(t[0][1] * t[1][0], sum(map(sum, t))) for t in strata)
+        out["commonOddsRatio"] = num(mpf(num_or / den_or))
+    return out
+
+
+layered = []
+for exponent in [6, 8, 10, 12]:
+    for shape in [(2, 2), (3, 3)]:
+        strata = [near_independence(10 ** exponent, shape, 3) for _ in range(3)]
+        layered.append({"name": f"three {shape[0]}x{shape[1]} layers at n 1e{exponent}, a few units off independence", "strata": strata, **generalized_cmh_exact(strata)})
+dominant_layers = [[[10 ** 9, 3], [2, 7]], [[10 ** 9, 1], [4, 5]], [[6, 2], [3, 10 ** 9]]]
+layered.append({"name": "three 2x2 layers, each with a dominant cell", "strata": dominant_layers, **generalized_cmh_exact(dominant_layers)})
+
 OUT.parent.mkdir(parents=True, exist_ok=True)
 OUT.write_text(json.dumps({
     "recordedWith": {"python": sys.version.split()[0], "mpmath": mpmath.__version__, "numpy": np.__version__, "scipy": scipy.__version__},
@@ -395,5 +458,6 @@ OUT.write_text(json.dumps({
     "noncentralLarge": noncentral_large,
     "noncentralityIntervals": noncentrality_intervals,
     "chi2Df1": chi2_df1,
+    "layered": layered,
 }, indent=1) + "\n")
 print(f"wrote {OUT}")

@@ -57,6 +57,15 @@ export function ddMultiply(a: DoubleDouble, b: DoubleDouble): DoubleDouble {
   return { hi, lo };
 }
 
+/** A double-double divided by a double, to about 2^-104 relative (one correction step of the quotient). */
+export function ddDivide(a: DoubleDouble, x: number): DoubleDouble {
+  const q1 = a.hi / x;
+  const [p, e] = twoProduct(q1, x);
+  const q2 = (a.hi - p - e + a.lo) / x;
+  const [hi, lo] = twoSum(q1, q2);
+  return { hi, lo };
+}
+
 /** The nearest double. */
 export function ddValue(a: DoubleDouble): number {
   return a.hi + a.lo;

@@ -5,8 +5,9 @@
  */
 import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
-import { compensatedSum } from '../numerics/compensatedSum.js';
 import { CountMatrix, margins } from './contingency.js';
+import { compensatedSum } from '../numerics/compensatedSum.js';
+import { complementsInSum, ddAdd, ddDivide, ddProduct, ddSubtract, ddValue, ddZero, DoubleDouble } from '../numerics/doubleDouble.js';
 import { normalQuantile } from './normalDistribution.js';
 
 /**
@@ -61,31 +62,39 @@ export function cochranMantelHaenszel(strata: readonly CountMatrix[]): TestResul
   const c = strata[0][0].length;
   const size = (r - 1) * (c - 1);
   if (size === 0) return null;
-  const deviation = new Array<number>(size).fill(0);
+  // Σ_k (n_k − m_k), each departure (n·n_ij − n_i.·n_.j)/n formed exactly in
+  // double-double and summed so, since near conditional independence at large
+  // n the departures are tiny against the counts (and may cancel across strata).
+  const deviation = new Array<DoubleDouble>(size).fill(ddZero);
   const variance = Array.from({ length: size }, () => new Array<number>(size).fill(0));
   for (const table of strata) {
     const { rowTotals, colTotals, total: n } = margins(table);
     if (n < 2) continue;
     const pr = rowTotals.map((v) => v / n);
     const pc = colTotals.map((v) => v / n);
+    // p(1 − p) with 1 − p from the other margins, so a dominant level keeps its digits
+    const otherRows = complementsInSum(rowTotals).map((v) => v / n);
+    const otherCols = complementsInSum(colTotals).map((v) => v / n);
     const factor = (n * n) / (n - 1);
     for (let i = 0; i < r - 1; i++) {
       for (let j = 0; j < c - 1; j++) {
         const u = i * (c - 1) + j;
-        deviation[u] += table[i][j] - n * pr[i] * pc[j];
+        const numerator = ddSubtract(ddProduct(n, table[i][j]), ddProduct(rowTotals[i], colTotals[j]));
+        deviation[u] = ddAdd(deviation[u], ddDivide(numerator, n));
         for (let i2 = 0; i2 < r - 1; i2++) {
-          const rowPart = (i === i2 ? pr[i] : 0) - pr[i] * pr[i2];
+          const rowPart = i === i2 ? pr[i] * otherRows[i] : -pr[i] * pr[i2];
           for (let j2 = 0; j2 < c - 1; j2++) {
-            const colPart = (j === j2 ? pc[j] : 0) - pc[j] * pc[j2];
+            const colPart = j === j2 ? pc[j] * otherCols[j] : -pc[j] * pc[j2];
             variance[u][i2 * (c - 1) + j2] += factor * rowPart * colPart;
           }
         }
       }
     }
   }
-  const solved = solveLinear(variance, deviation);
+  const departures = deviation.map(ddValue);
+  const solved = solveLinear(variance, departures);
   if (solved === null) return null;
-  const statistic = Math.max(0, deviation.reduce((s, d, k) => s + d * solved[k], 0));
+  const statistic = Math.max(0, compensatedSum(departures.map((d, k) => d * solved[k])));
   return { statistic, df: size, pValue: upperTailChiSquare(statistic, size) };
 }
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { breslowDay, breslowDayResiduals, breslowDayTarone, breslowDayTrend, cochranMantelHaenszel, expectedCellUnderOddsRatio, mantelHaenszelOddsRatio } from '../../src/stats/stratified.js';
-import { expectClose, reference } from '../helpers.js';
+import { edges, expectClose, reference } from '../helpers.js';
 import { wavesReference } from './wavesReference.js';
 
 const admissions = reference.stratified2x2;
@@ -113,4 +113,16 @@ describe('trend in the odds ratio over ordered strata (Breslow & Day 1980, §4.4
     expect(residuals[0]).toBeLessThan(0);
     expect(residuals[2]).toBeGreaterThan(0);
   });
+});
+
+describe('layered tests at the numerical edges, against exact rational arithmetic (scripts/record_edges.py)', () => {
+  for (const item of edges.layered) {
+    it(`${item.name}: the generalized CMH statistic and p-value to 1e-10${item.commonOddsRatio === undefined ? '' : ', the common odds ratio to 1e-12'}`, () => {
+      const q = cochranMantelHaenszel(item.strata);
+      expect(q?.df).toBe(item.df);
+      expectClose(q?.statistic, item.statistic, 1e-10);
+      expectClose(q?.pValue, item.pValue, 1e-10);
+      if (item.commonOddsRatio !== undefined) expectClose(mantelHaenszelOddsRatio(item.strata)?.estimate, item.commonOddsRatio, 1e-12);
+    });
+  }
 });
