@@ -83,6 +83,12 @@ export interface Warning {
 export interface NamedVariable {
   name: string;
   levels: string[];
+  /** With --codebook describing the column: the question as asked. */
+  question?: string | null;
+  /** With --codebook: whether the codebook marks the column ordered. */
+  ordered?: boolean;
+  /** With --codebook: per level, the codes of the data that carry it (several when codes share a label; empty for a level with no listed code). */
+  codes?: string[][];
 }
 
 export interface NotableCell {

@@ -37,6 +37,8 @@ export interface PairReport extends AnalysisRecord {
   settings: { ordinal: boolean; confidence: number; alpha: number; exact: string; simulations: number; seed: number };
   strata?: StratumRecord[];
   stratified?: StratifiedSummary;
+  /** Rows left out for a missing value, by column and reason (a row missing in two columns counts in both). */
+  excludedBy?: { column: string; reason: string; rows: number }[];
 }
 
 export function pairReport(

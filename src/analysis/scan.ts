@@ -4,7 +4,8 @@
  */
 import { adjustPValues, Adjustment } from '../stats/multipleTesting.js';
 import { CountPair, mergeRareLevels } from '../table/countedTable.js';
-import { EncodedColumn, recodeColumn } from '../table/encodedColumn.js';
+import { EncodedColumn, recodeColumn, shapeColumn } from '../table/encodedColumn.js';
+import type { LevelRules } from '../table/levelRules.js';
 import { OrderedColumn, orderColumn } from '../table/orderedColumn.js';
 import { relabelTable } from '../table/twoWayTable.js';
 import { analyzeStrata, StratifiedSummary, StratumRecord } from './stratify.js';
@@ -19,6 +20,10 @@ export interface ScanOptions {
   bins: number | null;
   /** Recodes by column (applied to the codes before screening). */
   recodes: Map<string, Map<string, string>>;
+  /** The level rules of a column (codebook, cuts, recodes, --keep-missing), when any apply. */
+  rules?: (name: string) => LevelRules | null;
+  /** Whether the codebook orders a column (ordered, or cut into bins). */
+  ordered?: (name: string) => boolean;
   keepMissing: boolean;
   other: { k: number; label: string } | null;
   adjustment: Adjustment;
@@ -107,14 +112,20 @@ export interface PreparedColumns {
 export function prepareColumns(columns: EncodedColumn[], layer: EncodedColumn | null, rows: number, options: ScanOptions): PreparedColumns {
   const skipped: SkippedColumn[] = [];
   const ordered: OrderedColumn[] = [];
+  const shape = (column: EncodedColumn) => {
+    const rules = options.rules?.(column.name) ?? null;
+    if (rules === null || (!rules.codebook && !rules.cuts && !rules.recode)) return { column: recodeColumn(column, options.recodes.get(column.name), options.keepMissing), order: [] as string[] };
+    return shapeColumn(column, rules);
+  };
   for (const original of columns) {
-    let column = recodeColumn(original, options.recodes.get(original.name), options.keepMissing);
+    let { column, order } = shape(original);
     if (column.codes !== null && column.labels.length > options.maxLevels) column = { ...column, codes: null };
     const reason = screenColumn(column, rows, options);
     if (reason) skipped.push(reason);
-    else ordered.push(orderColumn(column, options.bins));
+    else ordered.push(orderColumn(column, options.bins, order));
   }
-  const orderedLayer = layer ? orderColumn(recodeColumn(layer, options.recodes.get(layer.name), options.keepMissing), null) : null;
+  const shapedLayer = layer ? shape(layer) : null;
+  const orderedLayer = shapedLayer ? orderColumn(shapedLayer.column, null, shapedLayer.order) : null;
   return { ordered, skipped, layer: orderedLayer };
 }
 
@@ -139,10 +150,13 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
         untestable.push({ rows: table.rowName, cols: table.colName, reason: `"${side}" has fewer than two levels where "${side === table.rowName ? table.colName : table.rowName}" has a value` });
         continue;
       }
-      const record = analyzeTable(table, excluded, options.analysis, counted.weighting);
+      // Two columns the codebook orders (or cuts) get the ordinal measures, as in pair.
+      const ordinal = options.ordered?.(table.rowName) === true && options.ordered?.(table.colName) === true;
+      const analysis = ordinal && !options.analysis.ordinal ? { ...options.analysis, ordinal: true } : options.analysis;
+      const record = analyzeTable(table, excluded, analysis, counted.weighting);
       if (strata && layer) {
         const aligned = strata.map((s) => ({ ...s, table: relabelTable(s.table, table.rowLevels, table.colLevels) }));
-        const layered = analyzeStrata(layer.name, record, aligned, options.analysis);
+        const layered = analyzeStrata(layer.name, record, aligned, analysis);
         records.push({ ...record, warnings: [...record.warnings, ...layered.warnings], layered });
       } else records.push(record);
     }

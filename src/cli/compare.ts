@@ -3,6 +3,8 @@ import { Command } from 'commander';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { comparePeriods, PeriodInput } from '../analysis/compare.js';
 import { unknownOrderWarnings } from '../analysis/report.js';
+import { columnRules } from '../io/countTable.js';
+import { levelOrder } from '../table/levelRules.js';
 import { usageError } from '../errors.js';
 import { CountedInput, countTable, TableRequest } from '../io/counting.js';
 import { checkReadable, InputSource, inputSource } from '../io/source.js';
@@ -116,6 +118,13 @@ async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: s
   return [period(`${column} ${b.level}`, { table: b.table, weighting: b.weighting, excluded: 0 }, input), period(`${column} ${a.level}`, { table: a.table, weighting: a.weighting, excluded: 0 }, input)];
 }
 
+function sideOrder(request: TableRequest, name: string, periods: PeriodInput[], side: 'rowLevels' | 'colLevels'): string[] | undefined {
+  const rules = columnRules(request, name);
+  if (!rules.codebook && !rules.recode && !rules.cuts) return undefined;
+  const levels = [...new Set(periods.flatMap((p) => p.table[side]))];
+  return levelOrder(rules, levels);
+}
+
 /** Counts both periods, compares them, writes the report; found = the association changed at --alpha. */
 export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome> {
   let before: PeriodInput;
@@ -133,7 +142,12 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
     before = period(sources[0].label, counted[0], inputSummary(sources[0].label, counted[0]));
     after = period(sources[1].label, counted[1], inputSummary(sources[1].label, counted[1]));
   }
-  const report = comparePeriods(before, after, plan.analysis, plan.order);
+  // Without an order option, both periods' levels follow the codebook and recodes (natural order otherwise).
+  const order = {
+    rows: plan.order.rows ?? sideOrder(plan.table, plan.table.rows, [before, after], 'rowLevels'),
+    cols: plan.order.cols ?? sideOrder(plan.table, plan.table.cols, [before, after], 'colLevels'),
+  };
+  const report = comparePeriods(before, after, plan.analysis, order);
   report.warnings.unshift(...unknownOrderWarnings('--row-order', (plan.order.rows ?? []).filter((l) => !report.rows.levels.includes(l))));
   const toFile = plan.report.output !== undefined;
   const text = COMPARE_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: plan.cells });

@@ -18,6 +18,7 @@ import { Outcome, statusOf } from './outcome.js';
 import { pairCommand, PairPlan, runPair } from './pair.js';
 import { runScan, scanCommand, ScanPlan } from './scan.js';
 import { runSql, sqlCommand, SqlPlan } from './sql.js';
+import { profileCommand, ProfilePlan, runProfile } from './profile.js';
 
 /** A command and its plan, as parsed from the arguments. */
 export type CommandPlan =
@@ -27,6 +28,7 @@ export type CommandPlan =
   | { command: 'count'; plan: CountPlan }
   | { command: 'merge'; plan: MergePlan }
   | { command: 'sql'; plan: SqlPlan }
+  | { command: 'profile'; plan: ProfilePlan }
   | { command: 'completion'; plan: CompletionPlan };
 
 function oneLine(text: string): string {
@@ -55,6 +57,7 @@ export function buildProgram(io: CliIo, accept: (chosen: CommandPlan) => void): 
     countCommand((plan) => accept({ command: 'count', plan })),
     mergeCommand((plan) => accept({ command: 'merge', plan })),
     sqlCommand((plan) => accept({ command: 'sql', plan })),
+    profileCommand((plan) => accept({ command: 'profile', plan })),
     completionCommand((plan) => accept({ command: 'completion', plan })),
   ];
   for (const command of commands) {
@@ -81,6 +84,8 @@ function execute(chosen: CommandPlan, io: CliIo, program: Command): Promise<Outc
       return runMerge(chosen.plan, io);
     case 'sql':
       return runSql(chosen.plan, io);
+    case 'profile':
+      return runProfile(chosen.plan, io);
     case 'completion':
       return runCompletion(chosen.plan, io, program);
   }

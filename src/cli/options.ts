@@ -8,6 +8,9 @@ import { usageError } from '../errors.js';
 import { parseDelimiterOption, ReaderOptions, ReadSummary } from '../io/readRecords.js';
 import { AnalysisOptions, DEFAULT_ANALYSIS_OPTIONS, ExactPolicy } from '../analysis/analyzeTable.js';
 import { parseRecode, parseWhere, Recode, WhereClause } from '../io/rowRules.js';
+import { readCodebook } from '../io/codebookFile.js';
+import type { Codebook } from '../table/codebook.js';
+import { CutSpec, parseCuts } from '../table/bins.js';
 import type { InputSummary } from '../analysis/report.js';
 import type { TableRequest } from '../io/counting.js';
 import { CELL_VIEWS } from '../render/pairText.js';
@@ -168,7 +171,9 @@ export function addSurveyOptions(command: Command, withLayer = true): Command {
     .option('--where <spec>', "keep rows where 'column=v1,v2' or drop them with 'column!=v' (repeatable; all must hold)", collect)
     .option('--keep-missing', 'count missing values as a level of their own, "(missing)"')
     .option('--other <k>', 'merge levels beyond the k most frequent into one level')
-    .option('--other-label <label>', 'name of the merged level', 'other');
+    .option('--other-label <label>', 'name of the merged level', 'other')
+    .option('--cuts <spec>', "cut a numeric column at these edges: 'column:18,25,35,50' gives <18, 18–24, …, 50+ (repeatable)", collect)
+    .option('--codebook <file>', 'value labels, level order, ordered columns, missing codes with reasons and question texts (JSON or CSV; see docs/codebook.md)');
 }
 
 export interface RawSurveyOptions {
@@ -182,6 +187,8 @@ export interface RawSurveyOptions {
   other?: string;
   otherLabel: string;
   summedWeights?: string;
+  codebook?: string;
+  cuts?: string[];
 }
 
 export interface SurveyPlan {
@@ -194,6 +201,10 @@ export interface SurveyPlan {
   other?: { k: number; label: string };
   /** Cells counted elsewhere with sampling weights: Σw and Σw² columns beside the --freq row count. */
   summedWeights?: { sum: string; squares: string };
+  /** --codebook, read and checked (its columns are checked against the data once the header is read). */
+  codebook: Codebook | null;
+  /** --cuts, by column. */
+  cuts: CutSpec[];
 }
 
 /** --summed-weights, for reading back the cells that `tabsight sql --weight` counts. */
@@ -214,6 +225,8 @@ export function surveyPlan(raw: RawSurveyOptions): SurveyPlan {
     keepMissing: raw.keepMissing === true,
     other: raw.other === undefined ? undefined : { k: positiveInteger(raw.other, '--other', 1), label: raw.otherLabel.trim() },
     summedWeights: summedWeightsPlan(raw),
+    codebook: raw.codebook === undefined ? null : readCodebook(raw.codebook),
+    cuts: (raw.cuts ?? []).map((spec) => parseCuts(spec)),
   };
 }
 

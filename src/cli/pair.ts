@@ -10,6 +10,7 @@ import { addAnalysisOptions, addReaderOptions, addReportOptions, addSummedWeight
 import { CliIo, emit, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { CellView } from '../render/pairText.js';
 import type { Outcome } from './outcome.js';
+import { codebookSides, describeSides } from './codebookSides.js';
 
 export interface PairPlan {
   /** A file, a pattern of files, or '-' for standard input. */
@@ -67,16 +68,18 @@ export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
   guard.checkInputs([plan.input]);
   checkReadable(source);
   const counted = await countTable(source, readerFor(plan.reader, io, guard), plan.table);
+  const sides = codebookSides(plan.table, counted.table);
   const report = pairReport(
     counted.table,
     counted.excluded,
     inputSummary(source.label, counted),
-    plan.analysis,
-    [...unknownOrderWarnings('--row-order', counted.unknownRowLevels), ...unknownOrderWarnings('--col-order', counted.unknownColLevels)],
+    sides.ordered && !plan.analysis.ordinal ? { ...plan.analysis, ordinal: true } : plan.analysis,
+    [...unknownOrderWarnings('--row-order', counted.unknownRowLevels), ...unknownOrderWarnings('--col-order', counted.unknownColLevels), ...sides.warnings],
     counted.weighting,
     counted.strata && counted.by ? { by: counted.by, strata: counted.strata } : undefined,
-    { rows: plan.table.rowOrder ? 'given' : 'natural', cols: plan.table.colOrder ? 'given' : 'natural' },
+    { rows: plan.table.rowOrder || sides.rows?.ordered ? 'given' : 'natural', cols: plan.table.colOrder || sides.cols?.ordered ? 'given' : 'natural' },
   );
+  describeSides(report, sides, counted.excludedBy);
   const toFile = plan.report.output !== undefined;
   const text = PAIR_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: plan.cells });
   if (plan.report.plot !== undefined) await writeSideFile(io, plan.report.plot, stackSvg([residualHeatMap(report), mosaicPlot(report)]));

@@ -9,6 +9,8 @@ import { SCAN_RENDERERS, ScanFormat } from '../render/renderers.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
 import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary, readerFor } from './options.js';
 import { recodesByColumn } from '../io/rowRules.js';
+import { columnRules, TableRequest } from '../io/countTable.js';
+import { codebookColumn } from '../table/codebook.js';
 import { CliIo, emit, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { Outcome } from './outcome.js';
 import { stackSvg, strengthChart } from '../render/svg.js';
@@ -126,6 +128,11 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
   const reader = readerFor(plan.reader, io, guard);
   const survey = plan.survey;
   const recodes = recodesByColumn(survey.recodes);
+  // Columns relabelled by the codebook or cut by --cuts may hold more raw values than the level cap while reading, as recoded ones do.
+  const relabelled = new Map<string, Map<string, string>>(recodes);
+  for (const column of survey.codebook?.columns ?? []) if ((column.values.length > 0 || column.cuts) && !relabelled.has(column.name)) relabelled.set(column.name, new Map());
+  for (const cut of survey.cuts) if (!relabelled.has(cut.column)) relabelled.set(cut.column, new Map());
+  const table = { recodes: survey.recodes, codebook: survey.codebook, cuts: survey.cuts, keepMissing: survey.keepMissing } as TableRequest;
   checkReadable(source);
   const progress = progressReporter(io);
   const request: ColumnsRequest = {
@@ -135,7 +142,8 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
     keepNumeric: plan.bins !== null,
     maxColumns: plan.columns.maxColumns,
     where: survey.where,
-    recodes,
+    recodes: relabelled,
+    codebook: survey.codebook,
     weight: survey.weight ? { ...survey.weight, decimalComma: survey.decimalComma } : undefined,
     by: survey.by,
     progress: plan.format === 'text' ? progress.tick : undefined,
@@ -149,6 +157,11 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
     full: plan.full,
     analysis: plan.analysis,
     recodes,
+    rules: (name) => columnRules(table, name, recodes),
+    ordered: (name) => {
+      const entry = codebookColumn(survey.codebook, name);
+      return entry !== undefined && (entry.ordered || entry.cuts !== null || entry.bins !== null);
+    },
     keepMissing: survey.keepMissing,
     other: survey.other ?? null,
   };

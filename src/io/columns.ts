@@ -5,6 +5,8 @@
  */
 import { usageError, dataError } from '../errors.js';
 import type { WeightKind, WhereClause } from './rowRules.js';
+import type { Codebook } from '../table/codebook.js';
+import { checkCodebookColumns } from './codebookFile.js';
 
 /** Levenshtein distance (Levenshtein 1966), for "did you mean" suggestions. */
 export function editDistance(a: string, b: string): number {
@@ -74,6 +76,8 @@ export interface ColumnsRequest {
   recodes?: Map<string, Map<string, string>>;
   weight?: { column: string; kind: WeightKind; decimalComma: boolean };
   by?: string;
+  /** --codebook: its columns must be in the file. */
+  codebook?: Codebook | null;
   /** The engine counts the pairs in batches of this many GROUPING SETS per query (default 1,000; smaller in tests). */
   pairsPerQuery?: number;
 }
@@ -85,6 +89,7 @@ export function scanSelection(header: string[], request: ColumnsRequest, label: 
     const dropped = new Set(request.exclude.map((c) => resolveColumn(c, header, '--exclude', label)));
     chosen = chosen.filter((i) => !dropped.has(i));
   }
+  if (request.codebook) checkCodebookColumns(request.codebook, header, label);
   for (const column of request.recodes?.keys() ?? []) resolveColumn(column, header, '--recode', label);
   const weight = request.weight ? resolveColumn(request.weight.column, header, request.weight.kind === 'freq' ? '--freq' : '--weight', label) : null;
   const layer = request.by !== undefined ? resolveColumn(request.by, header, '--by', label) : null;

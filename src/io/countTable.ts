@@ -22,7 +22,11 @@ import type { Engine } from './engine/module.js';
 import { EngineFallback } from './engine/query.js';
 import { DEFAULT_DISTINCT_LIMIT, readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
 import { FieldInterner, MISSING_ID } from './fieldInterner.js';
-import { parseWeightValue, RecodedLabels, Recode, recodesByColumn, RowGate, weightError, WhereClause } from './rowRules.js';
+import { ColumnLevels, parseWeightValue, Recode, recodesByColumn, RowGate, weightError, WhereClause } from './rowRules.js';
+import { checkCodebookColumns } from './codebookFile.js';
+import { Codebook, codebookColumn } from '../table/codebook.js';
+import { levelOrder, LevelRules } from '../table/levelRules.js';
+import type { CutSpec } from '../table/bins.js';
 import { InputSource } from './source.js';
 
 /** The table to count from a source: its columns and the rules that shape rows and levels. */
@@ -45,6 +49,32 @@ export interface TableRequest {
   allowDegenerate?: boolean;
   /** With a --freq row count: columns holding each line's Σw and Σw² (cells counted elsewhere). */
   summedWeights?: { sum: string; squares: string };
+  /** --codebook: value labels, level order, missing codes (docs/codebook.md). */
+  codebook?: Codebook | null;
+  /** --cuts: cut points by column (a codebook's cuts count too). */
+  cuts?: CutSpec[];
+}
+
+/** Rows left out of the table for a missing value, by column and reason (a row missing in two columns counts in both). */
+export interface ExcludedBy {
+  column: string;
+  reason: string;
+  rows: number;
+}
+
+/** The rules a column's values pass before counting (table/levelRules.ts). */
+export function columnRules(request: TableRequest, name: string, recodes = recodesByColumn(request.recodes)): LevelRules {
+  const entry = codebookColumn(request.codebook, name) ?? null;
+  const cuts = [...(request.cuts ?? [])].reverse().find((c) => c.column === name)?.cuts ?? entry?.cuts ?? null;
+  return { codebook: entry, recode: recodes.get(name) ?? null, keepMissing: request.keepMissing, cuts };
+}
+
+/** Raw values a relabelled column (recode, cuts, codebook labels) may hold while counting; the level cap applies to its labels. */
+export const RELABELLED_READING_CAP = 65534;
+
+function relabelled(request: TableRequest, name: string): boolean {
+  const rules = columnRules(request, name);
+  return rules.recode !== null || (rules.cuts ?? null) !== null || (rules.codebook?.values.length ?? 0) > 0;
 }
 
 /** Usage errors of a request, before anything is read. */
@@ -91,8 +121,9 @@ class Slots {
   }
 
   /** The header index of each slot's column; an unknown column (or a misspelt --recode) is a usage error. */
-  select(header: string[], recodes: ReadonlyMap<string, unknown>, label: string): number[] {
+  select(header: string[], recodes: ReadonlyMap<string, unknown>, label: string, codebook?: Codebook | null): number[] {
     for (const column of recodes.keys()) resolveColumn(column, header, '--recode', label);
+    if (codebook) checkCodebookColumns(codebook, header, label);
     return this.names.map((name, slot) => resolveColumn(name, header, this.options[slot], label));
   }
 }
@@ -103,17 +134,34 @@ class LayeredCounter {
   readonly strata = new Map<string, TableCounter>();
   private stratumOfId: (TableCounter | undefined)[] = [];
   excluded = 0;
+  /** Rows left out, by slot and reason. */
+  private readonly reasons = new Map<number, Map<string, number>>();
 
   constructor(
     private readonly request: TableRequest,
     private readonly slots: Slots,
     private readonly label: (slot: number, id: number) => string,
+    private readonly missingReason: (slot: number, id: number) => string | null,
   ) {
     this.pooled = this.tableCounter();
   }
 
+  /** The rows left out for a missing value, by column and reason, in slot order. */
+  excludedBy(): ExcludedBy[] {
+    return [...this.reasons.entries()]
+      .sort((a, b) => a[0] - b[0])
+      .flatMap(([slot, byReason]) => [...byReason.entries()].map(([reason, rows]) => ({ column: this.slots.names[slot], reason, rows })));
+  }
+
+  private leaveOut(slot: number, reason: string, rows: number): void {
+    let byReason = this.reasons.get(slot);
+    if (byReason === undefined) this.reasons.set(slot, (byReason = new Map()));
+    byReason.set(reason, (byReason.get(reason) ?? 0) + rows);
+  }
+
   private tableCounter(): TableCounter {
-    return new TableCounter(this.request.rows, this.request.cols, this.request.maxLevels, this.request.weight !== undefined);
+    const cap = (name: string) => (relabelled(this.request, name) ? Math.max(RELABELLED_READING_CAP, this.request.maxLevels) : this.request.maxLevels);
+    return new TableCounter(this.request.rows, this.request.cols, this.request.maxLevels, this.request.weight !== undefined, { rows: cap(this.request.rows), cols: cap(this.request.cols) });
   }
 
   /** Counts `rows` rows of one combination of value ids, of total weight w (+ wLow) and Σw² q (+ qLow). */
@@ -122,8 +170,14 @@ class LayeredCounter {
     const r = ids[row];
     const c = ids[col];
     const b = by >= 0 ? ids[by] : 1;
-    if (!this.request.keepMissing && (r === MISSING_ID || c === MISSING_ID || b === MISSING_ID)) {
+    const rowReason = this.missingReason(row, r);
+    const colReason = this.missingReason(col, c);
+    const byReason = by >= 0 ? this.missingReason(by, b) : null;
+    if (rowReason !== null || colReason !== null || byReason !== null) {
       this.excluded += rows;
+      if (rowReason !== null) this.leaveOut(row, rowReason, rows);
+      if (colReason !== null) this.leaveOut(col, colReason, rows);
+      if (byReason !== null) this.leaveOut(by, byReason, rows);
       return;
     }
     this.pooled.add(r, c, rows, w, wLow, q, qLow);
@@ -153,7 +207,7 @@ async function countRows(source: InputSource, reader: ReaderOptions, request: Ta
   const read = await readRecords(
     source,
     reader,
-    (header) => slots.select(header, recodes, source.label),
+    (header) => slots.select(header, recodes, source.label, request.codebook),
     (ids, line, texts, interners) => {
       if (!labelsKnown) {
         onLabels(interners.map((i) => i.labels));
@@ -197,7 +251,7 @@ async function countGroups(engine: Engine, input: EngineInput, source: InputSour
     engine,
     input,
     reader,
-    (header) => slots.select(header, recodes, source.label),
+    (header) => slots.select(header, recodes, source.label, request.codebook),
     weight ? { slot: slots.weight, kind: weight.kind, decimalComma: request.decimalComma } : null,
     (group) => {
       group.values.forEach((value, slot) => {
@@ -239,11 +293,23 @@ async function countGroups(engine: Engine, input: EngineInput, source: InputSour
  * applied, each layer laid out on the pooled table's levels; a side with
  * fewer than two levels is refused (unless the request allows it).
  */
-function finishTables(request: TableRequest, counter: LayeredCounter, label: (slot: number, id: number) => string, slots: Slots, filtered: number, kind: Weighting['kind']): { counted: CountedTable; unknownRowLevels: string[]; unknownColLevels: string[] } {
+function finishTables(
+  request: TableRequest,
+  counter: LayeredCounter,
+  label: (slot: number, id: number) => string,
+  slots: Slots,
+  filtered: number,
+  kind: Weighting['kind'],
+  orderOf: (slot: number, levels: readonly string[]) => string[],
+): { counted: CountedTable; unknownRowLevels: string[]; unknownColLevels: string[] } {
   const rowLabel = (id: number) => label(slots.row, id);
   const colLabel = (id: number) => label(slots.col, id);
   const finished = counter.pooled.finish(rowLabel, colLabel, request.rowOrder, request.colOrder);
   let table = dropEmptyLevels(finished.table);
+  // Without an order option, a side takes the order of its codebook and recodes (natural order otherwise).
+  const rowLevels = request.rowOrder ? table.rowLevels : orderOf(slots.row, table.rowLevels);
+  const colLevels = request.colOrder ? table.colLevels : orderOf(slots.col, table.colLevels);
+  table = relabelTable(table, rowLevels, colLevels);
   const own: Stratum[] | null =
     slots.by >= 0
       ? [...counter.strata.entries()].sort((x, y) => compareNatural(x[0], y[0])).map(([level, layer]) => ({ level, table: layer.finish(rowLabel, colLabel).table, weighting: layer.weighting(kind) }))
@@ -278,7 +344,9 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
   const recodes = recodesByColumn(request.recodes);
   const slots = new Slots(request);
   let labelsOf: (readonly string[])[] = [];
-  const labels = slots.names.map((name, slot) => new RecodedLabels(() => labelsOf[slot], recodes.get(name), MISSING_LEVEL));
+  const labels = slots.names.map(
+    (name, slot) => new ColumnLevels(() => labelsOf[slot], columnRules(request, name, recodes)),
+  );
   const label = (slot: number, id: number) => labels[slot].of(id);
   const gate = new RowGate(
     request.where.map((clause, k) => ({ clause, slot: slots.where[k], labels: labels[slots.where[k]] })),
@@ -286,7 +354,7 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
     reader.skipBadRows,
     source.label,
   );
-  const counter = new LayeredCounter(request, slots, label);
+  const counter = new LayeredCounter(request, slots, label, (slot, id) => labels[slot].missingReason(id));
   const onLabels = (known: (readonly string[])[]) => (labelsOf = known);
   const summary =
     engine === null
@@ -294,6 +362,6 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
       : await countGroups(engine.engine, engine.input, source, reader, request, slots, gate, counter, onLabels);
   if (summary.records === 0) throw dataError(`${source.label}: the header has no data rows under it`);
   const kind: Weighting['kind'] = request.summedWeights ? 'weight' : request.weight ? request.weight.kind : 'none';
-  const { counted, unknownRowLevels, unknownColLevels } = finishTables(request, counter, label, slots, gate.filtered, kind);
-  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels };
+  const { counted, unknownRowLevels, unknownColLevels } = finishTables(request, counter, label, slots, gate.filtered, kind, (slot, levels) => levelOrder(labels[slot].rules, levels));
+  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, excludedBy: counter.excludedBy() };
 }

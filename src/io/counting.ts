@@ -12,7 +12,7 @@ import type { CountedTable, CountPair } from '../table/countedTable.js';
 import type { EncodedColumn } from '../table/encodedColumn.js';
 import type { OrderedColumn } from '../table/orderedColumn.js';
 import type { ColumnsRequest } from './columns.js';
-import { countTableWith, TableRequest } from './countTable.js';
+import { countTableWith, ExcludedBy, TableRequest } from './countTable.js';
 import { encodeWithReader } from './encodeColumns.js';
 import { engineInput, EngineInput, isGlob, isParquetPath } from './engine/files.js';
 import { Engine, engineAvailable, openEngine } from './engine/module.js';
@@ -33,6 +33,8 @@ export interface CountedInput extends CountedTable {
   /** Levels named by --row-order / --col-order that never occur. */
   unknownRowLevels: string[];
   unknownColLevels: string[];
+  /** Rows left out for a missing value, by column and reason (`excluded` counts each row once). */
+  excludedBy: ExcludedBy[];
 }
 
 /** The columns of a scan, read once, and the way to count their pairs. */

@@ -3,6 +3,9 @@
  * mappings, and the row's weight or frequency (RowGate).
  */
 import { dataError, usageError } from '../errors.js';
+import { isNumericLabel } from '../table/naturalOrder.js';
+import { parseRangeRecode, RangeRecode, RecodeMap } from '../table/rangeRecode.js';
+import { indexCodebook, LevelOutcome, levelOutcome, LevelRules } from '../table/levelRules.js';
 
 /** `--where 'column=v1,v2'` keeps rows whose value is one of the values; `'column!=v'` drops them. */
 export interface WhereClause {
@@ -12,10 +15,17 @@ export interface WhereClause {
   text: string;
 }
 
-/** `--recode 'column:from=to,from=to'` renames or merges levels before counting. */
+/**
+ * `--recode 'column:from=to,from=to'` renames or merges levels before
+ * counting; a `from` may also be a range of numbers (`<18`, `18-64`,
+ * `>=65`: table/rangeRecode.ts).
+ */
 export interface Recode {
   column: string;
+  /** Level renames, every rule as written. */
   mapping: Map<string, string>;
+  /** The rules, ranges included. */
+  rules: RangeRecode;
 }
 
 export function parseWhere(spec: string): WhereClause {
@@ -27,29 +37,16 @@ export function parseWhere(spec: string): WhereClause {
 }
 
 export function parseRecode(spec: string): Recode {
-  const colon = spec.indexOf(':');
-  if (colon <= 0) throw usageError(`--recode "${spec}": expected column:from=to[,from=to…]`);
-  const column = spec.slice(0, colon).trim();
-  const mapping = new Map<string, string>();
-  for (const part of spec.slice(colon + 1).split(',')) {
-    if (part.trim() === '') continue;
-    const eq = part.indexOf('=');
-    if (eq <= 0) throw usageError(`--recode "${spec}": "${part.trim()}" is not from=to`);
-    const from = part.slice(0, eq).trim();
-    const to = part.slice(eq + 1).trim();
-    if (from === '' || to === '') throw usageError(`--recode "${spec}": "${part.trim()}" needs a level on both sides of =`);
-    mapping.set(from, to);
-  }
-  if (mapping.size === 0) throw usageError(`--recode "${spec}": no from=to pair`);
-  return { column, mapping };
+  const rules = parseRangeRecode(spec);
+  return { column: rules.column, mapping: rules.levels, rules };
 }
 
-/** Joins several --recode options for the same column into one mapping (later ones win). */
-export function recodesByColumn(recodes: readonly Recode[]): Map<string, Map<string, string>> {
-  const out = new Map<string, Map<string, string>>();
+/** Joins several --recode options for the same column into one lookup (later ones win; ranges answer too). */
+export function recodesByColumn(recodes: readonly Recode[]): Map<string, RecodeMap> {
+  const out = new Map<string, RecodeMap>();
   for (const r of recodes) {
-    const existing = out.get(r.column) ?? new Map<string, string>();
-    for (const [from, to] of r.mapping) existing.set(from, to);
+    const existing = out.get(r.column) ?? new RecodeMap();
+    existing.add(r.rules);
     out.set(r.column, existing);
   }
   return out;
@@ -116,7 +113,7 @@ export class RowGate {
   private readonly whereCache: Int8Array[];
 
   constructor(
-    private readonly where: readonly { clause: WhereClause; slot: number; labels: RecodedLabels }[],
+    private readonly where: readonly { clause: WhereClause; slot: number; labels: { of(id: number): string } }[],
     private readonly weight: { slot: number; kind: WeightKind; column: string; decimalComma: boolean } | null,
     private readonly skipBadRows: boolean,
     private readonly sourceLabel: string,
@@ -162,5 +159,65 @@ export class RowGate {
       throw weightError(this.sourceLabel, line, this.weight.kind === 'freq' ? '--freq' : '--weight', this.weight.column, parsed);
     }
     return parsed;
+  }
+}
+
+/**
+ * A column's value ids as counting sees them (table/levelRules.ts): the
+ * level each id becomes under the codebook, the recode and --keep-missing,
+ * or the reason it is missing; cached per id. Id 0 is an empty field (or a
+ * --missing value).
+ */
+export class ColumnLevels {
+  private readonly reasons: (LevelOutcome | undefined)[] = [];
+  private readonly levels: (LevelOutcome | undefined)[] = [];
+  private readonly index: ReturnType<typeof indexCodebook>;
+  private labelRules: LevelRules | null = null;
+
+  constructor(
+    private readonly labels: () => readonly string[],
+    readonly rules: LevelRules,
+  ) {
+    this.index = indexCodebook(rules.codebook);
+  }
+
+  private raw(id: number): string | null {
+    return id === 0 ? null : id < 0 ? '' : this.labels()[id - 1];
+  }
+
+  /** Whether an id is counted, and as what: decided while reading (cut labels aside). */
+  outcome(id: number): LevelOutcome {
+    let outcome = id >= 0 ? this.reasons[id] : undefined;
+    if (outcome === undefined) {
+      outcome = levelOutcome(this.rules, this.raw(id), this.index);
+      if (id >= 0) this.reasons[id] = outcome;
+    }
+    return outcome;
+  }
+
+  /**
+   * The level of an id; for an id that is missing, its reason (filters see
+   * it; counting leaves it out). Cut labels read as whole numbers when every
+   * number of the column is one, judged the first time a label is asked for
+   * (after reading, for the table).
+   */
+  of(id: number): string {
+    let outcome = id >= 0 ? this.levels[id] : undefined;
+    if (outcome === undefined) {
+      if (this.labelRules === null) {
+        const cuts = this.rules.cuts;
+        const whole = cuts ? cuts.every(Number.isInteger) && this.labels().every((l) => !isNumericLabel(l) || Number.isInteger(Number(l))) : false;
+        this.labelRules = { ...this.rules, wholeCuts: whole };
+      }
+      outcome = levelOutcome(this.labelRules, this.raw(id), this.index);
+      if (id >= 0) this.levels[id] = outcome;
+    }
+    return outcome.kind === 'level' ? outcome.label : outcome.reason;
+  }
+
+  /** Why an id is left out, or null when it is counted. */
+  missingReason(id: number): string | null {
+    const outcome = this.outcome(id);
+    return outcome.kind === 'missing' ? outcome.reason : null;
   }
 }

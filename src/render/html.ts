@@ -180,7 +180,8 @@ function notes(warnings: readonly { message: string }[]): string {
 }
 
 export function renderPairHtml(report: PairReport): string {
-  const body = `<h1>${e(report.rows.name)} × ${e(report.cols.name)}</h1>
+  const questions = [report.rows, report.cols].filter((side) => side.question).map((side) => `<p class="meta">${e(side.name)}: ${e(side.question as string)}</p>`).join('');
+  const body = `<h1>${e(report.rows.name)} × ${e(report.cols.name)}</h1>${questions}
 <p class="meta">${e(inputLine(report))}</p>
 ${recordSections(report, report.stratified?.by).replace('<!--held-fixed-->', heldFixedSection(report))}
 ${notes(report.warnings)}`;

@@ -228,6 +228,7 @@ export function renderPairMarkdown(report: PairReport): string {
   const out: string[] = [];
   out.push(`### ${md(report.rows.name)} × ${md(report.cols.name)}`);
   out.push('');
+  for (const side of [report.rows, report.cols]) if (side.question) out.push(`${md(side.name)}: ${md(side.question)}  `);
   out.push(md(inputLine(report)));
   out.push('');
   out.push(...markdownRecord(report, report.stratified?.by));

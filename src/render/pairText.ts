@@ -301,6 +301,7 @@ export function renderPairText(report: PairReport, paint: ChalkInstance, options
   const width = options.width;
   const out: string[] = [];
   out.push(...wrapText(`${report.rows.name} × ${report.cols.name}`, width).map((l) => paint.bold(l)));
+  for (const side of [report.rows, report.cols]) if (side.question) out.push(...wrapText(`${side.name}: ${side.question}`, width));
   out.push(...wrapText(inputLine(report), width).map((l) => paint.dim(l)));
   out.push('');
   out.push(...answerLines(report, paint, width, report.stratified?.by));

@@ -113,18 +113,24 @@ export function naturalRanks(labels: readonly string[]): number[] {
  * `<18`, `18–24`, `25–34`, `50+` (a bin of one whole number is that number);
  * otherwise `<18`, `18 to <25`, `50+`.
  */
+/** The label of the cut-point bin that holds x (the labels of cutPointBins). */
+export function cutLabel(x: number, cuts: readonly number[], whole: boolean): string {
+  let b = 0;
+  while (b < cuts.length && cuts[b] <= x) b++;
+  if (b === 0) return `<${formatEdge(cuts[0])}`;
+  if (b === cuts.length) return `${formatEdge(cuts[b - 1])}+`;
+  const lo = cuts[b - 1];
+  const hi = cuts[b];
+  if (whole) return hi - 1 === lo ? formatEdge(lo) : `${formatEdge(lo)}–${formatEdge(hi - 1)}`;
+  return `${formatEdge(lo)} to <${formatEdge(hi)}`;
+}
+
 export function cutPointBins(values: Float64Array, cuts: readonly number[]): Binning & { empty: string[] } {
   for (let i = 1; i < cuts.length; i++) if (!(cuts[i] > cuts[i - 1])) throw new RangeError('cut points must increase');
   let whole = cuts.every(Number.isInteger);
   for (let i = 0; whole && i < values.length; i++) if (!Number.isNaN(values[i]) && !Number.isInteger(values[i])) whole = false;
-  const labelOf = (b: number): string => {
-    if (b === 0) return `<${formatEdge(cuts[0])}`;
-    if (b === cuts.length) return `${formatEdge(cuts[b - 1])}+`;
-    const lo = cuts[b - 1];
-    const hi = cuts[b];
-    if (whole) return hi - 1 === lo ? formatEdge(lo) : `${formatEdge(lo)}–${formatEdge(hi - 1)}`;
-    return `${formatEdge(lo)} to <${formatEdge(hi)}`;
-  };
+  // A value standing for bin b: its lower edge (or just below the first cut).
+  const labelOf = (b: number): string => cutLabel(b === 0 ? cuts[0] - 1 : cuts[b - 1], cuts, whole);
   const binOf = (x: number) => {
     // The number of cuts at or below x.
     let lo = 0;

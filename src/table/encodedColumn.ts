@@ -4,6 +4,8 @@
  * needs; and its recode (--recode, --keep-missing) applied to the codes.
  */
 import { MISSING_LEVEL } from './twoWayTable.js';
+import { indexCodebook, levelOrder, levelOutcome, LevelRules } from './levelRules.js';
+import { isNumericLabel } from './naturalOrder.js';
 
 /** One candidate column of a scan, dictionary-encoded in the single read. */
 export interface EncodedColumn {
@@ -51,4 +53,43 @@ export function recodeColumn(column: EncodedColumn, mapping: ReadonlyMap<string,
   const codes = labels.length >= 65535 ? new Uint32Array(column.codes.length) : new Uint16Array(column.codes.length);
   for (let k = 0; k < codes.length; k++) codes[k] = remap[column.codes[k]];
   return { ...column, labels, codes, distinct: labels.length, missing: keepMissing ? 0 : column.missing };
+}
+
+/**
+ * Applies a column's level rules (levelRules.ts: codebook labels and
+ * missing codes, cuts, recodes, --keep-missing) to its codes: values with
+ * the same level share a code, values that are missing get code 0. Returns
+ * the column with its new labels and codes, and the level order the rules
+ * give (codebook order, ranges in order, the rest naturally).
+ */
+export function shapeColumn(column: EncodedColumn, rules: LevelRules): { column: EncodedColumn; order: string[] } {
+  if (column.codes === null) return { column, order: [] };
+  const whole = rules.cuts ? rules.cuts.every(Number.isInteger) && column.labels.every((l) => !isNumericLabel(l) || Number.isInteger(Number(l))) : false;
+  const shaped = { ...rules, wholeCuts: whole };
+  const index = indexCodebook(rules.codebook);
+  const labels: string[] = [];
+  const codeOf = new Map<string, number>();
+  const remap = new Uint32Array(column.labels.length + 1);
+  const code = (raw: string | null) => {
+    const outcome = levelOutcome(shaped, raw, index);
+    if (outcome.kind === 'missing') return 0;
+    let c = codeOf.get(outcome.label);
+    if (c === undefined) {
+      labels.push(outcome.label);
+      c = labels.length;
+      codeOf.set(outcome.label, c);
+    }
+    return c;
+  };
+  column.labels.forEach((raw, k) => (remap[k + 1] = code(raw)));
+  remap[0] = column.missing > 0 ? code(null) : 0;
+  const codes = labels.length >= 65535 ? new Uint32Array(column.codes.length) : new Uint16Array(column.codes.length);
+  // Missing rows: the reader's count, plus the codes the rules made missing, less the empty ones kept as a level.
+  let change = 0;
+  for (let k = 0; k < codes.length; k++) {
+    codes[k] = remap[column.codes[k]];
+    if (codes[k] === 0 && column.codes[k] !== 0) change++;
+    else if (codes[k] !== 0 && column.codes[k] === 0) change--;
+  }
+  return { column: { ...column, labels, codes, distinct: labels.length, missing: Math.max(0, column.missing + change) }, order: levelOrder(rules, labels) };
 }

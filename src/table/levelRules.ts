@@ -3,8 +3,9 @@
  * missing), and the level order those rules give.
  */
 import { CodebookColumn, codeKey } from './codebook.js';
-import { compareNatural } from './naturalOrder.js';
-import { RangeRecode, recodeValue } from './rangeRecode.js';
+import { compareNatural, isNumericLabel } from './naturalOrder.js';
+import { cutLabel } from './bins.js';
+
 import { MISSING_LEVEL } from './twoWayTable.js';
 
 /**
@@ -13,6 +14,7 @@ import { MISSING_LEVEL } from './twoWayTable.js';
  * 1. an empty field (or a --missing value) is missing, reason "empty";
  * 2. the codebook: a missing code is missing with its reason, a labelled
  *    code becomes its label, an unlisted value stays as it is;
+ * 2b. cut points (codebook cuts or --cuts): a number becomes its bin's label;
  * 3. --recode: a rule naming the label (or, failing that, the raw code)
  *    renames it; a range rule takes a value that is a number in its range;
  * 4. with --keep-missing, a missing value is a level after all: the missing
@@ -20,8 +22,19 @@ import { MISSING_LEVEL } from './twoWayTable.js';
  */
 export interface LevelRules {
   codebook: CodebookColumn | null;
-  recode: RangeRecode | null;
+  /** The column's recodes (rangeRecode.ts, RecodeMap): a new label for a value, ranges included. */
+  recode: RecodeLookup | null;
   keepMissing: boolean;
+  /** Cut points (the codebook's cuts, or --cuts): a number becomes the label of its bin. */
+  cuts?: readonly number[] | null;
+  /** Whether the cut labels read as whole numbers ("18–24") or not ("18 to <25"): see bins.ts. */
+  wholeCuts?: boolean;
+}
+
+export interface RecodeLookup {
+  get(value: string): string | undefined;
+  /** New labels in the order of their ranges. */
+  readonly order: readonly string[];
 }
 
 /** The level empty fields become with --keep-missing: the table's missing level. */
@@ -40,10 +53,11 @@ export function levelOutcome(rules: LevelRules, raw: string | null, codebookInde
     return rules.keepMissing ? { kind: 'level', label: entry.label, code: entry.code, missingReason: entry.missing } : { kind: 'missing', reason: entry.missing };
   }
   let label = entry ? entry.label : raw;
+  if (!entry && rules.cuts && rules.cuts.length > 0 && isNumericLabel(raw)) label = cutLabel(Number(raw), rules.cuts, rules.wholeCuts ?? false);
   if (rules.recode) {
-    const byLabel = recodeValue(rules.recode, label);
-    if (byLabel.rule !== 'none') label = byLabel.label;
-    else if (label !== raw) label = recodeValue(rules.recode, raw).label;
+    const byLabel = rules.recode.get(label);
+    if (byLabel !== undefined) label = byLabel;
+    else if (label !== raw) label = rules.recode.get(raw) ?? label;
   }
   return { kind: 'level', label, code: entry ? entry.code : null, missingReason: null };
 }
@@ -91,4 +105,24 @@ export function levelOrder(rules: LevelRules, levels: readonly string[]): string
   for (const m of rules.codebook?.missing ?? []) take(m.label ?? m.reason);
   take(EMPTY_LEVEL);
   return order;
+}
+
+/**
+ * What the codebook says about a side of a table, for the report: the
+ * question, whether the column is ordered, and per level the codes that
+ * carry it (after the recode; a level no listed code carries gets none).
+ * Null when the codebook does not describe the column.
+ */
+export function codebookFacts(rules: LevelRules, levels: readonly string[]): { question: string | null; ordered: boolean; codes: string[][] } | null {
+  const column = rules.codebook;
+  if (!column) return null;
+  const index = indexCodebook(column);
+  const codes = new Map<string, string[]>(levels.map((l) => [l, []]));
+  for (const code of [...column.values.map((v) => v.code), ...column.missing.map((m) => m.code)]) {
+    const outcome = levelOutcome(rules, code, index);
+    if (outcome.kind === 'level') codes.get(outcome.label)?.push(code);
+  }
+  // Bins of numbers are in order by construction.
+  const ordered = column.ordered || column.cuts !== null || column.bins !== null;
+  return { question: column.question, ordered, codes: levels.map((l) => codes.get(l) as string[]) };
 }

@@ -14,12 +14,13 @@ export interface OrderedColumn {
 }
 
 /** A screened column's codes in report order: natural order, or equal-frequency bins (lowest first) for a column past the cap. */
-export function orderColumn(column: EncodedColumn, bins: number | null): OrderedColumn {
+export function orderColumn(column: EncodedColumn, bins: number | null, order?: readonly string[]): OrderedColumn {
   if (column.codes === null) {
     const binning = equalFrequencyBins(column.values as Float64Array, bins as number);
     return { name: column.name, labels: binning.labels, codes: binning.codes };
   }
-  const rank = naturalRanks(column.labels);
+  // A given order (codebook, ranges) ranks the labels it names; the rest follow naturally.
+  const rank = order && order.length > 0 ? rankByOrder(column.labels, order) : naturalRanks(column.labels);
   const labels = new Array<string>(column.labels.length);
   column.labels.forEach((l, code) => (labels[rank[code]] = l));
   const remap = new Uint32Array(column.labels.length + 1);
@@ -27,4 +28,13 @@ export function orderColumn(column: EncodedColumn, bins: number | null): Ordered
   const codes = column.codes instanceof Uint32Array ? new Uint32Array(column.codes.length) : new Uint16Array(column.codes.length);
   for (let k = 0; k < codes.length; k++) codes[k] = remap[column.codes[k]];
   return { name: column.name, labels, codes };
+}
+
+function rankByOrder(labels: readonly string[], order: readonly string[]): number[] {
+  const position = new Map(order.map((l, k) => [l, k]));
+  const rest = naturalRanks(labels);
+  const sorted = labels.map((_l, i) => i).sort((a, b) => (position.get(labels[a]) ?? order.length + rest[a]) - (position.get(labels[b]) ?? order.length + rest[b]));
+  const rank = new Array<number>(labels.length);
+  sorted.forEach((code, k) => (rank[code] = k));
+  return rank;
 }

@@ -118,3 +118,41 @@ export function uncoveredNote(recode: RangeRecode, uncovered: readonly string[])
   const rules = recode.ranges.map((r) => describeRange(r.range)).join('; ');
   return `--recode "${recode.column}": ${shown}${more} fall${uncovered.length === 1 ? 's' : ''} in no range (${rules}) and keep${uncovered.length === 1 ? 's' : ''} ${uncovered.length === 1 ? 'its' : 'their'} own label`;
 }
+
+/**
+ * The recodes of one column (several --recode options), as one lookup: a
+ * Map from level to new label whose `get` also answers for numbers that a
+ * range rule takes, so that every reader of recodes (filters, counting,
+ * scan, the engine's filters) applies ranges alike. Later options win.
+ */
+export class RecodeMap extends Map<string, string> {
+  private readonly recodes: RangeRecode[] = [];
+
+  static of(recodes: readonly RangeRecode[]): RecodeMap {
+    const map = new RecodeMap();
+    for (const r of recodes) map.add(r);
+    return map;
+  }
+
+  add(recode: RangeRecode): void {
+    this.recodes.push(recode);
+    for (const [from, to] of recode.levels) this.set(from, to);
+  }
+
+  override get(value: string): string | undefined {
+    const renamed = super.get(value);
+    if (renamed !== undefined) return renamed;
+    for (let k = this.recodes.length - 1; k >= 0; k--) {
+      const result = recodeValue(this.recodes[k], value);
+      if (result.rule === 'range') return result.label;
+    }
+    return undefined;
+  }
+
+  /** The labels of range rules in the order of their ranges (the latest option's first). */
+  get order(): string[] {
+    const order: string[] = [];
+    for (let k = this.recodes.length - 1; k >= 0; k--) for (const label of this.recodes[k].order) if (!order.includes(label)) order.push(label);
+    return order;
+  }
+}

@@ -76,9 +76,14 @@ export class TableCounter {
     private readonly maxLevels: number,
     /** Weighted sums are carried as hi + lo, so that they do not depend on row order. */
     private readonly compensated = false,
+    /**
+     * Raw values a side may hold while counting, when its values are relabelled
+     * (recode, cuts, codebook) so that the level cap applies to the labels.
+     */
+    readingCaps: { rows: number; cols: number } = { rows: maxLevels, cols: maxLevels },
   ) {
-    this.rowSide = new SideLevels(maxLevels);
-    this.colSide = new SideLevels(maxLevels);
+    this.rowSide = new SideLevels(readingCaps.rows);
+    this.colSide = new SideLevels(readingCaps.cols);
   }
 
   /**
@@ -115,7 +120,10 @@ export class TableCounter {
     low[c] += weightLow;
   }
 
-  private checkCap(name: string, side: SideLevels): void {
+  private checkCap(name: string, side: SideLevels, labels?: number): void {
+    if (labels !== undefined && labels > this.maxLevels) {
+      throw dataError(`column "${name}" has ${labels.toLocaleString('en-US')} levels after its labels, recodes or cuts, more than --max-levels ${this.maxLevels}; raise --max-levels, or merge levels with --recode`);
+    }
     if (!side.overCap) return;
     throw dataError(
       `column "${name}" has ${side.distinctDescription()} distinct values, more than --max-levels ${this.maxLevels}; raise --max-levels, merge levels with --recode, or keep the most frequent with --other k`,
@@ -139,6 +147,8 @@ export class TableCounter {
     const colNames = this.colSide.ids.map(colLabelOf);
     const rows = orderLevels([...new Set(rowNames)], rowOrder);
     const cols = orderLevels([...new Set(colNames)], colOrder);
+    this.checkCap(this.rowName, this.rowSide, rows.order.length);
+    this.checkCap(this.colName, this.colSide, cols.order.length);
     const rowIndex = new Map(rows.order.map((l, k) => [l, k]));
     const colIndex = new Map(cols.order.map((l, k) => [l, k]));
     const counts = rows.order.map(() => new Array<number>(cols.order.length).fill(0));

@@ -1,7 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { parseCodebook } from '../../src/io/codebookFile.js';
 import { EMPTY_LEVEL, levelOrder, levelOutcome, LevelRules } from '../../src/table/levelRules.js';
-import { parseRangeRecode } from '../../src/table/rangeRecode.js';
+import { parseRangeRecode, RecodeMap } from '../../src/table/rangeRecode.js';
+
+const recode = (spec: string) => RecodeMap.of([parseRangeRecode(spec)]);
 
 // The order of the rules is stated in src/table/levelRules.ts and docs/codebook.md.
 const book = parseCodebook(
@@ -30,13 +32,13 @@ describe('what a value becomes before counting', () => {
     expect(levelOutcome(keep, null)).toEqual({ kind: 'level', label: EMPTY_LEVEL, code: null, missingReason: 'empty' });
   });
   it('a recode after the codebook names labels, or codes when no rule names the label', () => {
-    const byLabel = { ...rules, recode: parseRangeRecode('pid:Strong Democrat=Democrat,Weak Democrat=Democrat') };
+    const byLabel = { ...rules, recode: recode('pid:Strong Democrat=Democrat,Weak Democrat=Democrat') };
     expect(levelOutcome(byLabel, '1')).toMatchObject({ kind: 'level', label: 'Democrat', code: '1' });
-    const byCode = { ...rules, recode: parseRangeRecode('pid:5=Republican,6=Republican') };
+    const byCode = { ...rules, recode: recode('pid:5=Republican,6=Republican') };
     expect(levelOutcome(byCode, '6')).toMatchObject({ kind: 'level', label: 'Republican' });
   });
   it('a range recode without a codebook', () => {
-    const ages: LevelRules = { codebook: null, recode: parseRangeRecode('age:<18=minor,18-64=adult,>=65=senior'), keepMissing: false };
+    const ages: LevelRules = { codebook: null, recode: recode('age:<18=minor,18-64=adult,>=65=senior'), keepMissing: false };
     expect(['12', '30', '70', 'n/a'].map((v) => levelOutcome(ages, v))).toMatchObject([{ label: 'minor' }, { label: 'adult' }, { label: 'senior' }, { label: 'n/a' }]);
   });
 });
@@ -47,9 +49,9 @@ describe('level order', () => {
     expect(levelOrder(rules, ['3', EMPTY_LEVEL, 'Strong Republican', 'refused to say', 'Strong Democrat', '2', 'Weak Democrat'])).toEqual(['Strong Democrat', 'Weak Democrat', 'Strong Republican', '2', '3', 'refused to say', EMPTY_LEVEL]);
   });
   it('a recode carries the codebook order to its new labels; range labels follow their ranges', () => {
-    const rules: LevelRules = { codebook: pid, recode: parseRangeRecode('pid:Strong Democrat=Democrat,Weak Democrat=Democrat,Weak Republican=Republican,Strong Republican=Republican'), keepMissing: false };
+    const rules: LevelRules = { codebook: pid, recode: recode('pid:Strong Democrat=Democrat,Weak Democrat=Democrat,Weak Republican=Republican,Strong Republican=Republican'), keepMissing: false };
     expect(levelOrder(rules, ['Republican', 'Democrat'])).toEqual(['Democrat', 'Republican']);
-    const ages: LevelRules = { codebook: null, recode: parseRangeRecode('age:>=65=senior,<18=minor,18-64=adult'), keepMissing: false };
+    const ages: LevelRules = { codebook: null, recode: recode('age:>=65=senior,<18=minor,18-64=adult'), keepMissing: false };
     expect(levelOrder(ages, ['senior', 'adult', 'minor', 'unknown'])).toEqual(['minor', 'adult', 'senior', 'unknown']);
   });
 });
