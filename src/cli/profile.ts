@@ -10,8 +10,8 @@ import { codebookToCsv, codebookToJson } from '../render/codebookFormat.js';
 import { toJson } from '../render/json.js';
 import { renderProfileMarkdown, renderProfileText } from '../render/profileText.js';
 import type { Codebook } from '../table/codebook.js';
-import { addReaderOptions, positiveInteger, RawReaderOptions, ReaderPlan, readerPlan } from './options.js';
-import { CliIo, emit, noteWriter, painter } from './output.js';
+import { addReaderOptions, positiveInteger, RawReaderOptions, ReaderPlan, readerFor, readerPlan } from './options.js';
+import { CliIo, emit, noteWriter, outputGuard, painter } from './output.js';
 import { DONE, Outcome } from './outcome.js';
 
 export const PROFILE_FORMATS = ['text', 'json', 'markdown', 'codebook', 'codebook-csv'] as const;
@@ -25,6 +25,8 @@ export interface ProfilePlan {
   /** Most frequent values shown per column. */
   top: number;
   codebook: Codebook | null;
+  /** The --codebook path (an --output may not overwrite it). */
+  codebookFile?: string;
   output?: string;
   color: boolean;
 }
@@ -44,6 +46,7 @@ export function profilePlan(file: string | undefined, raw: RawProfileOptions): P
     format: raw.format,
     top: positiveInteger(raw.top, '--top'),
     codebook: raw.codebook === undefined ? null : readCodebook(raw.codebook),
+    codebookFile: raw.codebook,
     output: raw.output,
     color: raw.color !== false,
   };
@@ -76,8 +79,10 @@ Exit status: 0 done, 1 the data cannot be read, 2 bad usage.`,
 /** Reads the file once, profiles every column, writes the profile or the starter codebook. */
 export async function runProfile(plan: ProfilePlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
+  const guard = outputGuard(io, { output: plan.output });
+  guard.checkInputs([plan.input, ...(plan.codebookFile ? [plan.codebookFile] : [])]);
   checkReadable(source);
-  const tallied = await profileColumns(source, { ...plan.reader, onNote: noteWriter(io) });
+  const tallied = await profileColumns(source, { ...readerFor(plan.reader, io, guard), engine: 'builtin' });
   if (plan.codebook) checkCodebookColumns(plan.codebook, tallied.columns.map((c) => c.name), source.label);
   const summary = tallied.summary;
   const input: InputSummary = {
