@@ -14,12 +14,12 @@ import type { OrderedColumn } from '../table/orderedColumn.js';
 import type { ColumnsRequest } from './columns.js';
 import { countTableWith, ExcludedBy, TableRequest } from './countTable.js';
 import { encodeWithReader } from './encodeColumns.js';
-import { engineInput, EngineInput, isGlob, isParquetPath } from './engine/files.js';
+import { engineInput, EngineInput, isParquetPath, isPattern } from './engine/files.js';
 import { Engine, engineAvailable, openEngine } from './engine/module.js';
 import { EngineFallback } from './engine/query.js';
 import { encodeWithEngine } from './engine/scanColumns.js';
 import type { EngineName, ReaderOptions, ReadSummary } from './readRecords.js';
-import { InputSource, isGzipFile } from './source.js';
+import { InputSource, isGzipFile, isStreamPath } from './source.js';
 
 /** A counted table and what counting it read and left out. */
 export interface CountedInput extends CountedTable {
@@ -66,7 +66,8 @@ export async function chooseRoute(reader: ReaderOptions, source: InputSource): P
   const choice = reader.engine ?? 'builtin';
   if (choice !== 'auto') return choice;
   if (source.path === '-') return 'builtin';
-  if (isGlob(source.path) || isParquetPath(source.path)) return 'duckdb';
+  if (await isStreamPath(source.path)) return 'builtin';
+  if ((await isPattern(source.path)) || isParquetPath(source.path)) return 'duckdb';
   try {
     const stat = await fs.stat(source.path);
     if (stat.size >= AUTO_ENGINE_BYTES && !(await isGzipFile(source.path)) && (await engineAvailable(reader.engineModule))) return 'duckdb';

@@ -2,9 +2,9 @@
  * Where the input comes from (a file, plain or gzip, or standard input) and
  * its decoding to UTF-8, with one-line errors naming the byte and line.
  */
-import { createReadStream, promises as fs } from 'node:fs';
+import { createReadStream, promises as fs, Stats } from 'node:fs';
 import { createGunzip } from 'node:zlib';
-import { pipeline } from 'node:stream';
+import { pipeline, Readable } from 'node:stream';
 import { isUtf8 } from 'node:buffer';
 import { TextDecoder } from 'node:util';
 import { dataError, usageError } from '../errors.js';
@@ -39,56 +39,110 @@ export function describeOpenError(source: InputSource, error: NodeJS.ErrnoExcept
   }
 }
 
-/** A file that exists, is not a directory and can be read; otherwise the tool's one-line message. */
-export async function checkFile(source: InputSource): Promise<void> {
+/** A file that exists, is not a directory and can be read (its stats); otherwise the tool's one-line message. */
+export async function checkFile(source: InputSource): Promise<Stats> {
   try {
-    const stat = await fs.stat(source.path);
-    if (stat.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
+    const stats = await fs.stat(source.path);
+    if (stats.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
     await fs.access(source.path, fs.constants.R_OK);
+    return stats;
   } catch (error) {
     throw describeOpenError(source, error as NodeJS.ErrnoException);
   }
 }
 
 /**
- * Streams the raw bytes of the source. Files are checked first so that a
- * directory or a missing file gives a clear message before any work.
+ * Whether a path names a stream rather than a regular file: a pipe, a FIFO,
+ * a process substitution (`<(…)`, /dev/fd/N), a character device or a
+ * socket. Streams are read once, from their start, and never again.
  */
-export async function* rawChunks(source: InputSource): AsyncGenerator<Buffer> {
-  let stream: NodeJS.ReadableStream;
-  if (source.path === '-') {
-    stream = source.stdin ?? process.stdin;
-  } else {
-    await checkFile(source);
-    stream = await openFile(source.path);
-  }
+export async function isStreamPath(path: string): Promise<boolean> {
+  if (path === '-') return true;
   try {
-    for await (const chunk of stream) yield chunk as Buffer;
+    return !(await fs.stat(path)).isFile();
+  } catch {
+    return false;
+  }
+}
+
+/** The raw bytes of a source as they arrive, and whether the source can be read again from its start (a regular file). */
+interface OpenedSource {
+  chunks: AsyncIterable<Buffer>;
+  rereadable: boolean;
+}
+
+/**
+ * Opens the source for one sequential read (no positioned reads, so pipes,
+ * FIFOs and devices work). Files are checked first so that a directory or a
+ * missing file gives a clear message before any work.
+ */
+async function openSource(source: InputSource): Promise<OpenedSource> {
+  if (source.path === '-') return { chunks: (source.stdin ?? process.stdin) as AsyncIterable<Buffer>, rereadable: false };
+  const stats = await checkFile(source);
+  return { chunks: createReadStream(source.path, { highWaterMark: 1 << 20 }), rereadable: stats.isFile() };
+}
+
+/** True when bytes start with the gzip magic bytes 1f 8b (RFC 1952, §2.3.1). */
+function gzipMagic(head: Uint8Array): boolean {
+  return head.length >= 2 && head[0] === 0x1f && head[1] === 0x8b;
+}
+
+/**
+ * The bytes, decompressed when they are gzip (recognised by their first two
+ * bytes, as they stream: a file, a pipe or standard input alike).
+ */
+async function* gunzipWhenCompressed(chunks: AsyncIterable<Buffer>): AsyncGenerator<Buffer> {
+  const iterator = chunks[Symbol.asyncIterator]();
+  let head: Buffer = Buffer.alloc(0);
+  let ended = false;
+  while (head.length < 2) {
+    const next = await iterator.next();
+    if (next.done) {
+      ended = true;
+      break;
+    }
+    head = head.length === 0 ? next.value : Buffer.concat([head, next.value]);
+  }
+  async function* all(): AsyncGenerator<Buffer> {
+    if (head.length > 0) yield head;
+    if (ended) return;
+    for (let next = await iterator.next(); !next.done; next = await iterator.next()) yield next.value;
+  }
+  if (!gzipMagic(head)) {
+    yield* all();
+    return;
+  }
+  // pipeline passes a read error of the source on to the stream being read.
+  const inflated = pipeline(Readable.from(all()), createGunzip({ chunkSize: 1 << 20 }), () => undefined);
+  for await (const chunk of inflated) yield chunk as Buffer;
+}
+
+/** The bytes of an opened source, decompressed, with a failure turned into the tool's one line naming it. */
+async function* bytesOf(source: InputSource, opened: OpenedSource): AsyncGenerator<Buffer> {
+  try {
+    yield* gunzipWhenCompressed(opened.chunks);
   } catch (error) {
     const e = error as NodeJS.ErrnoException;
-    if (e.code?.startsWith('Z_')) throw dataError(`${source.label}: not a readable gzip file (${e.message})`);
+    if (e.code?.startsWith('Z_')) throw dataError(`${source.label}: not a readable gzip file (${e.message}); the file may be cut short`);
     throw describeOpenError(source, e);
   }
 }
 
-/** True when a file starts with the gzip magic bytes 1f 8b (RFC 1952, §2.3.1). */
+/** Streams the raw bytes of the source (decompressed when gzip), reading it once. */
+export async function* rawChunks(source: InputSource): AsyncGenerator<Buffer> {
+  yield* bytesOf(source, await openSource(source));
+}
+
+/** True when a regular file starts with the gzip magic bytes (for files only: it reads the start again). */
 export async function isGzipFile(path: string): Promise<boolean> {
   const handle = await fs.open(path, 'r');
   try {
     const head = Buffer.alloc(2);
     const { bytesRead } = await handle.read(head, 0, 2, 0);
-    return bytesRead === 2 && head[0] === 0x1f && head[1] === 0x8b;
+    return bytesRead === 2 && gzipMagic(head);
   } finally {
     await handle.close();
   }
-}
-
-/** A file's bytes, decompressed when it is gzip. */
-async function openFile(path: string): Promise<NodeJS.ReadableStream> {
-  const raw = createReadStream(path, { highWaterMark: 1 << 20 });
-  if (!(await isGzipFile(path))) return raw;
-  // pipeline passes a read error of the file on to the stream being read.
-  return pipeline(raw, createGunzip({ chunkSize: 1 << 20 }), () => undefined);
 }
 
 export type Encoding = 'utf-8' | 'utf-16le' | 'utf-16be';
@@ -127,16 +181,16 @@ export function firstInvalidUtf8(bytes: Uint8Array): number {
 }
 
 /**
- * The line of a byte offset. Files are read again from the start (only on
- * the way to an error), so the happy path never counts line feeds; standard
- * input cannot be read twice, so its line feeds are counted as it streams.
+ * The line of a byte offset. A regular file is read again from the start
+ * (only on the way to an error), so the happy path never counts line
+ * feeds; a stream (standard input, a pipe, a FIFO, a device) cannot be read
+ * twice, so its line feeds are counted as it streams.
  */
-async function lineOfOffset(source: InputSource, offset: number, streamedNewlines: number, chunk: Uint8Array, inChunk: number): Promise<number> {
-  if (source.path === '-') return streamedNewlines + lineAt([chunk], inChunk);
+async function lineOfOffset(source: InputSource, rereadable: boolean, offset: number, streamedNewlines: number, chunk: Uint8Array, inChunk: number): Promise<number> {
+  if (!rereadable) return streamedNewlines + lineAt([chunk], inChunk);
   let line = 1;
   let seen = 0;
-  for await (const raw of await openFile(source.path)) {
-    const part = raw as Buffer;
+  for await (const part of rawChunks(source)) {
     const limit = Math.min(part.length, offset - seen);
     for (let i = part.indexOf(0x0a); i >= 0 && i < limit; i = part.indexOf(0x0a, i + 1)) line++;
     seen += part.length;
@@ -165,32 +219,26 @@ export async function* utf8Chunks(source: InputSource, encoding?: string): Async
     yield* transcodedChunks(source, encoding);
     return;
   }
-  let first = true;
+  const opened = await openSource(source);
+  // The first bytes are held until three are in (or the input ends), so that a byte-order mark split across reads of a pipe is still seen.
+  let head: Buffer | null = Buffer.alloc(0);
   let carry: Buffer = Buffer.alloc(0);
   let offset = 0; // bytes of the source consumed before the current chunk
   let newlinesBefore = 0;
   let decoder: TextDecoder | null = null;
-  for await (const raw of rawChunks(source)) {
-    let chunk = raw;
-    if (first) {
-      first = false;
-      if (chunk[0] === 0xff && chunk[1] === 0xfe) decoder = new TextDecoder('utf-16le', { fatal: true });
-      else if (chunk[0] === 0xfe && chunk[1] === 0xff) decoder = new TextDecoder('utf-16be', { fatal: true });
-      else if (chunk[0] === 0xef && chunk[1] === 0xbb && chunk[2] === 0xbf) {
-        chunk = chunk.subarray(3);
-        offset = 3;
-      }
-    }
+
+  async function* decode(chunk: Buffer): AsyncGenerator<Uint8Array> {
     if (decoder) {
       let text: string;
       try {
+        // The decoder drops the byte-order mark itself.
         text = decoder.decode(chunk, { stream: true });
       } catch {
         throw dataError(`${source.label}: invalid UTF-16 near byte ${offset}`);
       }
       offset += chunk.length;
-      if (text.length > 0) yield Buffer.from(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text, 'utf8');
-      continue;
+      if (text.length > 0) yield Buffer.from(text, 'utf8');
+      return;
     }
     let bytes = carry.length > 0 ? Buffer.concat([carry, chunk]) : chunk;
     // Hold back an incomplete multi-byte sequence at the end for the next chunk.
@@ -206,24 +254,53 @@ export async function* utf8Chunks(source: InputSource, encoding?: string): Async
     bytes = bytes.subarray(0, cut);
     const nul = bytes.indexOf(0);
     if (nul >= 0) {
-      const line = await lineOfOffset(source, offset + nul, newlinesBefore, bytes, nul);
+      const line = await lineOfOffset(source, opened.rereadable, offset + nul, newlinesBefore, bytes, nul);
       throw dataError(`${source.label}: NUL byte at byte offset ${offset + nul} (line ${line}); this looks like a binary file or UTF-16 without a byte-order mark`);
     }
     if (!isUtf8(bytes)) {
       const bad = firstInvalidUtf8(bytes);
       throw dataError(
-        `${source.label}: invalid UTF-8 at byte offset ${offset + bad} (line ${await lineOfOffset(source, offset + bad, newlinesBefore, bytes, bad)}); pass --encoding (for example latin1 or windows-1252)`,
+        `${source.label}: invalid UTF-8 at byte offset ${offset + bad} (line ${await lineOfOffset(source, opened.rereadable, offset + bad, newlinesBefore, bytes, bad)}); pass --encoding (for example latin1 or windows-1252)`,
       );
     }
-    if (source.path === '-') for (let i = bytes.indexOf(0x0a); i >= 0; i = bytes.indexOf(0x0a, i + 1)) newlinesBefore++;
+    if (!opened.rereadable) for (let i = bytes.indexOf(0x0a); i >= 0; i = bytes.indexOf(0x0a, i + 1)) newlinesBefore++;
     offset += bytes.length;
     yield bytes;
   }
+
+  /** The first bytes, once enough are in: the byte-order mark decides the decoding. */
+  function start(bytes: Buffer): Buffer {
+    if (bytes[0] === 0xff && bytes[1] === 0xfe) decoder = new TextDecoder('utf-16le', { fatal: true });
+    else if (bytes[0] === 0xfe && bytes[1] === 0xff) decoder = new TextDecoder('utf-16be', { fatal: true });
+    else if (bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf) {
+      offset = 3;
+      return bytes.subarray(3);
+    }
+    return bytes;
+  }
+
+  for await (const raw of bytesOf(source, opened)) {
+    if (head !== null) {
+      head = head.length === 0 ? raw : Buffer.concat([head, raw]);
+      if (head.length < 3) continue;
+      const first = start(head);
+      head = null;
+      yield* decode(first);
+      continue;
+    }
+    yield* decode(raw);
+  }
+  if (head !== null && head.length > 0) yield* decode(start(head));
   if (carry.length > 0) {
     throw dataError(`${source.label}: invalid UTF-8 at byte offset ${offset} (the file ends inside a character); pass --encoding`);
   }
   if (decoder) {
-    const rest = decoder.decode();
+    let rest: string;
+    try {
+      rest = (decoder as TextDecoder).decode();
+    } catch {
+      throw dataError(`${source.label}: the UTF-16 text ends inside a character (an odd number of bytes, or half of a surrogate pair)`);
+    }
     if (rest.length > 0) yield Buffer.from(rest, 'utf8');
   }
 }

@@ -37,15 +37,18 @@ class Captured implements OutputStream {
 }
 
 /**
- * Runs tabsight in this process with `input` on standard input and only
+ * Runs tabsight in this process with `input` on standard input (an array:
+ * in separate reads) and only
  * `env` as the environment; resolves with the exit status and what was
  * written. A bug (anything but the tool's own error) rejects, so the test
  * fails with its stack.
  */
-export async function run(args: string[], input?: string | Buffer, env: Record<string, string> = {}): Promise<Run> {
+export async function run(args: string[], input?: string | Buffer | Buffer[], env: Record<string, string> = {}): Promise<Run> {
   const stdout = new Captured();
   const stderr = new Captured();
-  const stdin = Object.assign(Readable.from(input === undefined ? [] : [Buffer.from(input)]), { isTTY: false });
+  // An array arrives as separate reads, as a pipe delivers them.
+  const chunks = input === undefined ? [] : Array.isArray(input) ? input : [Buffer.from(input)];
+  const stdin = Object.assign(Readable.from(chunks), { isTTY: false });
   const io: CliIo = { stdin, stdout, stderr, env };
   const { status } = await runProgram(args, io);
   return { status, stdout: stdout.text, stderr: stderr.text };

@@ -7,6 +7,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { mulberry32 } from '../../scripts/seeded-random.mjs';
 import { addOutputCases } from './outputs.mjs';
+import { addStreamCases } from './streams.mjs';
 
 const DEMO = fileURLToPath(new URL('../../fixtures/demo/patron-survey.csv', import.meta.url));
 
@@ -121,7 +122,10 @@ export function makeCorpus(dir, which = 'all') {
     status: 0,
     json: (out) => { if (out.n !== 5) throw new Error(`n = ${out.n}`); },
   });
-  if (which !== 'large') addOutputCases({ dir, add, demo: DEMO });
+  if (which !== 'large') {
+    addOutputCases({ dir, add, demo: DEMO });
+    addStreamCases({ dir, add });
+  }
   return cases;
 }
 

@@ -12,7 +12,8 @@ import { BIN, run, Run, spawnCli } from '../cli/cliHelpers.js';
 export interface HostileCase {
   name: string;
   args: string[];
-  stdin?: Buffer | string;
+  /** Standard input; an array arrives in separate reads (in-process cases). */
+  stdin?: Buffer | string | Buffer[];
   /** The exit status; for a `signal` case, the status is not looked at. */
   status: number;
   stderr?: RegExp;
@@ -97,10 +98,10 @@ export async function runCase(c: HostileCase, options: { engine?: boolean; heap?
   if (c.mode === 'signal') return runUntilTemporary(args, env, c.signal ?? 'SIGTERM', dirname(args[args.indexOf('--output') + 1]));
   if (c.mode === 'shell') {
     const program = [process.execPath, ...(options.heap ?? []), BIN, ...args].map(quote).join(' ');
-    const result = spawnSync('bash', ['-c', c.shell!(program)], { input: c.stdin, encoding: 'utf8', env: { ...process.env, ...env }, maxBuffer: 256 * 1024 * 1024 });
+    const result = spawnSync('bash', ['-c', c.shell!(program)], { input: Array.isArray(c.stdin) ? Buffer.concat(c.stdin) : c.stdin, encoding: 'utf8', env: { ...process.env, ...env }, maxBuffer: 256 * 1024 * 1024 });
     return { status: result.status, stdout: result.stdout, stderr: result.stderr, signal: result.signal };
   }
-  if (c.mode === 'process' || options.heap) return spawnCli(args, c.stdin ?? '', env, options.heap ?? []);
+  if (c.mode === 'process' || options.heap) return spawnCli(args, Array.isArray(c.stdin) ? Buffer.concat(c.stdin) : (c.stdin ?? ''), env, options.heap ?? []);
   return run(args, c.stdin ?? '', env);
 }
 

@@ -3,6 +3,7 @@
  * (globbing: *, ?, [...]) matches, and whether they are CSV or Parquet.
  */
 import { dataError, usageError } from '../../errors.js';
+import { promises as fs } from 'node:fs';
 import { checkFile, InputSource } from '../source.js';
 import type { Engine } from './module.js';
 import { querySql } from './query.js';
@@ -21,8 +22,20 @@ export interface EngineInput {
 const GLOB = /[*?[]/;
 const PARQUET = /\.(parquet|parq|pq)$/i;
 
-export function isGlob(path: string): boolean {
-  return GLOB.test(path);
+/**
+ * Whether a path is a pattern of files: it has *, ? or [ and no file of
+ * that name exists (a name that exists is that file, brackets and all; to
+ * read it as a pattern anyway, make one more character a class, as in
+ * week[1].cs[v]).
+ */
+export async function isPattern(path: string): Promise<boolean> {
+  if (!GLOB.test(path)) return false;
+  try {
+    await fs.lstat(path);
+    return false;
+  } catch {
+    return true;
+  }
 }
 
 export function isParquetPath(path: string): boolean {
@@ -33,8 +46,9 @@ export function isParquetPath(path: string): boolean {
 export async function engineInput(source: InputSource, engine: () => Promise<Engine>): Promise<EngineInput> {
   if (source.path === '-') throw usageError('--engine duckdb reads files, not standard input; give a file or a pattern, or use --engine builtin');
   const format: InputFormat = isParquetPath(source.path) ? 'parquet' : 'csv';
-  if (!isGlob(source.path)) {
-    await checkFile(source);
+  if (!(await isPattern(source.path))) {
+    const stats = await checkFile(source);
+    if (!stats.isFile()) throw usageError(`--engine duckdb reads files; ${source.label} is a stream (a pipe, FIFO or device), which the built-in reader reads once: use --engine builtin`);
     return { label: source.label, format, files: [source.path], glob: false };
   }
   const rows = await querySql(await engine(), `SELECT file FROM glob(${sqlLiteral(source.path)}) ORDER BY file`, (message) => dataError(`${source.label}: ${message}`));

@@ -57,6 +57,7 @@ export async function engineGroups(
       ? `SELECT ${keyNames.join(', ')}, COUNT(*) AS n FROM (SELECT ${keys.join(', ')} FROM ${rel.sql}) GROUP BY ALL`
       : `SELECT ${keyNames.join(', ')}, bad, b, bq, COUNT(*) AS n, SUM(m) AS sm, SUM(mq) AS smq FROM (${weightedRowsSql(rel.sql, keys, { text: `CAST(${rel.names[selected[weight.slot]]} AS VARCHAR)`, kind: weight.kind, decimalComma: weight.decimalComma })}) GROUP BY ALL`;
   const blank = rel.blankLines();
+  blank.catch(() => undefined); // awaited below; a failed query must not leave it unhandled
   const rows = await queryInput(engine, input, sql);
   await settleQuotes(input, reader, rows.flatMap((row) => row.slice(0, keyNames.length) as (string | null)[]));
   const k = keyNames.length;

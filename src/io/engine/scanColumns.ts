@@ -275,6 +275,7 @@ export async function encodeWithEngine(engine: Engine, input: EngineInput, reade
       : `SELECT ${columnsSql.join(', ')}, ${pass} AS pass, true AS ok, NULL::VARCHAR AS bad FROM ${rel.sql}`;
   await queryInput(engine, input, `CREATE OR REPLACE TEMP TABLE ${TABLE} AS ${rowsSql}`);
   const blank = rel.blankLines();
+  blank.catch(() => undefined); // awaited below; a failed query must not leave it unhandled
   const { records, filtered, badWeights } = await census(engine, input, reader, request);
 
   const { rows, profiles } = await profileColumns(engine, input, scanKeys, missingTokens);

@@ -21,9 +21,18 @@ export function sqlIdentifier(name: string): string {
 /** The pattern of parseWeightValue in rowRules.ts, for the engine's regular expressions. */
 export const NUMBER_PATTERN = '[+-]?([0-9]+[.]?[0-9]*|[.][0-9]+)([eE][+-]?[0-9]+)?';
 
-/** A list of file names as a SQL list literal. */
+/**
+ * A file name as the engine's readers take it literally: they expand every
+ * name as a pattern, so *, ? and [ are each written as a one-character
+ * class ([*], [?], [[]), and week[1].csv is read, not week1.csv.
+ */
+export function literalFileName(file: string): string {
+  return file.replace(/[*?[]/g, (c) => `[${c}]`);
+}
+
+/** A list of file names (each read as named, never as a pattern) as a SQL list literal. */
 function fileList(files: readonly string[]): string {
-  return `[${files.map(sqlLiteral).join(', ')}]`;
+  return `[${files.map((f) => sqlLiteral(literalFileName(f))).join(', ')}]`;
 }
 
 /** Parquet files, columns matched by name across files. */
