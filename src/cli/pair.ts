@@ -7,7 +7,7 @@ import { checkReadable, inputSource } from '../io/source.js';
 import { PAIR_RENDERERS, PairFormat } from '../render/renderers.js';
 import { mosaicPlot, residualHeatMap, stackSvg } from '../render/svg.js';
 import { addAnalysisOptions, addReaderOptions, addReportOptions, addSummedWeightsOption, addSurveyOptions, addTableOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan, readerFor } from './options.js';
-import { CliIo, emit, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
+import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { CellView } from '../render/pairText.js';
 import type { Outcome } from './outcome.js';
 import { codebookSides, describeSides } from './codebookSides.js';
@@ -69,6 +69,7 @@ export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
   checkReadable(source);
   const counted = await countTable(source, readerFor(plan.reader, io, guard), plan.table);
   const sides = codebookSides(plan.table, counted.table);
+  for (const note of counted.missingTokenNotes) noteWriter(io)(note);
   const report = pairReport(
     counted.table,
     counted.excluded,

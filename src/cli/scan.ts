@@ -11,7 +11,8 @@ import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOption
 import { recodesByColumn } from '../io/rowRules.js';
 import { columnRules, TableRequest } from '../io/countTable.js';
 import { codebookColumn } from '../table/codebook.js';
-import { CliIo, emit, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
+import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
+import { detectMissingTokens, missingTokenNotes } from '../io/missingTokens.js';
 import type { Outcome } from './outcome.js';
 import { stackSvg, strengthChart } from '../render/svg.js';
 
@@ -167,6 +168,8 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
   };
   const report = await encodeColumns(source, reader, request, async (encoded) => {
     progress.done();
+    const declared = new Set([...reader.missing.map((m) => m.trim()), ...(survey.codebook?.columns.flatMap((c) => c.missing.map((m) => m.code)) ?? [])]);
+    for (const note of missingTokenNotes(detectMissingTokens(encoded.columns.map((c) => ({ name: c.name, labels: c.labels })), declared))) noteWriter(io)(note);
     const prepared = prepareColumns(encoded.columns, encoded.layer, encoded.rows, options);
     const countPair = await encoded.countPairs(prepared.ordered, prepared.layer);
     return scorePairs(prepared, encoded.rows, inputSummary(source.label, encoded), options, countPair);

@@ -24,6 +24,7 @@ import { DEFAULT_DISTINCT_LIMIT, readRecords, ReaderOptions, ReadSummary } from 
 import { FieldInterner, MISSING_ID } from './fieldInterner.js';
 import { ColumnLevels, parseWeightValue, Recode, recodesByColumn, RowGate, weightError, WhereClause } from './rowRules.js';
 import { checkCodebookColumns } from './codebookFile.js';
+import { detectMissingTokens, missingTokenNotes } from './missingTokens.js';
 import { Codebook, codebookColumn } from '../table/codebook.js';
 import { levelOrder, LevelRules } from '../table/levelRules.js';
 import type { CutSpec } from '../table/bins.js';
@@ -363,5 +364,11 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
   if (summary.records === 0) throw dataError(`${source.label}: the header has no data rows under it`);
   const kind: Weighting['kind'] = request.summedWeights ? 'weight' : request.weight ? request.weight.kind : 'none';
   const { counted, unknownRowLevels, unknownColLevels } = finishTables(request, counter, label, slots, gate.filtered, kind, (slot, levels) => levelOrder(labels[slot].rules, levels));
-  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, excludedBy: counter.excludedBy() };
+  // Values that commonly mean missing but are counted as levels: one note per column (io/missingTokens.ts).
+  const declared = new Set([...reader.missing.map((m) => m.trim()), ...[slots.row, slots.col].flatMap((slot) => labels[slot].rules.codebook?.missing.map((m) => m.code) ?? [])]);
+  const findings = detectMissingTokens(
+    [slots.row, slots.col, ...(slots.by >= 0 ? [slots.by] : [])].map((slot) => ({ name: slots.names[slot], labels: labelsOf[slot] ?? [] })),
+    declared,
+  );
+  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, excludedBy: counter.excludedBy(), missingTokenNotes: missingTokenNotes(findings) };
 }

@@ -35,6 +35,8 @@ export interface CountedInput extends CountedTable {
   unknownColLevels: string[];
   /** Rows left out for a missing value, by column and reason (`excluded` counts each row once). */
   excludedBy: ExcludedBy[];
+  /** One line per column of the table holding a value that commonly means missing, counted as a level. */
+  missingTokenNotes: string[];
 }
 
 /** The columns of a scan, read once, and the way to count their pairs. */

@@ -147,3 +147,19 @@ describe('tabsight profile on the command line', () => {
     expect(json.columns).toHaveLength(10);
   });
 });
+
+describe('the missing-token note (list and sources in src/io/missingTokens.ts)', () => {
+  const data = tempFile('na.csv', 'age,g\n34,x\nNA,y\n51,x\n.,y\n40,x\n61,y\n');
+  it('pair names the column, the tokens and the option, once, on standard error; the tokens stay levels', async () => {
+    const out = await run(['pair', data, '--rows', 'age', '--cols', 'g', '--format', 'json']);
+    expect(out.status).toBe(0);
+    expect(out.stderr).toBe(`tabsight: note: column "age" holds "NA", ".", values that commonly mean missing; counted as levels unless you pass --missing 'NA,.'\n`);
+    expect(JSON.parse(out.stdout).rows.levels).toContain('NA');
+  });
+  it('no note once the option is given, and scan notes the same column', async () => {
+    const quiet = await run(['pair', data, '--rows', 'age', '--cols', 'g', '--missing', 'NA,.', '--format', 'json']);
+    expect(quiet.stderr).toBe('');
+    const scan = await run(['scan', data, '--format', 'json']);
+    expect(scan.stderr).toContain('column "age" holds "NA", "."');
+  });
+});
