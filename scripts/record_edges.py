@@ -437,8 +437,28 @@ def generalized_cmh_exact(strata):
     if r == 2 and c == 2:
         num_or = sum(Fraction(t[0][0] * t[1][1], sum(map(sum, t))) for t in strata)
         den_or = sum(Fraction(t[0][1] * t[1][0], sum(map(sum, t))) for t in strata)
-        out["commonOddsRatio"] = num(mpf(num_or / den_or))
+        theta = num_or / den_or
+        out["commonOddsRatio"] = num(mpf(theta))
+        out["breslowDay"] = breslow_day_mp(strata, mpf(theta))
     return out
+
+
+def breslow_day_mp(strata, theta):
+    """Breslow & Day (1980) §4.4 without Tarone's adjustment: A_k the root of
+    A(n - r1 - c1 + A) = theta (r1 - A)(c1 - A) within the margins, at 80 digits."""
+    statistic, informative = mpmath.mpf(0), 0
+    for (a, b), (c, d) in strata:
+        n, r1, c1 = a + b + c + d, a + b, a + c
+        if r1 in (0, n) or c1 in (0, n):
+            continue
+        qa, qb, qc = 1 - theta, n - r1 - c1 + theta * (r1 + c1), -theta * r1 * c1
+        disc = mpmath.sqrt(qb * qb - 4 * qa * qc)
+        roots = [(-qb + disc) / (2 * qa), (-qb - disc) / (2 * qa)] if qa != 0 else [-qc / qb]
+        A = [x for x in roots if max(0, r1 + c1 - n) <= x <= min(r1, c1)][0]
+        B, C, D = r1 - A, c1 - A, n - r1 - c1 + A
+        statistic += (a - A) ** 2 * (1 / A + 1 / B + 1 / C + 1 / D)
+        informative += 1
+    return {"statistic": num(statistic), "df": informative - 1, "pValue": num(chi2_sf(statistic, informative - 1))}
 
 
 layered = []

@@ -63,7 +63,7 @@ export interface Edges {
   noncentralLarge: { x: number; df: number; lambda: number; upper: number; lower: number }[];
   noncentralityIntervals: { x: number; df: number; confidence: number; lower: number; upper: number }[];
   chi2Df1: { x: number; p: number }[];
-  layered: { name: string; strata: number[][][]; statistic: number; df: number; pValue: number; commonOddsRatio?: number }[];
+  layered: { name: string; strata: number[][][]; statistic: number; df: number; pValue: number; commonOddsRatio?: number; breslowDay?: { statistic: number; df: number; pValue: number } }[];
 }
 
 /** Values at the numerical edges, recorded by scripts/record_edges.py (exact fractions, mpmath, enumeration). */

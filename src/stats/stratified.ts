@@ -7,7 +7,7 @@ import { upperTailChiSquare } from './chiSquareDistribution.js';
 import { TestResult } from './chiSquareTests.js';
 import { CountMatrix, margins } from './contingency.js';
 import { compensatedSum } from '../numerics/compensatedSum.js';
-import { complementsInSum, ddAdd, ddDivide, ddProduct, ddSubtract, ddValue, ddZero, DoubleDouble } from '../numerics/doubleDouble.js';
+import { complementsInSum, ddAdd, ddDivide, ddFromNumber, ddMultiply, ddProduct, ddScale, ddSubtract, ddValue, ddZero, DoubleDouble } from '../numerics/doubleDouble.js';
 import { normalQuantile } from './normalDistribution.js';
 
 /**
@@ -153,6 +153,70 @@ export interface StratumUnderCommonOdds {
   expected: number;
   /** Var_k = (1/A + 1/B + 1/C + 1/D)⁻¹, the approximate variance of a_k. */
   variance: number;
+  /** a_k − A_k, formed in double-double (A_k refined by one Newton step), so it keeps its digits when A_k is near 10¹². */
+  departure: number;
+}
+
+/**
+ * The Mantel–Haenszel common odds ratio Σ a_k d_k / n_k ÷ Σ b_k c_k / n_k in
+ * double-double (each product exact, each quotient and sum to about 2^-104):
+ * near homogeneity at large n the Breslow–Day departures a_k − A_k move by
+ * Var_k times the relative error of the ratio, which a double would make 1e-4
+ * of a unit at n = 10¹².
+ */
+function mantelHaenszelRatioExact(strata: readonly CountMatrix[]): DoubleDouble | null {
+  let R = ddZero;
+  let S = ddZero;
+  for (const t of strata) {
+    const [[a, b], [c, d]] = t;
+    const n = a + b + c + d;
+    if (n < 2) continue;
+    R = ddAdd(R, ddDivide(ddProduct(a, d), n));
+    S = ddAdd(S, ddDivide(ddProduct(b, c), n));
+  }
+  if (!(R.hi > 0 && S.hi > 0)) return null;
+  const q1 = R.hi / S.hi;
+  const remainder = ddSubtract(R, ddScale(S, q1));
+  return ddAdd(ddFromNumber(q1), ddFromNumber(ddValue(remainder) / S.hi));
+}
+
+/**
+ * The shift δ that gives the 2×2 table [[a, b], [c, d]] the odds ratio θ
+ * with its margins kept: (a + δ)(d + δ) = θ (b − δ)(c − δ), i.e.
+ *   (1 − θ) δ² + (a + d + θ(b + c)) δ + (ad − θ bc) = 0,
+ * the root with every cell non-negative (the left side minus the right rises
+ * across that range, so there is exactly one). Solving for δ rather than for
+ * A = a + δ keeps each cell a ± δ to its own precision (a cell of 10⁹ beside
+ * single digits), and ad − θbc is formed in double-double, so δ keeps its
+ * digits near homogeneity at large n. Stable root pair as in Press et al.,
+ * Numerical Recipes, 3rd ed., §5.6; bisection if rounding leaves both outside.
+ */
+function shiftToOddsRatio(a: number, b: number, c: number, d: number, theta: DoubleDouble): number {
+  const t = ddValue(theta);
+  const low = -Math.min(a, d);
+  const high = Math.min(b, c);
+  const constant = ddValue(ddSubtract(ddProduct(a, d), ddMultiply(theta, ddProduct(b, c))));
+  const linear = a + d + t * (b + c);
+  const quadratic = 1 - t;
+  const inRange = (x: number) => x >= low && x <= high;
+  let candidates: number[];
+  if (quadratic === 0) candidates = [-constant / linear];
+  else {
+    const q = -0.5 * (linear + Math.sqrt(Math.max(0, linear * linear - 4 * quadratic * constant)));
+    candidates = [constant / q, q / quadratic];
+  }
+  const root = candidates.find(inRange);
+  if (root !== undefined) return root;
+  // g(δ) = (a + δ)(d + δ) − θ(b − δ)(c − δ) rises from ≤ 0 at low to ≥ 0 at high
+  let lo = low;
+  let hi = high;
+  for (let i = 0; i < 200 && hi - lo > 0; i++) {
+    const mid = lo + (hi - lo) / 2;
+    if (mid === lo || mid === hi) break;
+    if ((a + mid) * (d + mid) - t * (b - mid) * (c - mid) < 0) lo = mid;
+    else hi = mid;
+  }
+  return lo + (hi - lo) / 2;
 }
 
 /**
@@ -164,16 +228,20 @@ export interface StratumUnderCommonOdds {
  * column (it says nothing about the odds ratio).
  */
 export function breslowDayComponents(strata: readonly CountMatrix[], commonOddsRatio: number): (StratumUnderCommonOdds | null)[] {
+  // The ratio as passed is a double; when it is the Mantel–Haenszel estimate
+  // of these strata, its double-double value stands in for it.
+  const exact = mantelHaenszelRatioExact(strata);
+  const theta = exact !== null && ddValue(exact) === commonOddsRatio ? exact : ddFromNumber(commonOddsRatio);
   return strata.map((t) => {
     const [[a, b], [c, d]] = t;
     const n = a + b + c + d;
     const r1 = a + b;
     const c1 = a + c;
     if (r1 === 0 || c1 === 0 || r1 === n || c1 === n) return null;
-    const expected = expectedCellUnderOddsRatio(r1, c1, n, commonOddsRatio);
-    const variance = 1 / (1 / expected + 1 / (r1 - expected) + 1 / (c1 - expected) + 1 / (n - r1 - c1 + expected));
+    const shift = shiftToOddsRatio(a, b, c, d, theta);
+    const variance = 1 / (1 / (a + shift) + 1 / (b - shift) + 1 / (c - shift) + 1 / (d + shift));
     if (!(variance > 0)) return null;
-    return { observed: a, expected, variance };
+    return { observed: a, expected: a + shift, variance, departure: -shift };
   });
 }
 
@@ -191,7 +259,7 @@ export function breslowDayComponents(strata: readonly CountMatrix[], commonOddsR
 export function breslowDay(strata: readonly CountMatrix[], commonOddsRatio: number): TestResult | null {
   const used = breslowDayComponents(strata, commonOddsRatio).filter((x): x is StratumUnderCommonOdds => x !== null);
   if (used.length < 2) return null;
-  const statistic = compensatedSum(used.map((x) => (x.observed - x.expected) ** 2 / x.variance));
+  const statistic = compensatedSum(used.map((x) => x.departure ** 2 / x.variance));
   return { statistic, df: used.length - 1, pValue: upperTailChiSquare(statistic, used.length - 1) };
 }
 
@@ -208,8 +276,8 @@ export function breslowDay(strata: readonly CountMatrix[], commonOddsRatio: numb
 export function breslowDayTarone(strata: readonly CountMatrix[], commonOddsRatio: number): (TestResult & { uncorrected: number }) | null {
   const used = breslowDayComponents(strata, commonOddsRatio).filter((x): x is StratumUnderCommonOdds => x !== null);
   if (used.length < 2) return null;
-  const uncorrected = compensatedSum(used.map((x) => (x.observed - x.expected) ** 2 / x.variance));
-  const totalDeparture = compensatedSum(used.map((x) => x.observed - x.expected));
+  const uncorrected = compensatedSum(used.map((x) => x.departure ** 2 / x.variance));
+  const totalDeparture = compensatedSum(used.map((x) => x.departure));
   const totalVariance = compensatedSum(used.map((x) => x.variance));
   const statistic = Math.max(0, uncorrected - (totalDeparture * totalDeparture) / totalVariance);
   const df = used.length - 1;
@@ -225,7 +293,7 @@ export function breslowDayTarone(strata: readonly CountMatrix[], commonOddsRatio
  * for a stratum with an empty margin.
  */
 export function breslowDayResiduals(strata: readonly CountMatrix[], commonOddsRatio: number): (number | null)[] {
-  return breslowDayComponents(strata, commonOddsRatio).map((x) => (x === null ? null : (x.observed - x.expected) / Math.sqrt(x.variance)));
+  return breslowDayComponents(strata, commonOddsRatio).map((x) => (x === null ? null : x.departure / Math.sqrt(x.variance)));
 }
 
 /**
@@ -251,7 +319,7 @@ export function breslowDayTrend(strata: readonly CountMatrix[], scores: readonly
   if (used.length < 2) return null;
   const totalVariance = compensatedSum(used.map(({ s }) => s.variance));
   const centre = compensatedSum(used.map(({ x, s }) => x * s.variance)) / totalVariance;
-  const score = compensatedSum(used.map(({ x, s }) => (x - centre) * (s.observed - s.expected)));
+  const score = compensatedSum(used.map(({ x, s }) => (x - centre) * s.departure));
   const denominator = compensatedSum(used.map(({ x, s }) => (x - centre) * (x - centre) * s.variance));
   if (!(denominator > 0)) return null;
   const statistic = (score * score) / denominator;
@@ -266,15 +334,7 @@ export function breslowDayTrend(strata: readonly CountMatrix[], scores: readonly
  * expectedCellUnderOddsRatio(825, 601, 933, 0.9047) // 529.26 men admitted (512 observed)
  */
 export function expectedCellUnderOddsRatio(r1: number, c1: number, n: number, theta: number): number {
-  const low = Math.max(0, r1 + c1 - n);
-  const high = Math.min(r1, c1);
-  const qa = 1 - theta;
-  const qb = n - r1 - c1 + theta * (r1 + c1);
-  const qc = -theta * r1 * c1;
-  if (Math.abs(qa) < 1e-14) return -qc / qb;
-  const disc = Math.sqrt(qb * qb - 4 * qa * qc);
-  // Numerically stable pair of roots (Press et al., Numerical Recipes §5.6).
-  const q = -0.5 * (qb + Math.sign(qb || 1) * disc);
-  const roots = [q / qa, qc / q];
-  return roots.find((x) => x >= low - 1e-9 && x <= high + 1e-9) ?? roots[0];
+  // start from a table with these margins (the one nearest independence) and shift it
+  const a = Math.min(Math.min(r1, c1), Math.max(Math.max(0, r1 + c1 - n), Math.round((r1 * c1) / n)));
+  return a + shiftToOddsRatio(a, r1 - a, c1 - a, n - r1 - c1 + a, ddFromNumber(theta));
 }

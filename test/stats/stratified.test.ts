@@ -117,12 +117,19 @@ describe('trend in the odds ratio over ordered strata (Breslow & Day 1980, §4.4
 
 describe('layered tests at the numerical edges, against exact rational arithmetic (scripts/record_edges.py)', () => {
   for (const item of edges.layered) {
-    it(`${item.name}: the generalized CMH statistic and p-value to 1e-10${item.commonOddsRatio === undefined ? '' : ', the common odds ratio to 1e-12'}`, () => {
+    it(`${item.name}: the generalized CMH statistic and p-value to 1e-10${item.commonOddsRatio === undefined ? '' : ', the common odds ratio to 1e-12 and Breslow–Day to 1e-10'}`, () => {
       const q = cochranMantelHaenszel(item.strata);
       expect(q?.df).toBe(item.df);
       expectClose(q?.statistic, item.statistic, 1e-10);
       expectClose(q?.pValue, item.pValue, 1e-10);
       if (item.commonOddsRatio !== undefined) expectClose(mantelHaenszelOddsRatio(item.strata)?.estimate, item.commonOddsRatio, 1e-12);
+      if (item.breslowDay !== undefined) {
+        // Breslow–Day at 80 digits with the exact common odds ratio
+        const bd = breslowDay(item.strata, mantelHaenszelOddsRatio(item.strata)!.estimate);
+        expect(bd?.df).toBe(item.breslowDay.df);
+        expectClose(bd?.statistic, item.breslowDay.statistic, 1e-10);
+        expectClose(bd?.pValue, item.breslowDay.pValue, 1e-10);
+      }
     });
   }
 });
