@@ -28,6 +28,7 @@ import { detectMissingTokens, missingTokenNotes } from './missingTokens.js';
 import { Codebook, codebookColumn } from '../table/codebook.js';
 import { levelOrder, LevelRules } from '../table/levelRules.js';
 import type { CutSpec } from '../table/bins.js';
+import { IdTally } from './idTally.js';
 import { InputSource } from './source.js';
 
 /** The table to count from a source: its columns and the rules that shape rows and levels. */
@@ -201,10 +202,31 @@ class LayeredCounter {
   }
 }
 
+/** Distinct combinations tallied before they are handed to the counter. */
+const TALLY_FLUSH = 1 << 18;
+
+/** Counts `rows` unweighted rows of one combination of ids: through the filters, then into the counter. */
+function countGroup(ids: Int32Array, rows: number, gate: RowGate, counter: LayeredCounter): void {
+  if (!gate.passesFilters(ids)) {
+    gate.filtered += rows;
+    return;
+  }
+  counter.add(ids, rows, rows, 0, rows, 0);
+}
+
 /** Reads the built-in reader's rows into the counter; returns what was read. */
 async function countRows(source: InputSource, reader: ReaderOptions, request: TableRequest, slots: Slots, gate: RowGate, counter: LayeredCounter, onLabels: (labels: (readonly string[])[]) => void): Promise<ReadSummary> {
   const recodes = recodesByColumn(request.recodes);
   let labelsKnown = false;
+  // Unweighted rows are tallied by their combination of ids, and each
+  // combination goes through the filters and the counter once, as the
+  // engine's groups do; the tally is emptied into the counter whenever it
+  // grows large, so that its memory stays bounded.
+  const tally = slots.weight < 0 && slots.sum < 0 ? new IdTally(slots.names.length) : null;
+  const flush = () => {
+    tally?.forEach((ids, rows) => countGroup(ids, rows, gate, counter));
+    tally?.clear();
+  };
   const read = await readRecords(
     source,
     reader,
@@ -213,6 +235,11 @@ async function countRows(source: InputSource, reader: ReaderOptions, request: Ta
       if (!labelsKnown) {
         onLabels(interners.map((i) => i.labels));
         labelsKnown = true;
+      }
+      if (tally !== null) {
+        tally.add(ids);
+        if (tally.size >= TALLY_FLUSH) flush();
+        return;
       }
       const w = gate.admit(ids, texts, line);
       if (w < 0) return;
@@ -231,6 +258,7 @@ async function countRows(source: InputSource, reader: ReaderOptions, request: Ta
     undefined,
     new Set([slots.weight, slots.sum, slots.squares].filter((slot) => slot >= 0)),
   );
+  flush();
   if (!labelsKnown) onLabels(read.interners.map((i) => i.labels));
   const { interners: _interners, ...summary } = read;
   return summary;

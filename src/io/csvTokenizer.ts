@@ -42,6 +42,9 @@ export class CsvTokenizer {
   private slots: Int32Array | null = null;
   /** The last field index anyone asked for; past it only the fields are counted. */
   private lastWanted = -1;
+  private columnOfSlot = new Int32Array(0);
+  private fieldStarts = new Int32Array(0);
+  private fieldEnds = new Int32Array(0);
   private retryAt = 0;
   /** Blank (empty or whitespace-only) lines skipped. */
   blankLines = 0;
@@ -88,6 +91,114 @@ export class CsvTokenizer {
     this.end += chunk.length;
   }
 
+  /** The slot of each field index (−1: skipped), as the header callback chose them. */
+  private useSlots(slots: Int32Array): void {
+    this.slots = slots;
+    this.lastWanted = -1;
+    let count = 0;
+    slots.forEach((slot, index) => {
+      if (slot >= 0) {
+        this.lastWanted = index;
+        count = Math.max(count, slot + 1);
+      }
+    });
+    this.columnOfSlot = new Int32Array(count).fill(-1);
+    slots.forEach((slot, index) => {
+      if (slot >= 0) this.columnOfSlot[slot] = index;
+    });
+    this.fieldStarts = new Int32Array(count);
+    this.fieldEnds = new Int32Array(count);
+  }
+
+  /**
+   * The fast path of data records: from p, every record without a quote,
+   * ended by LF or CRLF, is read here; the wanted fields' positions are noted
+   * and delivered once the record is known to be plain. Returns where it
+   * stopped: at the end of the window, or at a record for the general path
+   * (a quote, a lone CR, a record cut by the end of the window).
+   */
+  private parsePlain(p: number, end: number): number {
+    const buf = this.window;
+    const view = this.view;
+    const special = this.special;
+    const delimiter = this.delimiter;
+    const slots = this.slots as Int32Array;
+    const width = slots.length;
+    const lastWanted = this.lastWanted;
+    const starts = this.fieldStarts;
+    const ends = this.fieldEnds;
+    const columnOfSlot = this.columnOfSlot;
+    const wanted = columnOfSlot.length;
+    const handlers = this.handlers;
+    while (p < end) {
+      const recordStart = p;
+      let q = p;
+      let field = 0;
+      let firstEnd = p;
+      let plain = false;
+      for (;;) {
+        const s = q;
+        while (q < end && special[buf[q]] === 0) q++;
+        if (q >= end) break;
+        const b = buf[q];
+        if (b === QUOTE) break;
+        if (field === 0) firstEnd = q;
+        if (field < width) {
+          const slot = slots[field];
+          if (slot >= 0) {
+            starts[slot] = s;
+            ends[slot] = q;
+          }
+        }
+        field++;
+        if (b === delimiter) {
+          q++;
+          if (field <= lastWanted) continue;
+          // Past the last wanted field only the delimiters are counted.
+          let more = 1;
+          for (; q < end; q++) {
+            const c = buf[q];
+            if (special[c] !== 0) {
+              if (c !== delimiter) break;
+              more++;
+            }
+          }
+          if (q < end && buf[q] === LF) {
+            field += more;
+            q++;
+            plain = true;
+          }
+          break;
+        }
+        if (b === LF) {
+          q++;
+          plain = true;
+        } else if (q + 1 < end && buf[q + 1] === LF) {
+          q += 2;
+          plain = true;
+        }
+        break;
+      }
+      if (!plain) return recordStart;
+      const line = this.line;
+      this.line = line + 1;
+      p = q;
+      this.start = p;
+      if (field === 1 && onlyBlanks(buf, recordStart, firstEnd)) {
+        this.blankLines++;
+        continue;
+      }
+      for (let slot = 0; slot < wanted; slot++) {
+        const column = columnOfSlot[slot];
+        if (column >= 0 && column < field) handlers.fieldBytes(slot, buf, view, starts[slot], ends[slot]);
+      }
+      this.retryAt = 0;
+      this.records++;
+      handlers.record(field, line);
+    }
+    return p;
+  }
+
   private fail(message: string, line: number): never {
     throw dataError(`${this.label}, line ${line}: ${message}`);
   }
@@ -105,6 +216,10 @@ export class CsvTokenizer {
     let crAt = -2;
     let p = this.start;
     while (p < end) {
+      if (this.slots !== null) {
+        p = this.parsePlain(p, end);
+        if (p >= end) break;
+      }
       const recordStart = p;
       const recordLine = this.line;
       let line = this.line;
@@ -201,22 +316,25 @@ export class CsvTokenizer {
         if (b === delimiter) {
           p++;
           onlyWhitespace = false;
-          // Fast path: past the last wanted field, with no quote and no carriage
-          // return before the line feed, only the delimiters are left to count.
+          // Fast path: past the last wanted field, the rest of the line is
+          // only counted for its delimiters, up to a line feed; a quote or a
+          // carriage return first sends it back to the general path.
           if (slots !== null && field > this.lastWanted) {
-            const lf = view.indexOf(LF, p);
-            if (lf >= 0 && lf < end) {
-              if (quoteAt !== -1 && quoteAt < p) quoteAt = view.indexOf(QUOTE, p);
-              if (crAt !== -1 && crAt < p) crAt = view.indexOf(CR, p);
-              if ((quoteAt === -1 || quoteAt >= lf) && (crAt === -1 || crAt >= lf)) {
-                let more = 1;
-                for (let k = p; k < lf; k++) if (buf[k] === delimiter) more++;
-                field += more;
-                p = lf + 1;
-                line++;
-                complete = true;
-                break;
+            let k = p;
+            let more = 1;
+            for (; k < end; k++) {
+              const c = buf[k];
+              if (special[c] !== 0) {
+                if (c !== delimiter) break;
+                more++;
               }
+            }
+            if (k < end && buf[k] === LF) {
+              field += more;
+              p = k + 1;
+              line++;
+              complete = true;
+              break;
             }
           }
           continue;
@@ -247,11 +365,7 @@ export class CsvTokenizer {
         continue;
       }
       if (this.slots === null) {
-        this.slots = this.handlers.header(headerFields, recordLine);
-        this.lastWanted = -1;
-        this.slots.forEach((slot, index) => {
-          if (slot >= 0) this.lastWanted = index;
-        });
+        this.useSlots(this.handlers.header(headerFields, recordLine));
       } else {
         this.records++;
         this.handlers.record(field, recordLine);
@@ -262,6 +376,12 @@ export class CsvTokenizer {
       this.fail('the file ends inside a record', this.line);
     }
   }
+}
+
+/** Whether buf[start, end) holds only spaces and tabs. */
+function onlyBlanks(buf: Uint8Array, start: number, end: number): boolean {
+  for (let k = start; k < end; k++) if (buf[k] !== 0x20 && buf[k] !== 0x09) return false;
+  return true;
 }
 
 /** Counts a delimiter candidate's occurrences outside quotes in a line. */

@@ -95,6 +95,7 @@ export async function readRecords(
   const missing = new Set(options.missing.map((m) => m.trim()));
   let interners: FieldInterner[] = [];
   let ids = new Int32Array(0);
+  let textFlags = new Uint8Array(0);
   let texts: (string | undefined)[] = [];
   let header: string[] = [];
   let selected: number[] = [];
@@ -124,6 +125,8 @@ export async function readRecords(
           const slots = new Int32Array(header.length).fill(-1);
           selected.forEach((column, slot) => (slots[column] = slot));
           interners = selected.map((_c, slot) => new FieldInterner(missing, distinctLimit(slot), onOverflow ? (label) => onOverflow(slot, label) : undefined));
+          // Which slots are delivered as text, as the selector left the set.
+          textFlags = Uint8Array.from(selected, (_c, slot) => (isText(slot) ? 1 : 0));
           ids = new Int32Array(selected.length);
           texts = new Array(selected.length).fill(undefined);
           if (!options.header) {
@@ -138,11 +141,11 @@ export async function readRecords(
           return slots;
         },
         fieldBytes: (slot, buf, view, begin, end) => {
-          if (anyText() && isText(slot)) texts[slot] = view.toString('utf8', begin, end);
+          if (textFlags[slot] === 1) texts[slot] = view.toString('utf8', begin, end);
           else ids[slot] = interners[slot].intern(buf, view, begin, end);
         },
         fieldText: (slot, value) => {
-          if (anyText() && isText(slot)) texts[slot] = value;
+          if (textFlags[slot] === 1) texts[slot] = value;
           else ids[slot] = interners[slot].internString(value);
         },
         record: (fieldCount, line) => {
@@ -168,7 +171,8 @@ export async function readRecords(
 
   for await (const chunk of utf8Chunks(source, options.encoding)) {
     if (tokenizer === null) {
-      buffered.push(chunk);
+      // The chunk's buffer is reused for the next read: keep a copy.
+      buffered.push(Uint8Array.prototype.slice.call(chunk));
       bufferedLength += chunk.length;
       const joined = Buffer.concat(buffered);
       if (joined.indexOf(0x0a) < 0 && bufferedLength < SAMPLE_LIMIT) continue;

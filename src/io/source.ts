@@ -79,7 +79,36 @@ interface OpenedSource {
 async function openSource(source: InputSource): Promise<OpenedSource> {
   if (source.path === '-') return { chunks: (source.stdin ?? process.stdin) as AsyncIterable<Buffer>, rereadable: false };
   const stats = await checkFile(source);
-  return { chunks: createReadStream(source.path, { highWaterMark: 1 << 20 }), rereadable: stats.isFile() };
+  if (!stats.isFile()) return { chunks: createReadStream(source.path, { highWaterMark: READ_BLOCK }), rereadable: false };
+  return { chunks: fileBlocks(source.path), rereadable: true };
+}
+
+/** Bytes read from a regular file at a time. */
+export const READ_BLOCK = 1 << 20;
+
+/**
+ * A regular file's bytes, block by block, through two buffers used in turn
+ * (a fresh buffer per block cost a page fault per 4 KiB; see README, Speed):
+ * the next block is read in the thread pool while the caller works on the
+ * current one, so a chunk is valid only until the caller asks for the next,
+ * and a caller that keeps bytes longer copies them.
+ */
+async function* fileBlocks(path: string): AsyncGenerator<Buffer> {
+  const handle = await fs.open(path, 'r');
+  const blocks = [Buffer.allocUnsafe(READ_BLOCK), Buffer.allocUnsafe(READ_BLOCK)];
+  let next = handle.read(blocks[0], 0, READ_BLOCK, null);
+  try {
+    for (let k = 1; ; k ^= 1) {
+      const { bytesRead, buffer } = await next;
+      if (bytesRead === 0) break;
+      next = handle.read(blocks[k], 0, READ_BLOCK, null);
+      yield buffer.subarray(0, bytesRead);
+    }
+  } finally {
+    // A read still in flight finishes before the file is closed.
+    await next.catch(() => undefined);
+    await handle.close();
+  }
 }
 
 /** True when bytes start with the gzip magic bytes 1f 8b (RFC 1952, §2.3.1). */
@@ -101,7 +130,8 @@ async function* gunzipWhenCompressed(chunks: AsyncIterable<Buffer>): AsyncGenera
       ended = true;
       break;
     }
-    head = head.length === 0 ? next.value : Buffer.concat([head, next.value]);
+    // (Copied: a chunk may be valid only until the next one is read.)
+    head = Buffer.concat([head, next.value]);
   }
   async function* all(): AsyncGenerator<Buffer> {
     if (head.length > 0) yield head;
@@ -112,8 +142,12 @@ async function* gunzipWhenCompressed(chunks: AsyncIterable<Buffer>): AsyncGenera
     yield* all();
     return;
   }
-  // pipeline passes a read error of the source on to the stream being read.
-  const inflated = pipeline(Readable.from(all()), createGunzip({ chunkSize: 1 << 20 }), () => undefined);
+  // pipeline passes a read error of the source on to the stream being read;
+  // the stream reads ahead, so it is given copies.
+  async function* copies(): AsyncGenerator<Buffer> {
+    for await (const chunk of all()) yield Buffer.from(chunk);
+  }
+  const inflated = pipeline(Readable.from(copies()), createGunzip({ chunkSize: 1 << 20 }), () => undefined);
   for await (const chunk of inflated) yield chunk as Buffer;
 }
 
@@ -146,6 +180,17 @@ export async function isGzipFile(path: string): Promise<boolean> {
 }
 
 export type Encoding = 'utf-8' | 'utf-16le' | 'utf-16be';
+
+/** The length of bytes without an incomplete UTF-8 sequence at its end (held back for the next block). */
+export function completeUtf8Length(bytes: Uint8Array): number {
+  for (let k = 1; k <= 3 && k <= bytes.length; k++) {
+    const b = bytes[bytes.length - k];
+    if ((b & 0xc0) === 0x80) continue;
+    const needed = b >= 0xf0 ? 4 : b >= 0xe0 ? 3 : b >= 0xc0 ? 2 : 1;
+    return needed > k ? bytes.length - k : bytes.length;
+  }
+  return bytes.length;
+}
 
 /** The byte offset and line of the first invalid UTF-8 sequence in bytes, or −1. */
 export function firstInvalidUtf8(bytes: Uint8Array): number {
@@ -242,14 +287,7 @@ export async function* utf8Chunks(source: InputSource, encoding?: string): Async
     }
     let bytes = carry.length > 0 ? Buffer.concat([carry, chunk]) : chunk;
     // Hold back an incomplete multi-byte sequence at the end for the next chunk.
-    let cut = bytes.length;
-    for (let k = 1; k <= 3 && k <= bytes.length; k++) {
-      const b = bytes[bytes.length - k];
-      if ((b & 0xc0) === 0x80) continue;
-      const needed = b >= 0xf0 ? 4 : b >= 0xe0 ? 3 : b >= 0xc0 ? 2 : 1;
-      if (needed > k) cut = bytes.length - k;
-      break;
-    }
+    const cut = completeUtf8Length(bytes);
     carry = Buffer.from(bytes.subarray(cut));
     bytes = bytes.subarray(0, cut);
     const nul = bytes.indexOf(0);
@@ -282,7 +320,10 @@ export async function* utf8Chunks(source: InputSource, encoding?: string): Async
   for await (const raw of bytesOf(source, opened)) {
     if (head !== null) {
       head = head.length === 0 ? raw : Buffer.concat([head, raw]);
-      if (head.length < 3) continue;
+      if (head.length < 3) {
+        head = Buffer.from(head); // kept past the next read
+        continue;
+      }
       const first = start(head);
       head = null;
       yield* decode(first);
