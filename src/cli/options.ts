@@ -47,7 +47,8 @@ export function addReaderOptions(command: Command): Command {
       new Option('--engine <name>', 'who counts: builtin (this reader), duckdb (embedded engine: Parquet, .gz, patterns of many files), auto (duckdb where only it reads the input, or for files over 256 MB)')
         .choices(['auto', 'builtin', 'duckdb'])
         .default('auto'),
-    );
+    )
+    .option('--threads <n>', 'threads that read a large plain file: auto (every core, for files of 96 MB or more), or a number (1: one thread)', 'auto');
 }
 
 /** The input section of a report, from what the counting step read. */
@@ -108,6 +109,7 @@ export interface RawReaderOptions {
   header: boolean;
   maxLevels: string;
   engine?: 'auto' | 'builtin' | 'duckdb';
+  threads?: string;
 }
 
 /** How to read the input: dialect, missing tokens, who counts, and the level cap. */
@@ -131,6 +133,7 @@ export function readerPlan(raw: RawReaderOptions): ReaderPlan {
     header: raw.header !== false,
     maxLevels: positiveInteger(raw.maxLevels, '--max-levels', 2),
     engine: raw.engine ?? 'builtin',
+    threads: raw.threads === undefined || raw.threads === 'auto' ? 'auto' : positiveInteger(raw.threads, '--threads', 1),
   };
 }
 

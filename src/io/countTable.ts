@@ -29,6 +29,7 @@ import { Codebook, codebookColumn } from '../table/codebook.js';
 import { levelOrder, LevelRules } from '../table/levelRules.js';
 import type { CutSpec } from '../table/bins.js';
 import { IdTally } from './idTally.js';
+import { tallyInParallel, threadsFor } from './parallelCount.js';
 import { InputSource } from './source.js';
 
 /** The table to count from a source: its columns and the rules that shape rows and levels. */
@@ -227,10 +228,20 @@ async function countRows(source: InputSource, reader: ReaderOptions, request: Ta
     tally?.forEach((ids, rows) => countGroup(ids, rows, gate, counter));
     tally?.clear();
   };
+  const select = (header: string[]) => slots.select(header, recodes, source.label, request.codebook);
+  if (tally !== null) {
+    const threads = await threadsFor(source, reader);
+    const counted = threads > 1 ? await tallyInParallel(source, reader, select, threads) : null;
+    if (counted !== null) {
+      onLabels(counted.labels);
+      counted.forEach((ids, rows) => countGroup(ids, rows, gate, counter));
+      return counted.summary;
+    }
+  }
   const read = await readRecords(
     source,
     reader,
-    (header) => slots.select(header, recodes, source.label, request.codebook),
+    select,
     (ids, line, texts, interners) => {
       if (!labelsKnown) {
         onLabels(interners.map((i) => i.labels));

@@ -43,6 +43,15 @@ export class CsvTokenizer {
   /** The last field index anyone asked for; past it only the fields are counted. */
   private lastWanted = -1;
   private columnOfSlot = new Int32Array(0);
+  /** Offset (from the first byte pushed) of window[0]. */
+  private base = 0;
+  /**
+   * With a stop offset: no record starting at or past it is parsed (a worker
+   * reading a range of a file ends at the first record boundary there).
+   */
+  stopAt = Infinity;
+  /** True once a record boundary at or past stopAt was reached. */
+  stopped = false;
   private fieldStarts = new Int32Array(0);
   private fieldEnds = new Int32Array(0);
   private retryAt = 0;
@@ -73,9 +82,23 @@ export class CsvTokenizer {
     this.parse(true);
   }
 
+  /** Bytes pushed and parsed so far: the offset, from the first byte pushed, where the next record starts. */
+  get position(): number {
+    return this.base + this.start;
+  }
+
+  /**
+   * Starts with known columns (the header was read elsewhere): data records
+   * from the first byte, delivered to `slots` as `header` would have chosen.
+   */
+  presetSlots(slots: Int32Array): void {
+    this.useSlots(slots);
+  }
+
   private append(chunk: Uint8Array): void {
     const pending = this.end - this.start;
     if (this.end + chunk.length > this.window.length) {
+      this.base += this.start;
       if (pending + chunk.length <= this.window.length && this.start > 0) {
         this.window.copyWithin(0, this.start, this.end);
       } else {
@@ -130,7 +153,12 @@ export class CsvTokenizer {
     const columnOfSlot = this.columnOfSlot;
     const wanted = columnOfSlot.length;
     const handlers = this.handlers;
+    const stop = this.stopAt - this.base;
     while (p < end) {
+      if (p >= stop) {
+        this.stopped = true;
+        return p;
+      }
       const recordStart = p;
       let q = p;
       let field = 0;
@@ -216,9 +244,13 @@ export class CsvTokenizer {
     let crAt = -2;
     let p = this.start;
     while (p < end) {
+      if (this.base + p >= this.stopAt) {
+        this.stopped = true;
+        break;
+      }
       if (this.slots !== null) {
         p = this.parsePlain(p, end);
-        if (p >= end) break;
+        if (p >= end || this.stopped) break;
       }
       const recordStart = p;
       const recordLine = this.line;
@@ -372,7 +404,7 @@ export class CsvTokenizer {
       }
     }
     this.start = p;
-    if (final && this.start < this.end) {
+    if (final && this.start < this.end && !this.stopped) {
       this.fail('the file ends inside a record', this.line);
     }
   }

@@ -24,6 +24,12 @@ export interface ReaderOptions {
   engine?: EngineName | 'auto';
   /** The engine's module (the optional package by default; a test names a missing one). */
   engineModule?: string;
+  /**
+   * Threads that count a large plain file (io/parallelCount.ts): 'auto' (the
+   * default) uses every core for a file of PARALLEL_MIN_BYTES or more, a
+   * number that many threads for any plain file, 1 the single reader.
+   */
+  threads?: number | 'auto';
   /** Receives a one-line note the user should see (for example, that the engine fell back). */
   onNote?: (note: string) => void;
   /** Sees the files a pattern matched before any is read, so that an output that is one of them is refused (src/output/guard.ts). */
@@ -49,8 +55,14 @@ export interface ReadSummary {
   files: number;
 }
 
+/** Where the header ended: the offset of the first data record in the decoded bytes (a byte-order mark not counted), and the blank lines before it. */
+export interface HeaderEnd {
+  offset: number;
+  blankLines: number;
+}
+
 /** Chooses the columns to deliver, given the header, its line and the delimiter in force. */
-export type ColumnSelector = (header: string[], line: number, delimiter: string) => number[];
+export type ColumnSelector = (header: string[], line: number, delimiter: string, end: HeaderEnd) => number[];
 /**
  * A data row: for each selected column, the id of its value in that column's
  * interner (0 missing, −1 past the interner's limit). The array is reused.
@@ -121,7 +133,8 @@ export async function readRecords(
           } else {
             header = fields.map((_f, i) => String(i + 1));
           }
-          selected = select(header, line, delimiter as string);
+          const reading = tokenizer as unknown as CsvTokenizer;
+          selected = select(header, line, delimiter as string, { offset: reading.position, blankLines: reading.blankLines });
           const slots = new Int32Array(header.length).fill(-1);
           selected.forEach((column, slot) => (slots[column] = slot));
           interners = selected.map((_c, slot) => new FieldInterner(missing, distinctLimit(slot), onOverflow ? (label) => onOverflow(slot, label) : undefined));

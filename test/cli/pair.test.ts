@@ -190,6 +190,27 @@ describe('tabsight pair, errors: one line, a documented exit status, no stack tr
     expect(text.replace(/\s+/g, ' ')).toMatch(/1 malformed row skipped/);
   });
 
+  it('--threads 3 (the file read in byte ranges by worker threads) gives the JSON of --threads 1, with --where, --by, quoted multi-line fields and blank lines; a broken row gives the single reader\'s message', async () => {
+    const rows = ['\ufeffid,region,segment,note'];
+    for (let i = 0; i < 3000; i++) {
+      rows.push(`${i},${['north', 'south', 'east'][i % 3]},${i % 7 < 3 ? 'retail' : 'trade'},${i % 11 === 0 ? '"two\r\nlines, ""quoted"""' : 'plain'}`);
+      if (i % 500 === 0) rows.push('');
+    }
+    const file = tempFile('threads.csv', rows.join('\r\n') + '\r\n');
+    for (const extra of [[], ['--where', 'note!=plain'], ['--by', 'note']]) {
+      const args = ['pair', file, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', 'builtin', ...extra];
+      const one = await runJson([...args, '--threads', '1']);
+      const three = await runJson([...args, '--threads', '3']);
+      expect(three).toEqual(one);
+    }
+    const broken = tempFile('threads-broken.csv', [...rows.slice(0, 2500), '7,north,re"tail,x', ...rows.slice(2500)].join('\n') + '\n');
+    const single = await run(['pair', broken, '--rows', 'region', '--cols', 'segment', '--threads', '1']);
+    const threaded = await run(['pair', broken, '--rows', 'region', '--cols', 'segment', '--threads', '3']);
+    expect(single.status).toBe(1);
+    expect(threaded.stderr).toBe(single.stderr);
+    expect(threaded.stderr).toMatch(/line \d+: a quote inside the unquoted field 3/);
+  });
+
   it('duplicate or empty header names: exit 1 saying which', async () => {
     expect((await run(['pair', tempFile('dup.csv', 'a,b,a\n1,2,3\n'), '--rows', 'a', '--cols', 'b'])).stderr).toMatch(/names "a" twice \(columns 1 and 3\)/);
     expect((await run(['pair', tempFile('empty-name.csv', 'a,,c\n1,2,3\n'), '--rows', 'a', '--cols', 'c'])).stderr).toMatch(/column 2 has an empty name/);

@@ -1,0 +1,193 @@
+/**
+ * Counting a large plain CSV file on several cores: the header is read as
+ * the single reader reads it, the rest of the file is cut into byte ranges,
+ * and each range is tallied by its own thread (io/rangeCount.ts: this
+ * thread takes the first, worker threads the others).
+ *
+ * The quote state at a cut is not known without reading what comes before
+ * it, so each range guesses it from the quotes after the cut (a quote
+ * followed by an ordinary character opens a field, one preceded by an
+ * ordinary character closes one), starts at the first line end outside
+ * quotes, and the guess is checked: every range must end exactly where the
+ * next one starts (a range ends at the first record boundary at or past
+ * its cut, so the two agree only when the guess was right); a range whose
+ * guess was wrong is counted again from where the one before it ended. When
+ * a range meets anything but plain valid records (an error of the file,
+ * bytes that are not UTF-8, too many distinct values), the result is
+ * dropped and the single reader reads the whole file: its counts and its
+ * messages are the ones the user gets, so the two routes cannot differ.
+ */
+import { promises as fs } from 'node:fs';
+import { availableParallelism } from 'node:os';
+import { Worker } from 'node:worker_threads';
+import { DEFAULT_DISTINCT_LIMIT, HeaderEnd, ReaderOptions, ReadSummary, readRecords, ColumnSelector } from './readRecords.js';
+import { FieldInterner } from './fieldInterner.js';
+import type { RangeJob, RangeTally } from './rangeCount.js';
+import { InputSource, isGzipFile } from './source.js';
+
+/** Under --threads auto, plain files from this size on are counted on every core (see README, Speed). */
+export const PARALLEL_MIN_BYTES = 96 * 1024 * 1024;
+/** Threads used at most under --threads auto. */
+const AUTO_THREADS_MAX = 8;
+
+/** A file counted in ranges: what was read, the labels of each slot, and the tally in those labels' ids. */
+export interface ParallelTally {
+  summary: ReadSummary & { delimiter: string };
+  labels: (readonly string[])[];
+  /** Each distinct combination of ids (a reused array) and its rows. */
+  forEach(visit: (ids: Int32Array, rows: number) => void): void;
+}
+
+/** How the ranges are counted: in worker threads, or (tests) by a function given. */
+export type RangeRunner = (job: RangeJob) => Promise<RangeTally>;
+
+/** How many threads count this source, or 1 when it is for the single reader. */
+export async function threadsFor(source: InputSource, reader: ReaderOptions): Promise<number> {
+  const asked = reader.threads ?? 'auto';
+  if (asked !== 'auto' && asked < 2) return 1;
+  if (source.path === '-' || !reader.header) return 1;
+  if (reader.encoding !== undefined && !/^utf-?8$/i.test(reader.encoding)) return 1;
+  try {
+    const stat = await fs.stat(source.path);
+    if (!stat.isFile()) return 1;
+    if (asked === 'auto' && stat.size < PARALLEL_MIN_BYTES) return 1;
+    const handle = await fs.open(source.path, 'r');
+    try {
+      const head = Buffer.alloc(2);
+      await handle.read(head, 0, 2, 0);
+      // UTF-16 is transcoded by the single reader.
+      if ((head[0] === 0xff && head[1] === 0xfe) || (head[0] === 0xfe && head[1] === 0xff)) return 1;
+    } finally {
+      await handle.close();
+    }
+    if (await isGzipFile(source.path)) return 1;
+  } catch {
+    return 1; // the single reader names the problem
+  }
+  return asked === 'auto' ? Math.min(availableParallelism(), AUTO_THREADS_MAX) : asked;
+}
+
+/** Raised by the header selector to stop the reader once the header is read. */
+class HeaderRead extends Error {}
+
+/**
+ * Counts the records of a plain file in `threads` ranges; null when the
+ * ranges do not settle (the caller reads the file with the single reader).
+ * `cuts` (tests) gives the offsets where ranges are cut, `run` how a range
+ * is counted (worker threads by default).
+ */
+export async function tallyInParallel(
+  source: InputSource,
+  reader: ReaderOptions,
+  select: ColumnSelector,
+  threads: number,
+  options: { cuts?: number[]; run?: RangeRunner } = {},
+): Promise<ParallelTally | null> {
+  let found: { header: string[]; line: number; delimiter: string; selected: number[]; end: HeaderEnd } | null = null;
+  try {
+    await readRecords(source, reader, (header, line, delimiter, end) => {
+      found = { header, line, delimiter, selected: select(header, line, delimiter, end), end };
+      throw new HeaderRead();
+    }, () => undefined);
+  } catch (error) {
+    if (!(error instanceof HeaderRead)) throw error;
+  }
+  if (found === null) return null; // an empty file or only blank lines: the single reader says so
+  const { header, delimiter, selected, end } = found as { header: string[]; line: number; delimiter: string; selected: number[]; end: HeaderEnd };
+  const size = (await fs.stat(source.path)).size;
+  const bom = await startsWithUtf8Mark(source.path);
+  const dataStart = end.offset + (bom ? 3 : 0);
+  const slots = new Array<number>(header.length).fill(-1);
+  selected.forEach((column, slot) => (slots[column] = slot));
+  const cuts = (options.cuts ?? Array.from({ length: threads - 1 }, (_v, k) => dataStart + Math.floor(((k + 1) * (size - dataStart)) / threads)))
+    .filter((cut) => cut > dataStart && cut < size)
+    .sort((a, b) => a - b);
+  const bounds = [dataStart, ...new Set(cuts), size];
+  const jobs: RangeJob[] = bounds.slice(0, -1).map((start, k) => ({
+    path: source.path,
+    start,
+    end: bounds[k + 1],
+    exact: k === 0,
+    delimiter: delimiter.charCodeAt(0),
+    slots,
+    wanted: selected.length,
+    missing: [...reader.missing],
+    skipBadRows: reader.skipBadRows,
+  }));
+  const run = options.run ?? inWorker;
+  // The workers start first; this thread counts the first range meanwhile.
+  const others = jobs.slice(1).map((job) => run(job));
+  const { countRange } = await import('./rangeCount.js');
+  const tallies = [options.run ? await options.run(jobs[0]) : countRange(jobs[0]), ...(await Promise.all(others))];
+
+  // Each range must begin where the one before it ended: a range whose
+  // quote-state guess was wrong is counted again from there (exactly, in
+  // this thread). Any range that did not settle sends the file to the
+  // single reader.
+  for (let k = 0; k < tallies.length; k++) {
+    const start = k === 0 ? dataStart : tallies[k - 1].stop;
+    // (A wrong guess may also have made the range fail: its start is compared first.)
+    if (tallies[k].first !== start) tallies[k] = countRange({ ...jobs[k], start, exact: true });
+    if (!tallies[k].settled) return null;
+  }
+  if (tallies[tallies.length - 1].stop !== size) return null;
+
+  // The ranges' ids in one numbering, labels in order of first appearance in the file.
+  const missing = new Set(reader.missing.map((m) => m.trim()));
+  const interners = selected.map(() => new FieldInterner(missing, DEFAULT_DISTINCT_LIMIT));
+  const idMaps = tallies.map((t) => t.labels.map((labels, slot) => Int32Array.from([0, ...labels.map((label) => interners[slot].internString(label))])));
+  const summary = {
+    header,
+    delimiter,
+    records: tallies.reduce((sum, t) => sum + t.records, 0),
+    blankLines: end.blankLines + tallies.reduce((sum, t) => sum + t.blankLines, 0),
+    badRows: tallies.reduce((sum, t) => sum + t.badRows, 0),
+    engine: 'builtin' as const,
+    format: 'csv' as const,
+    files: 1,
+  };
+  const width = selected.length;
+  return {
+    summary,
+    labels: interners.map((i) => i.labels),
+    forEach(visit) {
+      const ids = new Int32Array(width);
+      tallies.forEach((t, k) => {
+        const maps = idMaps[k];
+        for (let e = 0; e < t.counts.length; e++) {
+          for (let slot = 0; slot < width; slot++) ids[slot] = maps[slot][t.keys[e * width + slot]];
+          visit(ids, t.counts[e]);
+        }
+      });
+    },
+  };
+}
+
+async function startsWithUtf8Mark(path: string): Promise<boolean> {
+  const handle = await fs.open(path, 'r');
+  try {
+    const head = Buffer.alloc(3);
+    const { bytesRead } = await handle.read(head, 0, 3, 0);
+    return bytesRead === 3 && head[0] === 0xef && head[1] === 0xbb && head[2] === 0xbf;
+  } finally {
+    await handle.close();
+  }
+}
+
+/** The worker script beside this module (from the sources under test, the built one). */
+function workerUrl(): URL {
+  const here = import.meta.url;
+  return here.endsWith('.ts') ? new URL('../../dist/io/rangeWorker.js', here) : new URL('./rangeWorker.js', here);
+}
+
+/** Counts a range in a worker thread. */
+function inWorker(job: RangeJob): Promise<RangeTally> {
+  return new Promise((resolve, reject) => {
+    const worker = new Worker(workerUrl(), { workerData: job });
+    worker.once('message', (tally: RangeTally) => resolve(tally));
+    worker.once('error', reject);
+    worker.once('exit', (code) => {
+      if (code !== 0) reject(new Error(`a counting thread stopped with status ${code}`));
+    });
+  });
+}

@@ -1,0 +1,204 @@
+/**
+ * One byte range of a plain CSV file, read on its own (by a worker thread,
+ * io/parallelCount.ts): where its first record starts, and the tally of
+ * its records by their combination of value ids, with its labels.
+ *
+ * Anything unusual ends the range with `settled: false` and no detail (an
+ * error of the file, a value that is not UTF-8, a NUL byte, too many
+ * distinct values): the caller then reads the whole file with the single
+ * reader, whose message is the one the user sees.
+ */
+import { isUtf8 } from 'node:buffer';
+import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
+import { TabsightError } from '../errors.js';
+import { CsvTokenizer } from './csvTokenizer.js';
+import { FieldInterner } from './fieldInterner.js';
+import { IdTally } from './idTally.js';
+import { completeUtf8Length } from './source.js';
+
+/** What a range is asked to count. */
+export interface RangeJob {
+  path: string;
+  /** Offset where the range starts: a record start when `exact`, else any byte (the first record after it is found). */
+  start: number;
+  /** The range takes the records that start before this offset. */
+  end: number;
+  exact: boolean;
+  /** The field separator's byte. */
+  delimiter: number;
+  /** For each field index of the header, its slot (−1: not read). */
+  slots: number[];
+  /** Number of slots. */
+  wanted: number;
+  missing: string[];
+  skipBadRows: boolean;
+}
+
+/** What a range counted. */
+export interface RangeTally {
+  /** False when the range met anything but plain, valid records (the file is then read by the single reader). */
+  settled: boolean;
+  /** Offset of its first record, and where its last record ended. */
+  first: number;
+  stop: number;
+  /** Per slot, the labels of its ids 1, 2, … in order of first appearance in the range. */
+  labels: string[][];
+  /** The tally: `wanted` ids per entry, laid end to end, and each entry's rows. */
+  keys: Int32Array;
+  counts: Float64Array;
+  records: number;
+  blankLines: number;
+  badRows: number;
+}
+
+/** Distinct values per column that a range keeps; past it the single reader takes over. */
+export const RANGE_DISTINCT_LIMIT = 1 << 16;
+/** Distinct combinations a range keeps. */
+export const RANGE_TALLY_LIMIT = 1 << 20;
+
+const BLOCK = 1 << 20;
+const QUOTE = 0x22;
+const LF = 0x0a;
+const CR = 0x0d;
+
+class Unsettled extends Error {}
+
+function unsettled(job: RangeJob, first: number): RangeTally {
+  return { settled: false, first, stop: first, labels: [], keys: new Int32Array(0), counts: new Float64Array(0), records: 0, blankLines: 0, badRows: 0 };
+}
+
+/**
+ * Whether the byte at `at` lies inside a quoted field, judged from the
+ * quotes that follow it: in valid CSV a quote followed by anything but a
+ * delimiter, a line end or another quote opens a field, and a quote
+ * preceded by anything but a delimiter, a line end or another quote closes
+ * one; the parity of the quotes before the first such quote gives the state
+ * at `at`. With no such quote in view, outside. This is a guess that the
+ * caller verifies: the range before must end exactly where this one starts.
+ */
+export function insideQuotesAt(bytes: Uint8Array, from: number, before: number, delimiter: number): boolean {
+  const plain = (b: number) => b !== delimiter && b !== LF && b !== CR && b !== QUOTE;
+  let quotes = 0;
+  for (let q = from; q < bytes.length; q++) {
+    if (bytes[q] !== QUOTE) continue;
+    const previous = q > from ? bytes[q - 1] : before;
+    const next = q + 1 < bytes.length ? bytes[q + 1] : -1;
+    if (next !== -1 && plain(next)) return quotes % 2 === 1; // opens: outside just before it
+    if (previous !== -1 && plain(previous)) return quotes % 2 === 0; // closes: inside just before it
+    quotes++;
+  }
+  return false;
+}
+
+/**
+ * The first record boundary at or after `at` (at > 0): the offset just past
+ * the first line end outside quotes that ends at `at` or later (so `at`
+ * itself when the byte before it ends a line), with the quote state judged
+ * by insideQuotesAt.
+ */
+export function firstRecordAfter(fd: number, at: number, size: number, delimiter: number): number {
+  // The view starts at the byte before `at`; `before` is the byte before that.
+  const from = at - 1;
+  const probe = Buffer.allocUnsafe(Math.min(BLOCK, size - from + 1));
+  const readFrom = Math.max(0, from - 1);
+  const bytesRead = readSync(fd, probe, 0, probe.length, readFrom);
+  const window = probe.subarray(from - readFrom, bytesRead);
+  let inside = insideQuotesAt(window, 0, from > 0 ? probe[0] : -1, delimiter);
+  let offset = from;
+  let view = window;
+  for (;;) {
+    for (let i = 0; i < view.length; i++) {
+      const b = view[i];
+      if (b === QUOTE) inside = !inside;
+      else if (!inside && b === LF) return offset + i + 1;
+      else if (!inside && b === CR) {
+        if (i + 1 < view.length) return offset + i + (view[i + 1] === LF ? 2 : 1);
+        // The CR is the last byte in view: look at the next one.
+        const next = Buffer.alloc(1);
+        const n = readSync(fd, next, 0, 1, offset + i + 1);
+        return offset + i + (n === 1 && next[0] === LF ? 2 : 1);
+      }
+    }
+    offset += view.length;
+    if (offset >= size) return size;
+    const more = Buffer.allocUnsafe(Math.min(BLOCK, size - offset));
+    view = more.subarray(0, readSync(fd, more, 0, more.length, offset));
+    if (view.length === 0) return size;
+  }
+}
+
+/** Counts the records of one range of a plain UTF-8 file (see RangeJob); never throws for a fault of the file. */
+export function countRange(job: RangeJob): RangeTally {
+  const fd = openSync(job.path, 'r');
+  let first = job.start;
+  try {
+    const fileSize = fstatSync(fd).size;
+    if (!job.exact) first = firstRecordAfter(fd, job.start, fileSize, job.delimiter);
+    return countOpenRange(fd, job, first, fileSize);
+  } catch (error) {
+    if (error instanceof Unsettled || error instanceof TabsightError) return unsettled(job, first);
+    throw error;
+  } finally {
+    closeSync(fd);
+  }
+}
+
+function countOpenRange(fd: number, job: RangeJob, first: number, fileSize: number): RangeTally {
+  const size = job.end;
+  const missing = new Set(job.missing.map((m) => m.trim()));
+  const interners = Array.from({ length: job.wanted }, () => new FieldInterner(missing, RANGE_DISTINCT_LIMIT));
+  const ids = new Int32Array(job.wanted);
+  const tally = new IdTally(job.wanted);
+  const width = job.slots.length;
+  let badRows = 0;
+  const tokenizer = new CsvTokenizer(
+    job.delimiter,
+    {
+      header: () => new Int32Array(0),
+      fieldBytes: (slot, buf, view, begin, end) => {
+        ids[slot] = interners[slot].intern(buf, view, begin, end);
+      },
+      fieldText: (slot, value) => {
+        ids[slot] = interners[slot].internString(value);
+      },
+      record: (fieldCount) => {
+        if (fieldCount !== width) {
+          if (!job.skipBadRows) throw new Unsettled();
+          badRows++;
+          return;
+        }
+        tally.add(ids);
+        if (tally.size > RANGE_TALLY_LIMIT) throw new Unsettled();
+      },
+    },
+    job.path,
+  );
+  tokenizer.presetSlots(Int32Array.from(job.slots));
+  tokenizer.stopAt = size - first;
+  const block = Buffer.allocUnsafe(BLOCK);
+  let position = first;
+  while (!tokenizer.stopped) {
+    const bytesRead = readSync(fd, block, 0, BLOCK, position);
+    if (bytesRead === 0) break;
+    let bytes = block.subarray(0, bytesRead);
+    // An incomplete character at the end of the block is read again with the next one.
+    if (position + bytesRead < fileSize) bytes = bytes.subarray(0, completeUtf8Length(bytes));
+    if (bytes.length === 0 || bytes.indexOf(0) >= 0 || !isUtf8(bytes)) throw new Unsettled();
+    tokenizer.push(bytes);
+    position += bytes.length;
+  }
+  if (!tokenizer.stopped) tokenizer.finish();
+  for (const interner of interners) if (interner.overflowed > 0) throw new Unsettled();
+  const { keys, counts } = tally.entries();
+  return {
+    settled: true,
+    first,
+    stop: first + tokenizer.position,
+    labels: interners.map((i) => i.labels),
+    keys,
+    counts,
+    records: tokenizer.records,
+    blankLines: tokenizer.blankLines,
+    badRows,
+  };
+}
