@@ -1,5 +1,6 @@
 // Seeded benchmark files (kept out of git, in bench/data/).
-//   scan-200k.csv : 200,000 rows x 30 categorical columns (2 to 9 levels; some columns depend on others)
+//   scan-200k.csv : 200,000 rows x 30 categorical columns (2 to 9 levels; some columns depend on others);
+//                   the same kind of file at 1M x 30, 10M x 30 (memory) and 200k x 100 (4,950 pairs)
 //   pair-1m.csv   : 1,000,000 rows x 8 columns (about 60 MB)
 //   pair-10m.csv  : ten times the pair file, for the streaming-memory check (only with --large)
 import { createWriteStream, existsSync, mkdirSync } from 'node:fs';
@@ -28,15 +29,14 @@ async function writeLines(path, header, rows, makeRow) {
 
 const LEVEL_WORDS = ['alpha', 'bravo', 'cedar', 'delta', 'ember', 'fjord', 'grove', 'heath', 'inlet'];
 
-export async function scanFile() {
-  const path = join(DATA, 'scan-200k.csv');
+export async function scanFile(rows = 200_000, columns = 30, name = 'scan-200k.csv') {
+  const path = join(DATA, name);
   if (existsSync(path)) return path;
   mkdirSync(DATA, { recursive: true });
   const random = mulberry32(30);
-  const columns = 30;
   const levels = Array.from({ length: columns }, (_v, k) => 2 + (k % 8));
   const header = Array.from({ length: columns }, (_v, k) => `q${String(k + 1).padStart(2, '0')}`).join(',');
-  await writeLines(path, header, 200_000, () => {
+  await writeLines(path, header, rows, () => {
     const row = [];
     for (let k = 0; k < columns; k++) {
       let level;

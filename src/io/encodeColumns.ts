@@ -1,36 +1,77 @@
 /**
  * The built-in reader's scan: one read of the file, every candidate column
- * dictionary-encoded into a code per row (2 bytes a cell while levels fit
- * in 16 bits), so that every pair's table is counted from the codes in
+ * dictionary-encoded into a code per row (1 byte a cell while a column has
+ * at most 255 levels, 2 up to 65,535), so that every pair's table is counted from the codes in
  * memory (table/countPair.ts) without reading again.
  */
+import { promises as fs } from 'node:fs';
 import { dataError } from '../errors.js';
 import { countPair } from '../table/countPair.js';
-import type { EncodedColumn } from '../table/encodedColumn.js';
+import { Codes, codesFor, EncodedColumn, largestCode, remapCodes } from '../table/encodedColumn.js';
 import { isNumericLabel } from '../table/naturalOrder.js';
 import { ColumnsRequest, DISTINCT_TRACKING_LIMIT, RECODED_READING_CAP, scanSelection } from './columns.js';
 import type { EncodedInput } from './counting.js';
 import { MISSING_ID } from './fieldInterner.js';
 import { readRecords, ReaderOptions } from './readRecords.js';
 import { RecodedLabels, RowGate } from './rowRules.js';
-import { InputSource } from './source.js';
+import { InputSource, isGzipFile } from './source.js';
 
-/** A typed array that grows as rows arrive; unwritten rows stay 0 (for codes: missing). */
-class GrowableCodes<T extends Uint16Array | Uint32Array | Float64Array> {
-  constructor(public array: T) {}
-  set(index: number, code: number): void {
-    if (index >= this.array.length) this.reserve(index + 1);
-    this.array[index] = code;
+/** Rows read before the number of rows is estimated from the file's size (and the arrays sized for it). */
+const ESTIMATE_AT = 1 << 14;
+/** Growth of the arrays past the estimate (or without one: standard input, gzip). */
+const GROWTH = 1.25;
+
+/**
+ * The codes of one column as rows arrive: one byte a row while the codes
+ * fit in 255, widened once to two bytes (four past 65,535) when a larger
+ * code arrives. Unwritten rows stay 0 (missing).
+ */
+class GrowingCodes {
+  codes: Codes;
+  private capacity: number;
+  private largest: number;
+  constructor(capacity: number) {
+    this.codes = new Uint8Array(capacity);
+    this.capacity = capacity;
+    this.largest = 0xff;
   }
-  reserve(length: number): void {
-    if (length <= this.array.length) return;
-    const grown = new (this.array.constructor as new (n: number) => T)(Math.max(this.array.length * 2, length));
-    grown.set(this.array);
-    this.array = grown;
+  set(row: number, code: number): void {
+    if (row >= this.capacity || code > this.largest) this.remake(Math.max(row + 1, row >= this.capacity ? Math.ceil(this.capacity * GROWTH) : this.capacity), code);
+    this.codes[row] = code;
   }
-  take(length: number): T {
-    this.reserve(length);
-    return this.array.subarray(0, length) as T;
+  /** Room for `rows` rows at once (the estimate). */
+  reserve(rows: number): void {
+    if (rows > this.capacity) this.remake(rows, 0);
+  }
+  private remake(capacity: number, code: number): void {
+    const next = codesFor(Math.max(code, this.largest), capacity);
+    next.set(this.codes);
+    this.codes = next;
+    this.capacity = capacity;
+    this.largest = largestCode(next);
+  }
+  take(rows: number): Codes {
+    this.reserve(rows);
+    return this.codes.subarray(0, rows);
+  }
+}
+
+/** Per-row weights, grown like the codes. */
+class GrowingWeights {
+  values = new Float64Array(ESTIMATE_AT);
+  set(row: number, w: number): void {
+    if (row >= this.values.length) this.reserve(Math.max(row + 1, Math.ceil(this.values.length * GROWTH)));
+    this.values[row] = w;
+  }
+  reserve(rows: number): void {
+    if (rows <= this.values.length) return;
+    const next = new Float64Array(rows);
+    next.set(this.values);
+    this.values = next;
+  }
+  take(rows: number): Float64Array {
+    this.reserve(rows);
+    return this.values.subarray(0, rows);
   }
 }
 
@@ -38,9 +79,11 @@ interface ColumnState {
   name: string;
   /** Raw levels the column may hold while reading. */
   cap: number;
-  codes: GrowableCodes<Uint16Array | Uint32Array> | null;
+  /** Codes past this cannot be kept (the column is past its cap for good). */
+  dropAbove: number;
+  codes: GrowingCodes | null;
   /** Every row's value id, kept only for numeric columns when binning was asked for. */
-  allIds: GrowableCodes<Uint32Array> | null;
+  allIds: GrowingCodes | null;
   missing: number;
 }
 
@@ -55,6 +98,11 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
   // Codes are kept while they fit their array; the level cap is applied
   // after reading, to the values of the rows that were kept.
   const readingCap = wide ? DISTINCT_TRACKING_LIMIT : 65535;
+  // Without filters, bad rows or weights no row is left out, so a code past
+  // the cap already rules the column out: it is dropped at once.
+  const rowsMayBeLeftOut = (request.where?.length ?? 0) > 0 || reader.skipBadRows || request.weight !== undefined;
+  // The arrays are sized once from the file's size and the bytes of the first rows.
+  const fileSize = await plainFileSize(source);
   let rows = 0;
   let layerSlot = -1;
   let layerState: ColumnState | null = null;
@@ -62,7 +110,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
   let gate: RowGate | null = null;
   let internerLabels: (readonly string[])[] = [];
   const textSlots = new Set<number>();
-  const weights = request.weight ? new GrowableCodes(new Float64Array(1 << 14)) : null;
+  const weights = request.weight ? new GrowingWeights() : null;
   const summary = await readRecords(
     source,
     reader,
@@ -77,18 +125,20 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
         return slots.length - 1;
       };
       for (const i of chosen) {
+        const cap = request.recodes?.has(header[i]) ? Math.max(RECODED_READING_CAP, request.maxLevels) : request.maxLevels;
         states.push({
           name: header[i],
-          codes: new GrowableCodes(wide ? new Uint32Array(1 << 14) : new Uint16Array(1 << 14)),
-          allIds: request.keepNumeric ? new GrowableCodes(new Uint32Array(1 << 14)) : null,
+          codes: new GrowingCodes(ESTIMATE_AT),
+          allIds: request.keepNumeric ? new GrowingCodes(ESTIMATE_AT) : null,
           missing: 0,
-          cap: request.recodes?.has(header[i]) ? Math.max(RECODED_READING_CAP, request.maxLevels) : request.maxLevels,
+          cap,
+          dropAbove: rowsMayBeLeftOut ? readingCap : Math.min(cap, readingCap),
         });
       }
       if (selection.layer !== null) {
         const index = selection.layer;
         layerSlot = slotOf(index);
-        layerState = { name: header[index], codes: new GrowableCodes(new Uint16Array(1 << 14)), allIds: null, missing: 0, cap: RECODED_READING_CAP };
+        layerState = { name: header[index], codes: new GrowingCodes(ESTIMATE_AT), allIds: null, missing: 0, cap: RECODED_READING_CAP, dropAbove: RECODED_READING_CAP };
       }
       if (selection.weight !== null) weightSlot = slotOf(selection.weight);
       const whereSlots = selection.where.map((index) => slotOf(index));
@@ -105,11 +155,21 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
       if (weightSlot >= 0) textSlots.add(weightSlot);
       return slots;
     },
-    (ids, line, texts, interners) => {
+    (ids, line, texts, interners, position) => {
       if (internerLabels.length === 0) internerLabels = interners.map((i) => i.labels);
       const w = gate!.admit(ids, texts, line);
       if (w < 0) return;
       const row = rows++;
+      if (row === ESTIMATE_AT && fileSize !== null) {
+        // Rows to come, from the bytes the first ones took (a little over, so that one size usually does).
+        const estimate = Math.ceil((row * fileSize * 1.05) / Math.max(1, position())) + ESTIMATE_AT;
+        weights?.reserve(estimate);
+        layerState?.codes?.reserve(estimate);
+        for (const state of states) {
+          state.codes?.reserve(estimate);
+          state.allIds?.reserve(estimate);
+        }
+      }
       if (weights) weights.set(row, w);
       if (layerState && layerState.codes) {
         const id = ids[layerSlot];
@@ -125,7 +185,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
           continue;
         }
         if (state.codes !== null) {
-          if (id > readingCap || id < 0) state.codes = null;
+          if (id > state.dropAbove || id < 0) state.codes = null;
           else state.codes.set(row, id);
         }
         if (state.allIds !== null) {
@@ -145,12 +205,9 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
   const columns = states.map<EncodedColumn>((state, k) => {
     const interner = summary.interners[k];
     let labels = interner.labels;
-    if (leftOut && state.codes !== null) {
-      const compacted = compactCodes(state.codes.take(rows), labels);
-      labels = compacted.labels;
-      state.codes = new GrowableCodes(compacted.codes);
-    }
-    if (state.codes !== null && labels.length > state.cap) state.codes = null;
+    let codes = state.codes?.take(rows) ?? null;
+    if (leftOut && codes !== null) ({ codes, labels } = compactCodes(codes, labels));
+    if (codes !== null && labels.length > state.cap) codes = null;
     const numeric = labels.length > 0 && labels.every(isNumericLabel);
     const allLabels = interner.labels;
     const integer = numeric && labels.every((l) => /^[+-]?\d+$/.test(l));
@@ -165,8 +222,8 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
     }
     return {
       name: state.name,
-      labels: state.codes !== null ? labels : [],
-      codes: state.codes !== null ? state.codes.take(rows) : null,
+      labels: codes !== null ? labels : [],
+      codes,
       missing: state.missing,
       distinct: labels.length,
       distinctCapped: interner.overflowed > 0,
@@ -196,8 +253,8 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
   };
 }
 
-/** Codes renumbered 1, 2, … over the ids that occur (in order of id), with their labels. */
-function compactCodes<T extends Uint16Array | Uint32Array>(codes: T, labels: readonly string[]): { codes: T; labels: string[] } {
+/** Codes renumbered 1, 2, … over the ids that occur (in order of id, in place), with their labels. */
+function compactCodes(codes: Codes, labels: readonly string[]): { codes: Codes; labels: string[] } {
   const used = new Uint8Array(labels.length + 1);
   for (let r = 0; r < codes.length; r++) used[codes[r]] = 1;
   const remap = new Uint32Array(labels.length + 1);
@@ -208,8 +265,17 @@ function compactCodes<T extends Uint16Array | Uint32Array>(codes: T, labels: rea
       remap[id] = kept.length;
     }
   }
-  const out = new (codes.constructor as new (n: number) => T)(codes.length);
-  for (let r = 0; r < codes.length; r++) out[r] = remap[codes[r]];
-  return { codes: out, labels: kept };
+  return { codes: remapCodes(codes, remap, kept.length), labels: kept };
+}
+
+/** The size of a plain file (null for standard input, a pipe or gzip, whose rows cannot be estimated from it). */
+async function plainFileSize(source: InputSource): Promise<number | null> {
+  if (source.path === '-') return null;
+  try {
+    const stat = await fs.stat(source.path);
+    return stat.isFile() && !(await isGzipFile(source.path)) ? stat.size : null;
+  } catch {
+    return null; // the reader names the problem
+  }
 }
 

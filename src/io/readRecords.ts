@@ -66,8 +66,9 @@ export type ColumnSelector = (header: string[], line: number, delimiter: string,
 /**
  * A data row: for each selected column, the id of its value in that column's
  * interner (0 missing, −1 past the interner's limit). The array is reused.
+ * `position` gives the decoded bytes read up to the end of this row.
  */
-export type RowHandler = (ids: Int32Array, line: number, texts: (string | undefined)[], interners: readonly FieldInterner[]) => void;
+export type RowHandler = (ids: Int32Array, line: number, texts: (string | undefined)[], interners: readonly FieldInterner[], position: () => number) => void;
 
 /** Distinct values one selected column may hold before new ones get the overflow id. */
 export const DEFAULT_DISTINCT_LIMIT = 1_000_000;
@@ -115,6 +116,7 @@ export async function readRecords(
   let tokenizer: CsvTokenizer | null = null;
   let badRows = 0;
   const buffered: Uint8Array[] = [];
+  const position = () => (tokenizer === null ? 0 : (tokenizer as CsvTokenizer).position);
   let bufferedLength = 0;
 
   const start = (sample: Uint8Array) => {
@@ -148,7 +150,7 @@ export async function readRecords(
               if (isText(slot)) texts[slot] = fields[column];
               else ids[slot] = interners[slot].internString(fields[column]);
             });
-            onRow(ids, line, texts, interners);
+            onRow(ids, line, texts, interners, position);
             texts.fill(undefined);
           }
           return slots;
@@ -175,7 +177,7 @@ export async function readRecords(
           }
           // Every selected field of a complete record has just been delivered,
           // so ids and texts need no clearing between records.
-          onRow(ids, line, texts, interners);
+          onRow(ids, line, texts, interners, position);
         },
       },
       source.label,

@@ -7,6 +7,30 @@ import { MISSING_LEVEL } from './twoWayTable.js';
 import { indexCodebook, levelOrder, levelOutcome, LevelRules } from './levelRules.js';
 import { isNumericLabel } from './naturalOrder.js';
 
+/** A code per row: one byte while a column has at most 255 levels, two up to 65,535, else four. */
+export type Codes = Uint8Array | Uint16Array | Uint32Array;
+
+/** The largest code each kind of array holds. */
+export function largestCode(codes: Codes): number {
+  return codes instanceof Uint8Array ? 0xff : codes instanceof Uint16Array ? 0xffff : 0xffffffff;
+}
+
+/** An array of `length` codes wide enough for codes up to `largest`. */
+export function codesFor(largest: number, length: number): Codes {
+  return largest <= 0xff ? new Uint8Array(length) : largest <= 0xffff ? new Uint16Array(length) : new Uint32Array(length);
+}
+
+/**
+ * Renumbers codes through `remap` (code k becomes remap[k]), in place when
+ * the new codes fit the array (the caller gives the column's codes up), else
+ * into a wider array.
+ */
+export function remapCodes(codes: Codes, remap: ArrayLike<number>, largest: number): Codes {
+  const out = largest <= largestCode(codes) ? codes : codesFor(largest, codes.length);
+  for (let k = 0; k < codes.length; k++) out[k] = remap[codes[k]];
+  return out;
+}
+
 /** One candidate column of a scan, dictionary-encoded in the single read. */
 export interface EncodedColumn {
   name: string;
@@ -17,7 +41,7 @@ export interface EncodedColumn {
    * (the engine, whose entries each stand for many rows); null once the
    * column passed the level cap.
    */
-  codes: Uint16Array | Uint32Array | null;
+  codes: Codes | null;
   missing: number;
   /** Distinct values seen (exact up to the reader's tracking limit). */
   distinct: number;
@@ -32,7 +56,8 @@ export interface EncodedColumn {
 /**
  * Applies a column's recode (levels recoded alike are merged) and, with
  * --keep-missing, makes missing a level of its own. Returns the column with
- * its new labels and codes; untouched columns come back as they are.
+ * its new labels and codes, renumbered in place where they fit (the column
+ * given is used up); untouched columns come back as they are.
  */
 export function recodeColumn(column: EncodedColumn, mapping: ReadonlyMap<string, string> | undefined, keepMissing: boolean): EncodedColumn {
   if (column.codes === null || (!mapping && !(keepMissing && column.missing > 0))) return column;
@@ -50,8 +75,7 @@ export function recodeColumn(column: EncodedColumn, mapping: ReadonlyMap<string,
   };
   column.labels.forEach((raw, k) => (remap[k + 1] = codeOf(mapping?.get(raw) ?? raw)));
   if (keepMissing && column.missing > 0) remap[0] = codeOf(MISSING_LEVEL);
-  const codes = labels.length >= 65535 ? new Uint32Array(column.codes.length) : new Uint16Array(column.codes.length);
-  for (let k = 0; k < codes.length; k++) codes[k] = remap[column.codes[k]];
+  const codes = remapCodes(column.codes, remap, labels.length);
   return { ...column, labels, codes, distinct: labels.length, missing: keepMissing ? 0 : column.missing };
 }
 
@@ -83,13 +107,17 @@ export function shapeColumn(column: EncodedColumn, rules: LevelRules): { column:
   };
   column.labels.forEach((raw, k) => (remap[k + 1] = code(raw)));
   remap[0] = column.missing > 0 ? code(null) : 0;
-  const codes = labels.length >= 65535 ? new Uint32Array(column.codes.length) : new Uint16Array(column.codes.length);
+  // Renumbered in place where the codes fit (the column given is used up).
+  const before = column.codes;
+  const codes = labels.length <= largestCode(before) ? before : codesFor(labels.length, before.length);
   // Missing rows: the reader's count, plus the codes the rules made missing, less the empty ones kept as a level.
   let change = 0;
   for (let k = 0; k < codes.length; k++) {
-    codes[k] = remap[column.codes[k]];
-    if (codes[k] === 0 && column.codes[k] !== 0) change++;
-    else if (codes[k] !== 0 && column.codes[k] === 0) change--;
+    const was = before[k];
+    const now = remap[was];
+    codes[k] = now;
+    if (now === 0 && was !== 0) change++;
+    else if (now !== 0 && was === 0) change--;
   }
   return { column: { ...column, labels, codes, distinct: labels.length, missing: Math.max(0, column.missing + change) }, order: levelOrder(rules, labels) };
 }
