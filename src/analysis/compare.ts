@@ -10,7 +10,7 @@ import { dropEmptyLevels, relabelTable, TwoWayTable } from '../table/twoWayTable
 import { rescaleToEffectiveSize, Weighting } from '../table/weighting.js';
 import { AnalysisOptions, AnalysisRecord, analyzeTable, Evidence, evidenceOf, Warning } from './analyzeTable.js';
 import { formatP } from '../numbers.js';
-import type { InputSummary } from './report.js';
+import { InputSummary, unknownOrderWarnings } from './report.js';
 import { TOOL_VERSION } from '../version.js';
 
 export interface PeriodInput {
@@ -55,14 +55,16 @@ export interface CompareReport {
   warnings: Warning[];
 }
 
-function union(a: readonly string[], b: readonly string[], requested?: readonly string[]): string[] {
-  const all = [...new Set([...a, ...b])];
+/** The levels of several periods together: those named by `requested` first, the rest in natural order. */
+export function unionOfLevels(lists: readonly (readonly string[])[], requested?: readonly string[]): string[] {
+  const all = [...new Set(lists.flat())];
   if (!requested) return all.sort(compareNatural);
   const named = requested.filter((l) => all.includes(l));
   return [...named, ...all.filter((l) => !named.includes(l)).sort(compareNatural)];
 }
 
-function periodRecord(p: PeriodInput, options: AnalysisOptions): PeriodRecord {
+/** One period analysed on its own, on the levels it has (the same analysis as `pair`). */
+export function periodRecord(p: PeriodInput, options: AnalysisOptions): PeriodRecord {
   const own = dropEmptyLevels(p.table);
   const n = own.counts.flat().reduce((s, v) => s + v, 0);
   if (own.rowLevels.length < 2 || own.colLevels.length < 2) {
@@ -88,8 +90,8 @@ function homogeneity(rows: number[][]): TestResult | null {
 export function comparePeriods(before: PeriodInput, after: PeriodInput, options: AnalysisOptions, order: { rows?: string[]; cols?: string[] } = {}): CompareReport {
   // Levels each period really has (a table laid out on shared levels may carry empty ones).
   const present = [dropEmptyLevels(before.table), dropEmptyLevels(after.table)];
-  const rowLevels = union(present[0].rowLevels, present[1].rowLevels, order.rows);
-  const colLevels = union(present[0].colLevels, present[1].colLevels, order.cols);
+  const rowLevels = unionOfLevels([present[0].rowLevels, present[1].rowLevels], order.rows);
+  const colLevels = unionOfLevels([present[0].colLevels, present[1].colLevels], order.cols);
   const aligned = [before, after].map((p) => rescaleToEffectiveSize(relabelTable(p.table, rowLevels, colLevels).counts, p.weighting));
   const warnings: Warning[] = [];
   const only = (a: readonly string[], b: readonly string[]) => a.filter((l) => !b.includes(l));
@@ -146,4 +148,11 @@ export function comparePeriods(before: PeriodInput, after: PeriodInput, options:
     onlyAfter,
     warnings,
   };
+}
+
+/** The comparison of two periods as `compare` reports it, with the note on --row-order levels that never occur. */
+export function compareReport(before: PeriodInput, after: PeriodInput, options: AnalysisOptions, order: { rows?: string[]; cols?: string[] } = {}): CompareReport {
+  const report = comparePeriods(before, after, options, order);
+  report.warnings.unshift(...unknownOrderWarnings('--row-order', (order.rows ?? []).filter((l) => !report.rows.levels.includes(l))));
+  return report;
 }

@@ -1,8 +1,7 @@
 /** `tabsight compare`: its options, parsed once into a ComparePlan, and runCompare, which counts two periods and compares them. */
 import { Command } from 'commander';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
-import { comparePeriods, PeriodInput } from '../analysis/compare.js';
-import { unknownOrderWarnings } from '../analysis/report.js';
+import { compareReport, PeriodInput } from '../analysis/compare.js';
 import { columnRules } from '../io/countTable.js';
 import { levelOrder } from '../table/levelRules.js';
 import { usageError } from '../errors.js';
@@ -115,10 +114,11 @@ async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: s
   }
   const input = inputSummary(source.label, counted);
   const [b, a] = pick.map((l) => strata.find((s) => s.level === l)!);
-  return [period(`${column} ${b.level}`, { table: b.table, weighting: b.weighting, excluded: 0 }, input), period(`${column} ${a.level}`, { table: a.table, weighting: a.weighting, excluded: 0 }, input)];
+  return [period(`${column} ${b.level}`, { table: b.table, weighting: b.weighting, excluded: b.excluded ?? 0 }, input), period(`${column} ${a.level}`, { table: a.table, weighting: a.weighting, excluded: a.excluded ?? 0 }, input)];
 }
 
-function sideOrder(request: TableRequest, name: string, periods: PeriodInput[], side: 'rowLevels' | 'colLevels'): string[] | undefined {
+/** The order of a side from its codebook and recodes (undefined without them: natural order). */
+export function sideOrder(request: TableRequest, name: string, periods: PeriodInput[], side: 'rowLevels' | 'colLevels'): string[] | undefined {
   const rules = columnRules(request, name);
   if (!rules.codebook && !rules.recode && !rules.cuts) return undefined;
   const levels = [...new Set(periods.flatMap((p) => p.table[side]))];
@@ -147,8 +147,7 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
     rows: plan.order.rows ?? sideOrder(plan.table, plan.table.rows, [before, after], 'rowLevels'),
     cols: plan.order.cols ?? sideOrder(plan.table, plan.table.cols, [before, after], 'colLevels'),
   };
-  const report = comparePeriods(before, after, plan.analysis, order);
-  report.warnings.unshift(...unknownOrderWarnings('--row-order', (plan.order.rows ?? []).filter((l) => !report.rows.levels.includes(l))));
+  const report = compareReport(before, after, plan.analysis, order);
   const toFile = plan.report.output !== undefined;
   const text = COMPARE_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: plan.cells });
   if (plan.report.plot !== undefined) {

@@ -139,6 +139,8 @@ class LayeredCounter {
   excluded = 0;
   /** Rows left out, by slot and reason. */
   private readonly reasons = new Map<number, Map<string, number>>();
+  /** Rows left out for a missing value of the table, by the value id of their (present) layer level. */
+  readonly excludedByLayer = new Map<number, number>();
 
   constructor(
     private readonly request: TableRequest,
@@ -181,6 +183,7 @@ class LayeredCounter {
       if (rowReason !== null) this.leaveOut(row, rowReason, rows);
       if (colReason !== null) this.leaveOut(col, colReason, rows);
       if (byReason !== null) this.leaveOut(by, byReason, rows);
+      else if (by >= 0) this.excludedByLayer.set(b, (this.excludedByLayer.get(b) ?? 0) + rows);
       return;
     }
     this.pooled.add(r, c, rows, w, wLow, q, qLow);
@@ -345,6 +348,12 @@ function finishTables(
   const rowLabel = (id: number) => label(slots.row, id);
   const colLabel = (id: number) => label(slots.col, id);
   const finished = counter.pooled.finish(rowLabel, colLabel, request.rowOrder, request.colOrder);
+  // Exclusions by layer level (ids recoded alike add up under their label).
+  const excludedOfLevel = new Map<string, number>();
+  for (const [id, rows] of counter.excludedByLayer) {
+    const level = id < 0 ? '(beyond the level limit)' : label(slots.by, id);
+    excludedOfLevel.set(level, (excludedOfLevel.get(level) ?? 0) + rows);
+  }
   let table = dropEmptyLevels(finished.table);
   // Without an order option, a side takes the order of its codebook and recodes (natural order otherwise).
   const rowLevels = request.rowOrder ? table.rowLevels : orderOf(slots.row, table.rowLevels);
@@ -352,7 +361,9 @@ function finishTables(
   table = relabelTable(table, rowLevels, colLevels);
   const own: Stratum[] | null =
     slots.by >= 0
-      ? [...counter.strata.entries()].sort((x, y) => compareNatural(x[0], y[0])).map(([level, layer]) => ({ level, table: layer.finish(rowLabel, colLabel).table, weighting: layer.weighting(kind) }))
+      ? [...counter.strata.entries()]
+          .sort((x, y) => compareNatural(x[0], y[0]))
+          .map(([level, layer]) => ({ level, table: layer.finish(rowLabel, colLabel).table, weighting: layer.weighting(kind), excluded: excludedOfLevel.get(level) ?? 0 }))
       : null;
   let strata = own?.map((s) => ({ ...s, table: relabelTable(s.table, table.rowLevels, table.colLevels) })) ?? null;
   if (request.other) ({ table, strata } = mergeRareLevels(table, own, request.other.k, request.other.label));

@@ -13,6 +13,8 @@ export interface Stratum {
   level: string;
   table: TwoWayTable;
   weighting: Weighting;
+  /** Rows of this level left out for a missing value of the table (counted by io/countTable.ts; absent where not counted). */
+  excluded?: number;
 }
 
 export interface CountedTable {
