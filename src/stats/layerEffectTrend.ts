@@ -111,6 +111,8 @@ export function layerEffectTrend(layers: LayerStack, scores: readonly number[], 
   }
   if (Math.abs(outer) > bound) outer = direction * bound;
   const slope = homogeneous.score === 0 ? 0 : illinoisRoot((b) => evaluate(b).score, inner, outer);
+  // A fit that broke down (non-finite counts) gives no estimate.
+  if (!Number.isFinite(slope) || !Number.isFinite(evaluate(slope).deviance)) return null;
   const best = evaluate(slope);
   const statistic = Math.max(0, homogeneous.deviance - best.deviance);
   const critical = normalQuantile(0.5 + confidence / 2) ** 2; // χ²₁ quantile = z²
@@ -123,7 +125,7 @@ export function layerEffectTrend(layers: LayerStack, scores: readonly number[], 
       near = far;
       step *= 2;
       far = slope + sign * step;
-      if (Math.abs(far) > bound) return null;
+      if (!(Math.abs(far) <= bound)) return null;
     }
     return illinoisRoot(excess, near, far);
   };
@@ -199,7 +201,9 @@ function fitAt(beta: number, n: Float64Array, K: number, r: number, c: number, x
           information += phi[k] * phi[k] * m[cell];
         }
         if (!(information > 0)) continue;
-        const step = score / information;
+        // A Newton step, damped to at most one unit of ψ: with sparse cells the
+        // information can be tiny and a full step would overflow exp().
+        const step = Math.max(-1, Math.min(1, score / information));
         psi[i * c + j] += step;
         for (let k = 0; k < K; k++) m[(k * r + i) * c + j] *= Math.exp(phi[k] * step);
       }
@@ -225,7 +229,7 @@ function illinoisRoot(f: (v: number) => number, a: number, b: number): number {
     if (Math.abs(next - last) <= 1e-15 * Math.abs(next)) return next;
     last = next;
     const fNext = f(next);
-    if (fNext === 0) return next;
+    if (fNext === 0 || Number.isNaN(fNext)) return Number.isNaN(fNext) ? Number.NaN : next;
     if (Math.sign(fNext) === Math.sign(fb)) {
       b = next;
       fb = fNext;
