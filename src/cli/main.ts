@@ -19,12 +19,14 @@ import { pairCommand, PairPlan, runPair } from './pair.js';
 import { runScan, scanCommand, ScanPlan } from './scan.js';
 import { runSql, sqlCommand, SqlPlan } from './sql.js';
 import { profileCommand, ProfilePlan, runProfile } from './profile.js';
+import { runWaves, wavesCommand, WavesPlan } from './waves.js';
 
 /** A command and its plan, as parsed from the arguments. */
 export type CommandPlan =
   | { command: 'pair'; plan: PairPlan }
   | { command: 'scan'; plan: ScanPlan }
   | { command: 'compare'; plan: ComparePlan }
+  | { command: 'waves'; plan: WavesPlan }
   | { command: 'count'; plan: CountPlan }
   | { command: 'merge'; plan: MergePlan }
   | { command: 'sql'; plan: SqlPlan }
@@ -54,6 +56,7 @@ export function buildProgram(io: CliIo, accept: (chosen: CommandPlan) => void): 
     pairCommand((plan) => accept({ command: 'pair', plan })),
     scanCommand((plan) => accept({ command: 'scan', plan })),
     compareCommand((plan) => accept({ command: 'compare', plan })),
+    wavesCommand((plan) => accept({ command: 'waves', plan })),
     countCommand((plan) => accept({ command: 'count', plan })),
     mergeCommand((plan) => accept({ command: 'merge', plan })),
     sqlCommand((plan) => accept({ command: 'sql', plan })),
@@ -78,6 +81,8 @@ function execute(chosen: CommandPlan, io: CliIo, program: Command): Promise<Outc
       return runScan(chosen.plan, io);
     case 'compare':
       return runCompare(chosen.plan, io);
+    case 'waves':
+      return runWaves(chosen.plan, io);
     case 'count':
       return runCount(chosen.plan, io);
     case 'merge':

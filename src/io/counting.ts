@@ -117,3 +117,14 @@ export async function encodeColumns<T>(source: InputSource, reader: ReaderOption
     use(engine === null ? await encodeWithReader(source, reader, request) : await encodeWithEngine(engine.engine, engine.input, reader, request)),
   );
 }
+
+/**
+ * Counts the same table in each of several files (the waves of a series),
+ * one pass per file with the built-in reader; each file is counted exactly
+ * as `countTable` counts it alone.
+ */
+export async function countFiles(sources: readonly InputSource[], reader: ReaderOptions, request: TableRequest): Promise<CountedInput[]> {
+  const counted: CountedInput[] = [];
+  for (const source of sources) counted.push(await countTable(source, reader, request));
+  return counted;
+}

@@ -39,9 +39,11 @@ const STYLE = `
   @media print { body { margin: 0; max-width: none; } table { display: table; overflow: visible; } h2 { break-after: avoid; } .figures { break-inside: avoid; } details { display: block; } }
 `;
 
-const e = (s: string) => escapeXml(s.replace(/\u00a0/g, ' '));
+/** Text from the record or the data, escaped for HTML (glue as plain spaces). */
+export const e = (s: string) => escapeXml(s.replace(/\u00a0/g, ' '));
 
-function page(title: string, body: string): string {
+/** A self-contained page: inline style, the body, the cautions. */
+export function page(title: string, body: string): string {
   return `<!doctype html>\n<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>${e(title)}</title><style>${STYLE}</style></head><body>${body}<p class="caution">${e(CAUTION)}</p></body></html>\n`;
 }
 
@@ -175,7 +177,8 @@ function heldFixedSection(report: PairReport): string {
 <table><tr><th>pooling the levels</th><th>statistic / estimate</th><th>df</th><th>p-value / interval</th></tr>${tests}</table>`;
 }
 
-function notes(warnings: readonly { message: string }[]): string {
+/** The "check before relying on it" section. */
+export function notes(warnings: readonly { message: string }[]): string {
   return warnings.length === 0 ? '' : `<h2>Check before relying on it</h2>${warnings.map((w) => `<p class="note">${e(w.message)}</p>`).join('')}`;
 }
 

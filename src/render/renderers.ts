@@ -7,12 +7,16 @@ import type { ChalkInstance } from 'chalk';
 import type { CompareReport } from '../analysis/compare.js';
 import type { PairReport } from '../analysis/report.js';
 import type { ScanReport } from '../analysis/scan.js';
+import type { WavesReport } from '../analysis/waves.js';
 import { renderCompareText } from './compareText.js';
 import { renderCompareHtml, renderPairHtml, renderScanHtml } from './html.js';
 import { toJson } from './json.js';
 import { renderPairDelimited, renderPairMarkdown } from './pairDelimited.js';
 import { CellView, renderPairText } from './pairText.js';
 import { renderScanDelimited, renderScanMarkdown, renderScanText } from './scanTable.js';
+import { renderWavesDelimited, renderWavesMarkdown } from './wavesDelimited.js';
+import { renderWavesHtml } from './wavesHtml.js';
+import { renderWavesText } from './wavesText.js';
 
 /** What a renderer may need besides the record: the colours of the terminal, the page width and the cell view of text tables (decisions come from the record alone). */
 export interface RenderContext {
@@ -47,6 +51,16 @@ export const COMPARE_RENDERERS = {
   html: (report) => renderCompareHtml(report),
 } satisfies Renderers<CompareReport>;
 
+export const WAVES_RENDERERS = {
+  text: (report, { paint, width }) => renderWavesText(report, paint, { width }),
+  json: (report) => toJson(report),
+  csv: (report) => renderWavesDelimited(report, ','),
+  tsv: (report) => renderWavesDelimited(report, '\t'),
+  markdown: (report) => renderWavesMarkdown(report),
+  html: (report) => renderWavesHtml(report),
+} satisfies Renderers<WavesReport>;
+
 export type PairFormat = keyof typeof PAIR_RENDERERS;
 export type ScanFormat = keyof typeof SCAN_RENDERERS;
 export type CompareFormat = keyof typeof COMPARE_RENDERERS;
+export type WavesFormat = keyof typeof WAVES_RENDERERS;

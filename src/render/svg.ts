@@ -21,10 +21,10 @@ export function escapeXml(s: string): string {
  */
 const ABOVE = [33, 102, 172]; // #2166ac
 const BELOW = [179, 88, 6]; // #b35806
-const FONT = 'font-family="system-ui, -apple-system, Segoe UI, sans-serif"';
+export const FONT = 'font-family="system-ui, -apple-system, Segoe UI, sans-serif"';
 
 /** Width of text in pixels at a font size, from its display width (a wide character counts two). */
-function textWidth(text: string, size: number): number {
+export function textWidth(text: string, size: number): number {
   if (text.length > 4 * LONG_LABEL) return Math.ceil(text.length * size * 0.62);
   return Math.ceil(displayWidth(text) * size * 0.62);
 }

@@ -40,6 +40,8 @@ const reports = [
   ['pair 2×2', ['pair', demo, '--rows', 'membership', '--cols', 'has_children', '--format', 'html']],
   ['scan', ['scan', demo, '--format', 'html']],
   ['compare', ['compare', demo, '--period', 'has_children', '--rows', 'age_band', '--cols', 'preferred_format', '--format', 'html']],
+  ['waves', ['waves', join(root, 'fixtures', 'demo', 'weekly', 'patron-2026-W*.csv'), '--rows', 'age_band', '--cols', 'preferred_format', '--engine', 'builtin', '--format', 'html']],
+  ['waves 2×2', ['waves', demo, '--period', 'age_band', '--rows', 'membership', '--cols', 'has_children', '--format', 'html']],
 ];
 
 const { chromium: launcher } = await import('playwright-core');

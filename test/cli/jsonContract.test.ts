@@ -2,7 +2,8 @@
 // documented there under its whole path. A path is documented when a table
 // row of the command's section names it, or names an ancestor whose type or
 // meaning names every step below it (`{"statistic", "df", "pValue"}`, a
-// list of fields), or says the part below is "as for `pair`".
+// list of fields), or says the part below is "as for `pair`" (or another
+// command's section, such as `compare`).
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -14,8 +15,8 @@ interface Row {
   paths: string[];
   /** Names the row's type and meaning give to the fields below its paths. */
   fields: Set<string>;
-  /** The row says that what lies below is as in the pair report. */
-  asForPair: boolean;
+  /** The section the row says what lies below is documented in ("as for `pair`"), or null. */
+  asFor: string | null;
 }
 
 const IDENTIFIER_PATH = /^\.?[A-Za-z][A-Za-z0-9]*(\[\])?(\.[A-Za-z][A-Za-z0-9]*(\[\])?)*$/;
@@ -45,7 +46,8 @@ function contract(): Map<string, Row[]> {
     const fields = new Set([...described.matchAll(/`([A-Za-z][A-Za-z0-9]*)`|"([A-Za-z][A-Za-z0-9]*)"/g)].map((m) => m[1] ?? m[2]));
     if (/\btest\b/.test(type)) TEST_FIELDS.forEach((f) => fields.add(f));
     if (/\binterval\b/.test(type)) INTERVAL_FIELDS.forEach((f) => fields.add(f));
-    rows.push({ paths, fields, asForPair: /as (for|in) `pair`|the fields above/.test(described) });
+    const asFor = /as (?:for|in) `(\w+)`/.exec(described)?.[1] ?? (/the fields above/.test(described) ? 'pair' : null);
+    rows.push({ paths, fields, asFor });
   }
   return sections;
 }
@@ -74,10 +76,10 @@ function isDocumented(path: string, section: string, depth = 0): boolean {
       if (!row.paths.includes(head) && !row.paths.includes(bare)) continue;
       const below = steps.slice(cut).map((s) => s.replace(/\[\]$/, ''));
       if (below.length === 0 || below.every((step) => row.fields.has(step))) return true;
-      if (row.asForPair && depth < 2) {
+      if (row.asFor !== null && depth < 2) {
         const rest = steps.slice(cut).join('.');
         const own = bare.split('.').pop() as string;
-        if (isDocumented(rest, 'pair', depth + 1) || isDocumented(`${own}.${rest}`, 'pair', depth + 1)) return true;
+        if (isDocumented(rest, row.asFor, depth + 1) || isDocumented(`${own}.${rest}`, row.asFor, depth + 1)) return true;
       }
     }
   }
@@ -107,5 +109,11 @@ describe('docs/json.md documents every field the JSON output has, by its whole p
   it('scan (with a layer and --full) and compare', async () => {
     expectDocumented(await runJson(['scan', DEMO, '--by', 'branch', '--columns', 'membership,has_children,age_band', '--full']), 'scan');
     expectDocumented(await runJson(['compare', DEMO, '--period', 'has_children', '--rows', 'age_band', '--cols', 'preferred_format']), 'compare');
+  });
+
+  it('waves: r×c (layer-effect trend, departures) and 2×2 (odds-ratio trend, equal odds), with weights and a level absent from a wave', async () => {
+    expectDocumented(await runJson(['waves', DEMO, '--period', 'branch', '--rows', 'age_band', '--cols', 'preferred_format', '--weight', 'survey_weight']), 'waves');
+    expectDocumented(await runJson(['waves', DEMO, '--period', 'age_band', '--rows', 'membership', '--cols', 'has_children', '--where', 'branch!=Old Town']), 'waves');
+    expectDocumented(await runJson(['waves', DEMO, '--period', 'branch', '--rows', 'heard_via', '--cols', 'satisfaction', '--levels', 'Old Town,Riverside,Westfield']), 'waves');
   });
 });

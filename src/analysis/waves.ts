@@ -1,0 +1,470 @@
+/**
+ * Many waves of the same pair of questions: each wave analysed as `pair`
+ * analyses one table, the change between the last two waves as `compare`
+ * reports it, and the tests across all waves — is the association the same
+ * in every wave, does it grow or fade over them, does one wave stand out,
+ * did each margin drift — with the one decision of the record and the facts
+ * its sentences state.
+ */
+import type { TestResult } from '../stats/chiSquareTests.js';
+import { upperTailChiSquare } from '../stats/chiSquareDistribution.js';
+import { layerEffectTrend, LayerEffectTrend } from '../stats/layerEffectTrend.js';
+import { DriftTest, marginDrift } from '../stats/marginDrift.js';
+import { holm } from '../stats/multipleTesting.js';
+import { breslowDayResiduals, breslowDayTarone, breslowDayTrend, CommonOddsRatio, mantelHaenszelOddsRatio } from '../stats/stratified.js';
+import { layerDepartures, noThreeWayInteraction } from '../stats/threeWay.js';
+import { LogOddsRatioTrend, woolfTrend } from '../stats/woolfTrend.js';
+import { dataError } from '../errors.js';
+import { dropEmptyLevels, relabelTable } from '../table/twoWayTable.js';
+import type { WaveKeyKind, WaveScores } from '../table/waveKeys.js';
+import { rescaleToEffectiveSize } from '../table/weighting.js';
+import { TOOL_VERSION } from '../version.js';
+import { AnalysisOptions, Evidence, evidenceOf, Warning } from './analyzeTable.js';
+import { unknownOrderWarnings } from './report.js';
+import { ChangeTest, compareReport, CompareReport, PeriodInput, PeriodRecord, periodRecord, unionOfLevels } from './compare.js';
+
+/** One wave as counted: the period of `compare`, plus the short name the report shows. */
+export interface WaveInput extends PeriodInput {
+  /** The wave's short name: its date, week or number as written, its period level, or its file's base name. */
+  key: string;
+}
+
+/** How the waves came and in what order they stand. */
+export interface WaveSetup {
+  /** 'files': several files (or a pattern); 'column': one file with a period column. */
+  source: 'files' | 'column';
+  /** The period column (source 'column'), else null. */
+  period: string | null;
+  /** The patterns (with *, ?, [...]) the files came from, as given. */
+  patterns: string[];
+  /** 'names': by the keys in the file names; 'given': as given; 'natural': period levels in natural order; 'listed': as listed by --levels. */
+  orderedBy: 'names' | 'given' | 'natural' | 'listed';
+  /** The kind of key every wave carries, or null. */
+  keyKind: WaveKeyKind | null;
+  scores: WaveScores;
+  /** With a period column: rows whose period value is missing (they belong to no wave). */
+  withoutWave: number;
+}
+
+export type WaveRecord = PeriodRecord & { key: string; score: number };
+
+export interface SameAssociation {
+  /** The test that decides: Breslow–Day with Tarone's correction for 2×2 tables, else the G² of no three-way interaction. */
+  test: 'breslow-day-tarone' | 'no-three-way-interaction';
+  statistic: number;
+  df: number;
+  pValue: number;
+  /** No three-way interaction (all shapes), fitted by IPF. */
+  interaction: {
+    statistic: number;
+    df: number;
+    pValue: number;
+    pearson: TestResult;
+    iterations: number;
+    converged: boolean;
+    nominalDf: number;
+    dfAdjusted: boolean;
+    zeroFittedCells: number;
+  } | null;
+  /** 2×2: equal odds ratios in every wave (Breslow–Day, Tarone's correction), around the Mantel–Haenszel common odds ratio. */
+  equalOdds: (TestResult & { uncorrected: number; commonOddsRatio: CommonOddsRatio }) | null;
+}
+
+export interface WavesTrend {
+  /** 'odds-ratio' (2×2: score test of Breslow & Day, size by Woolf-weighted regression) or 'layer-effect' (r×c: Xie 1992). */
+  method: 'odds-ratio' | 'layer-effect';
+  /** The test that decides, on 1 df. */
+  statistic: number;
+  df: number;
+  pValue: number;
+  /** Change per unit of score: in the log odds ratio (odds-ratio) or in the log of the association's strength (layer-effect, β). */
+  slope: number;
+  lower: number | null;
+  upper: number | null;
+  confidence: number;
+  /** exp(slope), exp(lower), exp(upper): the factor on the odds ratio (odds-ratio) or on every log odds ratio (layer-effect) per unit. */
+  factor: number;
+  factorLower: number | null;
+  factorUpper: number | null;
+  unit: WaveScores['unit'];
+  /** Dated waves: the same change over one average step between waves (`spacing`, in years): factor^spacing, and its interval. */
+  perAverageWave: { spacing: number; factor: number; factorLower: number | null; factorUpper: number | null } | null;
+  /** Whether the association grows (moves away from independence) or fades; null when it cannot be told (no slope, an odds ratio of 1). */
+  direction: 'grows' | 'fades' | null;
+  /** False when a fit reached its sweep bound before settling (the numbers are then provisional). */
+  converged: boolean;
+  /** Per wave: the odds ratio on the fitted Woolf line, exp(intercept + slope · score) (odds-ratio), or φ_k, the wave's strength relative to the mean wave (layer-effect). */
+  fitted: number[];
+  scoreTest: (TestResult & { direction: -1 | 0 | 1 }) | null;
+  woolf: LogOddsRatioTrend | null;
+  layerEffect: Omit<LayerEffectTrend, 'test'> | null;
+}
+
+export interface WaveDeparture {
+  /** The wave's position in `waves`. */
+  wave: number;
+  key: string;
+  /** 2×2: (a − A)/√Var around the common odds ratio (Breslow & Day); r×c: null. */
+  z: number | null;
+  /** 2×2: z²; r×c: G² of no three-way interaction minus that of the other waves. */
+  statistic: number;
+  df: number;
+  pValue: number;
+  /** Holm's adjustment over the waves tested. */
+  adjustedPValue: number;
+  /** adjustedPValue ≤ alpha. */
+  standsOut: boolean;
+  /** 2×2: whether this wave's odds ratio lies further from 1 than the common one ('stronger') or nearer; r×c: null. */
+  direction: 'stronger' | 'weaker' | null;
+}
+
+export interface WaveDrift {
+  pearson: TestResult;
+  likelihoodRatio: TestResult;
+  /** pearson.pValue ≤ alpha. */
+  drifted: boolean;
+  /** Each wave's shares of the margin's levels, in percent (rows: waves, columns: levels), from the weighted counts shown. */
+  shares: (number | null)[][];
+}
+
+export interface PartialLevel {
+  level: string;
+  /** Keys of the waves the level does not occur in (it is counted as zero there). */
+  absentFrom: string[];
+}
+
+export interface WavesVerdict {
+  alpha: number;
+  /** Did the association move over the waves: the trend test or the test of the same association in every wave passes after Holm's adjustment for the two. */
+  moved: boolean;
+  /** 'grows'/'fades': the trend test passes; 'uneven': only the same-association test does; 'differs': it does and no trend could be fitted; 'stable': neither; 'untestable': no test could be computed. */
+  pattern: 'grows' | 'fades' | 'uneven' | 'differs' | 'stable' | 'untestable';
+  trend: { pValue: number; adjustedPValue: number; passes: boolean } | null;
+  sameAssociation: { pValue: number; adjustedPValue: number; passes: boolean } | null;
+  /** The smallest adjusted p-value of the two, the one `moved` rests on. */
+  decidingPValue: number | null;
+  evidence: Evidence;
+}
+
+/** Sentence facts, in reading order; renderers put them into words. */
+export type WavesStatement =
+  | { kind: 'latest'; from: string; to: string; changed: boolean | null; pValue: number | null; test: ChangeTest['method'] | null; deltaBiasCorrectedV: number | null }
+  | { kind: 'pattern'; pattern: WavesVerdict['pattern']; waves: number; first: string; last: string; test: SameAssociation['test'] | null; pValue: number | null; adjustedPValue: number | null; passes: boolean | null }
+  | { kind: 'trend'; method: WavesTrend['method']; direction: WavesTrend['direction']; passes: boolean; factor: number; factorLower: number | null; factorUpper: number | null; confidence: number; unit: WavesTrend['unit']; perAverageWave: WavesTrend['perAverageWave']; pValue: number; adjustedPValue: number }
+  | { kind: 'stands-out'; key: string; direction: WaveDeparture['direction']; z: number | null; adjustedPValue: number }
+  | { kind: 'more-stand-out'; count: number }
+  | { kind: 'margin'; side: 'rows' | 'cols'; name: string; drifted: boolean; pValue: number }
+  | { kind: 'many-looks'; waves: number };
+
+export interface WavesReport {
+  tool: { name: 'tabsight'; version: string };
+  command: 'waves';
+  rows: { name: string; levels: string[] };
+  cols: { name: string; levels: string[] };
+  setup: WaveSetup;
+  waves: WaveRecord[];
+  /** The last two waves compared, field for field as `compare` reports them: the weekly question. */
+  latest: CompareReport;
+  sameAssociation: SameAssociation | null;
+  trend: WavesTrend | null;
+  /** From three waves on: each wave's departure from the association the others share, Holm-adjusted over the waves. */
+  departures: WaveDeparture[] | null;
+  marginDrift: { rows: WaveDrift | null; cols: WaveDrift | null };
+  /** Levels that occur in some waves only. */
+  partialLevels: { rows: PartialLevel[]; cols: PartialLevel[] };
+  verdict: WavesVerdict;
+  statements: WavesStatement[];
+  /** Sampling weights: every test across waves uses each wave's table rescaled to its effective sample size. */
+  weighted: boolean;
+  settings: { alpha: number; confidence: number; spacing: 'auto' | 'even' };
+  warnings: Warning[];
+}
+
+const MAX_NAMED_DEPARTURES = 3;
+
+function partial(levels: readonly string[], present: readonly (readonly string[])[], keys: readonly string[]): PartialLevel[] {
+  const out: PartialLevel[] = [];
+  for (const level of levels) {
+    const absentFrom = keys.filter((_k, w) => !present[w].includes(level));
+    if (absentFrom.length > 0) out.push({ level, absentFrom });
+  }
+  return out;
+}
+
+function sameAssociation(stack: number[][][], twoByTwo: boolean, confidence: number): SameAssociation | null {
+  const fit = noThreeWayInteraction(stack);
+  const interaction = fit
+    ? { statistic: fit.statistic, df: fit.df, pValue: fit.pValue, pearson: fit.pearson, iterations: fit.iterations, converged: fit.converged, nominalDf: fit.nominalDf, dfAdjusted: fit.dfAdjusted, zeroFittedCells: fit.zeroFittedCells }
+    : null;
+  let equalOdds: SameAssociation['equalOdds'] = null;
+  if (twoByTwo) {
+    const common = mantelHaenszelOddsRatio(stack, confidence);
+    const bdt = common ? breslowDayTarone(stack, common.estimate) : null;
+    if (common && bdt) equalOdds = { ...bdt, commonOddsRatio: common };
+  }
+  if (equalOdds) return { test: 'breslow-day-tarone', statistic: equalOdds.statistic, df: equalOdds.df, pValue: equalOdds.pValue, interaction, equalOdds };
+  if (interaction) return { test: 'no-three-way-interaction', statistic: interaction.statistic, df: interaction.df, pValue: interaction.pValue, interaction, equalOdds: null };
+  return null;
+}
+
+/** The change over one average step between dated waves. */
+function perAverageWave(scores: WaveScores, slope: number, lower: number | null, upper: number | null): WavesTrend['perAverageWave'] {
+  if (scores.unit !== 'year' || scores.values.length < 2) return null;
+  const spacing = (Math.max(...scores.values) - Math.min(...scores.values)) / (scores.values.length - 1);
+  const at = (x: number | null) => (x === null ? null : Math.exp(x * spacing));
+  return { spacing, factor: Math.exp(slope * spacing), factorLower: at(lower), factorUpper: at(upper) };
+}
+
+function trendOf(stack: number[][][], scores: WaveScores, twoByTwo: boolean, confidence: number, commonLogOdds: number | null): WavesTrend | null {
+  if (twoByTwo) {
+    const common = mantelHaenszelOddsRatio(stack, confidence);
+    if (!common) return null;
+    const score = breslowDayTrend(stack, scores.values, common.estimate);
+    const woolf = woolfTrend(stack, scores.values, confidence);
+    if (!score || !woolf) return null;
+    const slope = woolf.slope;
+    const logOdds = commonLogOdds ?? 0;
+    const direction = slope === 0 || logOdds === 0 ? null : Math.sign(slope) === Math.sign(logOdds) ? 'grows' : 'fades';
+    return {
+      method: 'odds-ratio',
+      statistic: score.statistic,
+      df: score.df,
+      pValue: score.pValue,
+      slope,
+      lower: woolf.lower,
+      upper: woolf.upper,
+      confidence,
+      factor: Math.exp(slope),
+      factorLower: Math.exp(woolf.lower),
+      factorUpper: Math.exp(woolf.upper),
+      unit: scores.unit,
+      perAverageWave: perAverageWave(scores, slope, woolf.lower, woolf.upper),
+      direction,
+      converged: true,
+      fitted: scores.values.map((x) => Math.exp(woolf.intercept + slope * x)),
+      scoreTest: score,
+      woolf,
+      layerEffect: null,
+    };
+  }
+  const fit = layerEffectTrend(stack, scores.values, confidence);
+  if (!fit) return null;
+  const { test, ...layerEffect } = fit;
+  return {
+    method: 'layer-effect',
+    statistic: test.statistic,
+    df: test.df,
+    pValue: test.pValue,
+    slope: fit.slope,
+    lower: fit.lower,
+    upper: fit.upper,
+    confidence,
+    factor: Math.exp(fit.slope),
+    factorLower: fit.lower === null ? null : Math.exp(fit.lower),
+    factorUpper: fit.upper === null ? null : Math.exp(fit.upper),
+    unit: scores.unit,
+    perAverageWave: perAverageWave(scores, fit.slope, fit.lower, fit.upper),
+    direction: fit.slope > 0 ? 'grows' : fit.slope < 0 ? 'fades' : null,
+    converged: fit.converged,
+    fitted: fit.layerStrength,
+    scoreTest: null,
+    woolf: null,
+    layerEffect,
+  };
+}
+
+function departuresOf(stack: number[][][], keys: readonly string[], twoByTwo: boolean, alpha: number, commonOddsRatio: number | null): WaveDeparture[] | null {
+  if (stack.length < 3) return null;
+  const raw: ({ z: number | null; statistic: number; df: number; pValue: number } | null)[] = [];
+  if (twoByTwo) {
+    if (commonOddsRatio === null) return null;
+    for (const z of breslowDayResiduals(stack, commonOddsRatio)) raw.push(z === null ? null : { z, statistic: z * z, df: 1, pValue: upperTailChiSquare(z * z, 1) });
+  } else {
+    const tests = layerDepartures(stack);
+    if (tests === null) return null;
+    for (const t of tests) raw.push(t === null ? null : { z: null, statistic: t.statistic, df: t.df, pValue: t.pValue });
+  }
+  const tested = raw.map((r, w) => ({ r, w })).filter((x) => x.r !== null);
+  if (tested.length < 3) return null;
+  const adjusted = holm(tested.map((x) => x.r!.pValue));
+  return tested.map(({ r, w }, k) => {
+    const z = r!.z;
+    const direction = z === null || commonOddsRatio === null || commonOddsRatio === 1 || z === 0 ? null : (z > 0) === (commonOddsRatio > 1) ? 'stronger' : 'weaker';
+    return { wave: w, key: keys[w], z, statistic: r!.statistic, df: r!.df, pValue: r!.pValue, adjustedPValue: adjusted[k], standsOut: adjusted[k] <= alpha, direction };
+  });
+}
+
+function driftOf(test: DriftTest | null, margins: number[][], alpha: number): WaveDrift | null {
+  if (test === null) return null;
+  const shares = margins.map((m) => {
+    const total = m.reduce((s, v) => s + v, 0);
+    return m.map((v) => (total > 0 ? (100 * v) / total : null));
+  });
+  return { pearson: test.pearson, likelihoodRatio: test.likelihoodRatio, drifted: test.pearson.pValue <= alpha, shares };
+}
+
+function verdictOf(trend: WavesTrend | null, same: SameAssociation | null, alpha: number): WavesVerdict {
+  const ps = [trend?.pValue, same?.pValue].filter((p): p is number => p !== undefined);
+  const adjusted = holm(ps);
+  let at = 0;
+  const entry = (p: number | undefined) => {
+    if (p === undefined) return null;
+    const adjustedPValue = adjusted[at++];
+    return { pValue: p, adjustedPValue, passes: adjustedPValue <= alpha };
+  };
+  const t = entry(trend?.pValue);
+  const s = entry(same?.pValue);
+  const deciding = ps.length > 0 ? Math.min(...adjusted) : null;
+  const pattern: WavesVerdict['pattern'] =
+    t === null && s === null ? 'untestable' : t?.passes ? (trend!.direction === 'fades' ? 'fades' : 'grows') : s?.passes ? (t === null ? 'differs' : 'uneven') : 'stable';
+  const moved = (t?.passes ?? false) || (s?.passes ?? false);
+  return { alpha, moved, pattern, trend: t, sameAssociation: s, decidingPValue: deciding, evidence: deciding === null ? 'none' : evidenceOf(deciding, alpha) };
+}
+
+/**
+ * The waves report: K ≥ 2 waves of the same pair, in wave order, with the
+ * scores a trend is measured on. Levels are the union of the waves' levels
+ * (those named by --row-order/--col-order first); a level absent from a
+ * wave counts zero there and is listed. Tests across waves use each wave's
+ * table rescaled to its effective sample size under sampling weights.
+ */
+export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, options: AnalysisOptions, order: { rows?: string[]; cols?: string[] } = {}, spacing: 'auto' | 'even' = 'auto'): WavesReport {
+  const K = inputs.length;
+  if (K < 2) throw dataError(`waves needs at least two waves; found ${K}`);
+  if (setup.scores.values.length !== K) throw new Error(`analyzeWaves: ${K} waves but ${setup.scores.values.length} scores`);
+  const alpha = options.alpha;
+  const keys = inputs.map((w) => w.key);
+  const rowName = inputs[0].table.rowName;
+  const colName = inputs[0].table.colName;
+  const present = inputs.map((w) => dropEmptyLevels(w.table));
+  const rowLevels = unionOfLevels(present.map((t) => t.rowLevels), order.rows);
+  const colLevels = unionOfLevels(present.map((t) => t.colLevels), order.cols);
+  for (const [name, levels] of [
+    [rowName, rowLevels],
+    [colName, colLevels],
+  ] as const) {
+    if (levels.length < 2) throw dataError(`column "${name}" has ${levels.length === 0 ? 'no value' : `a single level ("${levels[0]}")`} in the counted rows of every wave; an association needs at least two`);
+  }
+  const twoByTwo = rowLevels.length === 2 && colLevels.length === 2;
+
+  // Each wave on the shared levels, in the report's level order.
+  const aligned = inputs.map((w) => ({ ...w, table: relabelTable(w.table, rowLevels, colLevels) }));
+  const waves: WaveRecord[] = aligned.map((w, k) => ({ ...periodRecord(w, options), key: w.key, score: setup.scores.values[k] }));
+  const stack = aligned.map((w) => rescaleToEffectiveSize(w.table.counts, w.weighting));
+  const latest = compareReport(inputs[K - 2], inputs[K - 1], options, order);
+
+  const same = sameAssociation(stack, twoByTwo, options.confidence);
+  const common = same?.equalOdds?.commonOddsRatio.estimate ?? (twoByTwo ? (mantelHaenszelOddsRatio(stack, options.confidence)?.estimate ?? null) : null);
+  const trend = trendOf(stack, setup.scores, twoByTwo, options.confidence, common === null ? null : Math.log(common));
+  const departures = departuresOf(stack, keys, twoByTwo, alpha, common);
+  const drift = marginDrift(stack);
+  const shownRowMargins = aligned.map((w) => w.table.counts.map((row) => row.reduce((s, v) => s + v, 0)));
+  const shownColMargins = aligned.map((w) => colLevels.map((_l, j) => w.table.counts.reduce((s, row) => s + row[j], 0)));
+  const marginDriftRecord = { rows: driftOf(drift.rows, shownRowMargins, alpha), cols: driftOf(drift.columns, shownColMargins, alpha) };
+  const partialLevels = { rows: partial(rowLevels, present.map((t) => t.rowLevels), keys), cols: partial(colLevels, present.map((t) => t.colLevels), keys) };
+  const verdict = verdictOf(trend, same, alpha);
+
+  const warnings: Warning[] = [
+    ...unknownOrderWarnings('--row-order', (order.rows ?? []).filter((l) => !rowLevels.includes(l))),
+    ...unknownOrderWarnings('--col-order', (order.cols ?? []).filter((l) => !colLevels.includes(l))),
+  ];
+  const describe = (name: string, levels: PartialLevel[]) =>
+    levels.map((p) => `${name} "${p.level}" (absent from ${p.absentFrom.length === 1 ? `wave ${p.absentFrom[0]}` : `${p.absentFrom.length} waves: ${p.absentFrom.slice(0, 5).join(', ')}${p.absentFrom.length > 5 ? ', …' : ''}`})`);
+  const partialWords = [...describe(rowName, partialLevels.rows), ...describe(colName, partialLevels.cols)];
+  if (partialWords.length > 0) {
+    warnings.push({ code: 'level-in-some-waves', message: `levels that occur in some waves only are counted as zero in the others: ${partialWords.join('; ')}` });
+  }
+  const untestable = waves.filter((w) => !w.testable).map((w) => w.key);
+  if (untestable.length > 0) {
+    warnings.push({ code: 'wave-not-testable', message: `${untestable.length === 1 ? `wave ${untestable[0]} has` : `waves ${untestable.join(', ')} have`} fewer than two levels on a side and no test of their own; they still count in the tests across waves` });
+  }
+  const sparse = waves.filter((w) => w.testable && !w.expectedCountRule.passes).map((w) => w.key);
+  if (sparse.length > 0) {
+    warnings.push({
+      code: 'sparse-waves',
+      message: `${sparse.length === 1 ? `wave ${sparse[0]} fails` : `${sparse.length} of ${K} waves fail`} the expected-count rule${sparse.length > 1 ? ` (${sparse.slice(0, 5).join(', ')}${sparse.length > 5 ? ', …' : ''})` : ''}: their own p-values are exact or simulated, but the tests across waves rest on chi-square approximations; read them with care, or merge sparse levels (--recode, --other)`,
+    });
+  }
+  if (same?.interaction && !same.interaction.converged) {
+    warnings.push({ code: 'fit-not-converged', message: `the fit of the same association in every wave did not settle within ${same.interaction.iterations} sweeps; its G² is provisional` });
+  }
+  if (trend && !trend.converged) {
+    warnings.push({ code: 'fit-not-converged', message: 'the fit of the trend model did not settle within its sweep bound; the trend and its interval are provisional' });
+  }
+  const span = Math.max(...setup.scores.values) - Math.min(...setup.scores.values);
+  if (trend === null && span > 0) {
+    warnings.push({
+      code: 'trend-not-fitted',
+      message: twoByTwo
+        ? 'no trend in the odds ratio could be estimated: fewer than two waves have a defined odds ratio'
+        : 'no trend could be estimated: the trend model does not settle on these sparse tables (cells of zero leave its fit without a finite estimate); merge sparse levels (--recode, --other) to test for a trend',
+    });
+  }
+  if (setup.withoutWave > 0) {
+    warnings.push({ code: 'no-wave', message: `${setup.withoutWave.toLocaleString('en-US')} ${setup.withoutWave === 1 ? 'row is' : 'rows are'} in no wave: ${setup.withoutWave === 1 ? 'its' : 'their'} value of ${setup.period ?? 'the period column'} is missing (or its level has no row with both values of the pair)` });
+  }
+
+  const statements: WavesStatement[] = [];
+  statements.push({
+    kind: 'latest',
+    from: keys[K - 2],
+    to: keys[K - 1],
+    changed: latest.verdict?.changed ?? null,
+    pValue: latest.verdict?.pValue ?? null,
+    test: latest.change?.method ?? null,
+    deltaBiasCorrectedV: latest.deltaBiasCorrectedV,
+  });
+  statements.push({
+    kind: 'pattern',
+    pattern: verdict.pattern,
+    waves: K,
+    first: keys[0],
+    last: keys[K - 1],
+    test: same?.test ?? null,
+    pValue: same?.pValue ?? null,
+    adjustedPValue: verdict.sameAssociation?.adjustedPValue ?? null,
+    passes: verdict.sameAssociation?.passes ?? null,
+  });
+  if (trend && verdict.trend) {
+    statements.push({
+      kind: 'trend',
+      method: trend.method,
+      direction: trend.direction,
+      passes: verdict.trend.passes,
+      factor: trend.factor,
+      factorLower: trend.factorLower,
+      factorUpper: trend.factorUpper,
+      confidence: trend.confidence,
+      unit: trend.unit,
+      perAverageWave: trend.perAverageWave,
+      pValue: trend.pValue,
+      adjustedPValue: verdict.trend.adjustedPValue,
+    });
+  }
+  const standing = (departures ?? []).filter((d) => d.standsOut).sort((a, b) => a.adjustedPValue - b.adjustedPValue);
+  for (const d of standing.slice(0, MAX_NAMED_DEPARTURES)) statements.push({ kind: 'stands-out', key: d.key, direction: d.direction, z: d.z, adjustedPValue: d.adjustedPValue });
+  if (standing.length > MAX_NAMED_DEPARTURES) statements.push({ kind: 'more-stand-out', count: standing.length - MAX_NAMED_DEPARTURES });
+  if (marginDriftRecord.rows) statements.push({ kind: 'margin', side: 'rows', name: rowName, drifted: marginDriftRecord.rows.drifted, pValue: marginDriftRecord.rows.pearson.pValue });
+  if (marginDriftRecord.cols) statements.push({ kind: 'margin', side: 'cols', name: colName, drifted: marginDriftRecord.cols.drifted, pValue: marginDriftRecord.cols.pearson.pValue });
+  statements.push({ kind: 'many-looks', waves: K });
+
+  return {
+    tool: { name: 'tabsight', version: TOOL_VERSION },
+    command: 'waves',
+    rows: { name: rowName, levels: rowLevels },
+    cols: { name: colName, levels: colLevels },
+    setup,
+    waves,
+    latest,
+    sameAssociation: same,
+    trend,
+    departures,
+    marginDrift: marginDriftRecord,
+    partialLevels,
+    verdict,
+    statements,
+    weighted: inputs.some((w) => w.weighting.kind === 'weight'),
+    settings: { alpha, confidence: options.confidence, spacing },
+    warnings,
+  };
+}
