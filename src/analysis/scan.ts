@@ -6,6 +6,7 @@ import { adjustPValues, Adjustment } from '../stats/multipleTesting.js';
 import { CountPair, mergeRareLevels } from '../table/countedTable.js';
 import { EncodedColumn, recodeColumn, shapeColumn } from '../table/encodedColumn.js';
 import type { LevelRules } from '../table/levelRules.js';
+import { derivation } from '../table/derived.js';
 import { OrderedColumn, orderColumn } from '../table/orderedColumn.js';
 import { relabelTable } from '../table/twoWayTable.js';
 import { analyzeStrata, StratifiedSummary, StratumRecord } from './stratify.js';
@@ -22,6 +23,8 @@ export interface ScanOptions {
   recodes: Map<string, Map<string, string>>;
   /** The level rules of a column (codebook, cuts, recodes, --keep-missing), when any apply. */
   rules?: (name: string) => LevelRules | null;
+  /** Score pairs where one column is a recoding of the other, instead of listing them apart. */
+  keepDerived?: boolean;
   /** Whether the codebook orders a column (ordered, or cut into bins). */
   ordered?: (name: string) => boolean;
   keepMissing: boolean;
@@ -60,6 +63,15 @@ export interface UntestablePair {
   reason: string;
 }
 
+/** A pair where one column is a recoding of the other (table/derived.ts): associated by construction, so not scored. */
+export interface DerivedPair {
+  rows: string;
+  cols: string;
+  reason: string;
+  rowLevels: number;
+  colLevels: number;
+}
+
 export interface ScanReport {
   tool: { name: 'tabsight'; version: string };
   command: 'scan';
@@ -73,6 +85,8 @@ export interface ScanReport {
   pairs: ScanPair[];
   skipped: SkippedColumn[];
   untestable: UntestablePair[];
+  /** Pairs where one column is a recoding of the other, left out of the ranking and the multiple-testing family (unless --keep-derived). */
+  derived: DerivedPair[];
   /** The variable held fixed, when --by was given. */
   by: string | null;
   /** With --weight or --freq: how rows were weighted ("none" otherwise). */
@@ -137,6 +151,7 @@ export function prepareColumns(columns: EncodedColumn[], layer: EncodedColumn | 
 export function scorePairs(prepared: PreparedColumns, rows: number, input: InputSummary, options: ScanOptions, countPair: CountPair): ScanReport {
   const { ordered, skipped, layer } = prepared;
   const untestable: UntestablePair[] = [];
+  const derived: DerivedPair[] = [];
   const records: (AnalysisRecord & { layered?: ReturnType<typeof analyzeStrata> })[] = [];
   for (let a = 0; a < ordered.length; a++) {
     for (let b = a + 1; b < ordered.length; b++) {
@@ -148,6 +163,18 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
       if (table.rowLevels.length < 2 || table.colLevels.length < 2) {
         const side = table.rowLevels.length < 2 ? table.rowName : table.colName;
         untestable.push({ rows: table.rowName, cols: table.colName, reason: `"${side}" has fewer than two levels where "${side === table.rowName ? table.colName : table.rowName}" has a value` });
+        continue;
+      }
+      // One column a recoding of the other (V = 1 by construction): listed apart, out of the ranking and the family.
+      const derivedBy = options.keepDerived ? null : derivation(table.counts);
+      if (derivedBy) {
+        derived.push({
+          rows: table.rowName,
+          cols: table.colName,
+          reason: derivedBy.colsFromRows && derivedBy.rowsFromCols ? `each level of one matches one level of the other` : derivedBy.colsFromRows ? `each level of "${table.rowName}" occurs with one level of "${table.colName}"` : `each level of "${table.colName}" occurs with one level of "${table.rowName}"`,
+          rowLevels: table.rowLevels.length,
+          colLevels: table.colLevels.length,
+        });
         continue;
       }
       // Two columns the codebook orders (or cuts) get the ordinal measures, as in pair.
@@ -197,6 +224,7 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
     pairs,
     skipped,
     untestable,
+    derived,
     by: layer ? layer.name : null,
     weighting: records[0]?.weighting ?? 'none',
   };

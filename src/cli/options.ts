@@ -30,6 +30,7 @@ export function addTableOptions(command: Command, formats: readonly string[]): C
     .option('--col-order <levels>', 'comma-separated order of the column levels')
     .addOption(new Option('--format <format>', 'output format').choices(formats).default('text'))
     .option('--alpha <level>', 'significance level of every decision in the report (and of --exit-status)', '0.05')
+    .option('--bins <k>', 'cut a numeric side with more than k values into k equal-frequency bins (as scan --bins cuts it)')
     .addOption(new Option('--cells <view>', 'what the cells of the text tables show: compact (count and row share), counts, row, col, total (shares), expected, residuals').choices(CELL_VIEWS).default('compact'))
     .option('--no-color', 'plain text without colour');
 }
@@ -279,6 +280,7 @@ export interface RawTableOptions extends RawReaderOptions, RawAnalysisOptions, R
   rowOrder?: string;
   colOrder?: string;
   alpha: string;
+  bins?: string;
 }
 
 /** The parts of a one-table command's plan (pair, compare), parsed once. */
@@ -299,7 +301,7 @@ export function tablePlan(raw: RawTableOptions): TablePlan {
   return {
     reader,
     analysis,
-    table: { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, ...survey },
+    table: { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, ...survey, bins: raw.bins === undefined ? null : positiveInteger(raw.bins, '--bins', 2) },
     order: { rows: splitList(raw.rowOrder), cols: splitList(raw.colOrder) },
     alpha: probability(raw.alpha, '--alpha'),
   };

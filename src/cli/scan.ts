@@ -25,6 +25,7 @@ interface RawScanOptions extends RawReaderOptions, RawAnalysisOptions, RawSurvey
   top?: string;
   maxColumns: string;
   full?: boolean;
+  keepDerived?: boolean;
   format: ScanFormat;
 }
 
@@ -41,6 +42,8 @@ export interface ScanPlan {
   alpha: number;
   top: number | null;
   full: boolean;
+  /** --keep-derived: score pairs where one column is a recoding of the other. */
+  keepDerived: boolean;
   analysis: AnalysisOptions;
   format: ScanFormat;
   report: ReportPlan;
@@ -63,6 +66,7 @@ export function scanPlan(file: string | undefined, raw: RawScanOptions): ScanPla
     alpha,
     top,
     full: raw.full === true,
+    keepDerived: raw.keepDerived === true,
     analysis,
     format: raw.format,
     report: reportPlan(raw),
@@ -101,6 +105,7 @@ export function scanCommand(accept: (plan: ScanPlan) => void): Command {
     .option('--top <k>', 'keep only the k strongest pairs')
     .option('--max-columns <n>', 'refuse a file with more candidate columns than this', '300')
     .option('--full', 'include each pair\'s counts, expected counts, residuals and percentages (json)')
+    .option('--keep-derived', 'score pairs where one column is a recoding of the other (listed apart by default)')
     .addOption(new Option('--format <format>', 'output format').choices(Object.keys(SCAN_RENDERERS)).default('text'))
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
@@ -156,6 +161,7 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
     alpha: plan.alpha,
     top: plan.top,
     full: plan.full,
+    keepDerived: plan.keepDerived,
     analysis: plan.analysis,
     recodes,
     rules: (name) => columnRules(table, name, recodes),

@@ -27,9 +27,10 @@ import { checkCodebookColumns } from './codebookFile.js';
 import { detectMissingTokens, missingTokenNotes } from './missingTokens.js';
 import { Codebook, codebookColumn } from '../table/codebook.js';
 import { levelOrder, LevelRules } from '../table/levelRules.js';
-import type { CutSpec } from '../table/bins.js';
 import { IdTally } from './idTally.js';
 import { tallyInParallel, threadsFor } from './parallelCount.js';
+import { CutSpec, equalFrequencyBinsFromCounts } from '../table/bins.js';
+import { isNumericLabel } from '../table/naturalOrder.js';
 import { InputSource } from './source.js';
 
 /** The table to count from a source: its columns and the rules that shape rows and levels. */
@@ -56,6 +57,8 @@ export interface TableRequest {
   codebook?: Codebook | null;
   /** --cuts: cut points by column (a codebook's cuts count too). */
   cuts?: CutSpec[];
+  /** --bins k: a numeric side with more than k values is cut into k equal-frequency bins, as scan cuts it. */
+  bins?: number | null;
 }
 
 /** Rows left out of the table for a missing value, by column and reason (a row missing in two columns counts in both). */
@@ -77,7 +80,7 @@ export const RELABELLED_READING_CAP = 65534;
 
 function relabelled(request: TableRequest, name: string): boolean {
   const rules = columnRules(request, name);
-  return rules.recode !== null || (rules.cuts ?? null) !== null || (rules.codebook?.values.length ?? 0) > 0;
+  return rules.recode !== null || (rules.cuts ?? null) !== null || (rules.codebook?.values.length ?? 0) > 0 || (request.bins ?? null) !== null;
 }
 
 /** Usage errors of a request, before anything is read. */
@@ -141,6 +144,8 @@ class LayeredCounter {
   private readonly reasons = new Map<number, Map<string, number>>();
   /** Rows left out for a missing value of the table, by the value id of their (present) layer level. */
   readonly excludedByLayer = new Map<number, number>();
+  /** With --bins: rows per value id of the row and the column variable, over every row the filters keep (as scan bins them). */
+  marginals: [Float64Array, Float64Array] | null = null;
 
   constructor(
     private readonly request: TableRequest,
@@ -175,6 +180,21 @@ class LayeredCounter {
     const r = ids[row];
     const c = ids[col];
     const b = by >= 0 ? ids[by] : 1;
+    if (this.marginals) {
+      for (const [slot, id] of [
+        [row, r],
+        [col, c],
+      ]) {
+        if (id <= 0) continue;
+        let tally = this.marginals[slot === row ? 0 : 1];
+        if (id >= tally.length) {
+          const grown = new Float64Array(Math.max(tally.length * 2, id + 1));
+          grown.set(tally);
+          tally = this.marginals[slot === row ? 0 : 1] = grown;
+        }
+        tally[id] += rows;
+      }
+    }
     const rowReason = this.missingReason(row, r);
     const colReason = this.missingReason(col, c);
     const byReason = by >= 0 ? this.missingReason(by, b) : null;
@@ -406,12 +426,24 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
     source.label,
   );
   const counter = new LayeredCounter(request, slots, label, (slot, id) => labels[slot].missingReason(id));
+  if (request.bins) counter.marginals = [new Float64Array(64), new Float64Array(64)];
   const onLabels = (known: (readonly string[])[]) => (labelsOf = known);
   const summary =
     engine === null
       ? await countRows(source, reader, request, slots, gate, counter, onLabels)
       : await countGroups(engine.engine, engine.input, source, reader, request, slots, gate, counter, onLabels);
   if (summary.records === 0) throw dataError(`${source.label}: the header has no data rows under it`);
+  if (request.bins && counter.marginals) {
+    [slots.row, slots.col].forEach((slot, side) => {
+      const rules = labels[slot].rules;
+      if (rules.recode || rules.cuts || (rules.codebook?.values.length ?? 0) > 0) return;
+      const values = labelsOf[slot] ?? [];
+      if (values.length <= (request.bins as number) || !values.every(isNumericLabel)) return;
+      const tally = counter.marginals![side];
+      const binned = equalFrequencyBinsFromCounts(values.map(Number), values.map((_v, k) => tally[k + 1] ?? 0), request.bins as number);
+      labels[slot].useBins(['', ...binned.binOf.map((b) => (b > 0 ? binned.labels[b - 1] : ''))]);
+    });
+  }
   const kind: Weighting['kind'] = request.summedWeights ? 'weight' : request.weight ? request.weight.kind : 'none';
   const { counted, unknownRowLevels, unknownColLevels } = finishTables(request, counter, label, slots, gate.filtered, kind, (slot, levels) => levelOrder(labels[slot].rules, levels));
   // Values that commonly mean missing but are counted as levels: one note per column (io/missingTokens.ts).

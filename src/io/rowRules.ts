@@ -201,7 +201,15 @@ export class ColumnLevels {
    * number of the column is one, judged the first time a label is asked for
    * (after reading, for the table).
    */
+  /** Equal-frequency bins (--bins): the bin label of each value id, decided once the column is read. */
+  useBins(labelOfId: readonly string[]): void {
+    this.bins = labelOfId;
+  }
+
+  private bins: readonly string[] | null = null;
+
   of(id: number): string {
+    if (this.bins !== null && id > 0 && this.outcome(id).kind === 'level') return this.bins[id];
     let outcome = id >= 0 ? this.levels[id] : undefined;
     if (outcome === undefined) {
       if (this.labelRules === null) {

@@ -200,6 +200,7 @@ export function renderScanHtml(report: ScanReport): string {
     .join('');
   const skipped = report.skipped.map((s) => `<li>${e(s.column)}: ${e(s.reason)}</li>`).join('');
   const untestable = report.untestable.map((u) => `<li>${e(u.rows)} × ${e(u.cols)}: ${e(u.reason)}</li>`).join('');
+  const derived = (report.derived ?? []).map((d) => `<li>${e(d.rows)} × ${e(d.cols)}: ${e(d.reason)}</li>`).join('');
   const used = [...new Set(report.pairs.flatMap(pairFlags))];
   const body = `<h1>Pairs of ${e(report.input.file)}</h1>
 <p class="meta">${e(scanSummary(report))}</p>
@@ -208,7 +209,7 @@ export function renderScanHtml(report: ScanReport): string {
 <h2>Pairs, strongest first</h2><table><tr><th>#</th><th>passes</th><th>pair</th><th>bias-corrected V</th><th>Cramér's V</th><th>leading p</th><th>test</th><th>adjusted p</th><th>notes</th></tr>${rows}</table>
 ${used.length ? `<p class="dim">${e(used.map((f) => `${f} = ${FLAG_LEGEND[f]}`).join('; '))}</p>` : ''}
 ${report.pairs.length < report.pairsTested ? `<p class="dim">${report.pairsTested - report.pairs.length} weaker pairs not shown (--top); ${report.pairsPassing} of all ${report.pairsTested} pairs pass.</p>` : ''}
-${skipped ? `<h2>Columns left out</h2><ul>${skipped}</ul>` : ''}${untestable ? `<h2>Pairs that could not be tested</h2><ul>${untestable}</ul>` : ''}`;
+${skipped ? `<h2>Columns left out</h2><ul>${skipped}</ul>` : ''}${untestable ? `<h2>Pairs that could not be tested</h2><ul>${untestable}</ul>` : ''}${derived ? `<h2>One column a recoding of the other (not ranked)</h2><ul>${derived}</ul>` : ''}`;
   return page(`Pairs of ${report.input.file}`, body);
 }
 

@@ -101,6 +101,10 @@ export function renderScanText(report: ScanReport, paint: ChalkInstance, options
     out.push(...heading(paint, 'Pairs that could not be tested', width));
     for (const u of report.untestable) out.push(...wrapText(`${u.rows} × ${u.cols}: ${u.reason}`, width, '  ', '    '));
   }
+  if ((report.derived ?? []).length > 0) {
+    out.push(...heading(paint, 'One column a recoding of the other (not ranked; --keep-derived scores them)', width));
+    for (const d of report.derived) out.push(...wrapText(`${d.rows} × ${d.cols}: ${d.reason}`, width, '  ', '    '));
+  }
   out.push(...cautionLines(paint, width));
   return out.join('\n') + '\n';
 }
@@ -234,6 +238,10 @@ export function renderScanMarkdown(report: ScanReport): string {
   if (report.untestable.length > 0) {
     out.push('');
     out.push('Pairs that could not be tested: ' + report.untestable.map((u) => `${md(u.rows)} × ${md(u.cols)} (${md(u.reason)})`).join('; ') + '.');
+  }
+  if ((report.derived ?? []).length > 0) {
+    out.push('');
+    out.push('One column a recoding of the other (not ranked): ' + report.derived.map((d) => `${md(d.rows)} × ${md(d.cols)} (${md(d.reason)})`).join('; ') + '.');
   }
   out.push('');
   out.push(`_${md(CAUTION)}_`);

@@ -163,3 +163,29 @@ describe('the missing-token note (list and sources in src/io/missingTokens.ts)',
     expect(scan.stderr).toContain('column "age" holds "NA", "."');
   });
 });
+
+describe('scan: derived pairs and --bins', () => {
+  // The ANES extract with one more column, a grouping of educ (1–2 no diploma, 3 high school, 4–7 college).
+  const lines = readFileSync(DATA, 'utf8').trimEnd().split('\n');
+  const educAt = lines[0].split('\t').indexOf(q('educ'));
+  const group = (code: string) => (Number(code) <= 2 ? 'no diploma' : Number(code) === 3 ? 'high school' : 'college');
+  const withGroup = tempFile('anes-grouped.tsv', [lines[0] + '\teducGroup', ...lines.slice(1).map((l) => `${l}\t${group(l.split('\t')[educAt])}`)].join('\n') + '\n');
+  it('a column that is a recoding of another is listed apart, out of the ranking and the family (Cramér 1946: V = 1 by construction)', async () => {
+    const out = await runJson(['scan', withGroup, '--columns', `${q('educ')},educGroup,${q('vote')}`]);
+    expect(out.derived).toEqual([{ rows: q('educ'), cols: 'educGroup', reason: `each level of "${q('educ')}" occurs with one level of "educGroup"`, rowLevels: 7, colLevels: 3 }]);
+    expect(out.pairsTested).toBe(2);
+    expect(out.pairs.map((p: { cols: { name: string } }) => p.cols.name)).toEqual([q('vote'), q('vote')]);
+    const kept = await runJson(['scan', withGroup, '--columns', `${q('educ')},educGroup,${q('vote')}`, '--keep-derived']);
+    expect(kept.pairsTested).toBe(3);
+    expect(kept.pairs[0].measures.cramersV).toBeCloseTo(1, 12);
+  });
+  it('pair --bins gives the same equal-frequency bins and counts as scan --bins', async () => {
+    for (const [column, k] of [[q('TVnews'), 5], [q('age'), 4], [q('popul'), 6]] as const) {
+      const scan = await runJson(['scan', DATA, '--bins', String(k), '--columns', `${column},${q('vote')}`, '--full', '--max-levels', '5']);
+      expect(scan.skipped).toEqual([]);
+      const pair = await runJson(['pair', DATA, '--rows', column, '--cols', q('vote'), '--bins', String(k)]);
+      expect(pair.rows.levels).toEqual(scan.pairs[0].rows.levels);
+      expect(pair.counts).toEqual(scan.pairs[0].counts);
+    }
+  });
+});
