@@ -17,8 +17,14 @@ export type ExitStatusCode = (typeof ExitStatus)[keyof typeof ExitStatus];
 
 export class TabsightError extends Error {
   readonly exitStatus: ExitStatusCode;
+  /**
+   * The message is kept as given (it may echo the data: a file name, a
+   * column name, a value); it becomes one line where it is printed, with
+   * every control character shown and its length bounded
+   * (src/escape/terminal.ts, messageLine).
+   */
   constructor(message: string, exitStatus: ExitStatusCode = ExitStatus.dataError) {
-    super(message.replace(/\s*\n\s*/g, ' '));
+    super(message);
     this.name = 'TabsightError';
     this.exitStatus = exitStatus;
   }

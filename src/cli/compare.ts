@@ -130,7 +130,7 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
   let before: PeriodInput;
   let after: PeriodInput;
   const guard = outputGuard(io, plan.report);
-  guard.checkInputs(plan.periods.kind === 'column' ? [plan.periods.input] : [plan.periods.before, plan.periods.after]);
+  guard.checkInputs([...(plan.periods.kind === 'column' ? [plan.periods.input] : [plan.periods.before, plan.periods.after]), ...(plan.table.codebook ? [plan.table.codebook.file] : [])]);
   if (plan.periods.kind === 'column') {
     const source = inputSource(plan.periods.input, io.stdin);
     checkReadable(source);

@@ -7,10 +7,24 @@ import { readRecords } from '../io/readRecords.js';
 import { parseWeightValue } from '../io/rowRules.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { compareNatural } from '../table/naturalOrder.js';
-import { delimitedField } from '../render/scanTable.js';
+import { delimitedField, looksLikeFormula } from '../escape/spreadsheet.js';
 import { addReaderOptions, addSurveyOptions, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerPlan, surveyPlan, readerFor } from './options.js';
-import { CliIo, emit, outputGuard } from './output.js';
+import { CliIo, emit, noteWriter, outputGuard } from './output.js';
 import { DONE, Outcome } from './outcome.js';
+
+/**
+ * A note when a label would run as a formula in a spreadsheet: count files
+ * are written exactly as the data says, because the tool reads them back
+ * (--freq count, merge); a spreadsheet should open them as text.
+ */
+function noteFormulas(io: CliIo, header: string[], rows: [string[], number][]): void {
+  const labels = new Set([...header, ...rows.flatMap(([key]) => key)].filter(looksLikeFormula));
+  if (labels.size === 0) return;
+  const [first] = labels;
+  noteWriter(io)(
+    `${labels.size.toLocaleString('en-US')} label${labels.size === 1 ? '' : 's'} (such as "${first.slice(0, 40)}") start${labels.size === 1 ? 's' : ''} like a spreadsheet formula; count files keep labels exactly for tabsight to read back, so open this file in a spreadsheet only as text`,
+  );
+}
 
 /** The long count format that `--freq count` reads back: one line per combination. */
 function countLines(header: string[], rows: [string[], number][]): string {
@@ -88,6 +102,7 @@ export async function runCount(plan: CountPlan, io: CliIo): Promise<Outcome> {
   if (counted.strata) for (const s of counted.strata) add([s.level], s.table);
   else add([], counted.table);
   const header = [...(plan.table.by !== undefined ? [plan.table.by] : []), plan.table.rows, plan.table.cols, 'count'];
+  noteFormulas(io, header, lines);
   await emit(io, countLines(header, sortKeys(lines)), plan.output);
   return DONE;
 }
@@ -142,6 +157,7 @@ export async function runMerge(plan: MergePlan, io: CliIo): Promise<Outcome> {
     );
   }
   if (header === null) throw usageError('merge needs at least one count file');
+  noteFormulas(io, header, [...totals.values()]);
   await emit(io, countLines(header, sortKeys([...totals.values()])), plan.output);
   return DONE;
 }

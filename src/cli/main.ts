@@ -13,6 +13,7 @@ import { completionCommand, CompletionPlan, runCompletion } from './completion.j
 import { countCommand, CountPlan, mergeCommand, MergePlan, runCount, runMerge } from './counts.js';
 import { CliIo, processIo } from './output.js';
 import { ClosedPipe } from '../output/reasons.js';
+import { messageLine } from '../escape/terminal.js';
 import { removeTemporariesOnSignals } from '../output/temporaries.js';
 import { Outcome, statusOf } from './outcome.js';
 import { pairCommand, PairPlan, runPair } from './pair.js';
@@ -43,7 +44,7 @@ export function buildProgram(io: CliIo, accept: (chosen: CommandPlan) => void): 
     writeOut: (text: string) => io.stdout.write(text),
     writeErr: (text: string) => {
       const line = oneLine(text);
-      if (line !== '') io.stderr.write(`tabsight: ${line}\n`);
+      if (line !== '') io.stderr.write(`tabsight: ${messageLine(line)}\n`);
     },
   };
   const program = new Command('tabsight')
@@ -120,7 +121,8 @@ export async function run(args: readonly string[], io: CliIo): Promise<{ status:
     }
     if (error instanceof ClosedPipe) return { status: ExitStatus.ok }; // `| head`: ends quietly
     if (error instanceof TabsightError) {
-      io.stderr.write(`tabsight: ${error.message}\n`);
+      // The message may echo the data (a file name, a column name, a value): control characters visible, clipped.
+      io.stderr.write(`tabsight: ${messageLine(error.message)}\n`);
       return { status: error.exitStatus };
     }
     throw error;

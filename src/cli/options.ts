@@ -255,6 +255,12 @@ export interface RawReportOptions {
   plot?: string;
   exitStatus?: boolean;
   color?: boolean;
+  rawCells?: boolean;
+}
+
+/** --raw-cells, for the commands with CSV/TSV reports (pair, scan). */
+export function addRawCellsOption(command: Command): Command {
+  return command.option('--raw-cells', "csv/tsv: write every cell exactly as in the data, for machine use (by default a cell a spreadsheet would run as a formula, starting with = + - @ tab or CR, gets a leading ')");
 }
 
 /** Where the report goes and what the exit status says. */
@@ -267,10 +273,12 @@ export interface ReportPlan {
   exitStatus: boolean;
   /** False with --no-color; colour is also off for files, pipes and NO_COLOR. */
   color: boolean;
+  /** --raw-cells: CSV/TSV cells exactly as in the data (no spreadsheet guard). */
+  rawCells: boolean;
 }
 
 export function reportPlan(raw: RawReportOptions): ReportPlan {
-  return { output: raw.output, plot: raw.plot, exitStatus: raw.exitStatus === true, color: raw.color !== false };
+  return { output: raw.output, plot: raw.plot, exitStatus: raw.exitStatus === true, color: raw.color !== false, rawCells: raw.rawCells === true };
 }
 
 /** The options of a command that analyses one pair of columns (pair, compare), parsed once. */

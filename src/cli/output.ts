@@ -5,6 +5,7 @@
  * rules that keep outputs from destroying data, live in src/output.
  */
 import { Chalk, ChalkInstance } from 'chalk';
+import { messageLine } from '../escape/terminal.js';
 import { OutputGuard, OutputTarget } from '../output/guard.js';
 import { writeTarget, WriteHooks } from '../output/atomicWrite.js';
 import { OutputStream, processStandardOutput, writeStandardOutput } from '../output/standardOutput.js';
@@ -38,7 +39,7 @@ export function writeOut(io: CliIo, text: string): Promise<void> {
 
 /** A one-line note on standard error (for example, that the engine handed a file back to the built-in reader). */
 export function noteWriter(io: CliIo): (note: string) => void {
-  return (note) => io.stderr.write(`tabsight: note: ${note}\n`);
+  return (note) => io.stderr.write(`tabsight: note: ${messageLine(note)}\n`);
 }
 
 /** The test hooks of the environment (see WriteHooks). */

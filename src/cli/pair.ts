@@ -6,7 +6,7 @@ import { countTable, TableRequest } from '../io/counting.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { PAIR_RENDERERS, PairFormat } from '../render/renderers.js';
 import { mosaicPlot, residualHeatMap, stackSvg } from '../render/svg.js';
-import { addAnalysisOptions, addReaderOptions, addReportOptions, addSummedWeightsOption, addSurveyOptions, addTableOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan, readerFor } from './options.js';
+import { addAnalysisOptions, addReaderOptions, addRawCellsOption, addReportOptions, addSummedWeightsOption, addSurveyOptions, addTableOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan, readerFor } from './options.js';
 import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { CellView } from '../render/pairText.js';
 import type { Outcome } from './outcome.js';
@@ -46,6 +46,7 @@ export function pairCommand(accept: (plan: PairPlan) => void): Command {
   addSummedWeightsOption(command);
   addAnalysisOptions(command);
   addReportOptions(command);
+  addRawCellsOption(command);
   command.addHelpText(
     'after',
     `
@@ -65,7 +66,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no a
 export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
   const guard = outputGuard(io, plan.report);
-  guard.checkInputs([plan.input]);
+  guard.checkInputs([plan.input, ...(plan.table.codebook ? [plan.table.codebook.file] : [])]);
   checkReadable(source);
   const counted = await countTable(source, readerFor(plan.reader, io, guard), plan.table);
   const sides = codebookSides(plan.table, counted.table);
@@ -82,7 +83,7 @@ export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
   );
   describeSides(report, sides, counted.excludedBy);
   const toFile = plan.report.output !== undefined;
-  const text = PAIR_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: plan.cells });
+  const text = PAIR_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: plan.cells, rawCells: plan.report.rawCells });
   if (plan.report.plot !== undefined) await writeSideFile(io, plan.report.plot, stackSvg([residualHeatMap(report), mosaicPlot(report)]));
   await emit(io, text, plan.report.output);
   return { found: report.verdict.passes, exitStatusWanted: plan.report.exitStatus };

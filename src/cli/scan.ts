@@ -7,7 +7,7 @@ import { encodeColumns } from '../io/counting.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { SCAN_RENDERERS, ScanFormat } from '../render/renderers.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
-import { addAnalysisOptions, addReaderOptions, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary, readerFor } from './options.js';
+import { addAnalysisOptions, addReaderOptions, addRawCellsOption, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary, readerFor } from './options.js';
 import { recodesByColumn } from '../io/rowRules.js';
 import { columnRules, TableRequest } from '../io/countTable.js';
 import { codebookColumn } from '../table/codebook.js';
@@ -112,6 +112,7 @@ export function scanCommand(accept: (plan: ScanPlan) => void): Command {
   addSurveyOptions(command);
   addAnalysisOptions(command);
   addReportOptions(command);
+  addRawCellsOption(command);
   command.addHelpText(
     'after',
     `
@@ -130,7 +131,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no p
 export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
   const guard = outputGuard(io, plan.report);
-  guard.checkInputs([plan.input]);
+  guard.checkInputs([plan.input, ...(plan.survey.codebook ? [plan.survey.codebook.file] : [])]);
   const reader = readerFor(plan.reader, io, guard);
   const survey = plan.survey;
   const recodes = recodesByColumn(survey.recodes);
@@ -181,7 +182,7 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
     return scorePairs(prepared, encoded.rows, inputSummary(source.label, encoded), options, countPair);
   });
   const toFile = plan.report.output !== undefined;
-  const text = SCAN_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: 'compact' });
+  const text = SCAN_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: 'compact', rawCells: plan.report.rawCells });
   if (plan.report.plot !== undefined) await writeSideFile(io, plan.report.plot, stackSvg([strengthChart(report)]));
   await emit(io, text, plan.report.output);
   return { found: report.pairsPassing > 0, exitStatusWanted: plan.report.exitStatus };

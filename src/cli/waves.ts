@@ -14,6 +14,7 @@ import { baseName, orderOfFiles, orderOfLevels, Spacing, WaveKey, WaveOrderMode,
 import {
   addAnalysisOptions,
   addReaderOptions,
+  addRawCellsOption,
   addReportOptions,
   addSummedWeightsOption,
   addSurveyOptions,
@@ -89,6 +90,7 @@ export function wavesCommand(accept: (plan: WavesPlan) => void): Command {
   addSummedWeightsOption(command);
   addAnalysisOptions(command);
   addReportOptions(command);
+  addRawCellsOption(command);
   command.addHelpText(
     'after',
     `
@@ -176,6 +178,7 @@ async function wavesOfColumn(plan: WavesPlan, input: string, column: string, lis
 /** Counts every wave, analyses the series, writes the report; found = the association moved over the waves at --alpha. */
 export async function runWaves(plan: WavesPlan, io: CliIo): Promise<Outcome> {
   const guard = outputGuard(io, plan.report);
+  if (plan.table.codebook) guard.checkInputs([plan.table.codebook.file]);
   const { waves, setup } =
     plan.waves.kind === 'column'
       ? await wavesOfColumn(plan, plan.waves.input, plan.waves.column, plan.waves.levels, io, guard)
@@ -187,7 +190,7 @@ export async function runWaves(plan: WavesPlan, io: CliIo): Promise<Outcome> {
   };
   const report = analyzeWaves(waves, setup, plan.analysis, order, plan.spacing);
   const toFile = plan.report.output !== undefined;
-  const text = WAVES_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: 'compact' });
+  const text = WAVES_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: 'compact', rawCells: plan.report.rawCells });
   if (plan.report.plot !== undefined) await writeSideFile(io, plan.report.plot, stackSvg(wavesCharts(report)));
   await emit(io, text, plan.report.output);
   return { found: report.verdict.moved, exitStatusWanted: plan.report.exitStatus };

@@ -3,6 +3,7 @@
  * one typed codebook, with one-line errors naming the entry.
  */
 import { readFileSync, statSync } from 'node:fs';
+import { restoreFormula } from '../escape/spreadsheet.js';
 import { TabsightError, usageError } from '../errors.js';
 import { Codebook, CodebookColumn, CodeEntry, codeKey, MissingCode, Net } from '../table/codebook.js';
 import { closestName } from './columns.js';
@@ -423,7 +424,7 @@ function csvRecords(text: string, file: string): { delimiter: string; records: C
  * would run as a formula (render/codebookFormat.ts, spreadsheetCell).
  */
 function unguard(value: string): string {
-  return /^'[=+\-@]/.test(value) ? value.slice(1) : value;
+  return restoreFormula(value);
 }
 
 const YES = new Set(['yes', 'y', 'true', '1', 'ordered']);

@@ -3,7 +3,7 @@
  * reads back the same.
  */
 import type { Codebook } from '../table/codebook.js';
-import { delimitedField } from './scanTable.js';
+import { spreadsheetField } from '../escape/spreadsheet.js';
 
 /**
  * Writes a codebook in its two forms (docs/codebook.md). What is written
@@ -60,8 +60,7 @@ function layout(value: unknown, indent = ''): string {
  * Injection"). Then quoted as RFC 4180 asks.
  */
 export function spreadsheetCell(value: string): string {
-  const guarded = /^[=+\-@\t\r]/.test(value) && !/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(value) ? `'${value}` : value;
-  return delimitedField(guarded, ',');
+  return spreadsheetField(value, ',');
 }
 
 /**

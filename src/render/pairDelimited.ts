@@ -6,7 +6,8 @@ import type { AnalysisRecord } from '../analysis/analyzeTable.js';
 import type { PairReport } from '../analysis/report.js';
 import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';
 import { inputLine } from './pairText.js';
-import { delimitedField, exactNumber } from './scanTable.js';
+import { exactNumber } from './scanTable.js';
+import { spreadsheetField } from '../escape/spreadsheet.js';
 import { CAUTION, comparison, headline, intervalWords, markLegend, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
 
 /**
@@ -115,16 +116,16 @@ export function pairLines(report: PairReport): Line[] {
   return lines;
 }
 
-export function renderPairDelimited(report: PairReport, delimiter: ',' | '\t'): string {
+/** One line per cell, test and measure; cells a spreadsheet would run as formulas are neutralised unless `raw` (--raw-cells). */
+export function renderPairDelimited(report: PairReport, delimiter: ',' | '\t', raw = false): string {
   const out = [PAIR_COLUMNS.join(delimiter)];
-  for (const line of pairLines(report)) out.push(line.map((v) => delimitedField(exactNumber(v), delimiter)).join(delimiter));
+  for (const line of pairLines(report)) out.push(line.map((v) => spreadsheetField(exactNumber(v), delimiter, raw)).join(delimiter));
   return out.join('\n') + '\n';
 }
 
-/** Text for a Markdown table cell or paragraph: pipes escaped, one line, glue as plain spaces. */
-export function md(s: string): string {
-  return s.replace(/\u00a0/g, ' ').replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/[*_`[\]<]/g, (c) => `\\${c}`).replace(/\r?\n/g, ' ');
-}
+/** Text for a Markdown table cell or paragraph: src/escape/markdown.ts (one line, nothing from the data becomes markup). */
+export { markdownText as md } from '../escape/markdown.js';
+import { markdownText as md } from '../escape/markdown.js';
 
 function markdownGrid(record: AnalysisRecord, cell: (i: number, j: number) => string, margins: boolean): string[] {
   const share = (x: number) => (record.n > 0 ? formatPercent((100 * x) / record.n) : UNDEFINED);

@@ -9,11 +9,10 @@ import { clip, formatCount } from './format.js';
  * decides nothing.
  */
 
-/** Control characters from the data shown as visible escapes, so a value cannot move the cursor or recolour the terminal. */
-export function terminalSafe(s: string): string {
-  // eslint-disable-next-line no-control-regex
-  return s.replace(/[\u0000-\u001f\u007f-\u009f]/g, (c) => `\\u{${c.charCodeAt(0).toString(16)}}`);
-}
+/** Control characters from the data shown as visible escapes: src/escape/terminal.ts. */
+export { terminalSafe } from '../escape/terminal.js';
+import { terminalSafe } from '../escape/terminal.js';
+import { markdownText } from '../escape/markdown.js';
 
 const KIND_WORDS: Record<ColumnProfile['kind'], string> = {
   empty: 'empty',
@@ -78,7 +77,7 @@ export function renderProfileText(report: ProfileReport, paint: ChalkInstance): 
   return out.join('\n');
 }
 
-const cell = (s: string) => s.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/[\r\n]+/g, ' ').replace(/([*_`[\]<>])/g, '\\$1');
+const cell = markdownText;
 
 export function renderProfileMarkdown(report: ProfileReport): string {
   const out: string[] = [`**${cell(heading(report))}**`, '', '| column | kind | distinct | empty | missing-looking | most frequent |', '|---|---|--:|--:|---|---|'];

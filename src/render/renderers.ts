@@ -17,45 +17,56 @@ import { renderScanDelimited, renderScanMarkdown, renderScanText } from './scanT
 import { renderWavesDelimited, renderWavesMarkdown } from './wavesDelimited.js';
 import { renderWavesHtml } from './wavesHtml.js';
 import { renderWavesText } from './wavesText.js';
+import { terminalSafeRecord } from '../escape/terminal.js';
 
-/** What a renderer may need besides the record: the colours of the terminal, the page width and the cell view of text tables (decisions come from the record alone). */
+/**
+ * What a renderer may need besides the record: the colours of the terminal,
+ * the page width and the cell view of text tables, and whether CSV/TSV cells
+ * are written raw, for machine use (--raw-cells). Decisions come from the
+ * record alone. Each format escapes what comes from the data at this edge:
+ * text through src/escape/terminal.ts (here, on the whole record), HTML and
+ * SVG through escape/markup.ts, Markdown through escape/markdown.ts, CSV and
+ * TSV through escape/spreadsheet.ts (in their renderers); JSON escapes by
+ * its own grammar.
+ */
 export interface RenderContext {
   paint: ChalkInstance;
   width: number;
   cells: CellView;
+  rawCells?: boolean;
 }
 
 type Renderers<R> = Record<string, (report: R, context: RenderContext) => string>;
 
 export const PAIR_RENDERERS = {
-  text: (report, { paint, width, cells }) => renderPairText(report, paint, { width, cells }),
+  text: (report, { paint, width, cells }) => renderPairText(terminalSafeRecord(report), paint, { width, cells }),
   json: (report) => toJson(report),
-  csv: (report) => renderPairDelimited(report, ','),
-  tsv: (report) => renderPairDelimited(report, '\t'),
+  csv: (report, { rawCells }) => renderPairDelimited(report, ',', rawCells),
+  tsv: (report, { rawCells }) => renderPairDelimited(report, '\t', rawCells),
   markdown: (report) => renderPairMarkdown(report),
   html: (report) => renderPairHtml(report),
 } satisfies Renderers<PairReport>;
 
 export const SCAN_RENDERERS = {
-  text: (report, { paint, width }) => renderScanText(report, paint, { width }),
+  text: (report, { paint, width }) => renderScanText(terminalSafeRecord(report), paint, { width }),
   json: (report) => toJson(report),
-  csv: (report) => renderScanDelimited(report, ','),
-  tsv: (report) => renderScanDelimited(report, '\t'),
+  csv: (report, { rawCells }) => renderScanDelimited(report, ',', rawCells),
+  tsv: (report, { rawCells }) => renderScanDelimited(report, '\t', rawCells),
   markdown: (report) => renderScanMarkdown(report),
   html: (report) => renderScanHtml(report),
 } satisfies Renderers<ScanReport>;
 
 export const COMPARE_RENDERERS = {
-  text: (report, { paint, width, cells }) => renderCompareText(report, paint, { width, cells }),
+  text: (report, { paint, width, cells }) => renderCompareText(terminalSafeRecord(report), paint, { width, cells }),
   json: (report) => toJson(report),
   html: (report) => renderCompareHtml(report),
 } satisfies Renderers<CompareReport>;
 
 export const WAVES_RENDERERS = {
-  text: (report, { paint, width }) => renderWavesText(report, paint, { width }),
+  text: (report, { paint, width }) => renderWavesText(terminalSafeRecord(report), paint, { width }),
   json: (report) => toJson(report),
-  csv: (report) => renderWavesDelimited(report, ','),
-  tsv: (report) => renderWavesDelimited(report, '\t'),
+  csv: (report, { rawCells }) => renderWavesDelimited(report, ',', rawCells),
+  tsv: (report, { rawCells }) => renderWavesDelimited(report, '\t', rawCells),
   markdown: (report) => renderWavesMarkdown(report),
   html: (report) => renderWavesHtml(report),
 } satisfies Renderers<WavesReport>;

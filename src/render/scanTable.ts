@@ -198,13 +198,14 @@ export function exactNumber(x: string | number | boolean | null): string {
   return String(x);
 }
 
-export function delimitedField(value: string, delimiter: string): string {
-  return value.includes(delimiter) || value.includes('"') || value.includes('\n') || value.includes('\r') ? `"${value.replace(/"/g, '""')}"` : value;
-}
+/** RFC 4180 quoting, and the spreadsheet guard of CSV/TSV reports: src/escape/spreadsheet.ts. */
+export { delimitedField } from '../escape/spreadsheet.js';
+import { spreadsheetField } from '../escape/spreadsheet.js';
 
-export function renderScanDelimited(report: ScanReport, delimiter: ',' | '\t'): string {
+/** One row per pair; cells a spreadsheet would run as formulas are neutralised unless `raw` (--raw-cells). */
+export function renderScanDelimited(report: ScanReport, delimiter: ',' | '\t', raw = false): string {
   const lines = [SCAN_COLUMNS.join(delimiter)];
-  for (const pair of report.pairs) lines.push(scanRow(pair).map((v) => delimitedField(exactNumber(v), delimiter)).join(delimiter));
+  for (const pair of report.pairs) lines.push(scanRow(pair).map((v) => spreadsheetField(exactNumber(v), delimiter, raw)).join(delimiter));
   return lines.join('\n') + '\n';
 }
 

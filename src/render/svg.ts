@@ -10,9 +10,9 @@ import { ADJUSTMENT_NAMES, trimZeros } from './words.js';
 
 /** Pictures as SVG strings: records in, markup out, nothing computed beyond layout. */
 
-export function escapeXml(s: string): string {
-  return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;').replace(/'/g, '&#39;');
-}
+/** Text from the data in SVG and HTML: src/escape/markup.ts (well-formed with any characters, never markup). */
+export { escapeXml } from '../escape/markup.js';
+import { escapeXml } from '../escape/markup.js';
 
 /**
  * A diverging pair that colour-blind readers tell apart: blue for more than

@@ -1,7 +1,8 @@
 import type { WaveRecord, WavesReport } from '../analysis/waves.js';
 import { formatCount, formatP, formatRatio, formatStatistic, UNDEFINED } from '../numbers.js';
 import { md } from './pairDelimited.js';
-import { delimitedField, exactNumber } from './scanTable.js';
+import { exactNumber } from './scanTable.js';
+import { spreadsheetField } from '../escape/spreadsheet.js';
 import { CAUTION, testName } from './words.js';
 import { acrossTests, latestHeadline, patternHeadline, setupWords, slopeWords, vWithInterval, wavesStatementWords } from './wavesWords.js';
 
@@ -84,9 +85,10 @@ function waveLine(report: WavesReport, w: WaveRecord, k: number): Value[] {
   ];
 }
 
-export function renderWavesDelimited(report: WavesReport, delimiter: ',' | '\t'): string {
+/** One line per wave; cells a spreadsheet would run as formulas are neutralised unless `raw` (--raw-cells). */
+export function renderWavesDelimited(report: WavesReport, delimiter: ',' | '\t', raw = false): string {
   const lines = [WAVES_COLUMNS.join(delimiter)];
-  report.waves.forEach((w, k) => lines.push(waveLine(report, w, k).map((x) => delimitedField(exactNumber(x), delimiter)).join(delimiter)));
+  report.waves.forEach((w, k) => lines.push(waveLine(report, w, k).map((x) => spreadsheetField(exactNumber(x), delimiter, raw)).join(delimiter)));
   return lines.join('\n') + '\n';
 }
 

@@ -30,7 +30,7 @@ describe('typed plans', () => {
     expect(plan.table).toMatchObject({ rows: 'a', cols: 'b', rowOrder: ['y', 'x'], weight: { column: 'w', kind: 'weight' }, other: { k: 3, label: 'other' }, maxLevels: 50 });
     expect(plan.format).toBe('csv');
     expect(plan.alpha).toBe(0.01);
-    expect(plan.report).toEqual({ output: undefined, plot: undefined, exitStatus: true, color: true });
+    expect(plan.report).toEqual({ output: undefined, plot: undefined, exitStatus: true, color: true, rawCells: false });
     expect(plan.reader).toMatchObject({ missing: [], skipBadRows: false, header: true, engine: 'auto' });
   });
 

@@ -8,6 +8,7 @@ import { fileURLToPath } from 'node:url';
 import { mulberry32 } from '../../scripts/seeded-random.mjs';
 import { addOutputCases } from './outputs.mjs';
 import { addStreamCases } from './streams.mjs';
+import { addEscapingCases } from './escaping.mjs';
 
 const DEMO = fileURLToPath(new URL('../../fixtures/demo/patron-survey.csv', import.meta.url));
 
@@ -125,6 +126,7 @@ export function makeCorpus(dir, which = 'all') {
   if (which !== 'large') {
     addOutputCases({ dir, add, demo: DEMO });
     addStreamCases({ dir, add });
+    addEscapingCases({ dir, add });
   }
   return cases;
 }

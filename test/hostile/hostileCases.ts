@@ -19,6 +19,8 @@ export interface HostileCase {
   stderr?: RegExp;
   stdout?: RegExp;
   json?: (out: unknown) => void;
+  /** A check of the whole standard output (a text, Markdown, CSV or HTML report). */
+  stdoutCheck?: (text: string) => void;
   large?: boolean;
   /**
    * How the case runs: in-process (the default), as its own process, through
@@ -134,4 +136,5 @@ export function expectOutcome(c: HostileCase, result: Run & { signal?: NodeJS.Si
   } else if (c.stderr) expect(result.stderr).toMatch(c.stderr);
   if (c.stdout) expect(result.stdout).toMatch(c.stdout);
   if (c.json) c.json(JSON.parse(result.stdout));
+  c.stdoutCheck?.(result.stdout);
 }

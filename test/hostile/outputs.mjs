@@ -47,6 +47,13 @@ export function addOutputCases({ dir, add, demo }) {
   add({ name: 'outputs: --output is a hard link of the input', args: pair(data, '--format', 'json', '--output', hard), status: 2, stderr: same });
   add({ name: 'outputs: --output and --plot name one file', args: pair(data, '--output', join(out, 'r.txt'), '--plot', `${out}/./r.txt`), status: 2, stderr: /--output .*r\.txt and --plot .*r\.txt name the same file/ });
   add({ name: 'outputs: standard input is redirected from --output', args: pair('-', '--output', data), mode: 'shell', shell: (program) => `${program} < '${data}'`, status: 2, stderr: /--output .*data\.csv is the file on standard input/, engine: false });
+  const codebook = file('codebook.json', JSON.stringify({ codebook: 1, columns: [{ name: 'a', values: [{ code: 'x', label: 'ex' }, { code: 'y', label: 'why' }] }] }));
+  for (const command of ['pair', 'scan']) {
+    const args = command === 'pair' ? pair(data, '--codebook', codebook, '--output', codebook) : ['scan', data, '--codebook', codebook, '--plot', codebook];
+    add({ name: `outputs: ${command} writing over the codebook it reads`, args, status: 2, stderr: /is the input file .*codebook\.json/ });
+  }
+  const wave2 = file('week-2026-01-12.csv', table);
+  add({ name: 'outputs: waves --output names one of the wave files', args: ['waves', file('week-2026-01-05.csv', table), wave2, '--rows', 'a', '--cols', 'b', '--output', wave2], status: 2, stderr: /--output .*week-2026-01-12\.csv is the input file/, engine: false });
   add({ name: 'outputs: count --output names the input', args: ['count', data, '--rows', 'a', '--cols', 'b', '--output', data], status: 2, stderr: same });
   const before = file('before.csv', table);
   add({ name: 'outputs: compare --output names the earlier file', args: ['compare', before, data, '--rows', 'a', '--cols', 'b', '--output', before], status: 2, stderr: /is the input file .*before\.csv/ });

@@ -8,15 +8,9 @@
 import type { WeightKind } from '../rowRules.js';
 import { TOOL_VERSION } from '../../version.js';
 
-/** A text as a standard SQL string literal. */
-export function sqlLiteral(text: string): string {
-  return `'${text.replace(/'/g, "''")}'`;
-}
-
-/** A name as a standard SQL delimited identifier. */
-export function sqlIdentifier(name: string): string {
-  return `"${name.replace(/"/g, '""')}"`;
-}
+/** Quoting by the SQL standard, and comments that data cannot end: src/escape/sql.ts. */
+export { sqlIdentifier, sqlLiteral } from '../../escape/sql.js';
+import { sqlCommentText, sqlIdentifier, sqlLiteral } from '../../escape/sql.js';
 
 /** The pattern of parseWeightValue in rowRules.ts, for the engine's regular expressions. */
 export const NUMBER_PATTERN = '[+-]?([0-9]+[.]?[0-9]*|[.][0-9]+)([eE][+-]?[0-9]+)?';
@@ -135,7 +129,9 @@ export function portableCountingSql(request: CountingSqlRequest): string {
   const select = keys.map((k) => `  ${portableLevel(k, request.missing)} AS ${sqlIdentifier(k)}`);
   const measures = ['  COUNT(*) AS "count"'];
   const where: string[] = [];
-  let readBack = `tabsight pair cells.csv --rows ${request.rows} --cols ${request.cols}${request.by !== undefined ? ` --by ${request.by}` : ''} --freq count`;
+  // A name as a shell word, so that the read-back command can be pasted.
+  const word = (name: string) => (/^[\w.,:/@%+-]+$/.test(name) ? name : `'${name.replace(/'/g, `'\\''`)}'`);
+  let readBack = `tabsight pair cells.csv --rows ${word(request.rows)} --cols ${word(request.cols)}${request.by !== undefined ? ` --by ${word(request.by)}` : ''} --freq count`;
   if (request.weight !== undefined) {
     const w = `CAST(${sqlIdentifier(request.weight)} AS DOUBLE PRECISION)`;
     measures.push(`  SUM(${w}) AS "weight_sum"`, `  SUM(${w} * ${w}) AS "weight_square_sum"`);
@@ -143,11 +139,14 @@ export function portableCountingSql(request: CountingSqlRequest): string {
     readBack += ' --summed-weights weight_sum,weight_square_sum';
   }
   const positions = keys.map((_k, i) => String(i + 1)).join(', ');
+  // Comments echo column names and tokens: a line break in them must not end the comment (escape/sql.ts).
+  const comment = (text: string) => `-- ${sqlCommentText(text)}`;
   return [
-    `-- tabsight ${TOOL_VERSION}: counts of ${request.rows} by ${request.cols}${request.by !== undefined ? ` in each ${request.by}` : ''}.`,
-    `-- Values are trimmed; empty values${request.missing.length > 0 ? ` and ${request.missing.join(', ')}` : ''} are NULL, which the tool reads as missing.`,
-    ...(request.weight !== undefined ? [`-- Rows without a weight are left out here (the tool would refuse them); weights must be numbers, at least 0.`] : []),
-    `-- Save the result as CSV with a header, then: ${readBack}`,
+    comment(`tabsight ${TOOL_VERSION}: counts of ${request.rows} by ${request.cols}${request.by !== undefined ? ` in each ${request.by}` : ''}.`),
+    comment(`Values are trimmed; empty values${request.missing.length > 0 ? ` and ${request.missing.join(', ')}` : ''} are NULL, which the tool reads as missing.`),
+    ...(request.weight !== undefined ? [comment('Rows without a weight are left out here (the tool would refuse them); weights must be numbers, at least 0.')] : []),
+    comment('Standard SQL: identifiers in double quotes, a quote inside written twice (an engine that reads "…" as a string or \\ as an escape needs its standard mode).'),
+    comment(`Save the result as CSV with a header, then: ${readBack}`),
     'SELECT',
     [...select, ...measures].join(',\n'),
     `FROM ${request.table}`,
