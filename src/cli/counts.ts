@@ -63,7 +63,7 @@ export function countPlan(file: string | undefined, raw: RawCountOptions): Count
   const survey = surveyPlan(raw);
   if (survey.weight?.kind === 'weight') throw usageError('count writes whole counts; --weight is not a count (sum sampling weights in the engine that holds the data, or use --freq to re-count counts)');
   if (survey.other) throw usageError('--other merges levels per table; apply it when analysing the counts, not when writing them');
-  return { input: file ?? '-', reader, table: { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, ...survey, allowDegenerate: true }, output: raw.output };
+  return { input: file ?? '-', reader, table: { rows: raw.rows, cols: raw.cols, maxLevels: reader.maxLevels, ...survey, allowDegenerate: true, keepExcludedCells: true }, output: raw.output };
 }
 
 export function countCommand(accept: (plan: CountPlan) => void): Command {
@@ -101,6 +101,8 @@ export async function runCount(plan: CountPlan, io: CliIo): Promise<Outcome> {
     t.rowLevels.forEach((rl, i) => t.colLevels.forEach((cl, j) => t.counts[i][j] > 0 && lines.push([[...prefix, rl, cl], t.counts[i][j]])));
   if (counted.strata) for (const s of counted.strata) add([s.level], s.table);
   else add([], counted.table);
+  // Rows left out for a missing value stay in the count file (empty, or the missing code as written), so pair --freq leaves them out alike.
+  for (const [key, rows] of counted.excludedCells) lines.push([key, rows]);
   const header = [...(plan.table.by !== undefined ? [plan.table.by] : []), plan.table.rows, plan.table.cols, 'count'];
   noteFormulas(io, header, lines);
   await emit(io, countLines(header, sortKeys(lines)), plan.output);

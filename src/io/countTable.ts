@@ -59,6 +59,8 @@ export interface TableRequest {
   cuts?: CutSpec[];
   /** --bins k: a numeric side with more than k values is cut into k equal-frequency bins, as scan cuts it. */
   bins?: number | null;
+  /** Keep the rows left out for a missing value by their values (count writes them, so that a count file keeps them). */
+  keepExcludedCells?: boolean;
 }
 
 /** Rows left out of the table for a missing value, by column and reason (a row missing in two columns counts in both). */
@@ -144,6 +146,10 @@ class LayeredCounter {
   private readonly reasons = new Map<number, Map<string, number>>();
   /** Rows left out for a missing value of the table, by the value id of their (present) layer level. */
   readonly excludedByLayer = new Map<number, number>();
+  /** For count: the rows left out, by their combination of values as written (a JSON array of strings). */
+  excludedCells: Map<string, number> | null = null;
+  /** The value an id stands for, as read (for excludedCells). */
+  raw: (slot: number, id: number) => string = () => '';
   /** With --bins: rows per value id of the row and the column variable, over every row the filters keep (as scan bins them). */
   marginals: [Float64Array, Float64Array] | null = null;
 
@@ -199,7 +205,15 @@ class LayeredCounter {
     const colReason = this.missingReason(col, c);
     const byReason = by >= 0 ? this.missingReason(by, b) : null;
     if (rowReason !== null || colReason !== null || byReason !== null) {
+      // With --freq a line stands for as many rows as its frequency says.
+      if (this.request.weight?.kind === 'freq') rows = w + wLow;
       this.excluded += rows;
+      if (this.excludedCells) {
+        // As the value was written: empty, or the missing code itself, so that a count file read back leaves it out for the same reason.
+        const value = (slot: number, id: number, reason: string | null) => (reason === null ? this.label(slot, id) : id <= 0 ? '' : this.raw(slot, id));
+        const key = JSON.stringify([...(by >= 0 ? [value(by, b, byReason)] : []), value(row, r, rowReason), value(col, c, colReason)]);
+        this.excludedCells.set(key, (this.excludedCells.get(key) ?? 0) + rows);
+      }
       if (rowReason !== null) this.leaveOut(row, rowReason, rows);
       if (colReason !== null) this.leaveOut(col, colReason, rows);
       if (byReason !== null) this.leaveOut(by, byReason, rows);
@@ -427,6 +441,10 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
   );
   const counter = new LayeredCounter(request, slots, label, (slot, id) => labels[slot].missingReason(id));
   if (request.bins) counter.marginals = [new Float64Array(64), new Float64Array(64)];
+  if (request.keepExcludedCells) {
+    counter.excludedCells = new Map();
+    counter.raw = (slot, id) => labelsOf[slot]?.[id - 1] ?? '';
+  }
   const onLabels = (known: (readonly string[])[]) => (labelsOf = known);
   const summary =
     engine === null
@@ -452,5 +470,5 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
     [slots.row, slots.col, ...(slots.by >= 0 ? [slots.by] : [])].map((slot) => ({ name: slots.names[slot], labels: labelsOf[slot] ?? [] })),
     declared,
   );
-  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, excludedBy: counter.excludedBy(), missingTokenNotes: missingTokenNotes(findings) };
+  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, excludedBy: counter.excludedBy(), missingTokenNotes: missingTokenNotes(findings), excludedCells: counter.excludedCells ? [...counter.excludedCells].map(([key, rows]) => [JSON.parse(key) as string[], rows]) : [] };
 }

@@ -37,6 +37,8 @@ export interface CountedInput extends CountedTable {
   excludedBy: ExcludedBy[];
   /** One line per column of the table holding a value that commonly means missing, counted as a level. */
   missingTokenNotes: string[];
+  /** With keepExcludedCells: the rows left out, by their values as written ([layer,] row, col), and how many. */
+  excludedCells: [string[], number][];
 }
 
 /** The columns of a scan, read once, and the way to count their pairs. */

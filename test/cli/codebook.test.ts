@@ -189,3 +189,23 @@ describe('scan: derived pairs and --bins', () => {
     }
   });
 });
+
+describe('count | merge | pair --freq keeps the rows left out (issue rule: the same excluded as the direct run)', () => {
+  const csv = 'q,a\n1,x\n2,y\n9,x\n,y\n1,y\n2,x\n8,x\n1,x\n2,y\n9,y\n1,x\n2,\n';
+  const data = tempFile('coded-count.csv', csv);
+  const book = tempFile('coded-count.json', JSON.stringify({ codebook: 1, columns: [{ name: 'q', values: [{ code: 1, label: 'yes' }, { code: 2, label: 'no' }, { code: 8, missing: "don't know" }, { code: 9, missing: 'refused' }] }] }));
+  it('with empty fields and codebook missing codes, through a count file and a merge of two', async () => {
+    const direct = await runJson(['pair', data, '--rows', 'q', '--cols', 'a', '--codebook', book]);
+    const counts = await run(['count', data, '--rows', 'q', '--cols', 'a', '--codebook', book]);
+    expect(counts.status).toBe(0);
+    const once = await runJson(['pair', tempFile('counts.csv', counts.stdout), '--rows', 'q', '--cols', 'a', '--freq', 'count', '--codebook', book]);
+    expect(once.excluded).toBe(direct.excluded);
+    const byReason = (list: { column: string; reason: string; rows: number }[]) => [...list].sort((x, y) => `${x.column} ${x.reason}`.localeCompare(`${y.column} ${y.reason}`));
+    expect(byReason(once.excludedBy)).toEqual(byReason(direct.excludedBy));
+    expect(once.counts).toEqual(direct.counts);
+    const merged = await run(['merge', tempFile('c1.csv', counts.stdout), tempFile('c2.csv', counts.stdout)]);
+    const twice = await runJson(['pair', tempFile('merged.csv', merged.stdout), '--rows', 'q', '--cols', 'a', '--freq', 'count', '--codebook', book]);
+    expect(twice.excluded).toBe(2 * direct.excluded);
+    expect(twice.n).toBe(2 * direct.n);
+  });
+});
