@@ -8,6 +8,7 @@
 import { Command, CommanderError } from 'commander';
 import { ExitStatus, ExitStatusCode, TabsightError } from '../errors.js';
 import { TOOL_VERSION } from '../version.js';
+import { bannerCommand, BannerPlan, runBanner } from './banner.js';
 import { compareCommand, ComparePlan, runCompare } from './compare.js';
 import { completionCommand, CompletionPlan, runCompletion } from './completion.js';
 import { countCommand, CountPlan, mergeCommand, MergePlan, runCount, runMerge } from './counts.js';
@@ -26,6 +27,7 @@ import { runWaves, wavesCommand, WavesPlan } from './waves.js';
 export type CommandPlan =
   | { command: 'pair'; plan: PairPlan }
   | { command: 'scan'; plan: ScanPlan }
+  | { command: 'banner'; plan: BannerPlan }
   | { command: 'compare'; plan: ComparePlan }
   | { command: 'waves'; plan: WavesPlan }
   | { command: 'count'; plan: CountPlan }
@@ -56,6 +58,7 @@ export function buildProgram(io: CliIo, accept: (chosen: CommandPlan) => void): 
   const commands = [
     pairCommand((plan) => accept({ command: 'pair', plan })),
     scanCommand((plan) => accept({ command: 'scan', plan })),
+    bannerCommand((plan) => accept({ command: 'banner', plan })),
     compareCommand((plan) => accept({ command: 'compare', plan })),
     wavesCommand((plan) => accept({ command: 'waves', plan })),
     countCommand((plan) => accept({ command: 'count', plan })),
@@ -80,6 +83,8 @@ function execute(chosen: CommandPlan, io: CliIo, program: Command): Promise<Outc
       return runPair(chosen.plan, io);
     case 'scan':
       return runScan(chosen.plan, io);
+    case 'banner':
+      return runBanner(chosen.plan, io);
     case 'compare':
       return runCompare(chosen.plan, io);
     case 'waves':

@@ -69,6 +69,12 @@ export async function emit(io: CliIo, text: string, output: string | undefined):
   else await writeOut(io, text);
 }
 
+/** Sends a binary report (a spreadsheet) to --output (a file, written atomically) or to standard output. */
+export async function emitBytes(io: CliIo, bytes: Uint8Array, output: string | undefined): Promise<void> {
+  if (output !== undefined) await writeTarget({ option: '--output', path: output }, bytes, writeHooks(io));
+  else await writeStandardOutput(io.stdout, bytes);
+}
+
 export type { OutputTarget };
 
 /** Page width of a text report: the terminal's when printing to one (at least 60 columns), 80 otherwise. */

@@ -80,11 +80,21 @@ export interface ColumnsRequest {
   codebook?: Codebook | null;
   /** The engine counts the pairs in batches of this many GROUPING SETS per query (default 1,000; smaller in tests). */
   pairsPerQuery?: number;
+  /**
+   * Chooses the candidate columns from the header, in place of `columns`
+   * (banner: patterns such as svc_* need the header to be expanded).
+   */
+  select?: (header: readonly string[]) => string[];
+  /** Columns that may hold up to RECODED_READING_CAP levels (banner: numeric questions and delimited answers). */
+  wide?: ReadonlySet<string>;
+  /** The fewest candidate columns the command needs (default 2, a pair). */
+  minColumns?: number;
 }
 
 /** The columns of a scan, by index in the header: candidates, layer, weight and filter columns. */
 export function scanSelection(header: string[], request: ColumnsRequest, label: string): { candidates: number[]; layer: number | null; weight: number | null; where: number[] } {
-  let chosen = request.columns ? request.columns.map((c) => resolveColumn(c, header, '--columns', label)) : header.map((_h, i) => i);
+  const named = request.select ? request.select(header) : request.columns;
+  let chosen = named ? named.map((c) => resolveColumn(c, header, '--columns', label)) : header.map((_h, i) => i);
   if (request.exclude) {
     const dropped = new Set(request.exclude.map((c) => resolveColumn(c, header, '--exclude', label)));
     chosen = chosen.filter((i) => !dropped.has(i));
@@ -95,7 +105,8 @@ export function scanSelection(header: string[], request: ColumnsRequest, label: 
   const layer = request.by !== undefined ? resolveColumn(request.by, header, '--by', label) : null;
   const roles = new Set([weight, layer].filter((i): i is number => i !== null));
   chosen = [...new Set(chosen)].filter((i) => !roles.has(i));
-  if (chosen.length < 2) throw usageError(`scan needs at least two candidate columns; ${chosen.length} left after --columns/--exclude`);
+  const fewest = request.minColumns ?? 2;
+  if (chosen.length < fewest) throw usageError(`scan needs at least two candidate columns; ${chosen.length} left after --columns/--exclude`);
   if (chosen.length > request.maxColumns) {
     throw usageError(
       `${label} has ${chosen.length.toLocaleString('en-US')} candidate columns (${((chosen.length * (chosen.length - 1)) / 2).toLocaleString('en-US')} pairs), more than --max-columns ${request.maxColumns}; choose some with --columns or --exclude, or raise --max-columns`,

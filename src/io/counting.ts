@@ -48,6 +48,8 @@ export interface EncodedInput {
   layer: EncodedColumn | null;
   /** Rows kept (past the filters, with a usable weight). */
   rows: number;
+  /** The built-in reader's weight (or frequency) of each kept row, in row order; absent without --weight/--freq and on the engine's route. */
+  weights?: { values: Float64Array; kind: 'weight' | 'freq' };
   filtered: number;
   badWeights: number;
   summary: ReadSummary;
@@ -107,6 +109,16 @@ export async function countTable(source: InputSource, reader: ReaderOptions, req
   // Cells counted elsewhere are small files: the built-in reader reads them.
   const route = request.summedWeights ? 'builtin' : await chooseRoute(reader, source);
   return onRoute(source, reader, route, (engine) => countTableWith(source, reader, request, engine));
+}
+
+/**
+ * Encodes columns in one read with the built-in reader, a code per row and
+ * the rows' weights: for commands that need each respondent's answers side
+ * by side (banner: nets and multiple responses count a respondent once),
+ * which the engine's grouped entries do not give.
+ */
+export async function encodeRows<T>(source: InputSource, reader: ReaderOptions, request: ColumnsRequest, use: (encoded: EncodedInput) => Promise<T>): Promise<T> {
+  return use(await encodeWithReader(source, reader, request));
 }
 
 /**

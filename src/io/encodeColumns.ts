@@ -125,7 +125,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
         return slots.length - 1;
       };
       for (const i of chosen) {
-        const cap = request.recodes?.has(header[i]) ? Math.max(RECODED_READING_CAP, request.maxLevels) : request.maxLevels;
+        const cap = request.recodes?.has(header[i]) || request.wide?.has(header[i]) ? Math.max(RECODED_READING_CAP, request.maxLevels) : request.maxLevels;
         states.push({
           name: header[i],
           codes: new GrowingCodes(ESTIMATE_AT),
@@ -249,6 +249,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
     filtered: (gate as RowGate | null)?.filtered ?? 0,
     badWeights: (gate as RowGate | null)?.badWeights ?? 0,
     summary: read,
+    weights: rowWeights,
     countPairs: async () => (a, b, layerColumn) => countPair(a, b, { weights: rowWeights, strata: layerColumn ?? undefined }),
   };
 }

@@ -119,10 +119,10 @@ async function writeAtomically(target: OutputTarget, path: string, existing: Sta
   }
 }
 
-/** Writes `text` to the file a target names (see the top of this file). */
-export async function writeTarget(target: OutputTarget, text: string, hooks: WriteHooks = {}): Promise<void> {
+/** Writes `text` (or bytes: a spreadsheet) to the file a target names (see the top of this file). */
+export async function writeTarget(target: OutputTarget, text: string | Uint8Array, hooks: WriteHooks = {}): Promise<void> {
   const existing = await existingTarget(target);
-  const bytes = Buffer.from(text, 'utf8');
+  const bytes = typeof text === 'string' ? Buffer.from(text, 'utf8') : Buffer.from(text.buffer, text.byteOffset, text.byteLength);
   if (existing !== null && !existing.isFile()) return writeInPlace(target, target.path, bytes, hooks);
   // Through a symbolic link: the file it leads to is replaced, the link stays.
   const path = existing !== null ? await fs.realpath(target.path) : target.path;

@@ -11,7 +11,7 @@ import { ClosedPipe, writeFailure } from './reasons.js';
 
 /** A stream a run writes to; isTTY is true only for a terminal. The callback says when the text is out, or why not. */
 export interface OutputStream {
-  write(text: string, callback?: (error?: Error | null) => void): boolean;
+  write(text: string | Uint8Array, callback?: (error?: Error | null) => void): boolean;
   once(event: 'drain', listener: () => void): unknown;
   isTTY?: boolean;
 }
@@ -24,8 +24,8 @@ export interface OutputStream {
 class DescriptorStream implements OutputStream {
   readonly isTTY = false;
   constructor(private readonly fd: number) {}
-  write(text: string, callback?: (error?: Error | null) => void): boolean {
-    const bytes = Buffer.from(text, 'utf8');
+  write(text: string | Uint8Array, callback?: (error?: Error | null) => void): boolean {
+    const bytes = typeof text === 'string' ? Buffer.from(text, 'utf8') : Buffer.from(text.buffer, text.byteOffset, text.byteLength);
     let error: Error | null = null;
     try {
       for (let written = 0; written < bytes.length; ) written += writeSync(this.fd, bytes, written, bytes.length - written);
@@ -77,7 +77,7 @@ export function processStandardOutput(): OutputStream {
 }
 
 /** Writes to a run's standard output and resolves once the text is out; a failure is one line (a closed pipe: ClosedPipe). */
-export function writeStandardOutput(stream: OutputStream, text: string): Promise<void> {
+export function writeStandardOutput(stream: OutputStream, text: string | Uint8Array): Promise<void> {
   return new Promise((resolve, reject) => {
     stream.write(text, (error) => {
       if (!error) resolve();

@@ -4,10 +4,13 @@
  * these tables, so a format is added in one place.
  */
 import type { ChalkInstance } from 'chalk';
+import type { BannerReport } from '../analysis/banner.js';
 import type { CompareReport } from '../analysis/compare.js';
 import type { PairReport } from '../analysis/report.js';
 import type { ScanReport } from '../analysis/scan.js';
 import type { WavesReport } from '../analysis/waves.js';
+import { renderBannerDelimited, renderBannerHtml, renderBannerMarkdown } from './bannerTables.js';
+import { renderBannerText } from './bannerText.js';
 import { renderCompareText } from './compareText.js';
 import { renderCompareHtml, renderPairHtml, renderScanHtml } from './html.js';
 import { toJson } from './json.js';
@@ -71,6 +74,17 @@ export const WAVES_RENDERERS = {
   html: (report) => renderWavesHtml(report),
 } satisfies Renderers<WavesReport>;
 
+/** The banner's text formats; its spreadsheet (xlsx) is binary and written by render/bannerXlsx.ts. */
+export const BANNER_RENDERERS = {
+  text: (report, { paint, width }) => renderBannerText(report, paint, { width }),
+  json: (report) => toJson(report),
+  csv: (report) => renderBannerDelimited(report, ','),
+  tsv: (report) => renderBannerDelimited(report, '\t'),
+  markdown: (report) => renderBannerMarkdown(report),
+  html: (report) => renderBannerHtml(report),
+} satisfies Renderers<BannerReport>;
+
+export type BannerFormat = keyof typeof BANNER_RENDERERS;
 export type PairFormat = keyof typeof PAIR_RENDERERS;
 export type ScanFormat = keyof typeof SCAN_RENDERERS;
 export type CompareFormat = keyof typeof COMPARE_RENDERERS;

@@ -1,0 +1,611 @@
+/**
+ * The banner report: every question against every break variable, with a
+ * Total column first; per column the base, per cell the shares, the
+ * column-proportion tests within each break variable (letter keys), the
+ * Welch tests of means for numeric questions, the overall test per
+ * question × break (the pair record's verdict, or the multiple-response
+ * test), all decided here for every renderer to show.
+ */
+import { columnProportionTests, ProportionColumn } from '../stats/columnProportions.js';
+import { groupMultipleResponseTest, GroupAnswerPattern } from '../stats/multipleResponse.js';
+import { adjustPValues } from '../stats/multipleTesting.js';
+import { welchTTest } from '../stats/welch.js';
+import { BreakCodes, countPatterns, countSingle, CrossCounts, PatternCounts, QuestionCounts } from '../table/bannerCounts.js';
+import type { TwoWayTable } from '../table/twoWayTable.js';
+import type { Weighting } from '../table/weighting.js';
+import { AnalysisOptions, analyzeTable, Evidence, evidenceOf, Verdict, Warning } from './analyzeTable.js';
+import type { InputSummary } from './report.js';
+import type { SkippedColumn } from './scan.js';
+import { TOOL_VERSION } from '../version.js';
+
+/** What a banner cell shows in the human-facing formats (JSON, CSV/TSV and the spreadsheet's data carry all). */
+export type BannerCellPart = 'col' | 'row' | 'count';
+
+export type ColumnAdjustment = 'none' | 'bonferroni' | 'holm';
+export type MultipleResponseReferral = 'first-order' | 'second-order';
+
+export interface BannerSettings {
+  cells: BannerCellPart[];
+  /** Confidence levels of the marks, highest first: the first marks with upper-case keys, the second with lower-case. */
+  confidenceLevels: number[];
+  adjustment: ColumnAdjustment;
+  minimumBase: number;
+  /** α of the overall test per question × break (as pair's --alpha). */
+  alpha: number;
+  multipleResponseReferral: MultipleResponseReferral;
+  analysis: AnalysisOptions;
+}
+
+/** One input column of the banner (a break level, or the Total). */
+export interface BannerColumn {
+  /** The letter that marks it in other cells; null for the Total (never tested). */
+  key: string | null;
+  /** Its break variable; null for the Total. */
+  break: string | null;
+  level: string;
+}
+
+export interface BannerBreak {
+  name: string;
+  /** The question text of the break variable (codebook), or null. */
+  title: string | null;
+  /** Its columns: columns[first .. first + count − 1] of the report. */
+  first: number;
+  count: number;
+}
+
+export interface BannerBase {
+  /** Respondents in the column who answered the question. */
+  unweighted: number;
+  /** Σw over them (equal to `unweighted` without weights). */
+  weighted: number;
+  /** Kish's effective base (Σw)²/Σw² with sampling weights; the weighted base otherwise. */
+  effective: number;
+  /** Below the minimum base: shown, not tested. */
+  small: boolean;
+}
+
+export interface BannerMark {
+  /** The column this one is higher than (index into `columns`) and its key. */
+  column: number;
+  key: string;
+  /** The highest confidence level met. */
+  confidence: number;
+  /** The key as shown: upper case at the first confidence level, lower case at the second. */
+  shown: string;
+}
+
+export interface BannerCell {
+  /** Respondents (Σw with weights). */
+  count: number;
+  unweighted: number;
+  /** Share of the column's base, 0–100; null for an empty base. */
+  columnPercent: number | null;
+  /** Share of the row across its break variable's columns (the Total: of all respondents in the row), 0–100. */
+  rowPercent: number | null;
+  /** Columns of the same break variable this cell is significantly higher than. */
+  higherThan: BannerMark[];
+  /** The marks as shown, joined: e.g. "BDe". */
+  marks: string;
+}
+
+export interface BannerRow {
+  label: string;
+  /** 'level' of a single-response question, 'answer' of a multiple-response one, 'net' a named group counted once per respondent. */
+  kind: 'level' | 'answer' | 'net';
+  /** For a net: the levels or answers it groups. */
+  members: string[] | null;
+  cells: BannerCell[];
+}
+
+export interface BannerMeanCell {
+  mean: number | null;
+  /** Standard deviation (weighted: √(Σw(x − x̄)²/Σw · n_eff/(n_eff − 1))). */
+  sd: number | null;
+  /** Respondents with a score (unweighted), Σw, effective base. */
+  unweighted: number;
+  weighted: number;
+  effective: number;
+  higherThan: BannerMark[];
+  marks: string;
+}
+
+export interface BannerAssociation {
+  /** 'pair': the pair record's verdict for question × break (the same numbers `tabsight pair` gives); 'multiple-response': Bilder & Loughin's test. */
+  kind: 'pair' | 'multiple-response';
+  /** The leading p-value and its decision at α. */
+  pValue: number;
+  passes: boolean;
+  evidence: Evidence;
+  /** Pearson's X² (pair) or the summed X²_S (multiple-response), its nominal df. */
+  statistic: number;
+  df: number;
+  /** pair: the record's verdict as `tabsight pair --format json` gives it. */
+  verdict: Verdict | null;
+  biasCorrectedV: number | null;
+  /** multiple-response: the referral that leads, both referrals, and the respondents counted. */
+  multipleResponse: {
+    referral: MultipleResponseReferral;
+    firstOrder: { statistic: number; df: number; pValue: number };
+    secondOrder: { statistic: number; df: number; pValue: number };
+    answersLeftOut: string[];
+  } | null;
+}
+
+export interface BannerBreakTests {
+  break: string;
+  /** The overall test of question × break; null with the reason when none is possible. */
+  association: BannerAssociation | null;
+  reason: string | null;
+  /** Keys of the columns below the minimum base (or empty), not tested. */
+  untested: string[];
+  /** Comparisons per row the adjustment is made over (tested columns c: c(c − 1)/2). */
+  comparisonsPerRow: number;
+}
+
+export interface BannerQuestion {
+  name: string;
+  /** The question text (codebook), or null. */
+  title: string | null;
+  kind: 'single' | 'multiple' | 'numeric';
+  /** Multiple-response: the columns of the set, or the delimited column and its separator. */
+  source: { columns: string[]; separator: string | null } | null;
+  bases: BannerBase[];
+  /** Level (or answer) rows and nets; empty for a numeric question summarised by its mean only. */
+  rows: BannerRow[];
+  /** Numeric and rating questions: mean and SD per column with Welch tests. */
+  means: BannerMeanCell[] | null;
+  tests: BannerBreakTests[];
+}
+
+export interface BannerReport {
+  tool: { name: 'tabsight'; version: string };
+  command: 'banner';
+  input: InputSummary;
+  /** Rows counted (past --where and usable weights). */
+  respondents: number;
+  weighting: Weighting['kind'];
+  settings: {
+    cells: BannerCellPart[];
+    confidenceLevels: number[];
+    adjustment: ColumnAdjustment;
+    minimumBase: number;
+    alpha: number;
+    columnTest: 'pooled-z';
+    meanTest: 'welch';
+    multipleResponseReferral: MultipleResponseReferral;
+    /** With sampling weights the column tests use Kish's effective bases. */
+    effectiveBases: boolean;
+    exact: string;
+    simulations: number;
+    seed: number;
+  };
+  columns: BannerColumn[];
+  breaks: BannerBreak[];
+  questions: BannerQuestion[];
+  skipped: SkippedColumn[];
+  warnings: Warning[];
+}
+
+/** A break variable ready to count: ordered labels, codes per row. */
+export interface BreakInput {
+  name: string;
+  title: string | null;
+  labels: string[];
+  codes: Uint16Array | Uint32Array;
+}
+
+export interface NetInput {
+  name: string;
+  /** Level indexes (single) or answer indexes (multiple) it groups. */
+  members: number[];
+}
+
+export type QuestionInput =
+  | {
+      kind: 'single';
+      name: string;
+      title: string | null;
+      labels: string[];
+      codes: Uint16Array | Uint32Array;
+      nets: NetInput[];
+      /** The score of each level for the mean (rating scales, --means); null for a categorical question. */
+      scores: (number | null)[] | null;
+      /** False for a numeric question shown by its mean only (many values). */
+      showLevels: boolean;
+    }
+  | {
+      kind: 'multiple';
+      name: string;
+      title: string | null;
+      answers: string[];
+      /** Per row: bit j set when answer j is chosen; −1 outside the base (no answer given). */
+      pattern: Int32Array;
+      nets: NetInput[];
+      source: { columns: string[]; separator: string | null };
+    };
+
+export interface BannerInputs {
+  input: InputSummary;
+  respondents: number;
+  weights?: { values: Float64Array; kind: 'weight' | 'freq' };
+  breaks: BreakInput[];
+  questions: QuestionInput[];
+  skipped: SkippedColumn[];
+  warnings: Warning[];
+}
+
+/** The columns of the banner: Total first, then each break's levels with their keys A, B, … in order. */
+function bannerColumns(breaks: readonly BreakInput[]): { columns: BannerColumn[]; layout: BannerBreak[] } {
+  const columns: BannerColumn[] = [{ key: null, break: null, level: 'Total' }];
+  const layout: BannerBreak[] = [];
+  let key = 0;
+  for (const b of breaks) {
+    layout.push({ name: b.name, title: b.title, first: columns.length, count: b.labels.length });
+    for (const level of b.labels) columns.push({ key: columnKey(key++), break: b.name, level });
+  }
+  return { columns, layout };
+}
+
+/** Column keys: A, B, …, Z, then AA, AB, … (upper case; the marks of the second confidence level show them in lower case). */
+export function columnKey(index: number): string {
+  let k = index;
+  let key = '';
+  do {
+    key = String.fromCharCode(65 + (k % 26)) + key;
+    k = Math.floor(k / 26) - 1;
+  } while (k >= 0);
+  return key;
+}
+
+const shownKey = (key: string, confidence: number, levels: readonly number[]) => (confidence === levels[0] ? key.toUpperCase() : key.toLowerCase());
+
+/** The report's cells from one cross (rows × (levels + 1)) of a question: the break's columns, from slot 1 on. */
+function crossColumn(cross: CrossCounts, row: number, column: number) {
+  const at = row * cross.width + column;
+  return { weighted: cross.weighted[at], unweighted: cross.unweighted[at], squares: cross.squares[at] };
+}
+
+/** Kish's effective base of Σw and Σw² (frequencies and unweighted: Σw). */
+function effectiveBase(weighted: number, squares: number, kind: Weighting['kind']): number {
+  if (kind !== 'weight') return weighted;
+  return squares > 0 ? weighted * (weighted / squares) : 0;
+}
+
+/** Builds the banner report from prepared inputs: counts each question in one pass, then tests. */
+export function bannerReport(inputs: BannerInputs, settings: BannerSettings): BannerReport {
+  const kind: Weighting['kind'] = inputs.weights?.kind ?? 'none';
+  const weights = inputs.weights?.values;
+  const { columns, layout } = bannerColumns(inputs.breaks);
+  const breakCodes: BreakCodes[] = inputs.breaks.map((b) => ({ codes: b.codes, levels: b.labels.length }));
+  const levels = [...settings.confidenceLevels].sort((a, b) => b - a);
+  const context: Context = { settings: { ...settings, confidenceLevels: levels }, kind, columns, layout, breaks: inputs.breaks };
+  const questions = inputs.questions.map((q) =>
+    q.kind === 'single'
+      ? singleQuestion(q, countSingle(q.codes, q.labels.length, breakCodes, weights), context)
+      : multipleQuestion(q, countPatterns(q.pattern, [...q.answers.map((_a, j) => 2 ** j), ...q.nets.map((n) => n.members.reduce((m, j) => m | (2 ** j), 0))], breakCodes, weights), context),
+  );
+  const a = settings.analysis;
+  return {
+    tool: { name: 'tabsight', version: TOOL_VERSION },
+    command: 'banner',
+    input: inputs.input,
+    respondents: inputs.respondents,
+    weighting: kind,
+    settings: {
+      cells: settings.cells,
+      confidenceLevels: levels,
+      adjustment: settings.adjustment,
+      minimumBase: settings.minimumBase,
+      alpha: a.alpha,
+      columnTest: 'pooled-z',
+      meanTest: 'welch',
+      multipleResponseReferral: settings.multipleResponseReferral,
+      effectiveBases: kind === 'weight',
+      exact: a.exact,
+      simulations: a.simulations,
+      seed: a.seed,
+    },
+    columns,
+    breaks: layout,
+    questions,
+    skipped: inputs.skipped,
+    warnings: inputs.warnings,
+  };
+}
+
+interface Context {
+  settings: BannerSettings;
+  kind: Weighting['kind'];
+  columns: BannerColumn[];
+  layout: BannerBreak[];
+  breaks: readonly BreakInput[];
+}
+
+/** Bases per report column from each cross's column totals over `rows` rows (or its base row). */
+function basesOf(counts: QuestionCounts, rowsOf: (cross: CrossCounts) => number[], context: Context): BannerBase[] {
+  const crosses = counts.crosses;
+  const base = (cross: CrossCounts, column: number): BannerBase => {
+    let weighted = 0;
+    let unweighted = 0;
+    let squares = 0;
+    for (const row of rowsOf(cross)) {
+      const cell = crossColumn(cross, row, column);
+      weighted += cell.weighted;
+      unweighted += cell.unweighted;
+      squares += cell.squares;
+    }
+    return { unweighted, weighted, effective: effectiveBase(weighted, squares, context.kind), small: unweighted < context.settings.minimumBase };
+  };
+  const out = [base(crosses[crosses.length - 1], 1)];
+  context.layout.forEach((b, x) => {
+    for (let j = 1; j <= b.count; j++) out.push(base(crosses[x], j));
+  });
+  return out;
+}
+
+/** Marks of the columns of each break variable from a test's `higherThan` (indexes within the break). */
+function marksWithin(higher: { column: number; level: number }[][], first: number, context: Context): BannerMark[][] {
+  const levels = context.settings.confidenceLevels;
+  return higher.map((list) =>
+    list.map((h) => {
+      const column = first + h.column;
+      const key = context.columns[column].key as string;
+      return { column, key, confidence: h.level, shown: shownKey(key, h.level, levels) };
+    }),
+  );
+}
+
+const joinMarks = (marks: readonly BannerMark[]) => marks.map((m) => m.shown).join('');
+
+/**
+ * One row's cells over all report columns, with the column-proportion tests
+ * within each break variable. `value(cross, column)` gives the row's count in
+ * a cross's column.
+ */
+function rowCells(counts: QuestionCounts, value: (cross: CrossCounts, column: number) => { weighted: number; unweighted: number }, bases: BannerBase[], context: Context): BannerCell[] {
+  const crosses = counts.crosses;
+  const total = value(crosses[crosses.length - 1], 1);
+  const cells: BannerCell[] = [
+    { count: total.weighted, unweighted: total.unweighted, columnPercent: share(total.weighted, bases[0].weighted), rowPercent: total.weighted > 0 ? 100 : null, higherThan: [], marks: '' },
+  ];
+  context.layout.forEach((b, x) => {
+    const cross = crosses[x];
+    const within: { weighted: number; unweighted: number }[] = [];
+    for (let j = 1; j <= b.count; j++) within.push(value(cross, j));
+    const rowTotal = within.reduce((s, c) => s + c.weighted, 0);
+    const columnsOfTest: ProportionColumn[] = within.map((c, k) => {
+      const base = bases[b.first + k];
+      return { count: c.weighted, base: base.weighted, effectiveBase: base.effective, unweightedBase: base.unweighted };
+    });
+    const test = columnProportionTests(columnsOfTest, { confidenceLevels: context.settings.confidenceLevels, adjustment: context.settings.adjustment, minimumBase: context.settings.minimumBase });
+    const marks = marksWithin(test.higherThan, b.first, context);
+    within.forEach((c, k) =>
+      cells.push({
+        count: c.weighted,
+        unweighted: c.unweighted,
+        columnPercent: share(c.weighted, bases[b.first + k].weighted),
+        rowPercent: share(c.weighted, rowTotal),
+        higherThan: marks[k],
+        marks: joinMarks(marks[k]),
+      }),
+    );
+  });
+  return cells;
+}
+
+function share(part: number, whole: number): number | null {
+  return whole > 0 ? (100 * part) / whole : null;
+}
+
+function testsInfo(bases: BannerBase[], context: Context, b: BannerBreak): { untested: string[]; comparisonsPerRow: number } {
+  const slice = bases.slice(b.first, b.first + b.count);
+  const untested = slice.map((base, k) => (base.small || !(base.weighted > 0) ? (context.columns[b.first + k].key as string) : null)).filter((k): k is string => k !== null);
+  const tested = b.count - untested.length;
+  return { untested, comparisonsPerRow: (tested * (tested - 1)) / 2 };
+}
+
+function singleQuestion(q: Extract<QuestionInput, { kind: 'single' }>, counts: QuestionCounts, context: Context): BannerQuestion {
+  const levelRows = q.labels.map((_l, i) => i);
+  const bases = basesOf(counts, () => levelRows, context);
+  const rows: BannerRow[] = [];
+  if (q.showLevels) {
+    q.labels.forEach((label, i) => rows.push({ label, kind: 'level', members: null, cells: rowCells(counts, (cross, j) => crossColumn(cross, i, j), bases, context) }));
+    for (const net of q.nets) {
+      // Levels are disjoint: a respondent holds one level, so the net's count is the sum over its levels and counts each respondent once.
+      const value = (cross: CrossCounts, j: number) => {
+        let weighted = 0;
+        let unweighted = 0;
+        for (const i of net.members) {
+          const cell = crossColumn(cross, i, j);
+          weighted += cell.weighted;
+          unweighted += cell.unweighted;
+        }
+        return { weighted, unweighted };
+      };
+      rows.push({ label: net.name, kind: 'net', members: net.members.map((i) => q.labels[i]), cells: rowCells(counts, value, bases, context) });
+    }
+  }
+  const means = q.scores ? meanCells(q.scores, counts, context) : null;
+  const tests = context.layout.map((b, x): BannerBreakTests => {
+    const info = testsInfo(bases, context, b);
+    if (!q.showLevels) return { break: b.name, association: null, reason: 'a numeric question shown by its mean: the Welch tests compare the columns', ...info };
+    const overall = pairAssociation(q.name, q.labels, b, counts.crosses[x], context);
+    return { break: b.name, ...overall, ...info };
+  });
+  return { name: q.name, title: q.title, kind: q.scores ? 'numeric' : 'single', source: null, bases, rows, means, tests };
+}
+
+/**
+ * The overall test of question × break: the table of levels × break levels
+ * (empty rows and columns dropped, respondents missing either left out)
+ * analysed exactly as `tabsight pair` analyses it, its verdict kept.
+ */
+function pairAssociation(name: string, labels: readonly string[], b: BannerBreak, cross: CrossCounts, context: Context): { association: BannerAssociation | null; reason: string | null } {
+  const rowsKept = labels.map((_l, i) => i).filter((i) => [...Array(b.count).keys()].some((k) => cross.unweighted[i * cross.width + k + 1] > 0));
+  const colsKept = [...Array(b.count).keys()].filter((k) => rowsKept.some((i) => cross.unweighted[i * cross.width + k + 1] > 0));
+  if (rowsKept.length < 2 || colsKept.length < 2) {
+    return { association: null, reason: `needs two levels on each side; ${rowsKept.length < 2 ? `${name} has ${rowsKept.length}` : `${b.name} has ${colsKept.length}`} among the respondents counted` };
+  }
+  let sumWeights = 0;
+  let sumSquares = 0;
+  let unweightedN = 0;
+  const counts = rowsKept.map((i) =>
+    colsKept.map((k) => {
+      const at = i * cross.width + k + 1;
+      sumWeights += cross.weighted[at];
+      sumSquares += cross.squares[at];
+      unweightedN += cross.unweighted[at];
+      return cross.weighted[at];
+    }),
+  );
+  let excluded = 0;
+  for (let i = 0; i < labels.length; i++) excluded += cross.unweighted[i * cross.width];
+  const breakLabels = context.breaks.find((x) => x.name === b.name)!.labels;
+  const table: TwoWayTable = { rowName: name, colName: b.name, rowLevels: rowsKept.map((i) => labels[i]), colLevels: colsKept.map((k) => breakLabels[k]), counts };
+  const weighting: Weighting = { kind: context.kind, sumWeights, sumSquaredWeights: context.kind === 'none' ? sumWeights : sumSquares, unweightedN };
+  const record = analyzeTable(table, excluded, context.settings.analysis, weighting);
+  const v = record.verdict;
+  return {
+    association: {
+      kind: 'pair',
+      pValue: v.pValue,
+      passes: v.passes,
+      evidence: v.evidence,
+      statistic: record.tests.pearson.statistic,
+      df: record.tests.pearson.df,
+      verdict: v,
+      biasCorrectedV: record.measures.biasCorrectedV,
+      multipleResponse: null,
+    },
+    reason: null,
+  };
+}
+
+/**
+ * Mean and SD of the scores per column (weighted: x̄ = Σw x/Σw and
+ * SD = √(Σw(x − x̄)²/Σw · n_eff/(n_eff − 1)), n_eff Kish's base; unweighted:
+ * the usual n − 1 SD) and Welch t tests between the columns of each break
+ * variable, adjusted within the break as the proportions are.
+ */
+function meanCells(scores: readonly (number | null)[], counts: QuestionCounts, context: Context): BannerMeanCell[] {
+  const summary = (cross: CrossCounts, column: number) => {
+    let weighted = 0;
+    let unweighted = 0;
+    let squares = 0;
+    let sum = 0;
+    scores.forEach((x, i) => {
+      if (x === null) return;
+      const cell = crossColumn(cross, i, column);
+      weighted += cell.weighted;
+      unweighted += cell.unweighted;
+      squares += cell.squares;
+      sum += cell.weighted * x;
+    });
+    const effective = effectiveBase(weighted, squares, context.kind);
+    const mean = weighted > 0 ? sum / weighted : null;
+    let sd: number | null = null;
+    if (mean !== null && effective > 1) {
+      let deviation = 0;
+      scores.forEach((x, i) => {
+        if (x !== null) deviation += crossColumn(cross, i, column).weighted * (x - mean) ** 2;
+      });
+      sd = Math.sqrt((deviation / weighted) * (effective / (effective - 1)));
+    }
+    return { mean, sd, unweighted, weighted, effective, higherThan: [] as BannerMark[], marks: '' };
+  };
+  const crosses = counts.crosses;
+  const out: BannerMeanCell[] = [summary(crosses[crosses.length - 1], 1)];
+  const levels = context.settings.confidenceLevels;
+  context.layout.forEach((b, x) => {
+    const cells: BannerMeanCell[] = [];
+    for (let j = 1; j <= b.count; j++) cells.push(summary(crosses[x], j));
+    const tested = cells.map((c) => c.unweighted >= context.settings.minimumBase && c.sd !== null);
+    const pairs: { a: number; b: number; t: number; p: number }[] = [];
+    for (let a = 0; a < cells.length; a++)
+      for (let c = a + 1; c < cells.length; c++) {
+        if (!tested[a] || !tested[c]) continue;
+        const test = welchTTest({ mean: cells[a].mean as number, sd: cells[a].sd as number, n: cells[a].effective }, { mean: cells[c].mean as number, sd: cells[c].sd as number, n: cells[c].effective });
+        if (test) pairs.push({ a, b: c, t: test.t, p: test.pValue });
+      }
+    const adjusted = adjustPValues(pairs.map((p) => p.p), context.settings.adjustment);
+    pairs.forEach((pair, k) => {
+      const level = levels.find((l) => adjusted[k] < 1 - l);
+      if (level === undefined || pair.t === 0) return;
+      const [high, low] = pair.t > 0 ? [pair.a, pair.b] : [pair.b, pair.a];
+      const key = context.columns[b.first + low].key as string;
+      cells[high].higherThan.push({ column: b.first + low, key, confidence: level, shown: shownKey(key, level, levels) });
+    });
+    for (const cell of cells) {
+      cell.higherThan.sort((m, n) => m.column - n.column);
+      cell.marks = joinMarks(cell.higherThan);
+      out.push(cell);
+    }
+  });
+  return out;
+}
+
+function multipleQuestion(q: Extract<QuestionInput, { kind: 'multiple' }>, counts: PatternCounts, context: Context): BannerQuestion {
+  const bases = basesOf(counts, () => [0], context);
+  const rows: BannerRow[] = [];
+  q.answers.forEach((label, j) => rows.push({ label, kind: 'answer', members: null, cells: rowCells(counts, (cross, c) => crossColumn(cross, j + 1, c), bases, context) }));
+  q.nets.forEach((net, k) => {
+    const row = q.answers.length + k + 1;
+    rows.push({ label: net.name, kind: 'net', members: net.members.map((j) => q.answers[j]), cells: rowCells(counts, (cross, c) => crossColumn(cross, row, c), bases, context) });
+  });
+  const tests = context.layout.map((b, x): BannerBreakTests => {
+    const info = testsInfo(bases, context, b);
+    return { break: b.name, ...multipleAssociation(q, b, counts, x, context), ...info };
+  });
+  return { name: q.name, title: q.title, kind: 'multiple', source: q.source, bases, rows, means: null, tests };
+}
+
+/**
+ * The test of a multiple-response question × break (multiple marginal
+ * independence, Bilder, Loughin & Nettleton 2000) from the respondents'
+ * answer patterns per column. With sampling weights the patterns' weighted
+ * counts are rescaled to the break's Kish effective base (as pair rescales a
+ * weighted table); the chosen Rao–Scott-type referral leads.
+ */
+function multipleAssociation(q: Extract<QuestionInput, { kind: 'multiple' }>, b: BannerBreak, counts: PatternCounts, x: number, context: Context): { association: BannerAssociation | null; reason: string | null } {
+  const cross = counts.crosses[x];
+  let sumWeights = 0;
+  let sumSquares = 0;
+  for (let k = 1; k <= b.count; k++) {
+    sumWeights += cross.weighted[k];
+    sumSquares += cross.squares[k];
+  }
+  const scale = context.kind === 'weight' && sumWeights > 0 ? effectiveBase(sumWeights, sumSquares, 'weight') / sumWeights : 1;
+  const patterns: GroupAnswerPattern[] = [];
+  for (const [key, entry] of counts.patterns[x]) {
+    const column = key % cross.width;
+    if (column === 0) continue;
+    const pattern = (key - column) / cross.width;
+    patterns.push({ group: column - 1, answers: q.answers.map((_a, j) => (Math.floor(pattern / 2 ** j) % 2 === 1 ? 1 : 0)), count: context.kind === 'none' ? entry.unweighted : entry.weighted * scale });
+  }
+  patterns.sort((p, r) => p.group - r.group || p.answers.join('').localeCompare(r.answers.join('')));
+  const test = groupMultipleResponseTest(patterns);
+  if (test === null) return { association: null, reason: `needs two columns of ${b.name} with respondents and an answer chosen by some but not all` };
+  const referral = context.settings.multipleResponseReferral;
+  const lead = referral === 'first-order' ? test.firstOrder : test.secondOrder;
+  const alpha = context.settings.analysis.alpha;
+  return {
+    association: {
+      kind: 'multiple-response',
+      pValue: lead.pValue,
+      passes: lead.pValue <= alpha,
+      evidence: evidenceOf(lead.pValue, alpha),
+      statistic: test.statistic,
+      df: test.df,
+      verdict: null,
+      biasCorrectedV: null,
+      multipleResponse: {
+        referral,
+        firstOrder: { statistic: test.firstOrder.statistic, df: test.firstOrder.df, pValue: test.firstOrder.pValue },
+        secondOrder: { statistic: test.secondOrder.statistic, df: test.secondOrder.df, pValue: test.secondOrder.pValue },
+        answersLeftOut: test.answersLeftOut.map((j) => q.answers[j]),
+      },
+    },
+    reason: null,
+  };
+}

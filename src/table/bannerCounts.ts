@@ -1,0 +1,148 @@
+/**
+ * Counting a banner: one question (a code per respondent, or an answer
+ * pattern per respondent for a multiple-response question) against every
+ * break variable at once, in one pass over the rows, with the weighted and
+ * unweighted counts and the sums of squared weights that the column bases
+ * and Kish's effective bases need.
+ */
+
+/** A break variable's codes per row (1-based level codes, 0 missing) and its number of levels. */
+export interface BreakCodes {
+  codes: Uint16Array | Uint32Array;
+  levels: number;
+}
+
+/**
+ * The counts of one question against one break variable, laid out as
+ * [row × (levels + 1) + column], column 0 holding respondents whose break
+ * value is missing (they still count in the Total).
+ */
+export interface CrossCounts {
+  /** Break levels + 1 (the missing slot). */
+  width: number;
+  /** Weighted counts (equal to `unweighted` without weights). */
+  weighted: Float64Array;
+  unweighted: Float64Array;
+  /** Σw² per cell (equal to `weighted` without weights). */
+  squares: Float64Array;
+}
+
+/** What one question's pass counts: a CrossCounts per break, the Total as a break of one level last. */
+export interface QuestionCounts {
+  /** One per break variable, then the Total (one level). */
+  crosses: CrossCounts[];
+}
+
+function newCross(rows: number, width: number): CrossCounts {
+  const size = rows * width;
+  return { width, weighted: new Float64Array(size), unweighted: new Float64Array(size), squares: new Float64Array(size) };
+}
+
+/**
+ * Counts a single-response question (codes 1..levels, 0 missing) against
+ * every break: row index = the question's code − 1; respondents with a
+ * missing answer are not counted (they are outside the question's base).
+ */
+export function countSingle(question: Uint16Array | Uint32Array, levels: number, breaks: readonly BreakCodes[], weights?: Float64Array): QuestionCounts {
+  const crosses = [...breaks.map((b) => newCross(levels, b.levels + 1)), newCross(levels, 2)];
+  const n = question.length;
+  for (let b = 0; b < breaks.length; b++) {
+    const codes = breaks[b].codes;
+    const { width, weighted, unweighted, squares } = crosses[b];
+    if (weights) {
+      for (let r = 0; r < n; r++) {
+        const q = question[r];
+        if (q === 0) continue;
+        const at = (q - 1) * width + codes[r];
+        const w = weights[r];
+        unweighted[at]++;
+        weighted[at] += w;
+        squares[at] += w * w;
+      }
+    } else {
+      for (let r = 0; r < n; r++) {
+        const q = question[r];
+        if (q !== 0) unweighted[(q - 1) * width + codes[r]]++;
+      }
+    }
+  }
+  const total = crosses[breaks.length];
+  if (weights) {
+    for (let r = 0; r < n; r++) {
+      const q = question[r];
+      if (q === 0) continue;
+      const at = (q - 1) * 2 + 1;
+      const w = weights[r];
+      total.unweighted[at]++;
+      total.weighted[at] += w;
+      total.squares[at] += w * w;
+    }
+  } else {
+    for (let r = 0; r < n; r++) if (question[r] !== 0) total.unweighted[(question[r] - 1) * 2 + 1]++;
+  }
+  if (!weights) {
+    for (const cross of crosses) {
+      cross.weighted.set(cross.unweighted);
+      cross.squares.set(cross.unweighted);
+    }
+  }
+  return { crosses };
+}
+
+/**
+ * A multiple-response question: per respondent, the answers chosen as a bit
+ * pattern (bit j = answer j), or −1 for a respondent outside the question's
+ * base (no answer at all).
+ */
+export interface PatternCounts extends QuestionCounts {
+  /**
+   * The first row of each cross counts the respondents in the base (the
+   * column's base); rows 1.. count the respondents whose pattern meets the
+   * row's mask (each respondent once per row, however many of the row's
+   * answers they chose).
+   */
+  rowMasks: number[];
+  /** Per break (and the Total last): respondents per (pattern, column) with their weights. */
+  patterns: Map<number, { unweighted: number; weighted: number }>[];
+}
+
+/**
+ * Counts a multiple-response question against every break: row 0 is the
+ * base, row k + 1 the respondents choosing any answer of mask k (an answer,
+ * or a net of answers, counted once per respondent).
+ */
+export function countPatterns(pattern: Int32Array, masks: readonly number[], breaks: readonly BreakCodes[], weights?: Float64Array): PatternCounts {
+  const rows = masks.length + 1;
+  const crosses = [...breaks.map((b) => newCross(rows, b.levels + 1)), newCross(rows, 2)];
+  const patterns = crosses.map(() => new Map<number, { unweighted: number; weighted: number }>());
+  const n = pattern.length;
+  const all = [...breaks, { codes: null, levels: 1 }];
+  for (let r = 0; r < n; r++) {
+    const p = pattern[r];
+    if (p < 0) continue;
+    const w = weights ? weights[r] : 1;
+    for (let b = 0; b < all.length; b++) {
+      const codes = all[b].codes;
+      const column = codes === null ? 1 : codes[r];
+      const cross = crosses[b];
+      const width = cross.width;
+      cross.unweighted[column]++;
+      cross.weighted[column] += w;
+      cross.squares[column] += w * w;
+      for (let k = 0; k < masks.length; k++) {
+        if ((p & masks[k]) === 0) continue;
+        const at = (k + 1) * width + column;
+        cross.unweighted[at]++;
+        cross.weighted[at] += w;
+        cross.squares[at] += w * w;
+      }
+      const key = p * width + column;
+      const entry = patterns[b].get(key);
+      if (entry) {
+        entry.unweighted++;
+        entry.weighted += w;
+      } else patterns[b].set(key, { unweighted: 1, weighted: w });
+    }
+  }
+  return { crosses, rowMasks: [...masks], patterns };
+}
