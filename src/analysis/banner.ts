@@ -10,6 +10,7 @@ import { columnProportionTests, ProportionColumn } from '../stats/columnProporti
 import { groupMultipleResponseTest, GroupAnswerPattern } from '../stats/multipleResponse.js';
 import { adjustPValues } from '../stats/multipleTesting.js';
 import { welchTTest } from '../stats/welch.js';
+import { CompensatedSum } from '../numerics/compensatedSum.js';
 import { BreakCodes, countPatterns, countSingle, CrossCounts, PatternCounts, QuestionCounts } from '../table/bannerCounts.js';
 import type { TwoWayTable } from '../table/twoWayTable.js';
 import type { Weighting } from '../table/weighting.js';
@@ -89,6 +90,19 @@ export interface BannerCell {
   marks: string;
 }
 
+/** One test between two columns of a break variable (indexes into `columns`, first < second). */
+export interface BannerComparison {
+  first: number;
+  second: number;
+  /** z of the pooled two-proportion test, or Welch's t (first minus second); null when not computable. */
+  statistic: number | null;
+  /** Welch's df (means only); null for proportions. */
+  df: number | null;
+  pValue: number | null;
+  /** After --column-adjust over the row's comparisons within the break variable (equal to pValue without one). */
+  adjustedPValue: number | null;
+}
+
 export interface BannerRow {
   label: string;
   /** 'level' of a single-response question, 'answer' of a multiple-response one, 'net' a named group counted once per respondent. */
@@ -96,6 +110,8 @@ export interface BannerRow {
   /** For a net: the levels or answers it groups. */
   members: string[] | null;
   cells: BannerCell[];
+  /** Every comparison made for this row, break variable by break variable. */
+  comparisons: BannerComparison[];
 }
 
 export interface BannerMeanCell {
@@ -155,6 +171,8 @@ export interface BannerQuestion {
   rows: BannerRow[];
   /** Numeric and rating questions: mean and SD per column with Welch tests. */
   means: BannerMeanCell[] | null;
+  /** The Welch tests between the means (empty without means). */
+  meanComparisons: BannerComparison[];
   tests: BannerBreakTests[];
 }
 
@@ -263,7 +281,7 @@ const shownKey = (key: string, confidence: number, levels: readonly number[]) =>
 /** The report's cells from one cross (rows × (levels + 1)) of a question: the break's columns, from slot 1 on. */
 function crossColumn(cross: CrossCounts, row: number, column: number) {
   const at = row * cross.width + column;
-  return { weighted: cross.weighted[at], unweighted: cross.unweighted[at], squares: cross.squares[at] };
+  return { weighted: cross.weighted[at] + cross.weightedLow[at], unweighted: cross.unweighted[at], squares: cross.squares[at] + cross.squaresLow[at], weightedHi: cross.weighted[at], weightedLo: cross.weightedLow[at], squaresHi: cross.squares[at], squaresLo: cross.squaresLow[at] };
 }
 
 /** Kish's effective base of Σw and Σw² (frequencies and unweighted: Σw). */
@@ -363,9 +381,10 @@ const joinMarks = (marks: readonly BannerMark[]) => marks.map((m) => m.shown).jo
  * within each break variable. `value(cross, column)` gives the row's count in
  * a cross's column.
  */
-function rowCells(counts: QuestionCounts, value: (cross: CrossCounts, column: number) => { weighted: number; unweighted: number }, bases: BannerBase[], context: Context): BannerCell[] {
+function rowCells(counts: QuestionCounts, value: (cross: CrossCounts, column: number) => { weighted: number; unweighted: number }, bases: BannerBase[], context: Context): { cells: BannerCell[]; comparisons: BannerComparison[] } {
   const crosses = counts.crosses;
   const total = value(crosses[crosses.length - 1], 1);
+  const comparisons: BannerComparison[] = [];
   const cells: BannerCell[] = [
     { count: total.weighted, unweighted: total.unweighted, columnPercent: share(total.weighted, bases[0].weighted), rowPercent: total.weighted > 0 ? 100 : null, higherThan: [], marks: '' },
   ];
@@ -380,6 +399,7 @@ function rowCells(counts: QuestionCounts, value: (cross: CrossCounts, column: nu
     });
     const test = columnProportionTests(columnsOfTest, { confidenceLevels: context.settings.confidenceLevels, adjustment: context.settings.adjustment, minimumBase: context.settings.minimumBase });
     const marks = marksWithin(test.higherThan, b.first, context);
+    for (const c of test.comparisons) comparisons.push({ first: b.first + c.first, second: b.first + c.second, statistic: c.z, df: null, pValue: c.pValue, adjustedPValue: c.adjustedPValue });
     within.forEach((c, k) =>
       cells.push({
         count: c.weighted,
@@ -391,7 +411,7 @@ function rowCells(counts: QuestionCounts, value: (cross: CrossCounts, column: nu
       }),
     );
   });
-  return cells;
+  return { cells, comparisons };
 }
 
 function share(part: number, whole: number): number | null {
@@ -410,7 +430,7 @@ function singleQuestion(q: Extract<QuestionInput, { kind: 'single' }>, counts: Q
   const bases = basesOf(counts, () => levelRows, context);
   const rows: BannerRow[] = [];
   if (q.showLevels) {
-    q.labels.forEach((label, i) => rows.push({ label, kind: 'level', members: null, cells: rowCells(counts, (cross, j) => crossColumn(cross, i, j), bases, context) }));
+    q.labels.forEach((label, i) => rows.push({ label, kind: 'level', members: null, ...rowCells(counts, (cross, j) => crossColumn(cross, i, j), bases, context) }));
     for (const net of q.nets) {
       // Levels are disjoint: a respondent holds one level, so the net's count is the sum over its levels and counts each respondent once.
       const value = (cross: CrossCounts, j: number) => {
@@ -423,17 +443,17 @@ function singleQuestion(q: Extract<QuestionInput, { kind: 'single' }>, counts: Q
         }
         return { weighted, unweighted };
       };
-      rows.push({ label: net.name, kind: 'net', members: net.members.map((i) => q.labels[i]), cells: rowCells(counts, value, bases, context) });
+      rows.push({ label: net.name, kind: 'net', members: net.members.map((i) => q.labels[i]), ...rowCells(counts, value, bases, context) });
     }
   }
-  const means = q.scores ? meanCells(q.scores, counts, context) : null;
+  const summary = q.scores ? meanCells(q.scores, counts, context) : null;
   const tests = context.layout.map((b, x): BannerBreakTests => {
     const info = testsInfo(bases, context, b);
     if (!q.showLevels) return { break: b.name, association: null, reason: 'a numeric question shown by its mean: the Welch tests compare the columns', ...info };
     const overall = pairAssociation(q.name, q.labels, b, counts.crosses[x], context);
     return { break: b.name, ...overall, ...info };
   });
-  return { name: q.name, title: q.title, kind: q.scores ? 'numeric' : 'single', source: null, bases, rows, means, tests };
+  return { name: q.name, title: q.title, kind: q.scores ? 'numeric' : 'single', source: null, bases, rows, means: summary?.cells ?? null, meanComparisons: summary?.comparisons ?? [], tests };
 }
 
 /**
@@ -447,23 +467,23 @@ function pairAssociation(name: string, labels: readonly string[], b: BannerBreak
   if (rowsKept.length < 2 || colsKept.length < 2) {
     return { association: null, reason: `needs two levels on each side; ${rowsKept.length < 2 ? `${name} has ${rowsKept.length}` : `${b.name} has ${colsKept.length}`} among the respondents counted` };
   }
-  let sumWeights = 0;
-  let sumSquares = 0;
+  const sumWeights = new CompensatedSum();
+  const sumSquares = new CompensatedSum();
   let unweightedN = 0;
   const counts = rowsKept.map((i) =>
     colsKept.map((k) => {
-      const at = i * cross.width + k + 1;
-      sumWeights += cross.weighted[at];
-      sumSquares += cross.squares[at];
-      unweightedN += cross.unweighted[at];
-      return cross.weighted[at];
+      const cell = crossColumn(cross, i, k + 1);
+      sumWeights.addPair(cell.weightedHi, cell.weightedLo);
+      sumSquares.addPair(cell.squaresHi, cell.squaresLo);
+      unweightedN += cell.unweighted;
+      return cell.weighted;
     }),
   );
   let excluded = 0;
   for (let i = 0; i < labels.length; i++) excluded += cross.unweighted[i * cross.width];
   const breakLabels = context.breaks.find((x) => x.name === b.name)!.labels;
   const table: TwoWayTable = { rowName: name, colName: b.name, rowLevels: rowsKept.map((i) => labels[i]), colLevels: colsKept.map((k) => breakLabels[k]), counts };
-  const weighting: Weighting = { kind: context.kind, sumWeights, sumSquaredWeights: context.kind === 'none' ? sumWeights : sumSquares, unweightedN };
+  const weighting: Weighting = { kind: context.kind, sumWeights: sumWeights.value, sumSquaredWeights: context.kind === 'none' ? sumWeights.value : sumSquares.value, unweightedN };
   const record = analyzeTable(table, excluded, context.settings.analysis, weighting);
   const v = record.verdict;
   return {
@@ -488,7 +508,7 @@ function pairAssociation(name: string, labels: readonly string[], b: BannerBreak
  * the usual n − 1 SD) and Welch t tests between the columns of each break
  * variable, adjusted within the break as the proportions are.
  */
-function meanCells(scores: readonly (number | null)[], counts: QuestionCounts, context: Context): BannerMeanCell[] {
+function meanCells(scores: readonly (number | null)[], counts: QuestionCounts, context: Context): { cells: BannerMeanCell[]; comparisons: BannerComparison[] } {
   const summary = (cross: CrossCounts, column: number) => {
     let weighted = 0;
     let unweighted = 0;
@@ -516,20 +536,22 @@ function meanCells(scores: readonly (number | null)[], counts: QuestionCounts, c
   };
   const crosses = counts.crosses;
   const out: BannerMeanCell[] = [summary(crosses[crosses.length - 1], 1)];
+  const comparisons: BannerComparison[] = [];
   const levels = context.settings.confidenceLevels;
   context.layout.forEach((b, x) => {
     const cells: BannerMeanCell[] = [];
     for (let j = 1; j <= b.count; j++) cells.push(summary(crosses[x], j));
     const tested = cells.map((c) => c.unweighted >= context.settings.minimumBase && c.sd !== null);
-    const pairs: { a: number; b: number; t: number; p: number }[] = [];
+    const pairs: { a: number; b: number; t: number; df: number; p: number }[] = [];
     for (let a = 0; a < cells.length; a++)
       for (let c = a + 1; c < cells.length; c++) {
         if (!tested[a] || !tested[c]) continue;
         const test = welchTTest({ mean: cells[a].mean as number, sd: cells[a].sd as number, n: cells[a].effective }, { mean: cells[c].mean as number, sd: cells[c].sd as number, n: cells[c].effective });
-        if (test) pairs.push({ a, b: c, t: test.t, p: test.pValue });
+        if (test) pairs.push({ a, b: c, t: test.t, df: test.df, p: test.pValue });
       }
     const adjusted = adjustPValues(pairs.map((p) => p.p), context.settings.adjustment);
     pairs.forEach((pair, k) => {
+      comparisons.push({ first: b.first + pair.a, second: b.first + pair.b, statistic: pair.t, df: pair.df, pValue: pair.p, adjustedPValue: adjusted[k] });
       const level = levels.find((l) => adjusted[k] < 1 - l);
       if (level === undefined || pair.t === 0) return;
       const [high, low] = pair.t > 0 ? [pair.a, pair.b] : [pair.b, pair.a];
@@ -542,22 +564,22 @@ function meanCells(scores: readonly (number | null)[], counts: QuestionCounts, c
       out.push(cell);
     }
   });
-  return out;
+  return { cells: out, comparisons };
 }
 
 function multipleQuestion(q: Extract<QuestionInput, { kind: 'multiple' }>, counts: PatternCounts, context: Context): BannerQuestion {
   const bases = basesOf(counts, () => [0], context);
   const rows: BannerRow[] = [];
-  q.answers.forEach((label, j) => rows.push({ label, kind: 'answer', members: null, cells: rowCells(counts, (cross, c) => crossColumn(cross, j + 1, c), bases, context) }));
+  q.answers.forEach((label, j) => rows.push({ label, kind: 'answer', members: null, ...rowCells(counts, (cross, c) => crossColumn(cross, j + 1, c), bases, context) }));
   q.nets.forEach((net, k) => {
     const row = q.answers.length + k + 1;
-    rows.push({ label: net.name, kind: 'net', members: net.members.map((j) => q.answers[j]), cells: rowCells(counts, (cross, c) => crossColumn(cross, row, c), bases, context) });
+    rows.push({ label: net.name, kind: 'net', members: net.members.map((j) => q.answers[j]), ...rowCells(counts, (cross, c) => crossColumn(cross, row, c), bases, context) });
   });
   const tests = context.layout.map((b, x): BannerBreakTests => {
     const info = testsInfo(bases, context, b);
     return { break: b.name, ...multipleAssociation(q, b, counts, x, context), ...info };
   });
-  return { name: q.name, title: q.title, kind: 'multiple', source: q.source, bases, rows, means: null, tests };
+  return { name: q.name, title: q.title, kind: 'multiple', source: q.source, bases, rows, means: null, meanComparisons: [], tests };
 }
 
 /**
@@ -572,8 +594,9 @@ function multipleAssociation(q: Extract<QuestionInput, { kind: 'multiple' }>, b:
   let sumWeights = 0;
   let sumSquares = 0;
   for (let k = 1; k <= b.count; k++) {
-    sumWeights += cross.weighted[k];
-    sumSquares += cross.squares[k];
+    const cell = crossColumn(cross, 0, k);
+    sumWeights += cell.weighted;
+    sumSquares += cell.squares;
   }
   const scale = context.kind === 'weight' && sumWeights > 0 ? effectiveBase(sumWeights, sumSquares, 'weight') / sumWeights : 1;
   const patterns: GroupAnswerPattern[] = [];

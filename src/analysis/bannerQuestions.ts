@@ -191,9 +191,10 @@ export function prepareBanner(columns: EncodedColumn[], rows: number, options: P
         setsDone.add(setName);
         questions.push(columnSet(setName, members.map((m) => byName.get(m)!), codebook, options.label));
       }
-      continue;
+      // A column of a set is also a question of its own only when --questions names it.
+      if (!explicit?.has(name)) continue;
     }
-    const separator = splitColumns.get(name);
+    const separator = inSets.has(name) ? undefined : splitColumns.get(name);
     if (separator !== undefined) {
       questions.push(splitQuestion(column, separator, recodes.get(name), codebook, options));
       continue;

@@ -15,7 +15,7 @@ export const SMALL_BASE_MARK = '!';
 export function cellPart(cell: BannerCell, part: BannerCellPart): string {
   if (part === 'col') return cell.columnPercent === null ? UNDEFINED : formatPercent(cell.columnPercent, 0);
   if (part === 'row') return cell.rowPercent === null ? UNDEFINED : formatPercent(cell.rowPercent, 0);
-  return formatCount(cell.count);
+  return formatCount(cell.count === Math.round(cell.count) ? cell.count : Math.round(cell.count * 10) / 10);
 }
 
 /** A mean as shown: two decimals (or the em dash). */

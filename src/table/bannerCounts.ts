@@ -1,3 +1,5 @@
+import { addCompensated } from '../numerics/compensatedSum.js';
+
 /**
  * Counting a banner: one question (a code per respondent, or an answer
  * pattern per respondent for a multiple-response question) against every
@@ -20,11 +22,17 @@ export interface BreakCodes {
 export interface CrossCounts {
   /** Break levels + 1 (the missing slot). */
   width: number;
-  /** Weighted counts (equal to `unweighted` without weights). */
+  /**
+   * Weighted counts (equal to `unweighted` without weights), carried as
+   * hi + lo (numerics/compensatedSum.ts) so that they do not depend on row
+   * order and equal the sums pair counts: the value is weighted + weightedLow.
+   */
   weighted: Float64Array;
+  weightedLow: Float64Array;
   unweighted: Float64Array;
-  /** Σw² per cell (equal to `weighted` without weights). */
+  /** Σw² per cell (equal to `weighted` without weights), as hi + lo. */
   squares: Float64Array;
+  squaresLow: Float64Array;
 }
 
 /** What one question's pass counts: a CrossCounts per break, the Total as a break of one level last. */
@@ -35,7 +43,7 @@ export interface QuestionCounts {
 
 function newCross(rows: number, width: number): CrossCounts {
   const size = rows * width;
-  return { width, weighted: new Float64Array(size), unweighted: new Float64Array(size), squares: new Float64Array(size) };
+  return { width, weighted: new Float64Array(size), weightedLow: new Float64Array(size), unweighted: new Float64Array(size), squares: new Float64Array(size), squaresLow: new Float64Array(size) };
 }
 
 /**
@@ -48,7 +56,7 @@ export function countSingle(question: Uint16Array | Uint32Array, levels: number,
   const n = question.length;
   for (let b = 0; b < breaks.length; b++) {
     const codes = breaks[b].codes;
-    const { width, weighted, unweighted, squares } = crosses[b];
+    const { width, weighted, weightedLow, unweighted, squares, squaresLow } = crosses[b];
     if (weights) {
       for (let r = 0; r < n; r++) {
         const q = question[r];
@@ -56,8 +64,8 @@ export function countSingle(question: Uint16Array | Uint32Array, levels: number,
         const at = (q - 1) * width + codes[r];
         const w = weights[r];
         unweighted[at]++;
-        weighted[at] += w;
-        squares[at] += w * w;
+        addCompensated(weighted, weightedLow, at, w);
+        addCompensated(squares, squaresLow, at, w * w);
       }
     } else {
       for (let r = 0; r < n; r++) {
@@ -74,8 +82,8 @@ export function countSingle(question: Uint16Array | Uint32Array, levels: number,
       const at = (q - 1) * 2 + 1;
       const w = weights[r];
       total.unweighted[at]++;
-      total.weighted[at] += w;
-      total.squares[at] += w * w;
+      addCompensated(total.weighted, total.weightedLow, at, w);
+      addCompensated(total.squares, total.squaresLow, at, w * w);
     }
   } else {
     for (let r = 0; r < n; r++) if (question[r] !== 0) total.unweighted[(question[r] - 1) * 2 + 1]++;
@@ -127,14 +135,14 @@ export function countPatterns(pattern: Int32Array, masks: readonly number[], bre
       const cross = crosses[b];
       const width = cross.width;
       cross.unweighted[column]++;
-      cross.weighted[column] += w;
-      cross.squares[column] += w * w;
+      addCompensated(cross.weighted, cross.weightedLow, column, w);
+      addCompensated(cross.squares, cross.squaresLow, column, w * w);
       for (let k = 0; k < masks.length; k++) {
         if ((p & masks[k]) === 0) continue;
         const at = (k + 1) * width + column;
         cross.unweighted[at]++;
-        cross.weighted[at] += w;
-        cross.squares[at] += w * w;
+        addCompensated(cross.weighted, cross.weightedLow, at, w);
+        addCompensated(cross.squares, cross.squaresLow, at, w * w);
       }
       const key = p * width + column;
       const entry = patterns[b].get(key);
