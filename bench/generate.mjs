@@ -112,3 +112,39 @@ if (process.argv[1] === fileURLToPath(import.meta.url)) {
   console.log(await pairFile());
   if (process.argv.includes('--large')) console.log(await pairFile(10_000_000, 'pair-10m.csv'));
 }
+
+/**
+ * A weekly survey export for the banner: 100,000 respondents × 60 questions
+ * (2 to 10 levels, some answers leaning on age band or region, 2% missing)
+ * × 5 break variables (6 + 7 + 3 + 5 + 4 = 25 break columns) and a weight.
+ */
+export async function bannerFile(rows = 100_000, name = 'banner-100k.csv') {
+  const path = join(DATA, name);
+  if (existsSync(path)) return path;
+  mkdirSync(DATA, { recursive: true });
+  const random = mulberry32(2025);
+  const breaks = [
+    ['age_band', ['16-24', '25-34', '35-44', '45-54', '55-64', '65+']],
+    ['region', ['north', 'north east', 'east', 'south', 'south west', 'west', 'capital']],
+    ['membership', ['none', 'standard', 'premium']],
+    ['income_band', ['under 20k', '20-35k', '35-50k', '50-75k', '75k+']],
+    ['household', ['single', 'couple', 'family', 'shared']],
+  ];
+  const questions = 60;
+  const levels = Array.from({ length: questions }, (_v, k) => 2 + (k % 9));
+  const header = [...breaks.map(([n]) => n), ...Array.from({ length: questions }, (_v, k) => `q${String(k + 1).padStart(2, '0')}`), 'weight'].join(',');
+  await writeLines(path, header, rows, () => {
+    const codes = breaks.map(([, ls]) => Math.floor(random() * ls.length));
+    const out = breaks.map(([, ls], b) => ls[codes[b]]);
+    for (let k = 0; k < questions; k++) {
+      let level;
+      const lean = codes[k % 2] / (breaks[k % 2][1].length - 1);
+      if (random() < 0.25) level = Math.min(levels[k] - 1, Math.floor(lean * levels[k]));
+      else level = Math.floor(random() * levels[k]);
+      out.push(random() < 0.02 ? '' : LEVEL_WORDS[level % 9] + (level >= 9 ? ' more' : ''));
+    }
+    out.push((0.4 + 1.6 * random()).toFixed(4));
+    return out.join(',');
+  });
+  return path;
+}

@@ -3,28 +3,31 @@
 // (pandas reading the CSV + scipy's chi2_contingency, bench/reference_route.py),
 // measured in the same run as whole-process wall time, median of several runs,
 // reported as ratios. Generates its seeded files in bench/data/ (not in git).
-// Options: --runs N (default 5), --quick (3 runs, no 10x memory file).
+// Options: --runs N (default 5), --quick (3 runs, no 10x memory file),
+// --only banner (the banner scenario alone).
 import { spawnSync } from 'node:child_process';
-import { existsSync, statSync } from 'node:fs';
+import { existsSync, readFileSync, statSync, writeFileSync } from 'node:fs';
+import { cpus } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { pairFile, scanFile, surveyFile } from './generate.mjs';
+import { bannerFile, DATA, pairFile, scanFile, surveyFile } from './generate.mjs';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const root = join(here, '..');
 const bin = join(root, 'bin', 'tabsight.js');
 const args = process.argv.slice(2);
 const quick = args.includes('--quick');
+const only = args.includes('--only') ? args[args.indexOf('--only') + 1] : null;
 const runs = Number(args[args.indexOf('--runs') + 1]) || (quick ? 3 : 5);
 const python = '/usr/bin/python3';
 
 function ensureReference() {
-  const check = () => spawnSync(python, ['-c', 'import pandas, scipy'], { stdio: 'ignore' }).status === 0;
+  const check = () => spawnSync(python, ['-c', 'import pandas, scipy, statsmodels'], { stdio: 'ignore' }).status === 0;
   if (check()) return;
-  console.log('installing the reference route: apt-get install python3-pandas python3-scipy');
+  console.log('installing the reference route: apt-get install python3-pandas python3-scipy python3-statsmodels');
   spawnSync('apt-get', ['update', '-qq'], { stdio: 'inherit' });
-  spawnSync('apt-get', ['install', '-y', '-qq', 'python3-pandas', 'python3-scipy'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
-  if (!check()) throw new Error('the reference route (Debian python3-pandas, python3-scipy) could not be installed');
+  spawnSync('apt-get', ['install', '-y', '-qq', 'python3-pandas', 'python3-scipy', 'python3-statsmodels'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+  if (!check()) throw new Error('the reference route (Debian python3-pandas, python3-scipy, python3-statsmodels) could not be installed');
 }
 
 const hasTime = existsSync('/usr/bin/time');
@@ -59,7 +62,36 @@ function compare(name, ours, theirs, goal) {
   return { name, mine, reference, ratio, goal, met: ratio <= goal, peak: median(a.map((r) => r.peak ?? 0)) };
 }
 
+async function benchBanner() {
+  // The banner: 100,000 respondents × 60 questions × 5 break variables (25
+  // break columns), weighted, as text and as a spreadsheet, against the
+  // dataframe route (bench/banner_reference.py: pandas crosstabs normalised per
+  // column, chi2_contingency, statsmodels' z-test per pair of columns in a loop).
+  const banner = await bannerFile();
+  const bannerBreaks = 'age_band,region,membership,income_band,household';
+  const bannerArgs = (extra) => [bin, 'banner', banner, '--break', bannerBreaks, '--weight', 'weight', ...extra];
+  const bannerReference = [python, [join(here, 'banner_reference.py'), banner, bannerBreaks, 'weight', join(DATA, 'banner-reference-out.csv')]];
+  const bannerText = compare('banner text, 100k x 60 q x 25 cols', [process.execPath, bannerArgs(['--output', join(DATA, 'banner-out.txt')])], bannerReference, 0.1);
+  const bannerXlsx = compare('banner xlsx, 100k x 60 q x 25 cols', [process.execPath, bannerArgs(['--output', join(DATA, 'banner-out.xlsx')])], bannerReference, 0.1);
+  for (const r of [bannerText, bannerXlsx]) {
+    console.log(`${r.name.padEnd(36)} ${r.mine.toFixed(2).padStart(8)} s ${r.reference.toFixed(2).padStart(9)} s ${r.ratio.toFixed(3).padStart(7)}   ≤ ${r.goal} ${r.met ? 'met' : 'NOT MET'}`);
+  }
+  if (hasTime) {
+    // Memory: the columns used are 66 (60 questions, 5 breaks, the weight) × 100,000 rows; the
+    // baseline is the same command on the first 1,000 rows (the program, its libraries, the report).
+    const tiny = join(DATA, 'banner-1k.csv');
+    if (!existsSync(tiny)) writeFileSync(tiny, readFileSync(banner, 'utf8').split('\n').slice(0, 1001).join('\n') + '\n');
+    const base = median(Array.from({ length: 3 }, () => once(process.execPath, [bin, 'banner', tiny, '--break', bannerBreaks, '--weight', 'weight', '--output', join(DATA, 'banner-1k.txt')]).peak));
+    const cells = 66 * 100_000;
+    console.log(`banner peak memory: ${bannerText.peak.toFixed(0)} MB (baseline on 1,000 rows ${base.toFixed(0)} MB): ${(((bannerText.peak - base) * 1024 * 1024) / cells).toFixed(1)} bytes per cell of the ${cells.toLocaleString('en-US')} cells used (goal about 2); ${cpus().length} cores`);
+  }
+}
+
 ensureReference();
+if (only === 'banner') {
+  await benchBanner();
+  process.exit(0);
+}
 const scan = await scanFile();
 const pair = await pairFile();
 const results = [];
@@ -77,6 +109,8 @@ for (const r of results) {
 const survey = await surveyFile();
 const exactBudget = compare('scan --exact auto vs never, 4,642 x 28', [process.execPath, [bin, 'scan', survey, '--format', 'csv', '--engine', 'builtin']], [process.execPath, [bin, 'scan', survey, '--format', 'csv', '--engine', 'builtin', '--exact', 'never']], 3);
 console.log(`\nscan exact budget: --exact auto ${exactBudget.mine.toFixed(2)} s, --exact never ${exactBudget.reference.toFixed(2)} s, ratio ${exactBudget.ratio.toFixed(2)} (goal ≤ 3) ${exactBudget.met ? 'met' : 'NOT MET'}`);
+
+await benchBanner();
 
 const pairResult = results[1];
 const megabytes = statSync(pair).size / 1e6;

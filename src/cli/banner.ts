@@ -10,11 +10,12 @@ import { encodeRows } from '../io/counting.js';
 import { recodesByColumn } from '../io/rowRules.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { BANNER_RENDERERS, BannerFormat } from '../render/renderers.js';
-import { bannerWorkbook } from '../render/bannerXlsx.js';
 import type { Codebook } from '../table/codebook.js';
 import { addReaderOptions, addSurveyOptions, analysisPlan, inputSummary, positiveInteger, probability, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerFor, readerPlan, splitList, SurveyPlan, surveyPlan } from './options.js';
 import { CliIo, emit, emitBytes, pageWidth, painter } from './output.js';
 import type { Outcome } from './outcome.js';
+
+const collect = (value: string, previous: string[] = []) => [...previous, value];
 
 export const BANNER_FORMATS = [...Object.keys(BANNER_RENDERERS), 'xlsx'] as const;
 export type BannerOutputFormat = BannerFormat | 'xlsx';
@@ -82,13 +83,13 @@ function parseMarkLevels(value: string): number[] {
   return levels.sort((a, b) => b - a);
 }
 
-function parseMulti(spec: string): MultipleSpec {
+export function parseMulti(spec: string): MultipleSpec {
   const colon = spec.indexOf(':');
   if (colon <= 0 || colon === spec.length - 1) throw usageError(`--multi "${spec}": expected name:columns, e.g. 'services:svc_*' or 'services:svc_bus,svc_train'`);
   return { kind: 'columns', name: spec.slice(0, colon).trim(), patterns: splitList(spec.slice(colon + 1)) ?? [] };
 }
 
-function parseMultiSplit(spec: string): MultipleSpec {
+export function parseMultiSplit(spec: string): MultipleSpec {
   const colon = spec.lastIndexOf(':');
   if (colon <= 0 || colon === spec.length - 1) throw usageError(`--multi-split "${spec}": expected column:separator, e.g. 'services:;'`);
   return { kind: 'split', column: spec.slice(0, colon), separator: spec.slice(colon + 1) };
@@ -165,7 +166,6 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no a
   return command;
 }
 
-const collect = (value: string, previous: string[] = []) => [...previous, value];
 
 /** Reads the columns once (built-in reader), builds the banner record and writes it; found = some overall test passes. */
 export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
@@ -198,7 +198,11 @@ export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
     if (prepared.questions.length === 0) throw usageError(`no question to tabulate in ${source.label}: ${prepared.skipped.length ? `left out ${prepared.skipped.map((s) => `${s.column} (${s.reason})`).join('; ')}` : 'name some with --questions'}`);
     return bannerReport({ input: inputSummary(source.label, encoded), respondents: encoded.rows, weights: encoded.weights, ...prepared }, plan.settings);
   });
-  if (plan.format === 'xlsx') await emitBytes(io, await bannerWorkbook(report, { created: new Date() }), plan.output);
+  if (plan.format === 'xlsx') {
+    // The spreadsheet library is loaded only when a spreadsheet is asked for.
+    const { bannerWorkbook } = await import('../render/bannerXlsx.js');
+    await emitBytes(io, await bannerWorkbook(report, { created: new Date() }), plan.output);
+  }
   else {
     const toFile = plan.output !== undefined;
     const text = BANNER_RENDERERS[plan.format](report, { paint: painter(io, plan.color, toFile), width: pageWidth(io, toFile), cells: 'compact' });

@@ -1,5 +1,6 @@
 /** `tabsight pair`: its options, parsed once into a PairPlan, and runPair, which counts, analyses and renders one table. */
 import { Command } from 'commander';
+import { usageError } from '../errors.js';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { pairReport, unknownOrderWarnings } from '../analysis/report.js';
 import { countTable, TableRequest } from '../io/counting.js';
@@ -11,6 +12,8 @@ import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile
 import type { CellView } from '../render/pairText.js';
 import type { Outcome } from './outcome.js';
 import { codebookSides, describeSides } from './codebookSides.js';
+import { BannerPlan, parseMulti, parseMultiSplit, runBanner } from './banner.js';
+import { DEFAULT_ANALYSIS_OPTIONS } from '../analysis/analyzeTable.js';
 
 export interface PairPlan {
   /** A file, a pattern of files, or '-' for standard input. */
@@ -24,16 +27,44 @@ export interface PairPlan {
   /** What the cells of the text table show. */
   cells: CellView;
   report: ReportPlan;
+  /**
+   * --rows names a multiple-response set (--multi, --multi-split): the
+   * table is the set's answers by the --cols levels, counted and tested as
+   * a banner of that one question (percentages of respondents, column
+   * tests per answer, Bilder & Loughin's test).
+   */
+  multiple: BannerPlan | null;
 }
 
 interface RawPairOptions extends RawTableOptions, RawReportOptions {
   format: PairFormat;
   cells: CellView;
+  multi?: string[];
+  multiSplit?: string[];
 }
 
 export function pairPlan(file: string | undefined, raw: RawPairOptions): PairPlan {
   const { reader, analysis, table, order, alpha } = tablePlan(raw);
-  return { input: file ?? '-', reader, table: { ...table, rowOrder: order.rows, colOrder: order.cols }, analysis, alpha, format: raw.format, cells: raw.cells, report: reportPlan(raw) };
+  const report = reportPlan(raw);
+  const sets = [...(raw.multi ?? []).map(parseMulti), ...(raw.multiSplit ?? []).map(parseMultiSplit)];
+  const set = sets.find((s) => (s.kind === 'columns' ? s.name : s.column) === raw.rows);
+  if (sets.length > 0 && !set) throw usageError(`--rows "${raw.rows}" is not a multiple-response set given with --multi or --multi-split (${sets.map((s) => (s.kind === 'columns' ? s.name : s.column)).join(', ')})`);
+  if (set && (table.by !== undefined || table.other || order.rows || raw.ordinal)) throw usageError('a multiple-response --rows takes none of --by, --other, --row-order, --ordinal');
+  const multiple: BannerPlan | null = set
+    ? {
+        input: file ?? '-',
+        reader,
+        survey: table,
+        selection: { breaks: [raw.cols], questions: [], means: [], multiple: [set], reserved: table.weight ? [table.weight.column] : [] },
+        codebook: null,
+        settings: { cells: ['col', 'count'], confidenceLevels: [0.95], adjustment: 'none', minimumBase: 30, alpha, multipleResponseReferral: 'second-order', analysis: { ...analysis, simulation: DEFAULT_ANALYSIS_OPTIONS.simulation } },
+        format: raw.format,
+        output: report.output,
+        exitStatus: report.exitStatus,
+        color: report.color,
+      }
+    : null;
+  return { input: file ?? '-', reader, table: { ...table, rowOrder: order.rows, colOrder: order.cols }, analysis, alpha, format: raw.format, cells: raw.cells, report, multiple };
 }
 
 export function pairCommand(accept: (plan: PairPlan) => void): Command {
@@ -41,6 +72,9 @@ export function pairCommand(accept: (plan: PairPlan) => void): Command {
     .description('analyse the two-way table of two columns: tests, strength, where the association sits')
     .argument('[file]', 'CSV file, or - (or nothing) for standard input');
   addTableOptions(command, Object.keys(PAIR_RENDERERS));
+  command
+    .option('--multi <name:columns>', "a multiple-response set from 0/1 or yes/no columns, e.g. 'services:svc_*'; name it in --rows (repeatable)", (v: string, p: string[] = []) => [...p, v])
+    .option('--multi-split <column:separator>', "a multiple-response column of delimited answers, e.g. 'services:;'; name it in --rows (repeatable)", (v: string, p: string[] = []) => [...p, v]);
   addReaderOptions(command);
   addSurveyOptions(command);
   addSummedWeightsOption(command);
@@ -64,6 +98,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no a
 
 /** Counts the table, analyses it, writes the report; found = the record's verdict passes. */
 export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
+  if (plan.multiple) return runBanner(plan.multiple, io);
   const source = inputSource(plan.input, io.stdin);
   const guard = outputGuard(io, plan.report);
   guard.checkInputs([plan.input, ...(plan.table.codebook ? [plan.table.codebook.file] : [])]);

@@ -1,7 +1,9 @@
 /**
  * The banner as a spreadsheet (.xlsx, written with exceljs): a "Banner"
- * sheet laid out for reading and pasting, a "Data" sheet with the long
- * table of the CSV output (filters on), and a "Notes" sheet on method.
+ * sheet laid out for reading and pasting, and a "Notes" sheet on method.
+ * The long table (one line per question × row × column) is the CSV output;
+ * it is left out of the workbook, where its quarter of a million cells for
+ * a weekly export would triple the time to write it.
  *
  * One banner sheet with every break variable side by side, not a sheet per
  * break variable: a row of the sheet is then one answer across all the
@@ -14,7 +16,6 @@
  */
 import ExcelJS from 'exceljs';
 import type { BannerQuestion, BannerReport } from '../analysis/banner.js';
-import { BANNER_COLUMNS, bannerLines } from './bannerTables.js';
 import { associationWords, bannerInputLine, methodNotes, questionHeading } from './bannerWords.js';
 import { CAUTION } from './words.js';
 
@@ -45,9 +46,9 @@ export async function bannerWorkbook(report: BannerReport, options: WorkbookOpti
   workbook.created = options.created;
   workbook.modified = options.created;
   bannerSheet(workbook, report);
-  dataSheet(workbook, report);
   notesSheet(workbook, report, options);
-  const buffer = await workbook.xlsx.writeBuffer();
+  // Fast deflate (level 1): the sheet is mostly repeated XML, which it still packs well.
+  const buffer = await workbook.xlsx.writeBuffer({ zip: { compression: 'DEFLATE', compressionOptions: { level: 1 } } } as ExcelJS.XlsxWriteOptions);
   return new Uint8Array(buffer as ArrayBuffer);
 }
 
@@ -130,13 +131,6 @@ function questionRows(sheet: ExcelJS.Worksheet, q: BannerQuestion, report: Banne
   }
   for (const t of q.tests) sheet.getRow(row++).getCell(1).value = text(associationWords(t, report.settings.alpha));
   return row;
-}
-
-function dataSheet(workbook: ExcelJS.Workbook, report: BannerReport): void {
-  const sheet = workbook.addWorksheet('Data', { views: [{ state: 'frozen', ySplit: 1 }] });
-  sheet.addRow([...BANNER_COLUMNS]).font = { bold: true };
-  for (const line of bannerLines(report)) sheet.addRow(line.map((v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)));
-  sheet.autoFilter = { from: { row: 1, column: 1 }, to: { row: 1, column: BANNER_COLUMNS.length } };
 }
 
 function notesSheet(workbook: ExcelJS.Workbook, report: BannerReport, options: WorkbookOptions): void {

@@ -20,8 +20,12 @@ export function glued(...words: string[]): string {
   return words.join(GLUE);
 }
 
+/** Printable ASCII only: one column per character (no escape codes, no wide or combining characters). */
+const PLAIN_ASCII = /^[\x20-\x7e]*$/;
+
 export function displayWidth(text: string): number {
-  return stringWidth(text);
+  // Most cells of a table are plain ASCII numbers: their width is their length.
+  return PLAIN_ASCII.test(text) ? text.length : stringWidth(text);
 }
 
 export function padEnd(text: string, width: number): string {

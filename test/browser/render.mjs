@@ -42,6 +42,7 @@ const reports = [
   ['pair', ['pair', demo, '--rows', 'age_band', '--cols', 'preferred_format', '--format', 'html']],
   ['pair 2×2', ['pair', demo, '--rows', 'membership', '--cols', 'has_children', '--format', 'html']],
   ['scan', ['scan', demo, '--format', 'html']],
+  ['banner', ['banner', demo, '--break', 'age_band,membership,branch', '--format', 'html']],
   ['compare', ['compare', demo, '--period', 'has_children', '--rows', 'age_band', '--cols', 'preferred_format', '--format', 'html']],
   ['waves', ['waves', join(root, 'fixtures', 'demo', 'weekly', 'patron-2026-W*.csv'), '--rows', 'age_band', '--cols', 'preferred_format', '--engine', 'builtin', '--format', 'html']],
   ['waves 2×2', ['waves', demo, '--period', 'age_band', '--rows', 'membership', '--cols', 'has_children', '--format', 'html']],
@@ -106,11 +107,15 @@ try {
           emptyShapes: shapes.filter((s) => (s.tagName === 'text' ? s.textContent.trim() !== '' : Number(s.getAttribute('width')) > 0 && Number(s.getAttribute('height')) > 0) && (box(s).width <= 0 || box(s).height <= 0)).length,
           overflowing: svgs.filter((s) => box(s).right > pageWidth + 1).length,
           scrollsSideways: document.documentElement.scrollWidth > pageWidth + 1,
+          contents: document.querySelectorAll('nav a[href^="#"]').length,
+          targets: [...document.querySelectorAll('nav a[href^="#"]')].filter((a) => document.getElementById(a.getAttribute('href').slice(1))).length,
         };
       });
       const shot = join(out, `${name.replace(/\W+/g, '-')}-${width}.png`);
       await page.screenshot({ path: shot, fullPage: true });
-      check(`${name} at ${width}px: has pictures`, layout.svgs >= 1 && layout.shapes > 10, `${layout.svgs} svg, ${layout.shapes} shapes`);
+      // The banner is tables only: its check is the table of contents, every entry leading to its question.
+      if (name === 'banner') check(`${name} at ${width}px: the contents lead to every question`, layout.contents > 0 && layout.contents === layout.targets, `${layout.contents} entries, ${layout.targets} found`);
+      else check(`${name} at ${width}px: has pictures`, layout.svgs >= 1 && layout.shapes > 10, `${layout.svgs} svg, ${layout.shapes} shapes`);
       check(`${name} at ${width}px: every picture and shape has a box`, layout.emptySvgs === 0 && layout.emptyShapes === 0, `${layout.emptySvgs} empty svg, ${layout.emptyShapes} empty shapes`);
       check(`${name} at ${width}px: nothing overflows the page`, layout.overflowing === 0 && !layout.scrollsSideways);
       check(`${name} at ${width}px: screenshot taken`, existsSync(shot) && statSync(shot).size > 5000, shot);

@@ -8,7 +8,6 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import ExcelJS from 'exceljs';
 import { describe, expect, it } from 'vitest';
-import { BANNER_COLUMNS } from '../../src/render/bannerTables.js';
 import { expectClose, ROOT } from '../helpers.js';
 import { run, runJson, tempFile } from './cliHelpers.js';
 
@@ -259,55 +258,50 @@ describe('banner: the overall test of question × break is the pair record', () 
 });
 
 describe('banner spreadsheet (exceljs read back)', () => {
-  it('the Data sheet holds the numbers of the JSON, the Banner sheet percentages as numbers formatted %, keys in their own cells, frozen headers, a Notes sheet', async () => {
+  it('the Banner sheet holds the numbers of the JSON (percentages as numbers formatted %, bases, means), keys in their own cells, frozen headers; a Notes sheet', async () => {
     const file = tempFile('banner.xlsx', '');
-    const args = ['banner', API, '--break', 'stype,size_band', '--questions', 'sch_wide,awards', '--means', 'api00', '--multi-split', 'programmes:;', '--weight', 'pupil_weight'];
+    const args = ['banner', API, '--break', 'stype,size_band', '--questions', 'sch_wide,awards', '--means', 'api00', '--multi-split', 'programmes:;', '--weight', 'pupil_weight', '--cells', 'col,count'];
     const written = await run([...args, '--output', file]);
     expect(written.status).toBe(0);
     const report = await runJson(args);
     const workbook = new ExcelJS.Workbook();
     await workbook.xlsx.readFile(file);
-    expect(workbook.worksheets.map((s) => s.name)).toEqual(['Banner', 'Data', 'Notes']);
-
-    const data = workbook.getWorksheet('Data')!;
-    expect((data.getRow(1).values as any[]).slice(1)).toEqual([...BANNER_COLUMNS]);
-    const col = (name: string) => BANNER_COLUMNS.indexOf(name as any) + 1;
-    let line = 2;
-    for (const q of report.questions) {
-      for (const row of q.rows) {
-        row.cells.forEach((cell: any, j: number) => {
-          const r = data.getRow(line++);
-          expect(r.getCell(col('question')).value).toBe(q.name);
-          expect(r.getCell(col('level')).value).toBe(report.columns[j].level);
-          expect(r.getCell(col('count')).value).toBe(cell.count);
-          expect(r.getCell(col('column_percent')).value).toBe(cell.columnPercent);
-          expect(r.getCell(col('row_percent')).value).toBe(cell.rowPercent);
-          expect(r.getCell(col('effective_base')).value).toBe(q.bases[j].effective);
-          expect(r.getCell(col('marks')).value ?? '').toBe(cell.marks);
-        });
-      }
-      line += (q.means?.length ?? 0) + q.tests.length;
-    }
-    expect(data.views[0]).toMatchObject({ state: 'frozen', ySplit: 1 });
-
+    expect(workbook.worksheets.map((s) => s.name)).toEqual(['Banner', 'Notes']);
     const banner = workbook.getWorksheet('Banner')!;
     expect(banner.views[0]).toMatchObject({ state: 'frozen', xSplit: 1, ySplit: 3 });
-    const first = report.questions[0];
-    let found = 0;
-    let heading = -1;
-    banner.eachRow((r, n) => {
-      if (heading < 0 && r.getCell(1).value === first.name) heading = n;
-      if (heading < 0 || n !== heading + 1) return;
-      found++;
-      expect(r.getCell(1).value).toBe(first.rows[0].label);
-      first.rows[0].cells.forEach((cell: any, j: number) => {
-        const value = r.getCell(2 + 2 * j);
-        expect(value.value).toBe(cell.columnPercent / 100);
-        expect(value.numFmt).toBe('0%');
-        expect(r.getCell(3 + 2 * j).value ?? '').toBe(cell.marks);
-      });
-    });
-    expect(found).toBe(1);
+    expect(banner.getRow(3).getCell(4).value).toBe('(A)');
+    // Walk the sheet as the record lays it out: heading, rows (column % then count), means, base, weighted base, tests.
+    let line = 4;
+    const value = (col: number) => banner.getRow(line).getCell(col);
+    for (const q of report.questions) {
+      expect(String(value(1).value)).toContain(q.name);
+      line++;
+      for (const row of q.rows) {
+        expect(value(1).value).toBe(row.kind === 'net' ? `net: ${row.label}` : row.label);
+        row.cells.forEach((cell: any, j: number) => {
+          expect(value(2 + 2 * j).value).toBe(cell.columnPercent / 100);
+          expect(value(2 + 2 * j).numFmt).toBe('0%');
+          expect(value(3 + 2 * j).value ?? '').toBe(cell.marks);
+        });
+        line++;
+        row.cells.forEach((cell: any, j: number) => expect(value(2 + 2 * j).value).toBe(cell.count));
+        line++;
+      }
+      if (q.means) {
+        q.means.forEach((m: any, j: number) => {
+          expect(value(2 + 2 * j).value).toBe(m.mean);
+          expect(value(3 + 2 * j).value ?? '').toBe(m.marks);
+        });
+        line++;
+        q.means.forEach((m: any, j: number) => expect(value(2 + 2 * j).value).toBe(m.sd));
+        line++;
+      }
+      expect(value(1).value).toMatch(/^base/);
+      q.bases.forEach((b: any, j: number) => expect(value(2 + 2 * j).value).toBe(b.unweighted));
+      line++;
+      q.bases.forEach((b: any, j: number) => expect(value(2 + 2 * j).value).toBe(b.weighted));
+      line += 1 + q.tests.length + 1;
+    }
     const notes = workbook.getWorksheet('Notes')!;
     const noteText = notes.getSheetValues().map((v: any) => (v ? v.slice(1).join(' ') : '')).join('\n');
     expect(noteText).toContain('input file');
@@ -353,5 +347,25 @@ describe('banner: usage and data errors are one line', () => {
   it('--mark-levels takes one or two levels', async () => {
     const r = await run(['banner', API, '--break', 'stype', '--mark-levels', '95,90,80']);
     expect(r.status).toBe(2);
+  });
+});
+
+describe('pair with a multiple-response --rows', () => {
+  it('pair --rows SET --multi … gives the banner of that set by --cols: the same Bilder–Loughin test as banner (recorded numpy value)', async () => {
+    const item = reference.multiple.find((m: any) => m.break === 'stype');
+    const report = await runJson(['pair', API, '--rows', 'prog', '--cols', 'stype', '--multi', 'prog:sch_wide,comp_imp,awards,yr_rnd']);
+    expect(report.command).toBe('banner');
+    expect(report.questions).toHaveLength(1);
+    const a = report.questions[0].tests[0].association;
+    expectClose(a.statistic, item.statistic, 1e-12);
+    expectClose(a.pValue, item.secondOrder.pValue, 1e-9);
+    const exit = await run(['pair', API, '--rows', 'prog', '--cols', 'stype', '--multi', 'prog:sch_wide,comp_imp,awards,yr_rnd', '--exit-status']);
+    expect(exit.status).toBe(0);
+  });
+
+  it('--rows that names no set given is a usage error', async () => {
+    const r = await run(['pair', API, '--rows', 'stype', '--cols', 'size_band', '--multi', 'prog:sch_wide,awards']);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/not a multiple-response set/);
   });
 });

@@ -8,7 +8,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { ROOT } from '../helpers.js';
-import { DEMO, runJson } from './cliHelpers.js';
+import { DEMO, runJson, tempFile } from './cliHelpers.js';
 
 interface Row {
   /** Whole paths the row documents, as "a.b", "pairs[].rank". */
@@ -104,6 +104,12 @@ describe('docs/json.md documents every field the JSON output has, by its whole p
   it('pair, with every optional block present (2×2, ordinal, layer, weights, exact and simulated p-values)', async () => {
     expectDocumented(await runJson(['pair', DEMO, '--rows', 'membership', '--cols', 'has_children', '--ordinal', '--by', 'age_band', '--weight', 'survey_weight']), 'pair');
     expectDocumented(await runJson(['pair', DEMO, '--rows', 'satisfaction', '--cols', 'heard_via', '--exact', 'always', '--simulations', '2000']), 'pair');
+  });
+
+  it('banner: single, multiple-response (with a net), numeric and weighted questions', async () => {
+    const api = join(ROOT, 'fixtures', 'reference', 'banner-api.csv');
+    const book = tempFile('contract-book.json', JSON.stringify({ codebook: 1, columns: [{ name: 'programmes', question: 'Programmes', values: [{ code: 'awards', label: 'awards' }], nets: [{ name: 'any', codes: ['awards'] }] }] }));
+    expectDocumented(await runJson(['banner', api, '--break', 'stype,size_band', '--questions', 'sch_wide', '--means', 'api00', '--multi-split', 'programmes:;', '--weight', 'pupil_weight', '--codebook', book, '--mark-levels', '95,90']), 'banner');
   });
 
   it('scan (with a layer and --full) and compare', async () => {
