@@ -6,10 +6,10 @@
  */
 import { usageError, dataError } from '../errors.js';
 import { Codebook, codebookColumn, CodebookColumn, codeKey, labelColumn, labellingWarnings } from '../table/codebook.js';
-import { EncodedColumn, recodeColumn } from '../table/encodedColumn.js';
+import { EncodedColumn, recodeColumn, shapeColumn } from '../table/encodedColumn.js';
+import { codebookFacts, LevelRules } from '../table/levelRules.js';
 import { compareNatural, isNumericLabel } from '../table/naturalOrder.js';
 import { orderColumn } from '../table/orderedColumn.js';
-import { MISSING_LEVEL } from '../table/twoWayTable.js';
 import type { Warning } from './analyzeTable.js';
 import type { BreakInput, NetInput, QuestionInput } from './banner.js';
 import { screenColumn, SkippedColumn } from './scan.js';
@@ -89,32 +89,21 @@ interface LabelledColumn {
 }
 
 /**
- * Applies --recode (to the values as read, as --where sees them), then the
- * codebook: labels, missing codes (out of every base, or a level of their
- * own with --keep-missing), level order. Codes are renumbered in place of a copy.
+ * The column's level rules applied as pair and scan apply them
+ * (table/levelRules.ts: codebook labels and missing codes, cuts, --recode,
+ * --keep-missing) and its levels in report order.
  */
-function labelled(column: EncodedColumn, recode: ReadonlyMap<string, string> | undefined, keepMissing: boolean, codebook: Codebook | null, warnings: Warning[]): LabelledColumn | null {
-  const recoded = recodeColumn(column, recode, keepMissing);
-  if (recoded.codes === null) return null;
-  const entry = codebookColumn(codebook, column.name);
-  if (!entry) {
-    const ordered = orderColumn(recoded, null);
-    return { name: column.name, title: null, labels: ordered.labels, codes: ordered.codes, codesOf: ordered.labels.map(() => []), entry: undefined };
+function labelled(column: EncodedColumn, rules: LevelRules, codebook: Codebook | null, warnings: Warning[]): LabelledColumn | null {
+  const plain = !rules.codebook && !rules.cuts && !rules.recode;
+  const shaped = plain ? { column: recodeColumn(column, undefined, rules.keepMissing), order: [] as string[] } : shapeColumn(column, rules);
+  if (shaped.column.codes === null) return null;
+  const ordered = orderColumn(shaped.column, null, shaped.order);
+  const entry = rules.codebook ?? undefined;
+  if (entry && codebook) {
+    for (const w of labellingWarnings(entry, labelColumn(entry, column.labels), codebook.file)) if (!warnings.some((x) => x.message === w.message)) warnings.push({ code: w.code, message: w.message });
   }
-  const labelling = labelColumn(entry, recoded.labels);
-  for (const w of labellingWarnings(entry, labelling, codebook!.file)) warnings.push({ code: w.code, message: w.message });
-  const order = [...labelling.order];
-  const missingLabels = [...new Set(labelling.meanings.filter((m) => m.kind === 'missing').map((m) => m.label))];
-  if (keepMissing) order.push(...missingLabels.filter((l) => !order.includes(l)));
-  if (recoded.labels.includes(MISSING_LEVEL) && !order.includes(MISSING_LEVEL)) order.push(MISSING_LEVEL);
-  const index = new Map(order.map((l, i) => [l, i + 1]));
-  const remap = new Uint32Array(recoded.labels.length + 1);
-  labelling.meanings.forEach((m, k) => (remap[k + 1] = m.kind === 'missing' && !keepMissing ? 0 : (index.get(m.label) ?? 0)));
-  const source = recoded.codes;
-  const codes = order.length >= 65535 ? new Uint32Array(source.length) : new Uint16Array(source.length);
-  for (let r = 0; r < codes.length; r++) codes[r] = remap[source[r]];
-  const codesOf = order.map((l) => labelling.codesOf.get(l) ?? []);
-  return { name: column.name, title: entry.question, labels: order, codes, codesOf, entry };
+  const facts = codebookFacts(rules, ordered.labels);
+  return { name: column.name, title: facts?.question ?? null, labels: ordered.labels, codes: ordered.codes, codesOf: facts?.codes ?? ordered.labels.map(() => []), entry };
 }
 
 /** The nets of a codebook entry as level indexes of the labelled column. */
@@ -150,8 +139,8 @@ export interface PreparedBanner {
 export interface PrepareOptions {
   selection: BannerSelection;
   sets: Map<string, string[]>;
-  recodes: Map<string, Map<string, string>>;
-  keepMissing: boolean;
+  /** The level rules of a column (codebook, cuts, --recode, --keep-missing), as pair and scan apply them. */
+  rules: (name: string) => LevelRules;
   maxLevels: number;
   codebook: Codebook | null;
   /** The input's label, for messages. */
@@ -163,11 +152,11 @@ export function prepareBanner(columns: EncodedColumn[], rows: number, options: P
   const byName = new Map(columns.map((c) => [c.name, c]));
   const warnings: Warning[] = [];
   const skipped: SkippedColumn[] = [];
-  const { selection, recodes, keepMissing, codebook } = options;
+  const { selection, codebook, rules } = options;
   const breakNames = selection.breaks.flatMap((b) => matchColumns(b, columns.map((c) => c.name), '--break', options.label));
   const breaks: BreakInput[] = breakNames.map((name) => {
     const column = byName.get(name)!;
-    const ready = labelled(column, recodes.get(name), keepMissing, codebook, warnings);
+    const ready = labelled(column, rules(name), codebook, warnings);
     if (ready === null || ready.labels.length > options.maxLevels) {
       throw dataError(`--break "${name}" has ${column.distinctCapped ? 'more than ' : ''}${column.distinct.toLocaleString('en-US')} distinct values, more than --max-levels ${options.maxLevels}; a break variable needs few levels (cut it with --recode or a codebook)`);
     }
@@ -196,22 +185,24 @@ export function prepareBanner(columns: EncodedColumn[], rows: number, options: P
     }
     const separator = inSets.has(name) ? undefined : splitColumns.get(name);
     if (separator !== undefined) {
-      questions.push(splitQuestion(column, separator, recodes.get(name), codebook, options));
+      questions.push(splitQuestion(column, separator, rules(name), codebook, options));
       continue;
     }
     if (means.has(name)) {
-      questions.push(meanQuestion(column, recodes.get(name), codebook, warnings, options));
+      questions.push(meanQuestion(column, rules(name), warnings, options));
       continue;
     }
     if (explicit ? !explicit.has(name) : reserved.has(name)) continue;
+    const columnRules = rules(name);
+    const relabels = Boolean(columnRules.codebook || columnRules.cuts || columnRules.recode);
     let screened = column;
-    if (column.codes !== null && column.labels.length > options.maxLevels) screened = { ...column, codes: null };
+    if (column.codes !== null && column.labels.length > options.maxLevels && !relabels) screened = { ...column, codes: null };
     const reason = screenColumn(screened, rows, { maxLevels: options.maxLevels, bins: null });
     if (reason) {
       skipped.push(reason.code === 'numeric' ? { ...reason, reason: `numeric with ${column.distinct.toLocaleString('en-US')} distinct values; --means ${name} shows its mean per column` } : reason);
       continue;
     }
-    const ready = labelled(column, recodes.get(name), keepMissing, codebook, warnings);
+    const ready = labelled(column, columnRules, codebook, warnings);
     if (ready === null || ready.labels.length > options.maxLevels) {
       skipped.push({ column: name, code: 'too-many-levels', reason: `more than --max-levels ${options.maxLevels} levels` });
       continue;
@@ -226,17 +217,18 @@ export function prepareBanner(columns: EncodedColumn[], rows: number, options: P
   return { breaks, questions, skipped, warnings };
 }
 
-/** A numeric column summarised by its mean per column (--means): its values are the scores; levels are not shown. */
-function meanQuestion(column: EncodedColumn, recode: ReadonlyMap<string, string> | undefined, codebook: Codebook | null, warnings: Warning[], options: PrepareOptions): QuestionInput {
+/** A numeric column summarised by its mean per column (--means): its values are the scores (codebook missing codes and --recode apply); levels are not shown. */
+function meanQuestion(column: EncodedColumn, rules: LevelRules, warnings: Warning[], options: PrepareOptions): QuestionInput {
   if (column.codes === null) {
     throw dataError(`--means "${column.name}" has more than ${column.distinct.toLocaleString('en-US')} distinct values, more than a banner reads for one column`);
   }
-  // Missing codes of a codebook leave the base; the values themselves are the scores.
-  const ready = labelled(column, recode, false, codebook ? { ...codebook, columns: codebook.columns.filter((c) => c.name === column.name).map((c) => ({ ...c, values: [] })) } : null, warnings);
+  // Missing codes of a codebook leave the base; labels and cuts would turn the values into levels, so only missing codes and recodes apply.
+  const numericRules: LevelRules = { ...rules, cuts: null, codebook: rules.codebook ? { ...rules.codebook, values: [] } : null };
+  const ready = labelled(column, numericRules, null, warnings);
   if (ready === null) throw dataError(`--means "${column.name}": cannot be read as numbers`);
   const bad = ready.labels.find((l) => !isNumericLabel(l));
   if (bad !== undefined) throw dataError(`${options.label}: --means "${column.name}" holds "${bad}", which is not a number (give it as a missing value with --missing, or leave the column out of --means)`);
-  return { kind: 'single', name: column.name, title: ready.title, labels: ready.labels, codes: ready.codes, nets: [], scores: ready.labels.map(Number), showLevels: false };
+  return { kind: 'single', name: column.name, title: rules.codebook?.question ?? null, labels: ready.labels, codes: ready.codes, nets: [], scores: ready.labels.map(Number), showLevels: false };
 }
 
 function normalised(value: string): string {
@@ -280,7 +272,8 @@ function columnSet(name: string, members: EncodedColumn[], codebook: Codebook | 
  * is one (its nets group answers), else in natural order. An empty value is
  * missing: outside the base.
  */
-function splitQuestion(column: EncodedColumn, separator: string, recode: ReadonlyMap<string, string> | undefined, codebook: Codebook | null, options: PrepareOptions): QuestionInput {
+function splitQuestion(column: EncodedColumn, separator: string, rules: LevelRules, codebook: Codebook | null, options: PrepareOptions): QuestionInput {
+  const recode = rules.recode;
   if (column.codes === null) throw dataError(`--multi-split "${column.name}" has more than ${column.distinct.toLocaleString('en-US')} distinct values; a banner reads at most 65,534 distinct combinations of answers`);
   const pieces = column.labels.map((value) => value.split(separator).map((p) => p.trim()).filter((p) => p !== '').map((p) => recode?.get(p) ?? p));
   const entry = codebookColumn(codebook, column.name);

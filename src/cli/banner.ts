@@ -4,15 +4,15 @@ import { usageError } from '../errors.js';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { BannerCellPart, bannerReport, BannerSettings, ColumnAdjustment, MultipleResponseReferral } from '../analysis/banner.js';
 import { BannerSelection, bannerColumnsOf, MultipleSpec, prepareBanner } from '../analysis/bannerQuestions.js';
-import { readCodebook } from '../io/codebookFile.js';
+import { columnRules, TableRequest } from '../io/countTable.js';
+import { detectMissingTokens, missingTokenNotes } from '../io/missingTokens.js';
 import type { ColumnsRequest } from '../io/columns.js';
 import { encodeRows } from '../io/counting.js';
 import { recodesByColumn } from '../io/rowRules.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { BANNER_RENDERERS, BannerFormat } from '../render/renderers.js';
-import type { Codebook } from '../table/codebook.js';
 import { addReaderOptions, addSurveyOptions, analysisPlan, inputSummary, positiveInteger, probability, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerFor, readerPlan, splitList, SurveyPlan, surveyPlan } from './options.js';
-import { CliIo, emit, emitBytes, pageWidth, painter } from './output.js';
+import { CliIo, emit, emitBytes, noteWriter, outputGuard, pageWidth, painter } from './output.js';
 import type { Outcome } from './outcome.js';
 
 const collect = (value: string, previous: string[] = []) => [...previous, value];
@@ -26,7 +26,6 @@ interface RawBannerOptions extends RawReaderOptions, RawSurveyOptions {
   means?: string;
   multi?: string[];
   multiSplit?: string[];
-  codebook?: string;
   cells: string;
   markLevels: string;
   columnAdjust: ColumnAdjustment;
@@ -48,7 +47,6 @@ export interface BannerPlan {
   reader: ReaderPlan;
   survey: SurveyPlan;
   selection: BannerSelection;
-  codebook: string | null;
   settings: BannerSettings;
   format: BannerOutputFormat;
   output?: string;
@@ -110,7 +108,6 @@ export function bannerPlan(file: string | undefined, raw: RawBannerOptions): Ban
     reader,
     survey,
     selection: { breaks, questions: splitList(raw.questions) ?? null, means: splitList(raw.means) ?? [], multiple, reserved: survey.weight ? [survey.weight.column] : [] },
-    codebook: raw.codebook ?? null,
     settings: {
       cells: parseCells(raw.cells),
       confidenceLevels: parseMarkLevels(raw.markLevels),
@@ -136,7 +133,6 @@ export function bannerCommand(accept: (plan: BannerPlan) => void): Command {
     .option('--means <columns>', 'numeric questions shown by their mean, SD and base per column (Welch t tests)')
     .option('--multi <name:columns>', "a multiple-response question from 0/1 or yes/no columns, e.g. 'services:svc_*' (repeatable)", collect)
     .option('--multi-split <column:separator>', "a multiple-response question from one column of delimited answers, e.g. 'services:;' (repeatable)", collect)
-    .option('--codebook <file>', 'labels, level order, missing codes, nets and rating scales of the columns (docs/codebook.md)')
     .option('--cells <parts>', 'what each cell shows: col (column %), row (row %), count; comma-separated', 'col')
     .option('--mark-levels <levels>', 'confidence levels of the column marks: one, or two (upper-case keys at the higher, lower-case at the lower)', '0.95')
     .addOption(new Option('--column-adjust <method>', "adjustment of the column tests over each row's comparisons").choices(['none', 'bonferroni', 'holm']).default('none'))
@@ -170,11 +166,19 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no a
 /** Reads the columns once (built-in reader), builds the banner record and writes it; found = some overall test passes. */
 export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
   if (plan.format === 'xlsx' && plan.output === undefined && io.stdout.isTTY === true) throw usageError('--format xlsx writes a binary file: give --output week.xlsx (or redirect standard output to a file)');
-  const codebook: Codebook | null = plan.codebook ? readCodebook(plan.codebook) : null;
   const source = inputSource(plan.input, io.stdin);
-  const reader = readerFor(plan.reader, io);
+  const guard = outputGuard(io, { output: plan.output });
+  guard.checkInputs([plan.input]);
+  const reader = readerFor(plan.reader, io, guard);
   checkReadable(source);
-  const recodes = recodesByColumn(plan.survey.recodes);
+  const survey = plan.survey;
+  const codebook = survey.codebook;
+  const recodes = recodesByColumn(survey.recodes);
+  // Columns relabelled by the codebook or cut by --cuts may hold more raw values than the level cap while reading, as recoded ones do (as in scan).
+  const relabelled = new Map<string, Map<string, string>>(recodes);
+  for (const column of codebook?.columns ?? []) if ((column.values.length > 0 || column.cuts) && !relabelled.has(column.name)) relabelled.set(column.name, new Map());
+  for (const cut of survey.cuts) if (!relabelled.has(cut.column)) relabelled.set(cut.column, new Map());
+  const table = { recodes: survey.recodes, codebook, cuts: survey.cuts, keepMissing: survey.keepMissing } as TableRequest;
   let sets = new Map<string, string[]>();
   const wide = new Set<string>();
   const request: ColumnsRequest = {
@@ -182,9 +186,10 @@ export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
     keepNumeric: false,
     maxColumns: Number.MAX_SAFE_INTEGER,
     minColumns: 1,
-    where: plan.survey.where,
-    recodes,
-    weight: plan.survey.weight ? { ...plan.survey.weight, decimalComma: plan.survey.decimalComma } : undefined,
+    where: survey.where,
+    recodes: relabelled,
+    codebook,
+    weight: survey.weight ? { ...survey.weight, decimalComma: survey.decimalComma } : undefined,
     select: (header) => {
       const chosen = bannerColumnsOf(plan.selection, header, source.label);
       sets = chosen.sets;
@@ -194,7 +199,9 @@ export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
     wide,
   };
   const report = await encodeRows(source, reader, request, async (encoded) => {
-    const prepared = prepareBanner(encoded.columns, encoded.rows, { selection: plan.selection, sets, recodes, keepMissing: plan.survey.keepMissing, maxLevels: reader.maxLevels, codebook, label: source.label });
+    const declared = new Set([...reader.missing.map((m) => m.trim()), ...(codebook?.columns.flatMap((c) => c.missing.map((m) => m.code)) ?? [])]);
+    for (const note of missingTokenNotes(detectMissingTokens(encoded.columns.map((c) => ({ name: c.name, labels: c.labels })), declared))) noteWriter(io)(note);
+    const prepared = prepareBanner(encoded.columns, encoded.rows, { selection: plan.selection, sets, rules: (name) => columnRules(table, name, recodes), maxLevels: reader.maxLevels, codebook, label: source.label });
     if (prepared.questions.length === 0) throw usageError(`no question to tabulate in ${source.label}: ${prepared.skipped.length ? `left out ${prepared.skipped.map((s) => `${s.column} (${s.reason})`).join('; ')}` : 'name some with --questions'}`);
     return bannerReport({ input: inputSummary(source.label, encoded), respondents: encoded.rows, weights: encoded.weights, ...prepared }, plan.settings);
   });
@@ -202,8 +209,7 @@ export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
     // The spreadsheet library is loaded only when a spreadsheet is asked for.
     const { bannerWorkbook } = await import('../render/bannerXlsx.js');
     await emitBytes(io, await bannerWorkbook(report, { created: new Date() }), plan.output);
-  }
-  else {
+  } else {
     const toFile = plan.output !== undefined;
     const text = BANNER_RENDERERS[plan.format](report, { paint: painter(io, plan.color, toFile), width: pageWidth(io, toFile), cells: 'compact' });
     await emit(io, text, plan.output);

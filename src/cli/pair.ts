@@ -54,9 +54,8 @@ export function pairPlan(file: string | undefined, raw: RawPairOptions): PairPla
     ? {
         input: file ?? '-',
         reader,
-        survey: table,
+        survey: { ...table, codebook: table.codebook ?? null, cuts: table.cuts ?? [] },
         selection: { breaks: [raw.cols], questions: [], means: [], multiple: [set], reserved: table.weight ? [table.weight.column] : [] },
-        codebook: null,
         settings: { cells: ['col', 'count'], confidenceLevels: [0.95], adjustment: 'none', minimumBase: 30, alpha, multipleResponseReferral: 'second-order', analysis: { ...analysis, simulation: DEFAULT_ANALYSIS_OPTIONS.simulation } },
         format: raw.format,
         output: report.output,

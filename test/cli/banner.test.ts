@@ -250,6 +250,15 @@ describe('banner: the overall test of question × break is the pair record', () 
     });
   }
 
+  it('with a codebook (labels, order, a missing code): the same levels and verdict as pair --codebook', async () => {
+    const book = tempFile('api-book.json', JSON.stringify({ codebook: 1, columns: [{ name: 'stype', question: 'School type', values: [{ code: 'E', label: 'elementary' }, { code: 'M', label: 'middle' }, { code: 'H', missing: 'not asked' }] }] }));
+    const report = await runJson(['banner', API, '--break', 'stype', '--questions', 'awards', '--codebook', book]);
+    const pair = await runJson(['pair', API, '--rows', 'awards', '--cols', 'stype', '--codebook', book]);
+    expect(report.columns.slice(1).map((c: any) => c.level)).toEqual(pair.cols.levels);
+    expect(report.breaks[0].title).toBe('School type');
+    expect(question(report, 'awards').tests[0].association.verdict).toEqual(pair.verdict);
+  });
+
   it('weighted: the same verdict as pair --weight', async () => {
     const report = await runJson(['banner', API, '--break', 'stype', '--questions', 'awards', '--weight', 'pupil_weight']);
     const pair = await runJson(['pair', API, '--rows', 'awards', '--cols', 'stype', '--weight', 'pupil_weight']);
