@@ -11,6 +11,7 @@ import { groupMultipleResponseTest, GroupAnswerPattern } from '../stats/multiple
 import { adjustPValues } from '../stats/multipleTesting.js';
 import { welchTTest } from '../stats/welch.js';
 import { CompensatedSum } from '../numerics/compensatedSum.js';
+import type { Codes } from '../table/encodedColumn.js';
 import { BreakCodes, countPatterns, countSingle, CrossCounts, PatternCounts, QuestionCounts } from '../table/bannerCounts.js';
 import type { TwoWayTable } from '../table/twoWayTable.js';
 import type { Weighting } from '../table/weighting.js';
@@ -210,7 +211,7 @@ export interface BreakInput {
   name: string;
   title: string | null;
   labels: string[];
-  codes: Uint16Array | Uint32Array;
+  codes: Codes;
 }
 
 export interface NetInput {
@@ -225,7 +226,7 @@ export type QuestionInput =
       name: string;
       title: string | null;
       labels: string[];
-      codes: Uint16Array | Uint32Array;
+      codes: Codes;
       nets: NetInput[];
       /** The score of each level for the mean (rating scales, --means); null for a categorical question. */
       scores: (number | null)[] | null;

@@ -6,7 +6,7 @@
  */
 import { usageError, dataError } from '../errors.js';
 import { Codebook, codebookColumn, CodebookColumn, codeKey, labelColumn, labellingWarnings } from '../table/codebook.js';
-import { EncodedColumn, recodeColumn, shapeColumn } from '../table/encodedColumn.js';
+import { Codes, EncodedColumn, recodeColumn, shapeColumn } from '../table/encodedColumn.js';
 import { codebookFacts, LevelRules } from '../table/levelRules.js';
 import { compareNatural, isNumericLabel } from '../table/naturalOrder.js';
 import { orderColumn } from '../table/orderedColumn.js';
@@ -82,7 +82,7 @@ interface LabelledColumn {
   name: string;
   title: string | null;
   labels: string[];
-  codes: Uint16Array | Uint32Array;
+  codes: Codes;
   /** For each label, the codebook codes behind it (empty without a codebook). */
   codesOf: string[][];
   entry: CodebookColumn | undefined;
@@ -193,6 +193,11 @@ export function prepareBanner(columns: EncodedColumn[], rows: number, options: P
       continue;
     }
     if (explicit ? !explicit.has(name) : reserved.has(name)) continue;
+    // A break variable's codes are already laid out as a break (renumbered in place): it is not also a question.
+    if (breakNames.includes(name)) {
+      skipped.push({ column: name, code: 'break-variable', reason: 'a break variable (the columns of the banner)' });
+      continue;
+    }
     const columnRules = rules(name);
     const relabels = Boolean(columnRules.codebook || columnRules.cuts || columnRules.recode);
     let screened = column;

@@ -39,7 +39,7 @@ export interface ScanOptions {
 export interface SkippedColumn {
   column: string;
   reason: string;
-  code: 'no-values' | 'single-level' | 'identifier' | 'numeric' | 'too-many-levels';
+  code: 'no-values' | 'single-level' | 'identifier' | 'numeric' | 'too-many-levels' | 'break-variable';
 }
 
 export interface ScanPair extends Omit<AnalysisRecord, 'counts' | 'rowTotals' | 'colTotals' | 'expected' | 'residuals' | 'contributions' | 'percentages'> {

@@ -1,3 +1,4 @@
+import type { Codes } from './encodedColumn.js';
 import { addCompensated } from '../numerics/compensatedSum.js';
 
 /**
@@ -10,7 +11,7 @@ import { addCompensated } from '../numerics/compensatedSum.js';
 
 /** A break variable's codes per row (1-based level codes, 0 missing) and its number of levels. */
 export interface BreakCodes {
-  codes: Uint16Array | Uint32Array;
+  codes: Codes;
   levels: number;
 }
 
@@ -51,7 +52,7 @@ function newCross(rows: number, width: number): CrossCounts {
  * every break: row index = the question's code − 1; respondents with a
  * missing answer are not counted (they are outside the question's base).
  */
-export function countSingle(question: Uint16Array | Uint32Array, levels: number, breaks: readonly BreakCodes[], weights?: Float64Array): QuestionCounts {
+export function countSingle(question: Codes, levels: number, breaks: readonly BreakCodes[], weights?: Float64Array): QuestionCounts {
   const crosses = [...breaks.map((b) => newCross(levels, b.levels + 1)), newCross(levels, 2)];
   const n = question.length;
   for (let b = 0; b < breaks.length; b++) {
