@@ -36,6 +36,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 import scipy
+import scipy.linalg
 import statsmodels
 from scipy import stats
 from statsmodels.stats.proportion import proportions_ztest
@@ -123,27 +124,33 @@ def welch(brk, weight=None):
 
 
 def mmi(brk):
+    """Appendix A of Bilder, Loughin & Nettleton (2000): the covariance of the group shares is
+    H B H' with B the block diagonal of each group's answer covariance over its share of n;
+    the referrals use the sum and the sum of squares of the eigenvalues of D^-1 Sigma."""
     levels = natural(frame[brk].unique())
-    groups = frame[brk].to_numpy()
-    Y = np.column_stack([(frame[i] == "Yes").to_numpy(float) for i in ITEMS])
-    r, c, n = len(levels), Y.shape[1], len(Y)
-    ni = np.array([(groups == g).sum() for g in levels], dtype=float)
-    a = ni / n
-    pij = np.array([Y[groups == g].mean(0) for g in levels])
-    pbar = Y.mean(0)
-    X2 = float(sum(ni[i] * (pij[i, j] - pbar[j]) ** 2 / (pbar[j] * (1 - pbar[j])) for i in range(r) for j in range(c)))
-    B = np.zeros((r * c, r * c))
-    for i, g in enumerate(levels):
-        B[i * c:(i + 1) * c, i * c:(i + 1) * c] = np.cov(Y[groups == g], rowvar=False, bias=True) / a[i]
-    H = np.eye(r * c) - np.kron(np.ones((r, r)) @ np.diag(a), np.eye(c))
+    answers = np.column_stack([(frame[i] == "Yes").to_numpy(float) for i in ITEMS])
+    n, c = answers.shape
+    r = len(levels)
+    members = [(frame[brk] == g).to_numpy() for g in levels]
+    share = np.array([m.sum() / n for m in members])
+    within = [answers[m].mean(axis=0) for m in members]
+    overall = answers.mean(axis=0)
+    statistic = 0.0
+    for g in range(r):
+        statistic += float(n * share[g] * (((within[g] - overall) ** 2) / (overall * (1 - overall))).sum())
+    blocks = [np.cov(answers[m].T, bias=True) / share[g] for g, m in enumerate(members)]
+    B = scipy.linalg.block_diag(*blocks)
+    centring = np.eye(r) - np.outer(np.ones(r), share)
+    H = np.kron(centring, np.eye(c))
     sigma = H @ B @ H.T
-    D = np.kron(1 / a, pbar * (1 - pbar))
-    lam = np.real(np.linalg.eigvals(sigma / D[:, None]))
+    scale = np.concatenate([overall * (1 - overall) / share[g] for g in range(r)])
+    eigenvalues = np.linalg.eigvals(np.diag(1 / scale) @ sigma).real
     m = (r - 1) * c
-    s1, s2 = float(lam.sum()), float((lam ** 2).sum())
-    return {"break": brk, "statistic": X2, "df": m,
-            "firstOrder": {"statistic": X2 * m / s1, "df": m, "pValue": float(stats.chi2.sf(X2 * m / s1, m))},
-            "secondOrder": {"statistic": X2 * m / s2, "df": m * m / s2, "pValue": float(stats.chi2.sf(X2 * m / s2, m * m / s2))}}
+    s1, s2 = float(eigenvalues.sum()), float((eigenvalues ** 2).sum())
+    first, second = statistic * m / s1, statistic * m / s2
+    return {"break": brk, "statistic": statistic, "df": m,
+            "firstOrder": {"statistic": first, "df": m, "pValue": float(stats.chi2.sf(first, m))},
+            "secondOrder": {"statistic": second, "df": m * m / s2, "pValue": float(stats.chi2.sf(second, m * m / s2))}}
 
 
 def bases(brk, weight):
