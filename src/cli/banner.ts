@@ -11,7 +11,7 @@ import { encodeRows } from '../io/counting.js';
 import { recodesByColumn } from '../io/rowRules.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { BANNER_RENDERERS, BannerFormat } from '../render/renderers.js';
-import { addReaderOptions, addSurveyOptions, analysisPlan, inputSummary, positiveInteger, probability, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerFor, readerPlan, splitList, SurveyPlan, surveyPlan } from './options.js';
+import { addRawCellsOption, addReaderOptions, addSurveyOptions, analysisPlan, inputSummary, positiveInteger, probability, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerFor, readerPlan, splitList, SurveyPlan, surveyPlan } from './options.js';
 import { CliIo, emit, emitBytes, noteWriter, outputGuard, pageWidth, painter } from './output.js';
 import type { Outcome } from './outcome.js';
 
@@ -39,6 +39,7 @@ interface RawBannerOptions extends RawReaderOptions, RawSurveyOptions {
   output?: string;
   exitStatus?: boolean;
   color?: boolean;
+  rawCells?: boolean;
 }
 
 export interface BannerPlan {
@@ -52,6 +53,8 @@ export interface BannerPlan {
   output?: string;
   exitStatus: boolean;
   color: boolean;
+  /** --raw-cells: CSV/TSV cells exactly as in the data (no spreadsheet guard). */
+  rawCells: boolean;
 }
 
 const CELL_PARTS: BannerCellPart[] = ['col', 'row', 'count'];
@@ -121,6 +124,7 @@ export function bannerPlan(file: string | undefined, raw: RawBannerOptions): Ban
     output: raw.output,
     exitStatus: raw.exitStatus === true,
     color: raw.color !== false,
+    rawCells: raw.rawCells === true,
   };
 }
 
@@ -148,6 +152,7 @@ export function bannerCommand(accept: (plan: BannerPlan) => void): Command {
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addSurveyOptions(command, false);
+  addRawCellsOption(command);
   command.addHelpText(
     'after',
     `
@@ -211,7 +216,7 @@ export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
     await emitBytes(io, await bannerWorkbook(report, { created: new Date() }), plan.output);
   } else {
     const toFile = plan.output !== undefined;
-    const text = BANNER_RENDERERS[plan.format](report, { paint: painter(io, plan.color, toFile), width: pageWidth(io, toFile), cells: 'compact' });
+    const text = BANNER_RENDERERS[plan.format](report, { paint: painter(io, plan.color, toFile), width: pageWidth(io, toFile), cells: 'compact', rawCells: plan.rawCells });
     await emit(io, text, plan.output);
   }
   const found = report.questions.some((q) => q.tests.some((t) => t.association?.passes === true));

@@ -61,6 +61,7 @@ export function pairPlan(file: string | undefined, raw: RawPairOptions): PairPla
         output: report.output,
         exitStatus: report.exitStatus,
         color: report.color,
+        rawCells: report.rawCells,
       }
     : null;
   return { input: file ?? '-', reader, table: { ...table, rowOrder: order.rows, colOrder: order.cols }, analysis, alpha, format: raw.format, cells: raw.cells, report, multiple };

@@ -7,7 +7,8 @@ import type { BannerQuestion, BannerReport } from '../analysis/banner.js';
 import { formatCount } from '../numbers.js';
 import { associationShort, associationTest, associationWords, bannerInputLine, cellPart, meanText, methodNotes, questionHeading, SMALL_BASE_MARK } from './bannerWords.js';
 import { md } from './pairDelimited.js';
-import { delimitedField, exactNumber } from './scanTable.js';
+import { spreadsheetField } from '../escape/spreadsheet.js';
+import { exactNumber } from './scanTable.js';
 import { escapeXml } from './svg.js';
 import { CAUTION } from './words.js';
 
@@ -78,9 +79,10 @@ export function bannerLines(report: BannerReport): Value[][] {
   return lines;
 }
 
-export function renderBannerDelimited(report: BannerReport, delimiter: ',' | '\t'): string {
+/** The long table as CSV or TSV: cells a spreadsheet would run as formulas neutralised unless `raw` (--raw-cells). */
+export function renderBannerDelimited(report: BannerReport, delimiter: ',' | '\t', raw = false): string {
   const out = [BANNER_COLUMNS.join(delimiter)];
-  for (const line of bannerLines(report)) out.push(line.map((v) => delimitedField(exactNumber(v), delimiter)).join(delimiter));
+  for (const line of bannerLines(report)) out.push(line.map((v) => spreadsheetField(exactNumber(v), delimiter, raw)).join(delimiter));
   return out.join('\n') + '\n';
 }
 

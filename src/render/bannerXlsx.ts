@@ -15,6 +15,7 @@
  * a formula.
  */
 import ExcelJS from 'exceljs';
+import { neutraliseFormula } from '../escape/spreadsheet.js';
 import type { BannerQuestion, BannerReport } from '../analysis/banner.js';
 import { associationWords, bannerInputLine, methodNotes, questionHeading } from './bannerWords.js';
 import { CAUTION } from './words.js';
@@ -29,10 +30,13 @@ const MEAN = '0.00';
 
 /**
  * Text from the data, as a cell value: always a string cell (exceljs writes
- * a formula only for {formula} values), so "=…" stays text.
+ * a formula only for {formula} values), and neutralised as the CSV output
+ * is (escape/spreadsheet.ts: a leading apostrophe before a text a
+ * spreadsheet would run as a formula), so that editing the cell later does
+ * not turn it into one.
  */
 function text(value: string): string {
-  return value;
+  return neutraliseFormula(value);
 }
 
 export interface WorkbookOptions {

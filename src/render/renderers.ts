@@ -76,10 +76,10 @@ export const WAVES_RENDERERS = {
 
 /** The banner's text formats; its spreadsheet (xlsx) is binary and written by render/bannerXlsx.ts. */
 export const BANNER_RENDERERS = {
-  text: (report, { paint, width }) => renderBannerText(report, paint, { width }),
+  text: (report, { paint, width }) => renderBannerText(terminalSafeRecord(report), paint, { width }),
   json: (report) => toJson(report),
-  csv: (report) => renderBannerDelimited(report, ','),
-  tsv: (report) => renderBannerDelimited(report, '\t'),
+  csv: (report, { rawCells }) => renderBannerDelimited(report, ',', rawCells),
+  tsv: (report, { rawCells }) => renderBannerDelimited(report, '\t', rawCells),
   markdown: (report) => renderBannerMarkdown(report),
   html: (report) => renderBannerHtml(report),
 } satisfies Renderers<BannerReport>;

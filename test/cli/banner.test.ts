@@ -7,6 +7,7 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import ExcelJS from 'exceljs';
+import { restoreFormula } from '../../src/escape/spreadsheet.js';
 import { describe, expect, it } from 'vitest';
 import { expectClose, ROOT } from '../helpers.js';
 import { run, runJson, tempFile } from './cliHelpers.js';
@@ -336,8 +337,11 @@ describe('banner spreadsheet (exceljs read back)', () => {
         }),
       );
     expect(cells).toBeGreaterThan(20);
+    // neutralised as the CSV output is (OWASP CSV injection advice: a leading apostrophe), and restored exactly
     const banner = workbook.getWorksheet('Banner')!;
-    expect((banner.getRow(2).values as any[]).filter((v) => typeof v === 'string')).toContain('=HYPERLINK("http://x")');
+    const levels = (banner.getRow(2).values as any[]).filter((v) => typeof v === 'string');
+    expect(levels).toContain('\'=HYPERLINK("http://x")');
+    expect(levels.map(restoreFormula)).toContain('=HYPERLINK("http://x")');
   });
 });
 

@@ -65,6 +65,28 @@ describe('banner renderers', () => {
     expect(text).toContain('75% B');
   });
 
+  it('escaped at the edge (OWASP CSV injection; ECMA-48 control sequences): a formula-like label gets an apostrophe in CSV unless raw, a control character is shown visibly in text', () => {
+    const hostile = bannerReport(
+      {
+        input: { file: 'hostile.csv', engine: 'builtin', format: 'csv', files: 1, delimiter: ',', rowsRead: 40, blankLines: 0, badRowsSkipped: 0, filtered: 0, badWeightsSkipped: 0 },
+        respondents: 40,
+        breaks: [{ name: 'region', title: null, labels: ['=cmd|x', 'south\u001b[31m'], codes: new Uint16Array(region) }],
+        questions: [{ kind: 'single', name: 'library', title: null, labels: ['@SUM(1)', 'other'], codes: new Uint16Array(answer), nets: [], scores: null, showLevels: true }],
+        skipped: [],
+        warnings: [],
+      },
+      { cells: ['col'], confidenceLevels: [0.95], adjustment: 'none', minimumBase: 10, alpha: 0.05, multipleResponseReferral: 'second-order', analysis: DEFAULT_ANALYSIS_OPTIONS },
+    );
+    const lines = parse(BANNER_RENDERERS.csv(hostile, context), { columns: true }) as Record<string, string>[];
+    expect(lines.some((l) => l.level === "'=cmd|x")).toBe(true);
+    expect(lines.some((l) => l.row === "'@SUM(1)")).toBe(true);
+    const raw = parse(BANNER_RENDERERS.csv(hostile, { ...context, rawCells: true }), { columns: true }) as Record<string, string>[];
+    expect(raw.some((l) => l.level === '=cmd|x')).toBe(true);
+    const text = BANNER_RENDERERS.text(hostile, context);
+    expect(text).not.toContain('\u001b');
+    expect(text).toContain('\\u{1b}');
+  });
+
   it('HTML escapes the data and has a table of contents; Markdown escapes pipes', () => {
     const html = BANNER_RENDERERS.html(report, context);
     expect(html).not.toContain('<script>');
