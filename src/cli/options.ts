@@ -45,7 +45,7 @@ export function addReaderOptions(command: Command): Command {
     .option('--no-header', 'the first line is data; columns are named 1, 2, 3, …')
     .option('--max-levels <n>', 'refuse a column with more distinct values than this', '50')
     .addOption(
-      new Option('--engine <name>', 'who counts: builtin (this reader), duckdb (embedded engine: Parquet, .gz, patterns of many files), auto (duckdb where only it reads the input, or for files over 256 MB)')
+      new Option('--engine <name>', 'who counts: builtin (this reader), duckdb (embedded engine: Parquet, .gz, patterns of many files), auto (duckdb only where it alone reads the input: Parquet, patterns)')
         .choices(['auto', 'builtin', 'duckdb'])
         .default('auto'),
     )

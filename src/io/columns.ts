@@ -78,8 +78,6 @@ export interface ColumnsRequest {
   by?: string;
   /** --codebook: its columns must be in the file. */
   codebook?: Codebook | null;
-  /** The engine counts the pairs in batches of this many GROUPING SETS per query (default 1,000; smaller in tests). */
-  pairsPerQuery?: number;
   /**
    * Chooses the candidate columns from the header, in place of `columns`
    * (banner: patterns such as svc_* need the header to be expanded).

@@ -17,9 +17,7 @@ import { twoProduct } from '../numerics/errorFree.js';
 import { resolveColumn } from './columns.js';
 import type { CountedInput } from './counting.js';
 import { EngineInput } from './engine/files.js';
-import { engineGroups } from './engine/groups.js';
 import type { Engine } from './engine/module.js';
-import { EngineFallback } from './engine/query.js';
 import { DEFAULT_DISTINCT_LIMIT, readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
 import { FieldInterner, MISSING_ID } from './fieldInterner.js';
 import { ColumnLevels, parseWeightValue, Recode, recodesByColumn, RowGate, weightError, WhereClause } from './rowRules.js';
@@ -324,6 +322,8 @@ async function countGroups(engine: Engine, input: EngineInput, source: InputSour
   onLabels(interners.map((i) => i.labels));
   const ids = new Int32Array(slots.names.length);
   const weight = request.weight;
+  // The engine's modules are loaded only on its route.
+  const [{ engineGroups }, { EngineFallback }] = await Promise.all([import('./engine/groups.js'), import('./engine/query.js')]);
   return engineGroups(
     engine,
     input,

@@ -7,7 +7,6 @@
  * file the way the built-in reader does, the built-in reader counts it and
  * one note says so.
  */
-import { promises as fs } from 'node:fs';
 import type { CountedTable, CountPair } from '../table/countedTable.js';
 import type { EncodedColumn } from '../table/encodedColumn.js';
 import type { OrderedColumn } from '../table/orderedColumn.js';
@@ -15,11 +14,9 @@ import type { ColumnsRequest } from './columns.js';
 import { countTableWith, ExcludedBy, TableRequest } from './countTable.js';
 import { encodeWithReader } from './encodeColumns.js';
 import { engineInput, EngineInput, isParquetPath, isPattern } from './engine/files.js';
-import { Engine, engineAvailable, openEngine } from './engine/module.js';
-import { EngineFallback } from './engine/query.js';
-import { encodeWithEngine } from './engine/scanColumns.js';
+import type { Engine } from './engine/module.js';
 import type { EngineName, ReaderOptions, ReadSummary } from './readRecords.js';
-import { InputSource, isGzipFile, isStreamPath } from './source.js';
+import { InputSource, isStreamPath } from './source.js';
 
 /** A counted table and what counting it read and left out. */
 export interface CountedInput extends CountedTable {
@@ -55,31 +52,28 @@ export interface EncodedInput {
   summary: ReadSummary;
   /**
    * Prepares the counts of every pair of these columns (in report order,
-   * with the layer): the engine counts them all in a few queries, the
-   * built-in reader counts each from its codes in memory. Resolves to the
-   * function that gives one pair's counted table.
+   * with the layer): each pair is counted from the per-row codes in memory,
+   * whoever encoded them. Resolves to the function that gives one pair's
+   * counted table.
    */
   countPairs(columns: OrderedColumn[], layer: OrderedColumn | null): Promise<CountPair>;
 }
 
 export type { TableRequest };
 
-/** Plain CSV files at least this large go to the engine under --engine auto (see README, benchmark). */
-export const AUTO_ENGINE_BYTES = 256 * 1024 * 1024;
-
-/** Who counts under --engine: auto takes the engine where only it can read the input (Parquet, patterns), or for a large plain file when the engine is installed. */
+/**
+ * Who counts under --engine: auto takes the engine only where it alone can
+ * read the input (Parquet, patterns of files). A CSV file, however large,
+ * stays with the built-in reader, which measured faster than the engine for
+ * both pair (on every core) and scan (README, Speed), so that auto never
+ * picks the slower route.
+ */
 export async function chooseRoute(reader: ReaderOptions, source: InputSource): Promise<EngineName> {
   const choice = reader.engine ?? 'builtin';
   if (choice !== 'auto') return choice;
   if (source.path === '-') return 'builtin';
   if (await isStreamPath(source.path)) return 'builtin';
   if ((await isPattern(source.path)) || isParquetPath(source.path)) return 'duckdb';
-  try {
-    const stat = await fs.stat(source.path);
-    if (stat.size >= AUTO_ENGINE_BYTES && !(await isGzipFile(source.path)) && (await engineAvailable(reader.engineModule))) return 'duckdb';
-  } catch {
-    // the reader names the problem
-  }
   return 'builtin';
 }
 
@@ -91,6 +85,8 @@ export async function chooseRoute(reader: ReaderOptions, source: InputSource): P
  */
 async function onRoute<T>(source: InputSource, reader: ReaderOptions, route: EngineName, work: (engine: { engine: Engine; input: EngineInput } | null) => Promise<T>): Promise<T> {
   if (route === 'builtin') return work(null);
+  // The engine's modules are loaded only on its route.
+  const [{ openEngine }, { EngineFallback }] = await Promise.all([import('./engine/module.js'), import('./engine/query.js')]);
   const open = () => openEngine(reader.engineModule);
   const input = await engineInput(source, open);
   reader.checkInputs?.(input.files);
@@ -128,7 +124,7 @@ export async function encodeRows<T>(source: InputSource, reader: ReaderOptions, 
  */
 export async function encodeColumns<T>(source: InputSource, reader: ReaderOptions, request: ColumnsRequest, use: (encoded: EncodedInput) => Promise<T>): Promise<T> {
   return onRoute(source, reader, await chooseRoute(reader, source), async (engine) =>
-    use(engine === null ? await encodeWithReader(source, reader, request) : await encodeWithEngine(engine.engine, engine.input, reader, request)),
+    use(engine === null ? await encodeWithReader(source, reader, request) : await (await import('./engine/scanColumns.js')).encodeWithEngine(engine.engine, engine.input, reader, request)),
   );
 }
 

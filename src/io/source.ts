@@ -122,6 +122,15 @@ function gzipMagic(head: Uint8Array): boolean {
  */
 async function* gunzipWhenCompressed(chunks: AsyncIterable<Buffer>): AsyncGenerator<Buffer> {
   const iterator = chunks[Symbol.asyncIterator]();
+  try {
+    yield* inflatedWhenCompressed(iterator);
+  } finally {
+    // A reader that stops early (the header is all it wanted) closes the source now, not at garbage collection.
+    await iterator.return?.();
+  }
+}
+
+async function* inflatedWhenCompressed(iterator: AsyncIterator<Buffer>): AsyncGenerator<Buffer> {
   let head: Buffer = Buffer.alloc(0);
   let ended = false;
   while (head.length < 2) {

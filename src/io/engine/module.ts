@@ -9,10 +9,28 @@ import { ENGINE_PACKAGE, ENGINE_VERSION } from '../../version.js';
 /** An open engine: runs one SQL statement and gives its rows. */
 export interface Engine {
   query(sql: string): Promise<unknown[][]>;
+  /**
+   * Runs a query whose columns are numbers without NULLs and hands its
+   * result chunk by chunk: each column as an array of `rows` numbers (valid
+   * only during the call: a typed array over the engine's own memory).
+   */
+  numericChunks(sql: string, visit: (columns: ArrayLike<number>[], rows: number) => void): Promise<void>;
+}
+
+interface Vector {
+  getItem(index: number): unknown;
 }
 
 interface Connection {
   runAndReadAll(sql: string): Promise<{ getRows(): unknown[][] }>;
+  stream(sql: string): Promise<{ fetchChunk(): Promise<{ rowCount: number; columnCount: number; getColumnVector(index: number): Vector } | null> }>;
+}
+
+/** A vector's numbers: its typed array of items where the package exposes one (its vectors keep them in `items`), else item by item. */
+function numbersOf(vector: Vector, rows: number): ArrayLike<number> {
+  const items = (vector as { items?: unknown }).items;
+  if (ArrayBuffer.isView(items) && !(items instanceof DataView) && (items as unknown as ArrayLike<number>).length >= rows) return items as unknown as ArrayLike<number>;
+  return Float64Array.from({ length: rows }, (_v, i) => Number(vector.getItem(i)));
 }
 
 const opened = new Map<string, Promise<Engine>>();
@@ -32,7 +50,16 @@ export function openEngine(specifier: string = ENGINE_PACKAGE): Promise<Engine> 
         throw usageError(`--engine duckdb needs the optional package ${ENGINE_PACKAGE}, which is not installed; add it with "npm install ${ENGINE_PACKAGE}@${ENGINE_VERSION}", or use --engine builtin`);
       }
       const connection = await (await module.DuckDBInstance.create(':memory:')).connect();
-      return { query: async (sql: string) => (await connection.runAndReadAll(sql)).getRows() };
+      return {
+        query: async (sql: string) => (await connection.runAndReadAll(sql)).getRows(),
+        numericChunks: async (sql: string, visit: (columns: ArrayLike<number>[], rows: number) => void) => {
+          const result = await connection.stream(sql);
+          for (let chunk = await result.fetchChunk(); chunk !== null && chunk.rowCount > 0; chunk = await result.fetchChunk()) {
+            const rows = chunk.rowCount;
+            visit(Array.from({ length: chunk.columnCount }, (_v, k) => numbersOf(chunk.getColumnVector(k), rows)), rows);
+          }
+        },
+      };
     })();
     opened.set(specifier, engine);
     engine.catch(() => opened.delete(specifier));

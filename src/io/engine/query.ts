@@ -40,3 +40,25 @@ export function queryInput(engine: Engine, input: EngineInput, sql: string): Pro
       : dataError(`${input.label}: the engine could not read the input (${message}); --engine builtin reads one CSV file at a time and names the line`),
   );
 }
+
+/** Streams the numeric columns of a query that reads the input (see Engine.numericChunks), with queryInput's handling of engine errors. */
+export async function chunksOfInput(engine: Engine, input: EngineInput, sql: string, visit: (columns: ArrayLike<number>[], rows: number) => void): Promise<void> {
+  let failedVisit: unknown = null;
+  try {
+    await engine.numericChunks(sql, (columns, rows) => {
+      try {
+        visit(columns, rows);
+      } catch (error) {
+        failedVisit = error;
+        throw error;
+      }
+    });
+  } catch (error) {
+    // The tool's own errors, and faults of `visit` (bugs), pass through.
+    if (error instanceof TabsightError || error === failedVisit) throw error;
+    const message = engineMessage(error);
+    throw input.format === 'csv' && !input.glob
+      ? new EngineFallback(message)
+      : dataError(`${input.label}: the engine could not read the input (${message}); --engine builtin reads one CSV file at a time and names the line`);
+  }
+}

@@ -81,7 +81,8 @@ export interface WeightSql {
  * `bad` (the trimmed text of an unusable weight, else NULL), and the weight
  * w and its square as exact integers m = w·2^(52−b), mq = w²·2^(52−bq) in
  * binary exponent buckets b, bq (NULL for 0), which sum exactly in HUGEINT
- * and are rounded once by the reader (numerics: pairFromBuckets).
+ * and are rounded once by the reader (numerics: pairFromBuckets); and wd,
+ * the weight as a double (the scan fetches it per row).
  */
 export function weightedRowsSql(from: string, columns: readonly string[], weight: WeightSql): string {
   const normalised = weight.decimalComma ? `regexp_replace(wt, ',', '.')` : 'wt';
@@ -92,7 +93,7 @@ export function weightedRowsSql(from: string, columns: readonly string[], weight
     judged AS (SELECT *, COALESCE(isfinite(wd) AND wd >= 0${whole}, false) AS ok FROM parsed),
     bucketed AS (SELECT *, CASE WHEN ok AND wd > 0 THEN CAST(floor(log2(wd)) AS INTEGER) - 3 END AS b,
       CASE WHEN ok AND wd * wd > 0 AND isfinite(wd * wd) THEN CAST(floor(log2(wd * wd)) AS INTEGER) - 3 END AS bq FROM judged)
-    SELECT * EXCLUDE (wt, wd), CASE WHEN ok THEN NULL ELSE COALESCE(wt, '') END AS bad,
+    SELECT * EXCLUDE (wt), CASE WHEN ok THEN NULL ELSE COALESCE(wt, '') END AS bad,
       CASE WHEN b IS NULL THEN 0 ELSE CAST(${scaled('wd', '(52 - b)')} AS HUGEINT) END AS m,
       CASE WHEN bq IS NULL THEN 0 ELSE CAST(${scaled('(wd * wd)', '(52 - bq)')} AS HUGEINT) END AS mq
     FROM bucketed`;
