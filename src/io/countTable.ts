@@ -80,7 +80,7 @@ export const RELABELLED_READING_CAP = 65534;
 
 function relabelled(request: TableRequest, name: string): boolean {
   const rules = columnRules(request, name);
-  return rules.recode !== null || (rules.cuts ?? null) !== null || (rules.codebook?.values.length ?? 0) > 0 || (request.bins ?? null) !== null;
+  return rules.recode !== null || (rules.cuts ?? null) !== null || (rules.codebook?.values.length ?? 0) > 0 || (request.bins ?? null) !== null || request.other !== undefined;
 }
 
 /** Usage errors of a request, before anything is read. */
@@ -175,7 +175,8 @@ class LayeredCounter {
 
   private tableCounter(): TableCounter {
     const cap = (name: string) => (relabelled(this.request, name) ? Math.max(RELABELLED_READING_CAP, this.request.maxLevels) : this.request.maxLevels);
-    return new TableCounter(this.request.rows, this.request.cols, this.request.maxLevels, this.request.weight !== undefined, { rows: cap(this.request.rows), cols: cap(this.request.cols) });
+    // --other merges levels before the cap applies (finishTables checks the merged table).
+    return new TableCounter(this.request.rows, this.request.cols, this.request.maxLevels, this.request.weight !== undefined, { rows: cap(this.request.rows), cols: cap(this.request.cols) }, this.request.other === undefined);
   }
 
   /** Counts `rows` rows of one combination of value ids, of total weight w (+ wLow) and Σw² q (+ qLow). */
@@ -400,7 +401,15 @@ function finishTables(
           .map(([level, layer]) => ({ level, table: layer.finish(rowLabel, colLabel).table, weighting: layer.weighting(kind), excluded: excludedOfLevel.get(level) ?? 0 }))
       : null;
   let strata = own?.map((s) => ({ ...s, table: relabelTable(s.table, table.rowLevels, table.colLevels) })) ?? null;
-  if (request.other) ({ table, strata } = mergeRareLevels(table, own, request.other.k, request.other.label));
+  if (request.other) {
+    ({ table, strata } = mergeRareLevels(table, own, request.other.k, request.other.label));
+    for (const [name, levels] of [
+      [request.rows, table.rowLevels],
+      [request.cols, table.colLevels],
+    ] as const) {
+      if (levels.length > request.maxLevels) throw dataError(`column "${name}" has ${levels.length.toLocaleString('en-US')} levels after --other ${request.other.k}, more than --max-levels ${request.maxLevels}; lower --other or raise --max-levels`);
+    }
+  }
   checkTestable(request, table, counter.excluded, filtered);
   return { counted: { table, weighting: counter.pooled.weighting(kind), strata, excluded: counter.excluded }, unknownRowLevels: finished.unknownRowLevels, unknownColLevels: finished.unknownColLevels };
 }

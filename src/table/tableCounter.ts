@@ -81,6 +81,8 @@ export class TableCounter {
      * (recode, cuts, codebook) so that the level cap applies to the labels.
      */
     readingCaps: { rows: number; cols: number } = { rows: maxLevels, cols: maxLevels },
+    /** False when the caller merges levels afterwards (--other) and checks the cap itself. */
+    private readonly capLabels = true,
   ) {
     this.rowSide = new SideLevels(readingCaps.rows);
     this.colSide = new SideLevels(readingCaps.cols);
@@ -147,8 +149,8 @@ export class TableCounter {
     const colNames = this.colSide.ids.map(colLabelOf);
     const rows = orderLevels([...new Set(rowNames)], rowOrder);
     const cols = orderLevels([...new Set(colNames)], colOrder);
-    this.checkCap(this.rowName, this.rowSide, rows.order.length);
-    this.checkCap(this.colName, this.colSide, cols.order.length);
+    this.checkCap(this.rowName, this.rowSide, this.capLabels ? rows.order.length : undefined);
+    this.checkCap(this.colName, this.colSide, this.capLabels ? cols.order.length : undefined);
     const rowIndex = new Map(rows.order.map((l, k) => [l, k]));
     const colIndex = new Map(cols.order.map((l, k) => [l, k]));
     const counts = rows.order.map(() => new Array<number>(cols.order.length).fill(0));

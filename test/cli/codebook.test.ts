@@ -209,3 +209,17 @@ describe('count | merge | pair --freq keeps the rows left out (issue rule: the s
     expect(twice.n).toBe(2 * direct.n);
   });
 });
+
+describe('--other is applied before the level cap (issue rule), counts checked against pandas value_counts of the ANES ages', () => {
+  it('a column with 71 ages (more than --max-levels 50) is rescued by --other 8', async () => {
+    const ages = JSON.parse(readFileSync(join(ANES, 'reference.json'), 'utf8')).columns.age.counts as Record<string, number>;
+    const ranked = Object.entries(ages).sort((x, y) => y[1] - x[1] || Number(x[0]) - Number(y[0]));
+    const kept = ranked.slice(0, 8).map(([age]) => age).sort((x, y) => Number(x) - Number(y));
+    const out = await runJson(['pair', DATA, '--rows', q('age'), '--cols', q('vote'), '--other', '8']);
+    expect(out.rows.levels).toEqual([...kept, 'other']);
+    expect(out.rowTotals).toEqual([...kept.map((age) => ages[age]), ranked.slice(8).reduce((s, [, c]) => s + c, 0)]);
+    const refused = await run(['pair', DATA, '--rows', q('age'), '--cols', q('vote')]);
+    expect(refused.status).toBe(1);
+    expect(refused.stderr).toContain('--other k');
+  });
+});
