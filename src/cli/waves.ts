@@ -6,7 +6,7 @@ import { dataError, usageError } from '../errors.js';
 import { CountedInput, countFiles, countTable, TableRequest } from '../io/counting.js';
 import { isPattern } from '../io/engine/files.js';
 import { filesOfPattern } from '../io/fileList.js';
-import { checkReadable, InputSource, inputSource } from '../io/source.js';
+import { checkReadable, InputSource, inputSource, refuseRemote } from '../io/source.js';
 import { WAVES_RENDERERS, WavesFormat } from '../render/renderers.js';
 import { wavesCharts } from '../render/wavesSvg.js';
 import { stackSvg } from '../render/svg.js';
@@ -120,6 +120,7 @@ function fileKey(path: string, key: WaveKey | null): string {
 
 async function wavesOfFiles(plan: WavesPlan, inputs: string[], mode: WaveOrderMode, io: CliIo, guard: OutputGuard): Promise<{ waves: WaveInput[]; setup: WaveSetup }> {
   const patterns: string[] = [];
+  for (const input of inputs) refuseRemote(input);
   for (const input of inputs) if (await isPattern(input)) patterns.push(input);
   if (inputs.length === 1 && patterns.length === 0) throw usageError('waves needs several files (one per wave), a pattern such as "exports/week-*.csv", or one file with --period');
   const files: string[] = [];

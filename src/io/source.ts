@@ -2,7 +2,7 @@
  * Where the input comes from (a file, plain or gzip, or standard input) and
  * its decoding to UTF-8, with one-line errors naming the byte and line.
  */
-import { createReadStream, promises as fs, Stats } from 'node:fs';
+import { createReadStream, existsSync, promises as fs, Stats } from 'node:fs';
 import { createGunzip } from 'node:zlib';
 import { pipeline, Readable } from 'node:stream';
 import { isUtf8 } from 'node:buffer';
@@ -20,7 +20,23 @@ export interface InputSource {
 
 export function inputSource(path: string | undefined, stdin?: NodeJS.ReadableStream & { isTTY?: boolean }): InputSource {
   if (path === undefined || path === '-') return { path: '-', label: 'standard input', stdin };
+  refuseRemote(path);
   return { path, label: path };
+}
+
+/** A URL (scheme://…) or one of the engine's remote schemes without slashes (md:, motherduck:). */
+const REMOTE = /^([a-z][a-z0-9+.-]*:\/\/|(md|motherduck):)/i;
+
+/**
+ * The tool reads local files and standard input only: a URL or a remote
+ * scheme (http://, s3://, hf://, file://, …) is refused in one line (status 2)
+ * before anything is opened, so no engine ever reaches out of the machine;
+ * a local file that happens to have such a name is still that file.
+ */
+export function refuseRemote(path: string): void {
+  if (!REMOTE.test(path) || existsSync(path)) return;
+  const scheme = /^[^:]*/.exec(path)![0];
+  throw usageError(`${path}: a remote address (${scheme}:); tabsight reads local files and standard input only (fetch the data first, then give its local path)`);
 }
 
 export function describeOpenError(source: InputSource, error: NodeJS.ErrnoException): Error {
@@ -143,9 +159,14 @@ async function* inflatedWhenCompressed(iterator: AsyncIterator<Buffer>): AsyncGe
     head = Buffer.concat([head, next.value]);
   }
   async function* all(): AsyncGenerator<Buffer> {
-    if (head.length > 0) yield head;
-    if (ended) return;
-    for (let next = await iterator.next(); !next.done; next = await iterator.next()) yield next.value;
+    try {
+      if (head.length > 0) yield head;
+      if (ended) return;
+      for (let next = await iterator.next(); !next.done; next = await iterator.next()) yield next.value;
+    } finally {
+      // A reader that stops early (a header read, an error) lets the source close its file now, not on garbage collection.
+      await iterator.return?.(undefined);
+    }
   }
   if (!gzipMagic(head)) {
     yield* all();
@@ -156,8 +177,14 @@ async function* inflatedWhenCompressed(iterator: AsyncIterator<Buffer>): AsyncGe
   async function* copies(): AsyncGenerator<Buffer> {
     for await (const chunk of all()) yield Buffer.from(chunk);
   }
-  const inflated = pipeline(Readable.from(copies()), createGunzip({ chunkSize: 1 << 20 }), () => undefined);
-  for await (const chunk of inflated) yield chunk as Buffer;
+  const source = copies();
+  const inflated = pipeline(Readable.from(source), createGunzip({ chunkSize: 1 << 20 }), () => undefined);
+  try {
+    for await (const chunk of inflated) yield chunk as Buffer;
+  } finally {
+    inflated.destroy();
+    await source.return(undefined);
+  }
 }
 
 /** The bytes of an opened source, decompressed, with a failure turned into the tool's one line naming it. */

@@ -3,6 +3,7 @@
  * stopped by a signal (SIGINT, SIGTERM, SIGHUP) removes them before it ends.
  */
 import { unlinkSync } from 'node:fs';
+import { runProcessEndTasks } from '../cleanup.js';
 
 const live = new Set<string>();
 
@@ -37,6 +38,7 @@ export function removeTemporariesOnSignals(): void {
   for (const signal of CLEANUP_SIGNALS) {
     process.once(signal, () => {
       removeTemporaries();
+      runProcessEndTasks(); // the engine's folder, among others (src/cleanup.ts)
       process.kill(process.pid, signal);
     });
   }

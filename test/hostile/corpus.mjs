@@ -9,6 +9,7 @@ import { mulberry32 } from '../../scripts/seeded-random.mjs';
 import { addOutputCases } from './outputs.mjs';
 import { addStreamCases } from './streams.mjs';
 import { addEscapingCases } from './escaping.mjs';
+import { addEngineReachCases } from './engineReach.mjs';
 
 const DEMO = fileURLToPath(new URL('../../fixtures/demo/patron-survey.csv', import.meta.url));
 
@@ -127,6 +128,7 @@ export function makeCorpus(dir, which = 'all') {
     addOutputCases({ dir, add, demo: DEMO });
     addStreamCases({ dir, add });
     addEscapingCases({ dir, add });
+    addEngineReachCases({ dir, add, demo: DEMO });
   }
   return cases;
 }

@@ -59,6 +59,7 @@ export async function engineGroups(
   const blank = rel.blankLines();
   blank.catch(() => undefined); // awaited below; a failed query must not leave it unhandled
   const rows = await queryInput(engine, input, sql);
+  await rel.settle();
   await settleQuotes(input, reader, rows.flatMap((row) => row.slice(0, keyNames.length) as (string | null)[]));
   const k = keyNames.length;
   const valuesOf = (row: unknown[]) => {

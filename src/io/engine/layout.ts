@@ -1,8 +1,10 @@
 /**
  * Layout sniffing: how the built-in reader sees a CSV file (its header,
  * delimiter, the blank lines before the header, gzip or not), so that the
- * engine reads it the same way, and the empty lines the engine would skip
- * without a word (the built-in reader counts them).
+ * engine reads it the same way; and the byte facts where the engine would
+ * read differently: the empty lines it skips without a word (the built-in
+ * reader counts them), a NUL byte anywhere, a character after a closing
+ * quote (which the built-in reader refuses).
  */
 import { createReadStream } from 'node:fs';
 import { readRecords, ReaderOptions } from '../readRecords.js';
@@ -13,6 +15,8 @@ import type { CsvDialect } from './sql.js';
 export interface CsvFileLayout extends CsvDialect {
   file: string;
   header: string[];
+  /** Blank lines before the header that hold spaces or tabs (the built-in reader counts them; see whitespaceLines). */
+  whitespaceLinesBeforeHeader: number;
 }
 
 /** Reads a CSV file's header with the built-in reader (the first megabyte or so). */
@@ -35,51 +39,117 @@ export async function csvLayout(file: string, reader: ReaderOptions): Promise<Cs
   } catch (error) {
     if (error !== stop) throw error;
   }
-  return { file, header: found.header, skip: found.line - 1, delimiter: found.delimiter, gzip: await isGzipFile(file) };
+  const skip = found.line - 1;
+  return { file, header: found.header, skip, whitespaceLinesBeforeHeader: await whitespaceLines(source, skip), delimiter: found.delimiter, gzip: await isGzipFile(file) };
 }
 
-/** Whether a plain file has two line ends in a row anywhere (most files have none, which a native search settles quickly). */
-async function mayHaveEmptyLines(file: string): Promise<boolean> {
+/**
+ * How many of the first `lines` lines (the blank lines before the header)
+ * hold spaces or tabs: the built-in reader counts them as blank lines, the
+ * engine only skips them.
+ */
+async function whitespaceLines(source: InputSource, lines: number): Promise<number> {
+  if (lines === 0) return 0;
+  let seen = 0;
+  let whitespace = 0;
+  let current = false;
+  let afterCr = false;
+  for await (const chunk of rawChunks(source)) {
+    for (let i = 0; i < chunk.length && seen < lines; i++) {
+      const b = chunk[i];
+      if (b === LF && afterCr) {
+        afterCr = false;
+        continue;
+      }
+      afterCr = b === CR;
+      if (b === LF || b === CR) {
+        if (current) whitespace++;
+        current = false;
+        seen++;
+      } else current = true;
+    }
+    if (seen >= lines) break;
+  }
+  return whitespace;
+}
+
+/** What one pass over a CSV file's bytes says about the ways the engine would read it differently from the built-in reader. */
+export interface ByteFacts {
+  /** Empty lines outside quoted fields: the engine skips them without a word, the built-in reader counts them. */
+  emptyLines: number;
+  /** Why the built-in reader must judge the file (it would refuse it where the engine reads on), or null. */
+  suspect: string | null;
+}
+
+const QUOTE = 0x22;
+const LF = 0x0a;
+const CR = 0x0d;
+
+/**
+ * Whether a plain file may hold an empty line, a NUL byte or a space or tab
+ * after a quote anywhere (most files hold none, which native searches
+ * settle quickly); only then is every byte looked at.
+ */
+async function needsByteScan(file: string): Promise<boolean> {
   let previous = -1;
   for await (const raw of createReadStream(file, { highWaterMark: 1 << 22 })) {
     const chunk = raw as Buffer;
-    if (previous === -1 && (chunk[0] === 0x0a || chunk[0] === 0x0d)) return true;
-    if (previous === 0x0a && (chunk[0] === 0x0a || chunk[0] === 0x0d)) return true;
-    if (previous === 0x0d && chunk[0] === 0x0d) return true;
+    const first = chunk[0];
+    if (previous === -1 && (first === LF || first === CR)) return true;
+    if ((previous === LF && (first === LF || first === CR)) || (previous === CR && first === CR)) return true;
+    if (previous === QUOTE && (first === 0x20 || first === 0x09)) return true;
     if (chunk.indexOf('\n\n') >= 0 || chunk.indexOf('\n\r\n') >= 0 || chunk.indexOf('\r\r') >= 0) return true;
+    if (chunk.indexOf(0) >= 0 || chunk.indexOf('" ') >= 0 || chunk.indexOf('"\t') >= 0) return true;
     previous = chunk[chunk.length - 1];
   }
   return false;
 }
 
-/** Empty lines outside quoted fields: the engine skips them without a word, the built-in reader counts them. */
-export async function countEmptyLines(file: string, gzip: boolean): Promise<number> {
-  if (!gzip && !(await mayHaveEmptyLines(file))) return 0;
-  let count = 0;
-  let inQuotes = false;
+/**
+ * One pass over every byte, with the quote state of RFC 4180 as the built-in
+ * reader keeps it: empty lines outside quotes are counted; a NUL byte, or a
+ * character other than the delimiter or a line end after a closing quote
+ * (the engine takes `"x" ,1` for `x`, the built-in reader refuses the row),
+ * makes the file suspect.
+ */
+export async function byteFacts(file: string, gzip: boolean, delimiter: string): Promise<ByteFacts> {
+  if (!gzip && !(await needsByteScan(file))) return { emptyLines: 0, suspect: null };
+  const separator = delimiter.charCodeAt(0);
+  let emptyLines = 0;
+  let suspect: string | null = null;
+  // 0 outside quotes, 1 inside, 2 inside right after a quote (an escaped quote or the closing one).
+  let state = 0;
   let lineEmpty = true;
   let afterCr = false;
   for await (const chunk of rawChunks({ path: file, label: file })) {
+    if (suspect === null && chunk.indexOf(0) >= 0) suspect = 'a NUL byte';
     for (let i = 0; i < chunk.length; i++) {
       const b = chunk[i];
-      if (b === 0x0a && afterCr) {
+      if (state === 2) {
+        if (b === QUOTE) {
+          state = 1; // a doubled quote inside the field
+          continue;
+        }
+        state = 0;
+        if (b !== separator && b !== LF && b !== CR && suspect === null) suspect = 'a character after a closing quote';
+      } else if (state === 1) {
+        if (b === QUOTE) state = 2;
+        continue;
+      }
+      if (b === LF && afterCr) {
         afterCr = false;
         continue; // the LF of a CRLF
       }
       afterCr = false;
-      if (inQuotes) {
-        if (b === 0x22) inQuotes = false;
-        continue;
-      }
-      if (b === 0x0a || b === 0x0d) {
-        if (lineEmpty) count++;
+      if (b === LF || b === CR) {
+        if (lineEmpty) emptyLines++;
         lineEmpty = true;
-        afterCr = b === 0x0d;
+        afterCr = b === CR;
         continue;
       }
       lineEmpty = false;
-      if (b === 0x22) inQuotes = true;
+      if (b === QUOTE) state = 1;
     }
   }
-  return count;
+  return { emptyLines, suspect };
 }

@@ -2,7 +2,18 @@
  * Loading the embedded engine: DuckDB through the optional package
  * @duckdb/node-api, imported on first use only (one in-memory database per
  * module name), and the one-line hint when the package is not installed.
+ *
+ * The engine stays inside the machine and leaves nothing behind: it never
+ * installs or loads extension code on its own (so a URL cannot make it fetch
+ * code from the network), keeps no persistent secrets, and keeps its home,
+ * extension, secret and spill folders in one temporary folder of the run,
+ * removed when the process ends (normally or by SIGINT, SIGTERM, SIGHUP);
+ * the configuration is locked, so no query can change it.
  */
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { atProcessEnd } from '../../cleanup.js';
 import { usageError } from '../../errors.js';
 import { ENGINE_PACKAGE, ENGINE_VERSION } from '../../version.js';
 
@@ -35,6 +46,24 @@ function numbersOf(vector: Vector, rows: number): ArrayLike<number> {
 
 const opened = new Map<string, Promise<Engine>>();
 
+/** The engine's settings (see the top of this file); its folder is made here and removed when the process ends. */
+export function engineSettings(): Record<string, string> {
+  const home = mkdtempSync(join(tmpdir(), 'tabsight-engine-'));
+  atProcessEnd(() => rmSync(home, { recursive: true, force: true }));
+  return {
+    autoinstall_known_extensions: 'false',
+    autoload_known_extensions: 'false',
+    allow_community_extensions: 'false',
+    allow_unsigned_extensions: 'false',
+    allow_persistent_secrets: 'false',
+    home_directory: home,
+    extension_directory: join(home, 'extensions'),
+    secret_directory: join(home, 'secrets'),
+    temp_directory: join(home, 'spill'),
+    lock_configuration: 'true',
+  };
+}
+
 /**
  * The engine of the package `specifier` (the optional package by default; a
  * test names a missing module to stand for a machine without it).
@@ -43,13 +72,13 @@ export function openEngine(specifier: string = ENGINE_PACKAGE): Promise<Engine> 
   let engine = opened.get(specifier);
   if (engine === undefined) {
     engine = (async () => {
-      let module: { DuckDBInstance: { create(path: string): Promise<{ connect(): Promise<Connection> }> } };
+      let module: { DuckDBInstance: { create(path: string, options: Record<string, string>): Promise<{ connect(): Promise<Connection> }> } };
       try {
         module = await import(specifier);
       } catch {
         throw usageError(`--engine duckdb needs the optional package ${ENGINE_PACKAGE}, which is not installed; add it with "npm install ${ENGINE_PACKAGE}@${ENGINE_VERSION}", or use --engine builtin`);
       }
-      const connection = await (await module.DuckDBInstance.create(':memory:')).connect();
+      const connection = await (await module.DuckDBInstance.create(':memory:', engineSettings())).connect();
       return {
         query: async (sql: string) => (await connection.runAndReadAll(sql)).getRows(),
         numericChunks: async (sql: string, visit: (columns: ArrayLike<number>[], rows: number) => void) => {

@@ -7,7 +7,9 @@
 import { dataError } from '../../errors.js';
 import type { ReaderOptions } from '../readRecords.js';
 import type { EngineInput } from './files.js';
-import { countEmptyLines, csvLayout, CsvFileLayout } from './layout.js';
+import { byteFacts, ByteFacts, csvLayout, CsvFileLayout } from './layout.js';
+import { readRecords } from '../readRecords.js';
+import { EngineFallback } from './query.js';
 import type { Engine } from './module.js';
 import { querySql } from './query.js';
 import { readCsvSql, readParquetSql, sqlIdentifier } from './sql.js';
@@ -22,19 +24,34 @@ export interface EngineRelation {
   delimiter: string | null;
   /** Empty lines the built-in reader would have counted (0 for Parquet). */
   blankLines(): Promise<number>;
+  /**
+   * Settles, before the engine's counts are used, whether the built-in
+   * reader would read every file as the engine did: where a file holds a
+   * NUL byte or a character after a closing quote, one file goes back to
+   * the built-in reader (EngineFallback), and a file of a pattern is read
+   * by it, whose one-line error (if any) is the answer.
+   */
+  settle(): Promise<void>;
 }
 
 async function parquetRelation(input: EngineInput, engine: Engine): Promise<EngineRelation> {
   const from = readParquetSql(input.files);
   const described = await querySql(engine, `DESCRIBE SELECT * FROM ${from}`, (message) => dataError(`${input.label}: not a readable Parquet input (${message})`));
   const header = described.map((r) => String(r[0]));
-  return { sql: from, header, names: header.map(sqlIdentifier), delimiter: null, blankLines: async () => 0 };
+  return { sql: from, header, names: header.map(sqlIdentifier), delimiter: null, blankLines: async () => 0, settle: async () => undefined };
 }
 
 async function csvRelation(input: EngineInput, reader: ReaderOptions): Promise<EngineRelation> {
   const layouts: CsvFileLayout[] = [];
   for (const file of input.files) layouts.push(await csvLayout(file, reader));
   const first = layouts[0];
+  // One pass over each file's bytes, shared by blankLines and settle.
+  const facts = new Map<string, Promise<ByteFacts>>();
+  const factsOf = (l: CsvFileLayout) => {
+    let known = facts.get(l.file);
+    if (known === undefined) facts.set(l.file, (known = byteFacts(l.file, l.gzip, l.delimiter)));
+    return known;
+  };
   for (const layout of layouts.slice(1)) {
     if (layout.header.length !== first.header.length || layout.header.some((h, k) => h !== first.header[k])) {
       throw dataError(`${layout.file}: its header differs from that of ${first.file}; the files of one pattern must have the same columns`);
@@ -54,8 +71,16 @@ async function csvRelation(input: EngineInput, reader: ReaderOptions): Promise<E
     delimiter: first.delimiter,
     blankLines: async () => {
       let total = 0;
-      for (const l of layouts) total += await countEmptyLines(l.file, l.gzip);
+      for (const l of layouts) total += (await factsOf(l)).emptyLines + l.whitespaceLinesBeforeHeader;
       return total;
+    },
+    settle: async () => {
+      for (const l of layouts) {
+        const { suspect } = await factsOf(l);
+        if (suspect === null) continue;
+        if (!input.glob) throw new EngineFallback(`${suspect}, which the built-in reader judges`);
+        await readRecords({ path: l.file, label: l.file }, reader, () => [], () => undefined);
+      }
     },
   };
 }

@@ -232,6 +232,7 @@ export async function encodeWithEngine(engine: Engine, input: EngineInput, reade
   await queryInput(engine, input, `CREATE OR REPLACE TEMP TABLE ${TABLE} AS ${rowsSql}`);
   const blank = rel.blankLines();
   blank.catch(() => undefined); // awaited below; a failed query must not leave it unhandled
+  await rel.settle();
   const { records, filtered, badWeights } = await census(engine, input, reader, request);
 
   const { rows, profiles } = await profileColumns(engine, input, scanKeys, missingTokens);
