@@ -35,7 +35,7 @@ import {
 } from '../stats/strength.js';
 import { dataError } from '../errors.js';
 import { TwoWayTable } from '../table/twoWayTable.js';
-import { formatCount, formatExpected, formatMeasure } from '../numbers.js';
+import { formatCount, formatExpected, formatMeasure } from '../readableNumbers.js';
 import { effectiveSampleSize, rescaleToEffectiveSize, unweighted, Weighting } from '../table/weighting.js';
 
 export type ExactPolicy = 'auto' | 'always' | 'never';

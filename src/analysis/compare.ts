@@ -9,7 +9,7 @@ import { compareNatural } from '../table/naturalOrder.js';
 import { dropEmptyLevels, relabelTable, TwoWayTable } from '../table/twoWayTable.js';
 import { rescaleToEffectiveSize, Weighting } from '../table/weighting.js';
 import { AnalysisOptions, AnalysisRecord, analyzeTable, Evidence, evidenceOf, Warning } from './analyzeTable.js';
-import { formatP } from '../numbers.js';
+import { formatP } from '../readableNumbers.js';
 import { InputSummary, unknownOrderWarnings } from './report.js';
 import { TOOL_VERSION } from '../version.js';
 

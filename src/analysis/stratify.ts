@@ -3,7 +3,7 @@
  * layers while holding the layer variable fixed.
  */
 import { TestResult } from '../stats/chiSquareTests.js';
-import { formatP, formatRatio } from '../numbers.js';
+import { formatP, formatRatio } from '../readableNumbers.js';
 import { breslowDay, CommonOddsRatio, cochranMantelHaenszel, mantelHaenszelOddsRatio } from '../stats/stratified.js';
 import { dropEmptyLevels, TwoWayTable } from '../table/twoWayTable.js';
 import { rescaleToEffectiveSize, Weighting } from '../table/weighting.js';

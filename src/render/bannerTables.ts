@@ -4,7 +4,7 @@
  * a self-contained HTML page with a table of contents of the questions.
  */
 import type { BannerQuestion, BannerReport } from '../analysis/banner.js';
-import { formatCount } from '../numbers.js';
+import { formatCount } from '../readableNumbers.js';
 import { associationShort, associationTest, associationWords, bannerInputLine, cellPart, meanText, methodNotes, questionHeading, SMALL_BASE_MARK } from './bannerWords.js';
 import { md } from './pairDelimited.js';
 import { spreadsheetField } from '../escape/spreadsheet.js';

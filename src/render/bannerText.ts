@@ -6,7 +6,7 @@
  */
 import type { ChalkInstance } from 'chalk';
 import type { BannerCellPart, BannerQuestion, BannerReport } from '../analysis/banner.js';
-import { formatCount } from '../numbers.js';
+import { formatCount } from '../readableNumbers.js';
 import { associationWords, bannerInputLine, cellPart, meanText, methodNotes, questionHeading, SMALL_BASE_MARK } from './bannerWords.js';
 import { displayWidth, foldLabel, padEnd, padStart, shownLabel, wrapText } from './layout.js';
 import { CAUTION } from './words.js';

@@ -5,7 +5,7 @@
  * weighting).
  */
 import type { BannerAssociation, BannerBreakTests, BannerCell, BannerCellPart, BannerMeanCell, BannerReport } from '../analysis/banner.js';
-import { formatConfidence, formatCount, formatP, formatPercent, formatStatistic, UNDEFINED } from '../numbers.js';
+import { formatConfidence, formatCount, formatP, formatPercent, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { ADJUSTMENT_NAMES, evidenceWords, testName } from './words.js';
 
 /** Marks a base below the minimum in the human-facing formats. */

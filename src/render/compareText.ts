@@ -1,7 +1,7 @@
 /** The compare report as text for people. */
 import type { ChalkInstance } from 'chalk';
 import type { CompareReport, PeriodRecord } from '../analysis/compare.js';
-import { formatCount, formatMeasure, formatP, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';
+import { formatCount, formatMeasure, formatP, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { renderGrid } from './grid.js';
 import { glued, wrapText } from './layout.js';
 import { cautionLines, DEFAULT_TEXT, heading, tableView, TextOptions } from './pairText.js';

@@ -1,5 +1,5 @@
-/** Number formatting and display width shared by the human-facing renderers (the rule itself: src/numbers.ts). */
-export { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, MINUS, UNDEFINED } from '../numbers.js';
+/** Number formatting and display width shared by the human-facing renderers (the rule itself: src/readableNumbers.ts). */
+export { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, MINUS, UNDEFINED } from '../readableNumbers.js';
 export { displayWidth, padEnd as padRight, padStart as padLeft } from './layout.js';
 export { quoteLevel } from './words.js';
 

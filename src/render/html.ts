@@ -6,7 +6,7 @@ import type { AnalysisRecord } from '../analysis/analyzeTable.js';
 import type { CompareReport } from '../analysis/compare.js';
 import type { PairReport } from '../analysis/report.js';
 import type { ScanReport } from '../analysis/scan.js';
-import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';
+import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { changeTestName, compareHeadline, shiftWords } from './compareText.js';
 import { inputLine } from './pairText.js';
 import { pairFlags, scanSummary, FLAG_LEGEND } from './scanTable.js';

@@ -4,7 +4,7 @@
  */
 import type { AnalysisRecord } from '../analysis/analyzeTable.js';
 import type { PairReport } from '../analysis/report.js';
-import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';
+import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { inputLine } from './pairText.js';
 import { exactNumber } from './scanTable.js';
 import { spreadsheetField } from '../escape/spreadsheet.js';

@@ -5,7 +5,7 @@
 import type { ChalkInstance } from 'chalk';
 import type { AnalysisRecord } from '../analysis/analyzeTable.js';
 import type { PairReport } from '../analysis/report.js';
-import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';
+import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { renderGrid } from './grid.js';
 import { displayWidth, glued, padEnd, padStart, wrapText } from './layout.js';
 import { CAUTION, comparison, headline, intervalWords, markLegend, quoteLevel, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';

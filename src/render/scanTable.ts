@@ -4,7 +4,7 @@
  */
 import type { ChalkInstance } from 'chalk';
 import type { ScanPair, ScanReport } from '../analysis/scan.js';
-import { formatCount, formatMeasure, formatP } from '../numbers.js';
+import { formatCount, formatMeasure, formatP } from '../readableNumbers.js';
 import { displayWidth, foldLabel, glued, padEnd, padStart, wrapText } from './layout.js';
 import { cautionLines, heading } from './pairText.js';
 import { ADJUSTMENT_NAMES, alphaPhrase, CAUTION, testName } from './words.js';

@@ -4,7 +4,7 @@
  */
 import type { AnalysisRecord } from '../analysis/analyzeTable.js';
 import type { ScanReport } from '../analysis/scan.js';
-import { formatCount, formatMeasure, formatSigned, UNDEFINED } from '../numbers.js';
+import { formatCount, formatMeasure, formatSigned, UNDEFINED } from '../readableNumbers.js';
 import { displayWidth, foldLabel, keyFor, LONG_LABEL, shownLabel } from './layout.js';
 import { ADJUSTMENT_NAMES, trimZeros } from './words.js';
 

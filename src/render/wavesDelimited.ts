@@ -1,5 +1,5 @@
 import type { WaveRecord, WavesReport } from '../analysis/waves.js';
-import { formatCount, formatP, formatRatio, formatStatistic, UNDEFINED } from '../numbers.js';
+import { formatCount, formatP, formatRatio, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { md } from './pairDelimited.js';
 import { exactNumber } from './scanTable.js';
 import { spreadsheetField } from '../escape/spreadsheet.js';

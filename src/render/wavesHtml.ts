@@ -1,5 +1,5 @@
 import type { WavesReport } from '../analysis/waves.js';
-import { formatCount, formatMeasure, formatP, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';
+import { formatCount, formatMeasure, formatP, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { shiftWords } from './compareText.js';
 import { e, notes, page } from './html.js';
 import { testName } from './words.js';

@@ -1,5 +1,5 @@
 import type { WaveRecord, WavesReport } from '../analysis/waves.js';
-import { formatMeasure, formatP, formatPercent, formatRatio } from '../numbers.js';
+import { formatMeasure, formatP, formatPercent, formatRatio } from '../readableNumbers.js';
 import { keyFor, shownLabel } from './layout.js';
 import { escapeXml, FONT, textWidth } from './svg.js';
 

@@ -1,6 +1,6 @@
 import type { ChalkInstance } from 'chalk';
 import type { WaveRecord, WavesReport } from '../analysis/waves.js';
-import { formatCount, formatMeasure, formatP, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../numbers.js';
+import { formatCount, formatMeasure, formatP, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { shiftWords } from './compareText.js';
 import { displayWidth, glued, padEnd, padStart, shownLabel, wrapText } from './layout.js';
 import { cautionLines, heading } from './pairText.js';

@@ -1,5 +1,5 @@
 import type { WavesReport, WavesStatement } from '../analysis/waves.js';
-import { formatMeasure, formatP, formatRatio, formatSigned } from '../numbers.js';
+import { formatMeasure, formatP, formatRatio, formatSigned } from '../readableNumbers.js';
 import { changeTestName } from './compareText.js';
 import { GLUE, glued } from './layout.js';
 import { alphaPhrase, comparison, evidenceWords } from './words.js';

@@ -4,7 +4,7 @@
  */
 import type { AnalysisRecord, Statement, Verdict } from '../analysis/analyzeTable.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
-import { formatConfidence, formatCount, formatLevel, formatMeasure, formatP, formatRatio, formatSigned } from '../numbers.js';
+import { formatConfidence, formatCount, formatLevel, formatMeasure, formatP, formatRatio, formatSigned } from '../readableNumbers.js';
 import { GLUE, glued, shownLabel } from './layout.js';
 
 /**

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { parse } from 'csv-parse/sync';
 import stringWidth from 'string-width';
 import { describe, expect, it } from 'vitest';
-import { formatP } from '../../src/numbers.js';
+import { formatP } from '../../src/readableNumbers.js';
 import { reference } from '../helpers.js';
 import { DEMO, expandTable, run, runJson, tempFile } from './cliHelpers.js';
 

@@ -4,7 +4,7 @@ import stringWidth from 'string-width';
 import { describe, expect, it } from 'vitest';
 import { renderGrid } from '../../src/render/grid.js';
 import { displayWidth, foldLabel, glued, shownLabel, wrapText } from '../../src/render/layout.js';
-import { formatCount, formatExpected, formatP, formatSigned } from '../../src/numbers.js';
+import { formatCount, formatExpected, formatP, formatSigned } from '../../src/readableNumbers.js';
 
 // Display widths as the Unicode East Asian Width property (UAX #11) and the
 // emoji presentation rules (UTS #51) give them: a wide character takes two
@@ -92,7 +92,7 @@ describe('the grid: every label shown whole, within the page (common practice fo
   });
 });
 
-describe('one rule for numbers (docs: src/numbers.ts)', () => {
+describe('one rule for numbers (docs: src/readableNumbers.ts)', () => {
   it('p-values: three significant digits, exponent form below 0.001 with the minus sign, a floor at 1e−300 that covers subnormals and zero', () => {
     expect(formatP(0.04567)).toBe('0.0457');
     expect(formatP(0.5)).toBe('0.500');

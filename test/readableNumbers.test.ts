@@ -1,9 +1,9 @@
-// The number rule of src/numbers.ts: below 1,000 numbers are rounded by a
+// The number rule of src/readableNumbers.ts: below 1,000 numbers are rounded by a
 // fast path that must give exactly what the locale's formatter gives
 // (ECMA-402 Intl.NumberFormat, en-US: the shortest decimal form rounded half
 // away from zero), ties of the shortest form included.
 import { describe, expect, it } from 'vitest';
-import { formatPercent, formatStatistic } from '../src/numbers.js';
+import { formatPercent, formatStatistic } from '../src/readableNumbers.js';
 
 const byLocale = (x: number, digits: number) => x.toLocaleString('en-US', { minimumFractionDigits: digits, maximumFractionDigits: digits }).replace(/-/g, '−');
 

@@ -9,6 +9,10 @@
  * - p-values: three significant digits, written 1.23e−5 below 0.001, and
  *   "< 1e−300" below 1e−300 (underflow, subnormal numbers and 0 alike);
  * - an undefined value is an em dash —.
+ *
+ * It sits above the rooms rather than in src/render because the analysis
+ * record's sentences use it too (imports run down the rooms, never back up);
+ * arithmetic on numbers is src/numerics/.
  */
 
 export const MINUS = '−';
