@@ -1,5 +1,10 @@
 #!/usr/bin/env node
-import { main } from '../dist/cli/main.js';
+import { existsSync } from 'node:fs';
+
+// The bundled program when the build made one (scripts/bundle.mjs: one file
+// starts faster), else the modules in dist/ as tsc wrote them.
+const bundled = new URL('../dist/bundle/tabsight.js', import.meta.url);
+const { main } = await import(existsSync(bundled) ? bundled.href : '../dist/cli/main.js');
 
 main(process.argv).then(
   (status) => {

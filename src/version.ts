@@ -1,8 +1,7 @@
 /**
  * The program's version and the engine package it was built against, read
  * once from package.json (one source for --version, reports, SQL headers
- * and the engine's install hint). From src/ and from dist/ alike,
- * ../package.json is the package's own file.
+ * and the engine's install hint).
  */
 import { readFileSync } from 'node:fs';
 
@@ -11,7 +10,20 @@ interface PackageJson {
   optionalDependencies?: Record<string, string>;
 }
 
-const packageJson = JSON.parse(readFileSync(new URL('../package.json', import.meta.url), 'utf8')) as PackageJson;
+/** The package's own package.json: beside dist/ and src/ (../), or beside the bundle in dist/bundle/ (../../). */
+function readPackageJson(): PackageJson {
+  for (const path of ['../package.json', '../../package.json']) {
+    try {
+      const found = JSON.parse(readFileSync(new URL(path, import.meta.url), 'utf8')) as PackageJson & { name?: string };
+      if (found.name === 'tabsight') return found;
+    } catch {
+      // not here: look one folder up
+    }
+  }
+  throw new Error('the package.json of tabsight was not found beside the program');
+}
+
+const packageJson = readPackageJson();
 
 export const TOOL_VERSION: string = packageJson.version;
 

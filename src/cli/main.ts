@@ -1,105 +1,89 @@
 /**
  * The command line: builds the program (one commander command per file),
- * parses the arguments once into a CommandPlan, runs that command, and
- * turns its Outcome (or its one error) into an exit status. `run` is the
- * whole program for a given set of streams, so tests call it in-process;
- * `main` is what bin/tabsight.js calls with the process's own.
+ * parses the arguments once into a plan, runs that command, and turns its
+ * Outcome (or its one error) into an exit status. A run that names a
+ * command loads that command's module only (a run on a small file is
+ * mostly start-up; README, Speed); help, version, a misspelt command and
+ * completion load the whole program (program.ts). `run` is the whole
+ * program for a given set of streams, so tests call it in-process; `main`
+ * is what bin/tabsight.js calls with the process's own.
  */
 import { Command, CommanderError } from 'commander';
 import { ExitStatus, ExitStatusCode, TabsightError } from '../errors.js';
 import { TOOL_VERSION } from '../version.js';
-import { bannerCommand, BannerPlan, runBanner } from './banner.js';
-import { compareCommand, ComparePlan, runCompare } from './compare.js';
-import { completionCommand, CompletionPlan, runCompletion } from './completion.js';
-import { countCommand, CountPlan, mergeCommand, MergePlan, runCount, runMerge } from './counts.js';
 import { CliIo, processIo } from './output.js';
 import { ClosedPipe } from '../output/reasons.js';
 import { messageLine } from '../escape/terminal.js';
 import { removeTemporariesOnSignals } from '../output/temporaries.js';
 import { Outcome, statusOf } from './outcome.js';
-import { pairCommand, PairPlan, runPair } from './pair.js';
-import { runScan, scanCommand, ScanPlan } from './scan.js';
-import { runSql, sqlCommand, SqlPlan } from './sql.js';
-import { profileCommand, ProfilePlan, runProfile } from './profile.js';
-import { runWaves, wavesCommand, WavesPlan } from './waves.js';
+import { programShell, withOutput } from './shell.js';
 
-/** A command and its plan, as parsed from the arguments. */
-export type CommandPlan =
-  | { command: 'pair'; plan: PairPlan }
-  | { command: 'scan'; plan: ScanPlan }
-  | { command: 'banner'; plan: BannerPlan }
-  | { command: 'compare'; plan: ComparePlan }
-  | { command: 'waves'; plan: WavesPlan }
-  | { command: 'count'; plan: CountPlan }
-  | { command: 'merge'; plan: MergePlan }
-  | { command: 'sql'; plan: SqlPlan }
-  | { command: 'profile'; plan: ProfilePlan }
-  | { command: 'completion'; plan: CompletionPlan };
-
-function oneLine(text: string): string {
-  return text.replace(/^error: /, '').replace(/\s*\n\s*/g, ' ').trim();
+/** One command's module: its commander command and the function that runs its plan. */
+interface CommandModule {
+  command(accept: (plan: unknown) => void): Command;
+  run(plan: unknown, io: CliIo): Promise<Outcome>;
 }
 
-/** The program: its commands hand their parsed plan to `accept`. Help and version go to the run's streams. */
-export function buildProgram(io: CliIo, accept: (chosen: CommandPlan) => void): Command {
-  const output = {
-    writeOut: (text: string) => io.stdout.write(text),
-    writeErr: (text: string) => {
-      const line = oneLine(text);
-      if (line !== '') io.stderr.write(`tabsight: ${messageLine(line)}\n`);
-    },
-  };
-  const program = new Command('tabsight')
-    .description('Find and explain associations between categorical columns of CSV files.')
-    .version(TOOL_VERSION)
-    .showSuggestionAfterError(true)
-    .configureOutput(output)
-    .exitOverride();
-  const commands = [
-    pairCommand((plan) => accept({ command: 'pair', plan })),
-    scanCommand((plan) => accept({ command: 'scan', plan })),
-    bannerCommand((plan) => accept({ command: 'banner', plan })),
-    compareCommand((plan) => accept({ command: 'compare', plan })),
-    wavesCommand((plan) => accept({ command: 'waves', plan })),
-    countCommand((plan) => accept({ command: 'count', plan })),
-    mergeCommand((plan) => accept({ command: 'merge', plan })),
-    sqlCommand((plan) => accept({ command: 'sql', plan })),
-    profileCommand((plan) => accept({ command: 'profile', plan })),
-    completionCommand((plan) => accept({ command: 'completion', plan })),
-  ];
-  for (const command of commands) {
-    command.exitOverride();
-    command.configureOutput(output);
-    command.showSuggestionAfterError(true);
-    program.addCommand(command);
-  }
-  return program;
-}
+/** The commands a run can name, each loaded on its own (completion needs the whole program). */
+const COMMANDS: Record<string, () => Promise<CommandModule>> = {
+  pair: async () => {
+    const m = await import('./pair.js');
+    return { command: m.pairCommand as CommandModule['command'], run: (plan, io) => m.runPair(plan as Parameters<typeof m.runPair>[0], io) };
+  },
+  scan: async () => {
+    const m = await import('./scan.js');
+    return { command: m.scanCommand as CommandModule['command'], run: (plan, io) => m.runScan(plan as Parameters<typeof m.runScan>[0], io) };
+  },
+  banner: async () => {
+    const m = await import('./banner.js');
+    return { command: m.bannerCommand as CommandModule['command'], run: (plan, io) => m.runBanner(plan as Parameters<typeof m.runBanner>[0], io) };
+  },
+  compare: async () => {
+    const m = await import('./compare.js');
+    return { command: m.compareCommand as CommandModule['command'], run: (plan, io) => m.runCompare(plan as Parameters<typeof m.runCompare>[0], io) };
+  },
+  waves: async () => {
+    const m = await import('./waves.js');
+    return { command: m.wavesCommand as CommandModule['command'], run: (plan, io) => m.runWaves(plan as Parameters<typeof m.runWaves>[0], io) };
+  },
+  count: async () => {
+    const m = await import('./counts.js');
+    return { command: m.countCommand as CommandModule['command'], run: (plan, io) => m.runCount(plan as Parameters<typeof m.runCount>[0], io) };
+  },
+  merge: async () => {
+    const m = await import('./counts.js');
+    return { command: m.mergeCommand as CommandModule['command'], run: (plan, io) => m.runMerge(plan as Parameters<typeof m.runMerge>[0], io) };
+  },
+  sql: async () => {
+    const m = await import('./sql.js');
+    return { command: m.sqlCommand as CommandModule['command'], run: (plan, io) => m.runSql(plan as Parameters<typeof m.runSql>[0], io) };
+  },
+  profile: async () => {
+    const m = await import('./profile.js');
+    return { command: m.profileCommand as CommandModule['command'], run: (plan, io) => m.runProfile(plan as Parameters<typeof m.runProfile>[0], io) };
+  },
+};
 
-/** Runs the command a plan names. */
-function execute(chosen: CommandPlan, io: CliIo, program: Command): Promise<Outcome> {
-  switch (chosen.command) {
-    case 'pair':
-      return runPair(chosen.plan, io);
-    case 'scan':
-      return runScan(chosen.plan, io);
-    case 'banner':
-      return runBanner(chosen.plan, io);
-    case 'compare':
-      return runCompare(chosen.plan, io);
-    case 'waves':
-      return runWaves(chosen.plan, io);
-    case 'count':
-      return runCount(chosen.plan, io);
-    case 'merge':
-      return runMerge(chosen.plan, io);
-    case 'sql':
-      return runSql(chosen.plan, io);
-    case 'profile':
-      return runProfile(chosen.plan, io);
-    case 'completion':
-      return runCompletion(chosen.plan, io, program);
+/** Parses the arguments and runs what they name: one command alone when args[0] names it, else the whole program. */
+async function parseAndRun(args: readonly string[], io: CliIo): Promise<ExitStatusCode> {
+  const load = Object.hasOwn(COMMANDS, args[0]) ? COMMANDS[args[0]] : undefined;
+  if (load !== undefined) {
+    const chosen = await load();
+    let plan: unknown = null;
+    const program = programShell(io, TOOL_VERSION).addCommand(withOutput(chosen.command((p) => (plan = p)), io));
+    await program.parseAsync([...args], { from: 'user' });
+    return plan === null ? ExitStatus.ok : statusOf(await chosen.run(plan, io));
   }
+  const { buildProgram, execute } = await import('./program.js');
+  let chosen: Parameters<typeof execute>[0] | null = null;
+  const program = buildProgram(io, (plan) => (chosen = plan));
+  if (args.length === 0) {
+    program.outputHelp();
+    return ExitStatus.usageError;
+  }
+  await program.parseAsync([...args], { from: 'user' });
+  if (chosen === null) return ExitStatus.ok;
+  return statusOf(await execute(chosen, io, program));
 }
 
 /**
@@ -109,16 +93,8 @@ function execute(chosen: CommandPlan, io: CliIo, program: Command): Promise<Outc
  * rejects (bin/tabsight.js reports it with status 70).
  */
 export async function run(args: readonly string[], io: CliIo): Promise<{ status: ExitStatusCode }> {
-  let chosen: CommandPlan | null = null;
-  const program = buildProgram(io, (plan) => (chosen = plan));
   try {
-    if (args.length === 0) {
-      program.outputHelp();
-      return { status: ExitStatus.usageError };
-    }
-    await program.parseAsync([...args], { from: 'user' });
-    if (chosen === null) return { status: ExitStatus.ok };
-    return { status: statusOf(await execute(chosen, io, program)) };
+    return { status: await parseAndRun(args, io) };
   } catch (error) {
     if (error instanceof CommanderError) {
       if (error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.code === 'commander.help') return { status: ExitStatus.ok };

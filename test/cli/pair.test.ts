@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import stringWidth from 'string-width';
 import { describe, expect, it } from 'vitest';
 import { expectClose, reference } from '../helpers.js';
-import { DEMO, expandTable, run, runJson, tempFile } from './cliHelpers.js';
+import { DEMO, expandTable, run, runJson, spawnCli, tempFile } from './cliHelpers.js';
 
 const party = reference.tables.find((t) => t.name.startsWith('party identification'))!;
 const partyCsv = expandTable('gender', 'party', ['female', 'male'], ['democrat', 'independent', 'republican'], party.counts);
@@ -209,6 +209,18 @@ describe('tabsight pair, errors: one line, a documented exit status, no stack tr
     expect(single.status).toBe(1);
     expect(threaded.stderr).toBe(single.stderr);
     expect(threaded.stderr).toMatch(/line \d+: a quote inside the unquoted field 3/);
+  });
+
+  it('the built program (bundled, its worker beside it) counts with --threads 2 as with --threads 1', () => {
+    const rows = ['id,region,segment'];
+    for (let i = 0; i < 5000; i++) rows.push(`${i},${['north', 'south', 'east'][i % 3]},${i % 7 < 3 ? '"retail, small"' : 'trade'}`);
+    const file = tempFile('threads-built.csv', rows.join('\n') + '\n');
+    const args = ['pair', file, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', 'builtin'];
+    const one = spawnCli([...args, '--threads', '1']);
+    const two = spawnCli([...args, '--threads', '2']);
+    expect(one.status).toBe(0);
+    expect(two.stderr).toBe('');
+    expect(JSON.parse(two.stdout)).toEqual(JSON.parse(one.stdout));
   });
 
   it('duplicate or empty header names: exit 1 saying which', async () => {

@@ -1,7 +1,7 @@
 // Each command parses its options once into a typed plan; the exit status is
 // read from the outcome its run returns (README, "Exit statuses").
 import { describe, expect, it } from 'vitest';
-import { buildProgram, CommandPlan } from '../../src/cli/main.js';
+import { buildProgram, CommandPlan } from '../../src/cli/program.js';
 import { statusOf } from '../../src/cli/outcome.js';
 import type { CliIo } from '../../src/cli/output.js';
 import { TabsightError } from '../../src/errors.js';

@@ -9,7 +9,7 @@ import { describe, expect, it } from 'vitest';
 import { DEFAULT_ANALYSIS_OPTIONS } from '../../src/analysis/analyzeTable.js';
 import { bannerReport } from '../../src/analysis/banner.js';
 import { BANNER_FORMATS } from '../../src/cli/banner.js';
-import { buildProgram } from '../../src/cli/main.js';
+import { buildProgram } from '../../src/cli/program.js';
 import type { CliIo } from '../../src/cli/output.js';
 import { BANNER_COLUMNS } from '../../src/render/bannerTables.js';
 import { displayWidth } from '../../src/render/layout.js';

@@ -9,7 +9,7 @@ import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
 import { DEFAULT_ANALYSIS_OPTIONS } from '../../src/analysis/analyzeTable.js';
 import { pairReport } from '../../src/analysis/report.js';
-import { buildProgram } from '../../src/cli/main.js';
+import { buildProgram } from '../../src/cli/program.js';
 import type { CliIo } from '../../src/cli/output.js';
 import { displayWidth } from '../../src/render/layout.js';
 import { PAIR_COLUMNS } from '../../src/render/pairDelimited.js';
