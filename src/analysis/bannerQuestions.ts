@@ -5,6 +5,7 @@
  * nets, rating-scale scores, multiple-response answer patterns.
  */
 import { usageError, dataError } from '../errors.js';
+import { shellWord } from '../escape/shell.js';
 import { Codebook, codebookColumn, CodebookColumn, codeKey, labelColumn, labellingWarnings } from '../table/codebook.js';
 import { Codes, EncodedColumn, recodeColumn, shapeColumn } from '../table/encodedColumn.js';
 import { codebookFacts, LevelRules } from '../table/levelRules.js';
@@ -204,7 +205,7 @@ export function prepareBanner(columns: EncodedColumn[], rows: number, options: P
     if (column.codes !== null && column.labels.length > options.maxLevels && !relabels) screened = { ...column, codes: null };
     const reason = screenColumn(screened, rows, { maxLevels: options.maxLevels, bins: null });
     if (reason) {
-      skipped.push(reason.code === 'numeric' ? { ...reason, reason: `numeric with ${column.distinct.toLocaleString('en-US')} distinct values; --means ${name} shows its mean per column` } : reason);
+      skipped.push(reason.code === 'numeric' ? { ...reason, reason: `numeric with ${column.distinct.toLocaleString('en-US')} distinct values; --means ${shellWord(name)} shows its mean per column` } : reason);
       continue;
     }
     const ready = labelled(column, columnRules, codebook, warnings);

@@ -4,6 +4,7 @@
  */
 import type { ColumnTally, ProfiledFile } from '../io/profileColumns.js';
 import { isMissingLooking, missingTokenNotes, MissingTokenFinding } from '../io/missingTokens.js';
+import { shellWord } from '../escape/shell.js';
 import { Codebook, CodebookColumn, CodebookWarning, codebookColumn, labelColumn, labellingWarnings } from '../table/codebook.js';
 import { compareNatural, isNumericLabel, rangeKey } from '../table/naturalOrder.js';
 import { scaleOrder } from '../table/orderedScales.js';
@@ -81,11 +82,6 @@ export interface ProfileReport {
 export const IDENTIFIER_SHARE = 0.9;
 /** More distinct numbers than the longest common rating scale (0–10) make a measurement, not codes. */
 export const MOST_CODES = 11;
-
-/** Quotes a word for a POSIX shell when it needs quoting. */
-export function shellWord(word: string): string {
-  return /^[A-Za-z0-9_.,:/+@%=-]+$/.test(word) ? word : `'${word.replace(/'/g, `'\\''`)}'`;
-}
 
 /** A number rounded to two significant digits: a cut point an analyst would write. */
 export function roundCut(x: number): number {

@@ -3,6 +3,7 @@
  * reported as notes, never treated as missing unless the user says so.
  */
 import { isNumericLabel } from '../table/naturalOrder.js';
+import { shellWord } from '../escape/shell.js';
 
 /**
  * Values that exports commonly write for "no value". They are NOT treated as
@@ -76,7 +77,7 @@ export function missingTokenNotes(findings: readonly MissingTokenFinding[]): str
   const notes: string[] = [];
   for (const [column, list] of byColumn) {
     const named = list.map((f) => (f.rows > 0 ? `"${f.token}" (${f.rows.toLocaleString('en-US')} row${f.rows === 1 ? '' : 's'})` : `"${f.token}"`)).join(', ');
-    const option = `--missing '${list.map((f) => f.token.replace(/'/g, "'\\''")).join(',')}'`;
+    const option = `--missing ${shellWord(list.map((f) => f.token).join(','))}`;
     const one = list.length === 1;
     notes.push(`column "${column}" holds ${named}, ${one ? 'a value that commonly means' : 'values that commonly mean'} missing; counted as ${one ? 'a level' : 'levels'} unless you pass ${option}`);
   }

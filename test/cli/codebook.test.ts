@@ -153,7 +153,7 @@ describe('the missing-token note (list and sources in src/io/missingTokens.ts)',
   it('pair names the column, the tokens and the option, once, on standard error; the tokens stay levels', async () => {
     const out = await run(['pair', data, '--rows', 'age', '--cols', 'g', '--format', 'json']);
     expect(out.status).toBe(0);
-    expect(out.stderr).toBe(`tabsight: note: column "age" holds "NA", ".", values that commonly mean missing; counted as levels unless you pass --missing 'NA,.'\n`);
+    expect(out.stderr).toBe(`tabsight: note: column "age" holds "NA", ".", values that commonly mean missing; counted as levels unless you pass --missing NA,.\n`);
     expect(JSON.parse(out.stdout).rows.levels).toContain('NA');
   });
   it('no note once the option is given, and scan notes the same column', async () => {

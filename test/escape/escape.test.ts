@@ -1,6 +1,9 @@
 // The escaping modules, one per format (src/escape). Each rule is checked
 // against the stated rule it follows, named in the test title.
+import { spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
+import { shellWord } from '../../src/escape/shell.js';
 import { escapeXml } from '../../src/escape/markup.js';
 import { markdownText } from '../../src/escape/markdown.js';
 import { delimitedField, looksLikeFormula, neutraliseFormula, restoreFormula, spreadsheetField } from '../../src/escape/spreadsheet.js';
@@ -127,5 +130,23 @@ describe('SQL: quoted by the standard, comments never ended by data (ISO/IEC 907
     const text = sqlCommentText('a\nDROP TABLE t;\r--\u2028x\u0085y');
     expect(text).not.toMatch(/[\n\r\u2028\u0085]/);
     expect(`-- ${text}`.split(/\r\n|[\n\r\u2028\u2029\u0085]/)).toHaveLength(1);
+  });
+});
+
+describe('shell words: a suggested command pastes into a POSIX shell unchanged (POSIX.1-2017 Shell Command Language 2.2.2 Single-Quotes)', () => {
+  const words = ['age', 'NA,.', "N'A", "'PID'", 'two words', '$HOME', '`date`', '*', '~user', 'a;b', 'x|y', '', 'line\nbreak', 'Zürich', 'a\\b', '!', '-', 'col:18,25'];
+  it('plain words stay bare, others are single-quoted with a quote inside written as \'\\\'\'', () => {
+    expect(shellWord('age')).toBe('age');
+    expect(shellWord('NA,.')).toBe('NA,.');
+    expect(shellWord('col:18,25')).toBe('col:18,25');
+    expect(shellWord("N'A")).toBe(`'N'\\''A'`);
+    expect(shellWord('')).toBe(`''`);
+    expect(shellWord('$HOME')).toBe(`'$HOME'`);
+  });
+  it.runIf(existsSync('/bin/sh'))('the system shell reads each quoted word back as the word itself', () => {
+    for (const word of words) {
+      const echoed = spawnSync('/bin/sh', ['-c', `printf '%s' ${shellWord(word)}`], { encoding: 'utf8' });
+      expect(echoed.stdout, JSON.stringify(word)).toBe(word);
+    }
   });
 });

@@ -26,7 +26,7 @@ describe('missing-looking tokens', () => {
       { column: 'age', token: 'NA', rows: 3 },
       { column: 'age', token: '.', rows: 1 },
     ]);
-    expect(missingTokenNotes(findings)).toEqual([`column "age" holds "NA" (3 rows), "." (1 row), values that commonly mean missing; counted as levels unless you pass --missing 'NA,.'`]);
+    expect(missingTokenNotes(findings)).toEqual([`column "age" holds "NA" (3 rows), "." (1 row), values that commonly mean missing; counted as levels unless you pass --missing NA,.`]);
   });
   it('quotes a token with an apostrophe for the shell in the suggested option', () => {
     expect(missingTokenNotes([{ column: 'x', token: "N'A", rows: 1 }])[0]).toContain(`--missing 'N'\\''A'`);

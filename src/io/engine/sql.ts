@@ -11,6 +11,7 @@ import { TOOL_VERSION } from '../../version.js';
 /** Quoting by the SQL standard, and comments that data cannot end: src/escape/sql.ts. */
 export { sqlIdentifier, sqlLiteral } from '../../escape/sql.js';
 import { sqlCommentText, sqlIdentifier, sqlLiteral } from '../../escape/sql.js';
+import { shellWord } from '../../escape/shell.js';
 
 /** The pattern of parseWeightValue in rowRules.ts, for the engine's regular expressions. */
 export const NUMBER_PATTERN = '[+-]?([0-9]+[.]?[0-9]*|[.][0-9]+)([eE][+-]?[0-9]+)?';
@@ -130,9 +131,8 @@ export function portableCountingSql(request: CountingSqlRequest): string {
   const select = keys.map((k) => `  ${portableLevel(k, request.missing)} AS ${sqlIdentifier(k)}`);
   const measures = ['  COUNT(*) AS "count"'];
   const where: string[] = [];
-  // A name as a shell word, so that the read-back command can be pasted.
-  const word = (name: string) => (/^[\w.,:/@%+-]+$/.test(name) ? name : `'${name.replace(/'/g, `'\\''`)}'`);
-  let readBack = `tabsight pair cells.csv --rows ${word(request.rows)} --cols ${word(request.cols)}${request.by !== undefined ? ` --by ${word(request.by)}` : ''} --freq count`;
+  // Names as shell words, so that the read-back command can be pasted.
+  let readBack = `tabsight pair cells.csv --rows ${shellWord(request.rows)} --cols ${shellWord(request.cols)}${request.by !== undefined ? ` --by ${shellWord(request.by)}` : ''} --freq count`;
   if (request.weight !== undefined) {
     const w = `CAST(${sqlIdentifier(request.weight)} AS DOUBLE PRECISION)`;
     measures.push(`  SUM(${w}) AS "weight_sum"`, `  SUM(${w} * ${w}) AS "weight_square_sum"`);
