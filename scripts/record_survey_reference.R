@@ -67,24 +67,7 @@ out_dir <- file.path(root, "fixtures", "reference")
 data_dir <- file.path(out_dir, "survey-data")
 dir.create(data_dir, showWarnings = FALSE, recursive = TRUE)
 
-# ---- JSON with every double to 17 significant digits -------------------------------------
-num <- function(x) ifelse(is.na(x), "null", ifelse(is.infinite(x), ifelse(x > 0, "1e999", "-1e999"), sprintf("%.17g", x)))
-to_json <- function(x) {
-  if (is.null(x)) return("null")
-  if (is.list(x)) {
-    if (!is.null(names(x)) && all(names(x) != "")) {
-      return(paste0("{", paste0('"', names(x), '":', vapply(x, to_json, ""), collapse = ","), "}"))
-    }
-    return(paste0("[", paste(vapply(x, to_json, ""), collapse = ","), "]"))
-  }
-  if (inherits(x, "AsIs") || length(x) != 1) {
-    inner <- if (is.character(x)) paste0('"', x, '"') else if (is.logical(x)) tolower(as.character(x)) else num(as.numeric(x))
-    return(paste0("[", paste(inner, collapse = ","), "]"))
-  }
-  if (is.character(x)) return(paste0('"', gsub('"', '\\\\"', x), '"'))
-  if (is.logical(x)) return(tolower(as.character(x)))
-  num(as.numeric(x))
-}
+source(file.path(root, "scripts", "survey_json.R"))  # num() and to_json()
 
 data(api)
 data(nhanes)

@@ -37,6 +37,8 @@ import { dataError } from '../errors.js';
 import { TwoWayTable } from '../table/twoWayTable.js';
 import { formatCount, formatExpected, formatMeasure } from '../readableNumbers.js';
 import { effectiveSampleSize, rescaleToEffectiveSize, unweighted, Weighting } from '../table/weighting.js';
+import { analyzeDesign, type DesignAnalysis, type DesignInput, type DesignPercentageRecord, type DesignSummary } from './design.js';
+import type { DesignChiSquare, DesignFTest } from '../stats/raoScott.js';
 
 export type ExactPolicy = 'auto' | 'always' | 'never';
 
@@ -55,6 +57,8 @@ export interface AnalysisOptions {
    * 'deferred': it is left for the caller to draw, sequentially (scan).
    */
   simulation: 'full' | 'deferred';
+  /** With a survey design: compute the percentages with their design-based intervals (pair; scan only with --full). */
+  designPercentages?: boolean;
 }
 
 /**
@@ -107,8 +111,8 @@ export interface NotableCell {
 export type Strength = 'negligible' | 'weak' | 'moderate' | 'strong';
 export type Evidence = 'strong' | 'clear' | 'some' | 'none';
 
-/** The tests a verdict can rest on: three of `tests`, or the layered test of `stratified`. */
-export type TestName = 'pearson' | 'fisher' | 'monteCarlo' | 'cmh';
+/** The tests a verdict can rest on: four of `tests`, or the layered test of `stratified`. */
+export type TestName = 'pearson' | 'fisher' | 'monteCarlo' | 'designF' | 'cmh';
 
 /** Why a test leads. */
 export type LeadReason =
@@ -120,17 +124,19 @@ export type LeadReason =
   | 'simulated-for-small-counts'
   /** The expected counts fail the rule and no exact or simulated p-value exists (see `exactUnavailable`). */
   | 'small-counts-no-exact'
+  /** A survey design was given: the second-order Rao–Scott F test carries it. */
+  | 'survey-design'
   /** --by: the layered test asks the question within levels of the variable held fixed. */
   | 'held-fixed';
 
 /** How a p-value was reached. */
-export type Route = 'chi-square' | 'exact' | 'simulated' | 'simulated-sequential';
+export type Route = 'chi-square' | 'exact' | 'simulated' | 'simulated-sequential' | 'design-based';
 
 /** Why no exact or simulated p-value exists for a sparse table. */
-export type ExactUnavailable = 'weighted' | 'non-integer' | 'exact-never' | 'no-simulations' | 'declined' | null;
+export type ExactUnavailable = 'weighted' | 'non-integer' | 'exact-never' | 'no-simulations' | 'declined' | 'design' | null;
 
 export interface LeadingTest {
-  test: 'pearson' | 'fisher' | 'monteCarlo';
+  test: 'pearson' | 'fisher' | 'monteCarlo' | 'designF';
   pValue: number;
   /** A sentence saying why (kept for readers of earlier versions; `reasonCode` is the fact). */
   reason: string;
@@ -174,7 +180,7 @@ export interface CellThreshold {
 /** Sentence facts, in reading order; renderers put them into words. */
 export type Statement =
   | { kind: 'held-fixed'; by: string; test: 'cmh'; pValue: number; passes: boolean; evidence: Evidence; pooledPasses: boolean; commonOddsRatio: number | null }
-  | { kind: 'association'; scope: 'table' | 'pooled'; test: 'pearson' | 'fisher' | 'monteCarlo'; pValue: number; decidingPValue: number; adjusted: boolean; passes: boolean; evidence: Evidence; strength: Strength | null; biasCorrectedV: number | null }
+  | { kind: 'association'; scope: 'table' | 'pooled'; test: LeadingTest['test']; pValue: number; decidingPValue: number; adjusted: boolean; passes: boolean; evidence: Evidence; strength: Strength | null; biasCorrectedV: number | null }
   | { kind: 'diagonal'; which: 'main' | 'off'; first: [string, string]; second: [string, string]; yulesQ: number; earned: boolean; corrected: boolean }
   | { kind: 'cell'; row: string; col: string; direction: 'more' | 'fewer'; adjustedResidual: number }
   | { kind: 'more-cells'; count: number }
@@ -203,7 +209,7 @@ export interface AnalysisRecord {
   excluded: number;
   weighting: Weighting['kind'];
   weighted: boolean;
-  /** The sample size the tests use: Kish's n_eff for sampling weights, n otherwise. */
+  /** The sample size the tests use: n / mean design effect with a survey design, Kish's n_eff for sampling weights, n otherwise. */
   effectiveN: number;
   /** Data rows in the table. */
   unweightedN: number;
@@ -221,6 +227,10 @@ export interface AnalysisRecord {
     exactDeclined: Omit<ExactDeclined, 'status'> | null;
     monteCarlo: (MonteCarloResult & { sequential: boolean }) | null;
     linearByLinear: TestResult | null;
+    /** With a survey design: Rao–Scott first order, X²/δ̄ and G²/δ̄, and second order (F, the leading test). */
+    designPearson: (DesignChiSquare & { uncorrected: number }) | null;
+    designLikelihoodRatio: (DesignChiSquare & { uncorrected: number }) | null;
+    designF: DesignFTest | null;
   };
   measures: {
     phi: number | null;
@@ -244,6 +254,8 @@ export interface AnalysisRecord {
     uncertaintyColsGivenRows: number | null;
     uncertaintyRowsGivenCols: number | null;
     uncertaintySymmetric: number | null;
+    /** With a survey design: Cramér's V of the design-scaled statistic, with the design-effective sample size. */
+    designCramersV: { value: number; effectiveSampleSize: number } | null;
   };
   ordinal: OrdinalMeasures | null;
   residuals: { pearson: number[][]; adjusted: (number | null)[][] };
@@ -253,6 +265,12 @@ export interface AnalysisRecord {
   findings: Findings;
   verdict: Verdict;
   warnings: Warning[];
+  /** The survey design the tests account for, or null (none given). */
+  design: DesignSummary | null;
+  /** With a survey design: each cell's design effect (Kish's, of its share of the table). */
+  designEffects: (number | null)[][] | null;
+  /** With a survey design: weighted percentages with design-based standard errors and intervals. */
+  designPercentages: DesignPercentageRecord | null;
 }
 
 export function strengthOf(v: number | null): Strength | null {
@@ -297,6 +315,7 @@ const REASONS: Record<LeadingTest['reasonCode'], string> = {
   'exact-for-small-counts': 'expected counts are small, so the exact test replaces the chi-square approximation',
   'simulated-for-small-counts': 'expected counts are small and the exact test is out of reach, so a simulated exact p-value replaces the chi-square approximation',
   'small-counts-no-exact': 'expected counts are small but no exact p-value exists for this table; treat this p-value with care',
+  'survey-design': 'a survey design was given: the second-order Rao–Scott F test accounts for its strata, clusters and weights',
 };
 
 function leadingTest(
@@ -370,18 +389,22 @@ export function analyzeTable(
   excluded: number,
   options: AnalysisOptions = DEFAULT_ANALYSIS_OPTIONS,
   weighting: Weighting = unweighted(margins(table.counts).total),
+  design: DesignInput | null = null,
 ): AnalysisRecord {
   // Two tables: reportedCounts are the counts as counted (Σw with sampling
   // weights), the record's `counts`; testedCounts are what every test,
-  // interval and residual uses (the same, rescaled to n_eff when weighted).
+  // interval and residual uses (the same, rescaled to the effective sample
+  // size: n/δ̄ with a survey design, Kish's n_eff with sampling weights alone).
   const reportedCounts = table.counts;
   const r = reportedCounts.length;
   const c = reportedCounts[0].length;
   const { rowTotals, colTotals, total: n } = margins(reportedCounts);
   refuseOverflowingWeights(table, n, weighting);
-  // Kish's effective sample size (Kish 1965) for sampling weights, not Σw.
-  const effectiveN = weighting.kind === 'weight' ? effectiveSampleSize(weighting) : n;
-  const testedCounts = rescaleToEffectiveSize(reportedCounts, weighting);
+  const designed: DesignAnalysis | null = design ? analyzeDesign(design, table, { confidence: options.confidence, percentages: options.designPercentages !== false }) : null;
+  // Kish's effective sample size (Kish 1965) for sampling weights, not Σw;
+  // with a design, the design-effective size n/δ̄ (Rao & Scott 1981).
+  const effectiveN = designed ? designed.summary.effectiveSampleSize : weighting.kind === 'weight' ? effectiveSampleSize(weighting) : n;
+  const testedCounts = designed ? reportedCounts.map((row) => row.map((v) => (v * effectiveN) / n)) : rescaleToEffectiveSize(reportedCounts, weighting);
   const expected = expectedCounts(testedCounts);
   const shownExpected = expectedCounts(reportedCounts);
   const pearson = pearsonChiSquare(testedCounts);
@@ -397,7 +420,8 @@ export function analyzeTable(
   let monteCarlo: AnalysisRecord['tests']['monteCarlo'] = null;
   let simulationPending = false;
   let simulationDeclined: string | null = null;
-  if (integerCounts) {
+  // Exact tests condition on the margins of a simple random sample; under a design they are not defined.
+  if (integerCounts && !designed) {
     let exact: ExactOutcome | null = null;
     if (r === 2 && c === 2) {
       exact = fisherExact2x2(testedCounts);
@@ -439,19 +463,25 @@ export function analyzeTable(
       warnings.push({ code: 'exact-declined', message: `no exact p-value: the exact test was not run because ${exactDeclined.reason}` });
     }
   }
-  const exactUnavailable: ExactUnavailable =
-    weighting.kind === 'weight' ? 'weighted' : !integerCounts ? 'non-integer' : options.exact === 'never' ? 'exact-never' : options.simulations <= 0 ? 'no-simulations' : simulationDeclined !== null || exactDeclined !== null ? 'declined' : null;
+  const exactUnavailable: ExactUnavailable = designed
+    ? 'design'
+    : weighting.kind === 'weight'
+      ? 'weighted'
+      : !integerCounts ? 'non-integer' : options.exact === 'never' ? 'exact-never' : options.simulations <= 0 ? 'no-simulations' : simulationDeclined !== null || exactDeclined !== null ? 'declined' : null;
 
-  const lead = leadingTest(rule.passes, fisher, monteCarlo ?? (simulationPending ? { pValue: Number.NaN, sequential: true } : null), pearson, exactUnavailable);
+  const lead = designed
+    ? { test: 'designF' as const, pValue: designed.designF.pValue, reason: REASONS['survey-design'], reasonCode: 'survey-design' as const, route: 'design-based' as const, exactUnavailable: null }
+    : leadingTest(rule.passes, fisher, monteCarlo ?? (simulationPending ? { pValue: Number.NaN, sequential: true } : null), pearson, exactUnavailable);
 
   if (!rule.passes) {
     // The rule is judged on the table the tests use; with sampling weights
     // that is the effective-size table, whose expected counts differ from
     // the weighted ones shown beside the counts, so both are named.
     const smallest = formatExpected(rule.smallestExpected);
-    const scale = weighting.kind === 'weight' ? ` on the effective-sample scale the tests use; ${formatExpected(Math.min(...shownExpected.flat()))} in the weighted table shown` : '';
-    const advice =
-      lead.test !== 'pearson'
+    const scale = designed || weighting.kind === 'weight' ? ` on the effective-sample scale the tests use; ${formatExpected(Math.min(...shownExpected.flat()))} in the weighted table shown` : '';
+    const advice = designed
+      ? 'exact tests are not defined under a survey design (they assume a simple random sample), and the design-based F test is itself a large-sample approximation; merge sparse levels (--recode, --other)'
+      : lead.test !== 'pearson'
         ? 'the exact p-value leads instead; merging sparse levels (--recode, --other) also helps'
         : exactUnavailable === 'weighted'
           ? 'exact tests need whole counts, which sampling weights do not give; merge sparse levels (--recode, --other)'
@@ -487,7 +517,8 @@ export function analyzeTable(
   if (zeroCell) {
     warnings.push({ code: 'zero-cell', message: "a cell is zero, so 0.5 was added to every cell before computing the odds ratio, the risk ratio, Yule's Q and Y and their intervals (Haldane 1956)" });
   }
-  if (weighting.kind === 'weight') {
+  if (designed) warnings.push(...designWarnings(designed));
+  else if (weighting.kind === 'weight') {
     warnings.push({
       code: 'weighted',
       message: `counts are sums of sampling weights (n = ${formatNumber(n)} from ${formatCount(weighting.unweightedN)} rows); tests use the table rescaled to Kish's effective sample size ${formatNumber(effectiveN)}, an approximation that ignores clustering and stratification of the survey design`,
@@ -537,7 +568,18 @@ export function analyzeTable(
     rowTotals,
     colTotals,
     expected: shownExpected,
-    tests: { pearson, likelihoodRatio, yates, fisher, exactDeclined, monteCarlo, linearByLinear: lbl },
+    tests: {
+      pearson,
+      likelihoodRatio,
+      yates,
+      fisher,
+      exactDeclined,
+      monteCarlo,
+      linearByLinear: lbl,
+      designPearson: designed ? { ...designed.designPearson, uncorrected: designed.summary.uncorrected.pearson } : null,
+      designLikelihoodRatio: designed ? { ...designed.designLikelihoodRatio, uncorrected: designed.summary.uncorrected.likelihoodRatio } : null,
+      designF: designed ? designed.designF : null,
+    },
     measures: {
       phi,
       contingencyC: contingencyCoefficient(pearson.statistic, effectiveN),
@@ -571,6 +613,7 @@ export function analyzeTable(
       uncertaintyColsGivenRows: uncertaintyColsGivenRows(testedCounts),
       uncertaintyRowsGivenCols: uncertaintyRowsGivenCols(testedCounts),
       uncertaintySymmetric: uncertaintySymmetric(testedCounts),
+      designCramersV: designed ? designed.cramersV : null,
     },
     ordinal,
     residuals: { pearson: pearsonResiduals(testedCounts), adjusted },
@@ -580,9 +623,36 @@ export function analyzeTable(
     findings: { strength, diagonal, cellThreshold, notableCells, primaryTest: lead, statements: [] },
     verdict: tableVerdict(lead, options, strength),
     warnings,
+    design: designed ? designed.summary : null,
+    designEffects: designed ? designed.cellDesignEffects : null,
+    designPercentages: designed ? designed.percentages : null,
   };
   if (!simulationPending) decide(record, { large: largeSampleLimit(effectiveN) });
   return record;
+}
+
+/** Design df below this make every design-based p-value rough (common practice; docs/design-based.md). */
+const FEW_DESIGN_DF = 20;
+
+/** What a reader of a design-based record should check: treated lone PSUs, few degrees of freedom, dropped replicates. */
+function designWarnings(designed: DesignAnalysis): Warning[] {
+  const d = designed.summary;
+  const out: Warning[] = [];
+  if (d.lonelyStrata.length > 0) {
+    const names = d.lonelyStrata.slice(0, 5).map((s) => `"${s}"`).join(', ') + (d.lonelyStrata.length > 5 ? `, … (${d.lonelyStrata.length} in all)` : '');
+    const how = { certainty: 'adds nothing to the variance (certainty)', adjust: 'is measured from the grand mean (adjust)', average: 'takes the average variance of the other strata (average)', fail: '' }[d.lonelyPsu ?? 'fail'];
+    out.push({ code: 'lonely-psu', message: `${d.lonelyStrata.length === 1 ? 'stratum' : 'strata'} ${names} ${d.lonelyStrata.length === 1 ? 'has' : 'have'} a single PSU; by --lonely-psu ${d.lonelyPsu}, each ${how}` });
+  }
+  if (d.degreesOfFreedom < FEW_DESIGN_DF) {
+    out.push({
+      code: 'few-design-df',
+      message: `the design has ${d.degreesOfFreedom} degrees of freedom (${d.kind === 'taylor' ? 'PSUs minus strata' : 'replicates minus one'}); with fewer than ${FEW_DESIGN_DF} the design-based p-values and intervals are rough`,
+    });
+  }
+  if (d.droppedReplicates > 0) {
+    out.push({ code: 'dropped-replicates', message: `${d.droppedReplicates} replicate${d.droppedReplicates === 1 ? '' : 's'} left out: ${d.droppedReplicates === 1 ? 'its' : 'their'} weights sum to zero on the rows of this table` });
+  }
+  return out;
 }
 
 /** Effective samples from this size on get the large-sample caution when significant but negligible (common practice). */

@@ -12,6 +12,10 @@ import { AnalysisOptions, AnalysisRecord, analyzeTable, Evidence, evidenceOf, Wa
 import { formatP } from '../readableNumbers.js';
 import { InputSummary, unknownOrderWarnings } from './report.js';
 import { TOOL_VERSION } from '../version.js';
+import { TabsightError } from '../errors.js';
+import { designEstimate, type DesignInput } from './design.js';
+import { independentWaldTest, logOddsRatios, marginShares, type DesignWaldTest } from '../stats/designWald.js';
+import type { DesignEstimate } from '../stats/designCovariance.js';
 
 export interface PeriodInput {
   label: string;
@@ -19,13 +23,22 @@ export interface PeriodInput {
   weighting: Weighting;
   excluded: number;
   input: InputSummary;
+  /** With a survey design: this period's design totals (each period its own sample). */
+  design?: DesignInput | null;
 }
 
 export type PeriodRecord = ({ label: string; testable: true; input: InputSummary } & AnalysisRecord) | { label: string; testable: false; input: InputSummary; n: number; reason: string };
 
 export interface ChangeTest extends TestResult {
-  method: 'breslow-day' | 'no-three-way-interaction';
+  method: 'breslow-day' | 'no-three-way-interaction' | 'design-wald';
+  /** design-wald: the denominator df of the F form (null when it is referred to χ² instead), W and its χ² p-value. */
+  denDf?: number | null;
+  wald?: number;
+  waldPValue?: number;
 }
+
+/** A margin's shift: Pearson's test of homogeneity, or with a survey design the design-based Wald test. */
+export type ShiftTest = TestResult & { method?: 'design-wald'; denDf?: number | null; wald?: number; waldPValue?: number };
 
 export interface CompareReport {
   tool: { name: 'tabsight'; version: string };
@@ -39,8 +52,8 @@ export interface CompareReport {
   /** The no-three-way-interaction likelihood-ratio test, for every shape. */
   interaction: (TestResult & { iterations: number }) | null;
   /** Did the row distribution shift? Pearson's test of homogeneity on the period × row table. */
-  rowShift: TestResult | null;
-  colShift: TestResult | null;
+  rowShift: ShiftTest | null;
+  colShift: ShiftTest | null;
   deltaBiasCorrectedV: number | null;
   /** The decision: did the association change at alpha? null when the change test cannot be computed. */
   verdict: { alpha: number; test: ChangeTest['method']; pValue: number; changed: boolean; evidence: Evidence } | null;
@@ -49,6 +62,8 @@ export interface CompareReport {
   colShifted: boolean | null;
   /** With --weight: the tests use each period's table rescaled to its effective sample size. */
   weighted: boolean;
+  /** With a survey design: each period is its own sample, and the change and shift tests are design-based Wald tests. */
+  designed: boolean;
   /** Levels seen in one period only. */
   onlyBefore: { rows: string[]; cols: string[] };
   onlyAfter: { rows: string[]; cols: string[] };
@@ -71,7 +86,64 @@ export function periodRecord(p: PeriodInput, options: AnalysisOptions): PeriodRe
     const side = own.rowLevels.length < 2 ? own.rowName : own.colName;
     return { label: p.label, testable: false, input: p.input, n, reason: `"${side}" has fewer than two levels in this period` };
   }
-  return { label: p.label, testable: true, input: p.input, ...analyzeTable(own, p.excluded, options, p.weighting) };
+  try {
+    return { label: p.label, testable: true, input: p.input, ...analyzeTable(own, p.excluded, options, p.weighting, p.design ?? null) };
+  } catch (error) {
+    // A design that gives this period no variance or no degrees of freedom: the period is reported as untestable.
+    if (!(p.design && error instanceof TabsightError)) throw error;
+    return { label: p.label, testable: false, input: p.input, n, reason: error.message };
+  }
+}
+
+/** A design-based Wald test as a change or shift test: its F form, or W on χ² when the design df are too few for F. */
+function waldResult(test: DesignWaldTest): { statistic: number; df: number; pValue: number; method: 'design-wald'; denDf: number | null; wald: number; waldPValue: number } {
+  return {
+    statistic: test.statistic ?? test.wald,
+    df: test.numDf,
+    pValue: test.pValue ?? test.waldPValue,
+    method: 'design-wald',
+    denDf: test.denDf,
+    wald: test.wald,
+    waldPValue: test.waldPValue,
+  };
+}
+
+/**
+ * With a survey design, the two periods as independent samples: design-based
+ * Wald tests that the log odds ratios (the association) and each margin are
+ * the same in both, from each period's design covariance on the shared levels.
+ */
+function designChange(before: PeriodInput, after: PeriodInput, rowLevels: string[], colLevels: string[], warnings: Warning[]): { change: ChangeTest | null; rowShift: ShiftTest | null; colShift: ShiftTest | null } {
+  const layout = { rowLevels, colLevels };
+  let estimates: [DesignEstimate, DesignEstimate];
+  try {
+    estimates = [designEstimate(before.design as DesignInput, layout), designEstimate(after.design as DesignInput, layout)];
+  } catch (error) {
+    if (!(error instanceof TabsightError)) throw error;
+    warnings.push({ code: 'design-change-untestable', message: `no design-based comparison of the periods: ${error.message}` });
+    return { change: null, rowShift: null, colShift: null };
+  }
+  const r = rowLevels.length;
+  const c = colLevels.length;
+  const [a, b] = estimates;
+  const oddsA = logOddsRatios(a.proportions, r, c);
+  const oddsB = logOddsRatios(b.proportions, r, c);
+  let change: ChangeTest | null = null;
+  if (oddsA === null || oddsB === null) {
+    warnings.push({ code: 'design-change-untestable', message: 'a cell of the table is empty in one period, so its log odds ratios, and the design-based test of a change in the association, are not defined; merge sparse levels (--recode, --other)' });
+  } else {
+    const test = independentWaldTest({ ...oddsA, estimate: a }, { ...oddsB, estimate: b });
+    if (test) change = waldResult(test);
+    else warnings.push({ code: 'design-change-untestable', message: 'the design covariance of the log odds ratios is singular, so the design-based test of a change in the association is not defined' });
+  }
+  const shift = (by: 'row' | 'col'): ShiftTest | null => {
+    const test = independentWaldTest({ ...marginShares(a.proportions, r, c, by), estimate: a }, { ...marginShares(b.proportions, r, c, by), estimate: b });
+    return test ? waldResult(test) : null;
+  };
+  if (change !== null && change.denDf === null) {
+    warnings.push({ code: 'few-design-df', message: `the two periods' designs have ${a.degreesOfFreedom + b.degreesOfFreedom} degrees of freedom together, too few for the F form of the Wald test with ${change.df} log odds ratios; the χ² form is given, and is optimistic` });
+  }
+  return { change, rowShift: shift('row'), colShift: shift('col') };
 }
 
 function homogeneity(rows: number[][]): TestResult | null {
@@ -106,10 +178,13 @@ export function comparePeriods(before: PeriodInput, after: PeriodInput, options:
 
   const beforeRecord = periodRecord(before, options);
   const afterRecord = periodRecord(after, options);
-  const interactionFit = noThreeWayInteraction(aligned);
+  const designed = Boolean(before.design && after.design);
+  const interactionFit = designed ? null : noThreeWayInteraction(aligned);
   const interaction = interactionFit ? { statistic: interactionFit.statistic, df: interactionFit.df, pValue: interactionFit.pValue, iterations: interactionFit.iterations } : null;
   let change: ChangeTest | null = null;
-  if (rowLevels.length === 2 && colLevels.length === 2) {
+  const designTests = designed ? designChange(before, after, rowLevels, colLevels, warnings) : null;
+  if (designTests) change = designTests.change;
+  else if (rowLevels.length === 2 && colLevels.length === 2) {
     const common = mantelHaenszelOddsRatio(aligned, options.confidence);
     const bd = common ? breslowDay(aligned, common.estimate) : null;
     if (bd) change = { ...bd, method: 'breslow-day' };
@@ -126,8 +201,8 @@ export function comparePeriods(before: PeriodInput, after: PeriodInput, options:
   if (verdict?.changed) {
     warnings.push({ code: 'association-changed', message: `the association between ${before.table.rowName} and ${before.table.colName} changed between ${before.label} and ${after.label} (p ${formatP(verdict.pValue)}, at most α ${alpha})` });
   }
-  const rowShift = homogeneity(rowMargins);
-  const colShift = homogeneity(colMargins);
+  const rowShift = designTests ? designTests.rowShift : homogeneity(rowMargins);
+  const colShift = designTests ? designTests.colShift : homogeneity(colMargins);
   return {
     tool: { name: 'tabsight', version: TOOL_VERSION },
     command: 'compare',
@@ -144,6 +219,7 @@ export function comparePeriods(before: PeriodInput, after: PeriodInput, options:
     rowShifted: rowShift ? rowShift.pValue <= alpha : null,
     colShifted: colShift ? colShift.pValue <= alpha : null,
     weighted: before.weighting.kind === 'weight' || after.weighting.kind === 'weight',
+    designed,
     onlyBefore,
     onlyAfter,
     warnings,

@@ -7,6 +7,7 @@ import { isNumericLabel } from '../table/naturalOrder.js';
 import { TwoWayTable } from '../table/twoWayTable.js';
 import type { Weighting } from '../table/weighting.js';
 import { analyzeStrata, StratifiedSummary, StratumInput, StratumRecord } from './stratify.js';
+import type { DesignInput } from './design.js';
 
 import { TOOL_VERSION } from '../version.js';
 
@@ -28,6 +29,8 @@ export interface InputSummary {
   filtered: number;
   /** Rows skipped for an unusable weight or frequency (--skip-bad-rows). */
   badWeightsSkipped: number;
+  /** Rows skipped for a missing or unusable stratum, cluster, fpc or replicate weight (--skip-bad-rows). */
+  badDesignSkipped: number;
 }
 
 export interface PairReport extends AnalysisRecord {
@@ -50,8 +53,9 @@ export function pairReport(
   weighting?: Weighting,
   layers?: { by: string; strata: StratumInput[] },
   order: LevelOrder = { rows: 'given', cols: 'given' },
+  design: DesignInput | null = null,
 ): PairReport {
-  const record = analyzeTable(table, excluded, options, weighting);
+  const record = analyzeTable(table, excluded, options, weighting, design);
   const layered = layers ? analyzeStrata(layers.by, record, layers.strata, options) : null;
   if (layered) decideHeldFixed(record, layered.stratified);
   if (options.ordinal) record.warnings.push(...orderWarnings(record, order));

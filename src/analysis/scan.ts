@@ -15,6 +15,8 @@ import { simulateSequentially } from './simulate.js';
 import { decideHeldFixed } from './report.js';
 import type { InputSummary } from './report.js';
 import { TOOL_VERSION } from '../version.js';
+import { TabsightError } from '../errors.js';
+import type { DesignSummary } from './design.js';
 
 export interface ScanOptions {
   maxLevels: number;
@@ -42,7 +44,7 @@ export interface SkippedColumn {
   code: 'no-values' | 'single-level' | 'identifier' | 'numeric' | 'too-many-levels' | 'break-variable';
 }
 
-export interface ScanPair extends Omit<AnalysisRecord, 'counts' | 'rowTotals' | 'colTotals' | 'expected' | 'residuals' | 'contributions' | 'percentages'> {
+export interface ScanPair extends Omit<AnalysisRecord, 'counts' | 'rowTotals' | 'colTotals' | 'expected' | 'residuals' | 'contributions' | 'percentages' | 'designEffects' | 'designPercentages'> {
   rank: number;
   pAdjusted: number;
   passes: boolean;
@@ -55,7 +57,12 @@ export interface ScanPair extends Omit<AnalysisRecord, 'counts' | 'rowTotals' | 
   residuals?: AnalysisRecord['residuals'];
   contributions?: number[][];
   percentages?: AnalysisRecord['percentages'];
+  designEffects?: AnalysisRecord['designEffects'];
+  designPercentages?: AnalysisRecord['designPercentages'];
 }
+
+/** The design of a scan, the same for every pair (each pair's own design effects are in `pairs[].design`). */
+export type ScanDesign = Pick<DesignSummary, 'kind' | 'strata' | 'clusters' | 'degreesOfFreedom' | 'replicates' | 'method' | 'lonelyPsu' | 'columns' | 'rho' | 'centre' | 'lonelyStrata'>;
 
 export interface UntestablePair {
   rows: string;
@@ -91,6 +98,8 @@ export interface ScanReport {
   by: string | null;
   /** With --weight or --freq: how rows were weighted ("none" otherwise). */
   weighting: 'none' | 'weight' | 'freq';
+  /** The survey design every pair's leading test accounts for, or null. */
+  design: ScanDesign | null;
 }
 
 const IDENTIFIER_SHARE = 0.9;
@@ -180,7 +189,15 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
       // Two columns the codebook orders (or cuts) get the ordinal measures, as in pair.
       const ordinal = options.ordered?.(table.rowName) === true && options.ordered?.(table.colName) === true;
       const analysis = ordinal && !options.analysis.ordinal ? { ...options.analysis, ordinal: true } : options.analysis;
-      const record = analyzeTable(table, excluded, analysis, counted.weighting);
+      let record: AnalysisRecord;
+      try {
+        record = analyzeTable(table, excluded, analysis, counted.weighting, counted.design ? { cells: counted.design, other: options.other } : null);
+      } catch (error) {
+        // A design that gives this pair no variance or no degrees of freedom: the pair is reported, not the scan stopped.
+        if (!(counted.design && error instanceof TabsightError)) throw error;
+        untestable.push({ rows: table.rowName, cols: table.colName, reason: error.message.replace(/^the table of .*? by .*?: /, '') });
+        continue;
+      }
       if (strata && layer) {
         const aligned = strata.map((s) => ({ ...s, table: relabelTable(s.table, table.rowLevels, table.colLevels) }));
         const layered = analyzeStrata(layer.name, record, aligned, analysis);
@@ -201,10 +218,10 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
     const adjustment = { method: options.adjustment, tests: records.length, pValue: adjusted[k] };
     if (record.layered) decideHeldFixed(record, record.layered.stratified, adjustment);
     else decide(record, { adjustment, large: isLargeSample(record) });
-    const { counts, rowTotals, colTotals, expected, residuals, contributions, percentages, layered, ...rest } = record;
+    const { counts, rowTotals, colTotals, expected, residuals, contributions, percentages, designEffects, designPercentages, layered, ...rest } = record;
     const pair: ScanPair = { ...rest, rank: 0, pAdjusted: adjusted[k], passes: record.verdict.passes };
     if (layered) pair.stratified = layered.stratified;
-    if (options.full) Object.assign(pair, { counts, rowTotals, colTotals, expected, residuals, contributions, percentages }, layered ? { strata: layered.strata } : {});
+    if (options.full) Object.assign(pair, { counts, rowTotals, colTotals, expected, residuals, contributions, percentages, designEffects, designPercentages }, layered ? { strata: layered.strata } : {});
     return pair;
   });
   pairs.sort((x, y) => (y.measures.biasCorrectedV ?? -1) - (x.measures.biasCorrectedV ?? -1) || x.verdict.pValue - y.verdict.pValue);
@@ -227,5 +244,12 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
     derived,
     by: layer ? layer.name : null,
     weighting: records[0]?.weighting ?? 'none',
+    design: scanDesign(records[0]?.design ?? null),
   };
+}
+
+function scanDesign(d: DesignSummary | null): ScanDesign | null {
+  if (d === null) return null;
+  const { kind, strata, clusters, degreesOfFreedom, replicates, method, lonelyPsu, columns, rho, centre, lonelyStrata } = d;
+  return { kind, strata, clusters, degreesOfFreedom, replicates, method, lonelyPsu, columns, rho, centre, lonelyStrata };
 }

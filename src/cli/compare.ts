@@ -11,6 +11,7 @@ import { COMPARE_RENDERERS, CompareFormat } from '../render/renderers.js';
 import { residualHeatMap, stackSvg } from '../render/svg.js';
 import {
   addAnalysisOptions,
+  addDesignOptions,
   addReaderOptions,
   addReportOptions,
   addSummedWeightsOption,
@@ -78,6 +79,7 @@ export function compareCommand(accept: (plan: ComparePlan) => void): Command {
   addTableOptions(command, Object.keys(COMPARE_RENDERERS));
   addReaderOptions(command);
   addSurveyOptions(command, false);
+  addDesignOptions(command);
   addSummedWeightsOption(command);
   addAnalysisOptions(command);
   addReportOptions(command);
@@ -87,6 +89,7 @@ export function compareCommand(accept: (plan: ComparePlan) => void): Command {
 Examples:
   tabsight compare week47.csv week48.csv --rows membership --cols preferred_format
   tabsight compare survey.csv --period wave --levels 2025,2026 --rows age_band --cols preferred_format
+  tabsight compare 2023.csv 2025.csv --rows smoker --cols region --weight wt --strata stratum --cluster psu
 
 Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,
 3 the association did not change at --alpha (only with --exit-status).`,
@@ -95,8 +98,9 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,
   return command;
 }
 
-function period(label: string, counted: Pick<CountedInput, 'table' | 'weighting' | 'excluded'>, input: PeriodInput['input']): PeriodInput {
-  return { label, table: counted.table, weighting: counted.weighting, excluded: counted.excluded, input };
+function period(label: string, counted: Pick<CountedInput, 'table' | 'weighting' | 'excluded' | 'design'>, input: PeriodInput['input'], plan: ComparePlan): PeriodInput {
+  const design = counted.design ? { cells: counted.design, other: plan.table.other ?? null } : null;
+  return { label, table: counted.table, weighting: counted.weighting, excluded: counted.excluded, input, design };
 }
 
 /** The two periods of one file, told apart by a column: its two levels, or the two named by --levels. */
@@ -114,7 +118,10 @@ async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: s
   }
   const input = inputSummary(source.label, counted);
   const [b, a] = pick.map((l) => strata.find((s) => s.level === l)!);
-  return [period(`${column} ${b.level}`, { table: b.table, weighting: b.weighting, excluded: b.excluded ?? 0 }, input), period(`${column} ${a.level}`, { table: a.table, weighting: a.weighting, excluded: a.excluded ?? 0 }, input)];
+  return [
+    period(`${column} ${b.level}`, { table: b.table, weighting: b.weighting, excluded: b.excluded ?? 0, design: b.design }, input, plan),
+    period(`${column} ${a.level}`, { table: a.table, weighting: a.weighting, excluded: a.excluded ?? 0, design: a.design }, input, plan),
+  ];
 }
 
 /** The order of a side from its codebook and recodes (undefined without them: natural order). */
@@ -139,8 +146,8 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
     const sources = [inputSource(plan.periods.before, io.stdin), inputSource(plan.periods.after, io.stdin)];
     const counted: CountedInput[] = [];
     for (const source of sources) counted.push(await countTable(source, readerFor(plan.reader, io, guard), plan.table));
-    before = period(sources[0].label, counted[0], inputSummary(sources[0].label, counted[0]));
-    after = period(sources[1].label, counted[1], inputSummary(sources[1].label, counted[1]));
+    before = period(sources[0].label, counted[0], inputSummary(sources[0].label, counted[0]), plan);
+    after = period(sources[1].label, counted[1], inputSummary(sources[1].label, counted[1]), plan);
   }
   // Without an order option, both periods' levels follow the codebook and recodes (natural order otherwise).
   const order = {

@@ -3,8 +3,11 @@
  * parsed once into the parts of a command's plan (…Plan functions), so
  * that every command reads them the same way.
  */
+import { readFileSync } from 'node:fs';
 import { Command, Option } from 'commander';
-import { usageError } from '../errors.js';
+import { dataError, usageError } from '../errors.js';
+import type { LonelyPsuTreatment, ReplicateMethod } from '../stats/designCovariance.js';
+import type { ReplicateColumns, SurveyDesign } from '../table/surveyDesign.js';
 import { parseDelimiterOption, ReaderOptions, ReadSummary } from '../io/readRecords.js';
 import { AnalysisOptions, DEFAULT_ANALYSIS_OPTIONS, ExactPolicy } from '../analysis/analyzeTable.js';
 import { parseRecode, parseWhere, Recode, WhereClause } from '../io/rowRules.js';
@@ -55,7 +58,7 @@ export function addReaderOptions(command: Command): Command {
 /** The input section of a report, from what the counting step read. */
 export function inputSummary(
   label: string,
-  counted: { summary: ReadSummary; filtered: number; badWeights: number },
+  counted: { summary: ReadSummary; filtered: number; badWeights: number; badDesign: number },
 ): InputSummary {
   return {
     file: label,
@@ -68,6 +71,7 @@ export function inputSummary(
     badRowsSkipped: counted.summary.badRows,
     filtered: counted.filtered,
     badWeightsSkipped: counted.badWeights,
+    badDesignSkipped: counted.badDesign,
   };
 }
 
@@ -193,10 +197,21 @@ export interface RawSurveyOptions {
   summedWeights?: string;
   codebook?: string;
   cuts?: string[];
+  strata?: string;
+  cluster?: string;
+  fpc?: string;
+  lonelyPsu?: LonelyPsuTreatment;
+  replicateWeights?: string;
+  replicateMethod?: ReplicateMethod;
+  fayRho?: string;
+  replicateScales?: string;
+  replicateCentre?: 'replicate-mean' | 'full-sample';
 }
 
 export interface SurveyPlan {
   weight?: { column: string; kind: 'weight' | 'freq' };
+  /** A survey design (--strata, --cluster, --fpc, or --replicate-weights), or undefined. */
+  design?: SurveyDesign;
   decimalComma: boolean;
   by?: string;
   recodes: Recode[];
@@ -220,8 +235,16 @@ export function surveyPlan(raw: RawSurveyOptions): SurveyPlan {
   if (raw.weight !== undefined && raw.freq !== undefined) throw usageError('--weight and --freq cannot be combined: a row carries either a sampling weight or a count');
   const weight = raw.weight !== undefined ? { column: raw.weight, kind: 'weight' as const } : raw.freq !== undefined ? { column: raw.freq, kind: 'freq' as const } : undefined;
   if (raw.otherLabel.trim() === '') throw usageError('--other-label: give a non-empty label');
+  const design = designPlan(raw);
+  if (design) {
+    const given = design.kind === 'taylor' ? 'a survey design (--strata, --cluster, --fpc)' : 'replicate weights';
+    if (raw.freq !== undefined) throw usageError(`--freq cannot be combined with ${given}: a design needs one row per respondent, with its sampling weight in --weight`);
+    if (raw.summedWeights !== undefined) throw usageError(`--summed-weights cannot be combined with ${given}: cells counted elsewhere have lost their PSUs`);
+    if (raw.by !== undefined) throw usageError(`--by cannot be combined with ${given}: the layered tests have no design-based form here; analyse one level at a time with --where '${raw.by}=level'`);
+  }
   return {
     weight,
+    design,
     decimalComma: raw.decimalComma === true,
     by: raw.by,
     recodes: (raw.recode ?? []).map(parseRecode),
@@ -232,6 +255,87 @@ export function surveyPlan(raw: RawSurveyOptions): SurveyPlan {
     codebook: raw.codebook === undefined ? null : readCodebook(raw.codebook),
     cuts: (raw.cuts ?? []).map((spec) => parseCuts(spec)),
   };
+}
+
+/** The options of a survey design (pair, scan, compare and later commands), declared once. */
+export function addDesignOptions(command: Command): Command {
+  return command
+    .option('--strata <column>', 'survey design: the stratum of each row')
+    .option('--cluster <column>', 'survey design: the primary sampling unit (PSU) of each row, nested in its stratum (without it, each row is its own PSU)')
+    .option('--fpc <column>', 'survey design: finite population correction, the number of PSUs in the stratum\'s population, or the sampling fraction when at most 1')
+    .addOption(new Option('--lonely-psu <treatment>', 'a stratum with a single PSU: fail (default), certainty, adjust, average').choices(['fail', 'certainty', 'adjust', 'average']))
+    .option('--replicate-weights <columns>', "replicate weights instead of strata and clusters: a pattern over column names ('repw*') or a comma-separated list; --weight is the full-sample weight")
+    .addOption(new Option('--replicate-method <method>', 'how the replicate weights were made').choices(['jk1', 'jkn', 'brr', 'fay', 'bootstrap']))
+    .option('--fay-rho <rho>', "Fay's rho for --replicate-method fay (default 0.5)")
+    .option('--replicate-scales <factors>', 'jkn: one scale factor per replicate column, comma-separated, or a file of them')
+    .addOption(new Option('--replicate-centre <centre>', 'centre of the replicate variance: the mean of the replicates (default) or the full-sample estimate').choices(['replicate-mean', 'full-sample']));
+}
+
+/** Numbers of a --replicate-scales value: a comma list, or a file holding them (commas, spaces or line breaks between). */
+function replicateScales(value: string): number[] {
+  const isList = /^[\s\d.eE+,-]+$/.test(value);
+  let text = value;
+  let source = '--replicate-scales';
+  if (!isList) {
+    try {
+      text = readFileSync(value, 'utf8');
+    } catch {
+      throw usageError(`--replicate-scales "${value}": neither a comma-separated list of numbers nor a readable file`);
+    }
+    source = `--replicate-scales file ${value}`;
+  }
+  const items = text.split(/[\s,;]+/).filter((item) => item !== '');
+  return items.map((item, k) => {
+    const x = Number(item);
+    if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(item) || !(x >= 0) || !Number.isFinite(x)) {
+      const error = `${source}: item ${k + 1}, "${item}", is not a non-negative number`;
+      throw isList ? usageError(error) : dataError(error);
+    }
+    return x;
+  });
+}
+
+/** The survey design of the options, checked for clashes (usage errors, exit status 2). */
+export function designPlan(raw: RawSurveyOptions): SurveyDesign | undefined {
+  const taylor = [
+    ['--strata', raw.strata],
+    ['--cluster', raw.cluster],
+    ['--fpc', raw.fpc],
+  ].filter(([, v]) => v !== undefined) as [string, string][];
+  const replicateOnly = [
+    ['--replicate-method', raw.replicateMethod],
+    ['--fay-rho', raw.fayRho],
+    ['--replicate-scales', raw.replicateScales],
+    ['--replicate-centre', raw.replicateCentre],
+  ].filter(([, v]) => v !== undefined) as [string, string][];
+  if (raw.replicateWeights !== undefined) {
+    if (taylor.length > 0) {
+      throw usageError(`--replicate-weights cannot be combined with ${taylor.map(([o]) => o).join(' and ')}: replicate weights already carry the strata and clusters; give one or the other`);
+    }
+    if (raw.lonelyPsu !== undefined) throw usageError('--lonely-psu applies to strata and clusters, not to --replicate-weights');
+    const method = raw.replicateMethod;
+    if (method === undefined) throw usageError('--replicate-weights needs --replicate-method jk1, jkn, brr, fay or bootstrap: the variance depends on how the replicates were made');
+    if (raw.weight === undefined) throw usageError('--replicate-weights needs --weight, the full-sample weight');
+    if (raw.fayRho !== undefined && method !== 'fay') throw usageError(`--fay-rho applies to --replicate-method fay, not ${method}`);
+    if (raw.replicateScales !== undefined && method !== 'jkn') throw usageError(`--replicate-scales applies to --replicate-method jkn, not ${method}`);
+    if (method === 'jkn' && raw.replicateScales === undefined) throw usageError('--replicate-method jkn needs --replicate-scales: one scale factor per replicate, usually (n_h − 1)/n_h of its stratum');
+    let rho: number | null = null;
+    if (method === 'fay') {
+      rho = raw.fayRho === undefined ? 0.5 : Number(raw.fayRho);
+      if (raw.fayRho !== undefined && (raw.fayRho.trim() === '' || !(rho >= 0 && rho < 1))) throw usageError(`--fay-rho "${raw.fayRho}": expected a number at least 0 and below 1`);
+    }
+    const spec = raw.replicateWeights.trim();
+    if (spec === '') throw usageError('--replicate-weights: give a pattern or a list of columns');
+    const columns: ReplicateColumns = /[*?]/.test(spec) ? { kind: 'pattern', pattern: spec } : { kind: 'list', columns: splitList(spec) ?? [] };
+    if (columns.kind === 'list' && new Set(columns.columns).size !== columns.columns.length) throw usageError(`--replicate-weights "${spec}" names a column twice`);
+    return { kind: 'replicate', replicateColumns: columns, method, rho, scales: raw.replicateScales !== undefined ? replicateScales(raw.replicateScales) : null, centre: raw.replicateCentre ?? 'replicate-mean' };
+  }
+  if (replicateOnly.length > 0) throw usageError(`${replicateOnly.map(([o]) => o).join(' and ')} ${replicateOnly.length === 1 ? 'needs' : 'need'} --replicate-weights`);
+  if (taylor.length === 0) {
+    if (raw.lonelyPsu !== undefined) throw usageError('--lonely-psu needs a survey design: --strata, --cluster or --fpc');
+    return undefined;
+  }
+  return { kind: 'taylor', strata: raw.strata ?? null, cluster: raw.cluster ?? null, fpc: raw.fpc ?? null, lonelyPsu: raw.lonelyPsu ?? 'fail' };
 }
 
 function summedWeightsPlan(raw: RawSurveyOptions): SurveyPlan['summedWeights'] {

@@ -7,7 +7,7 @@ import { countTable, TableRequest } from '../io/counting.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { PAIR_RENDERERS, PairFormat } from '../render/renderers.js';
 import { mosaicPlot, residualHeatMap, stackSvg } from '../render/svg.js';
-import { addAnalysisOptions, addReaderOptions, addRawCellsOption, addReportOptions, addSummedWeightsOption, addSurveyOptions, addTableOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan, readerFor } from './options.js';
+import { addAnalysisOptions, addDesignOptions, addReaderOptions, addRawCellsOption, addReportOptions, addSummedWeightsOption, addSurveyOptions, addTableOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan, readerFor } from './options.js';
 import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { CellView } from '../render/pairText.js';
 import type { Outcome } from './outcome.js';
@@ -77,6 +77,7 @@ export function pairCommand(accept: (plan: PairPlan) => void): Command {
     .option('--multi-split <column:separator>', "a multiple-response column of delimited answers, e.g. 'services:;'; name it in --rows (repeatable)", (v: string, p: string[] = []) => [...p, v]);
   addReaderOptions(command);
   addSurveyOptions(command);
+  addDesignOptions(command);
   addSummedWeightsOption(command);
   addAnalysisOptions(command);
   addReportOptions(command);
@@ -89,6 +90,9 @@ Examples:
   cat survey.csv | tabsight pair - --rows membership --cols visit_frequency --format json
   tabsight pair survey.csv --rows visit_frequency --cols satisfaction --ordinal \\
     --row-order 'rarely,a few times a year,monthly,weekly'
+  tabsight pair health.csv --rows smoker --cols region --weight wt --strata stratum --cluster psu
+  tabsight pair health.csv --rows smoker --cols region --weight wt \\
+    --replicate-weights 'repwt*' --replicate-method jk1
 
 Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no association at --alpha (only with --exit-status): the decision the report shows.`,
   );
@@ -115,6 +119,7 @@ export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
     counted.weighting,
     counted.strata && counted.by ? { by: counted.by, strata: counted.strata } : undefined,
     { rows: plan.table.rowOrder || sides.rows?.ordered ? 'given' : 'natural', cols: plan.table.colOrder || sides.cols?.ordered ? 'given' : 'natural' },
+    counted.design ? { cells: counted.design, other: plan.table.other ?? null } : null,
   );
   describeSides(report, sides, counted.excludedBy);
   const toFile = plan.report.output !== undefined;

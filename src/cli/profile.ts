@@ -96,6 +96,7 @@ export async function runProfile(plan: ProfilePlan, io: CliIo): Promise<Outcome>
     badRowsSkipped: summary.badRows,
     filtered: 0,
     badWeightsSkipped: 0,
+    badDesignSkipped: 0,
   };
   const { report, starter } = profileFile(tallied, input, { maxLevels: plan.reader.maxLevels, missing: plan.reader.missing, top: plan.top, codebook: plan.codebook });
   let text: string;

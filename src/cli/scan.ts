@@ -7,7 +7,8 @@ import { encodeColumns } from '../io/counting.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { SCAN_RENDERERS, ScanFormat } from '../render/renderers.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
-import { addAnalysisOptions, addReaderOptions, addRawCellsOption, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary, readerFor } from './options.js';
+import { checkDesign } from '../analysis/design.js';
+import { addAnalysisOptions, addDesignOptions, addReaderOptions, addRawCellsOption, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary, readerFor } from './options.js';
 import { recodesByColumn } from '../io/rowRules.js';
 import { columnRules, TableRequest } from '../io/countTable.js';
 import { codebookColumn } from '../table/codebook.js';
@@ -51,7 +52,7 @@ export interface ScanPlan {
 
 export function scanPlan(file: string | undefined, raw: RawScanOptions): ScanPlan {
   const reader = readerPlan(raw);
-  const analysis = analysisPlan(raw, 'deferred');
+  const analysis = { ...analysisPlan(raw, 'deferred'), designPercentages: raw.full === true };
   const bins = raw.bins === undefined ? null : positiveInteger(raw.bins, '--bins', 2);
   const alpha = probability(raw.alpha, '--alpha');
   const top = raw.top === undefined ? null : positiveInteger(raw.top, '--top');
@@ -110,6 +111,7 @@ export function scanCommand(accept: (plan: ScanPlan) => void): Command {
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addSurveyOptions(command);
+  addDesignOptions(command);
   addAnalysisOptions(command);
   addReportOptions(command);
   addRawCellsOption(command);
@@ -153,6 +155,8 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
     codebook: survey.codebook,
     weight: survey.weight ? { ...survey.weight, decimalComma: survey.decimalComma } : undefined,
     by: survey.by,
+    design: survey.design,
+    decimalComma: survey.decimalComma,
     progress: plan.format === 'text' ? progress.tick : undefined,
   };
   const options: ScanOptions = {
@@ -175,6 +179,7 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
   };
   const report = await encodeColumns(source, reader, request, async (encoded) => {
     progress.done();
+    if (encoded.design?.index && survey.design?.kind === 'taylor') checkDesign(encoded.design.index, survey.design.lonelyPsu);
     const declared = new Set([...reader.missing.map((m) => m.trim()), ...(survey.codebook?.columns.flatMap((c) => c.missing.map((m) => m.code)) ?? [])]);
     for (const note of missingTokenNotes(detectMissingTokens(encoded.columns.map((c) => ({ name: c.name, labels: c.labels })), declared))) noteWriter(io)(note);
     const prepared = prepareColumns(encoded.columns, encoded.layer, encoded.rows, options);

@@ -7,6 +7,8 @@ import { usageError, dataError } from '../errors.js';
 import type { WeightKind, WhereClause } from './rowRules.js';
 import type { Codebook } from '../table/codebook.js';
 import { checkCodebookColumns } from './codebookFile.js';
+import type { SurveyDesign } from '../table/surveyDesign.js';
+import { checkReplicateCount, resolveReplicateColumns } from './designRows.js';
 
 /** Levenshtein distance (Levenshtein 1966), for "did you mean" suggestions. */
 export function editDistance(a: string, b: string): number {
@@ -78,6 +80,10 @@ export interface ColumnsRequest {
   by?: string;
   /** --codebook: its columns must be in the file. */
   codebook?: Codebook | null;
+  /** A survey design: its columns are read for every row, and are not candidates (strata and clusters may be named with --columns). */
+  design?: SurveyDesign;
+  /** Decimal commas in the design's numbers (fpc, replicate weights). */
+  decimalComma?: boolean;
   /**
    * Chooses the candidate columns from the header, in place of `columns`
    * (banner: patterns such as svc_* need the header to be expanded).
@@ -89,8 +95,16 @@ export interface ColumnsRequest {
   minColumns?: number;
 }
 
-/** The columns of a scan, by index in the header: candidates, layer, weight and filter columns. */
-export function scanSelection(header: string[], request: ColumnsRequest, label: string): { candidates: number[]; layer: number | null; weight: number | null; where: number[] } {
+/** The design's columns of a scan, by index in the header (null or empty when absent). */
+export interface DesignSelection {
+  strata: number | null;
+  cluster: number | null;
+  fpc: number | null;
+  replicates: number[];
+}
+
+/** The columns of a scan, by index in the header: candidates, layer, weight, filter and design columns. */
+export function scanSelection(header: string[], request: ColumnsRequest, label: string): { candidates: number[]; layer: number | null; weight: number | null; where: number[]; design: DesignSelection | null } {
   const named = request.select ? request.select(header) : request.columns;
   let chosen = named ? named.map((c) => resolveColumn(c, header, '--columns', label)) : header.map((_h, i) => i);
   if (request.exclude) {
@@ -101,7 +115,10 @@ export function scanSelection(header: string[], request: ColumnsRequest, label: 
   for (const column of request.recodes?.keys() ?? []) resolveColumn(column, header, '--recode', label);
   const weight = request.weight ? resolveColumn(request.weight.column, header, request.weight.kind === 'freq' ? '--freq' : '--weight', label) : null;
   const layer = request.by !== undefined ? resolveColumn(request.by, header, '--by', label) : null;
-  const roles = new Set([weight, layer].filter((i): i is number => i !== null));
+  const design = request.design ? designSelection(header, request.design, label) : null;
+  // Strata and clusters are labels and may be analysed when named with --columns; numbers of the design never are.
+  const designRoles = design ? [design.fpc, ...design.replicates, ...(named ? [] : [design.strata, design.cluster])] : [];
+  const roles = new Set([weight, layer, ...designRoles].filter((i): i is number => i !== null));
   chosen = [...new Set(chosen)].filter((i) => !roles.has(i));
   const fewest = request.minColumns ?? 2;
   if (chosen.length < fewest) throw usageError(`scan needs at least two candidate columns; ${chosen.length} left after --columns/--exclude`);
@@ -110,7 +127,17 @@ export function scanSelection(header: string[], request: ColumnsRequest, label: 
       `${label} has ${chosen.length.toLocaleString('en-US')} candidate columns (${((chosen.length * (chosen.length - 1)) / 2).toLocaleString('en-US')} pairs), more than --max-columns ${request.maxColumns}; choose some with --columns or --exclude, or raise --max-columns`,
     );
   }
-  return { candidates: chosen, layer, weight, where: (request.where ?? []).map((w) => resolveColumn(w.column, header, '--where', label)) };
+  return { candidates: chosen, layer, weight, where: (request.where ?? []).map((w) => resolveColumn(w.column, header, '--where', label)), design };
+}
+
+function designSelection(header: string[], design: SurveyDesign, label: string): DesignSelection {
+  if (design.kind === 'replicate') {
+    const names = resolveReplicateColumns(design.replicateColumns, header, label, (name) => resolveColumn(name, header, '--replicate-weights', label));
+    checkReplicateCount(design, names.length);
+    return { strata: null, cluster: null, fpc: null, replicates: names.map((name) => header.indexOf(name)) };
+  }
+  const find = (name: string | null, option: string) => (name === null ? null : resolveColumn(name, header, option, label));
+  return { strata: find(design.strata, '--strata'), cluster: find(design.cluster, '--cluster'), fpc: find(design.fpc, '--fpc'), replicates: [] };
 }
 
 /** Raw levels a recoded column may hold while reading (the cap applies after recoding). */

@@ -9,6 +9,7 @@
 import { dataError, usageError } from '../errors.js';
 import { pairFromBuckets } from '../numerics/compensatedSum.js';
 import { CountedTable, mergeRareLevels, Stratum } from '../table/countedTable.js';
+import { DesignCells, DesignCounter, SurveyDesign } from '../table/surveyDesign.js';
 import { compareNatural } from '../table/naturalOrder.js';
 import { TableCounter } from '../table/tableCounter.js';
 import { dropEmptyLevels, MISSING_LEVEL, relabelTable, TwoWayTable } from '../table/twoWayTable.js';
@@ -23,6 +24,7 @@ import { FieldInterner, MISSING_ID } from './fieldInterner.js';
 import { ColumnLevels, parseWeightValue, Recode, recodesByColumn, RowGate, weightError, WhereClause } from './rowRules.js';
 import { checkCodebookColumns } from './codebookFile.js';
 import { detectMissingTokens, missingTokenNotes } from './missingTokens.js';
+import { checkReplicateCount, DesignRowRule, resolveReplicateColumns } from './designRows.js';
 import { Codebook, codebookColumn } from '../table/codebook.js';
 import { levelOrder, LevelRules } from '../table/levelRules.js';
 import { IdTally } from './idTally.js';
@@ -59,6 +61,13 @@ export interface TableRequest {
   bins?: number | null;
   /** Keep the rows left out for a missing value by their values (count writes them, so that a count file keeps them). */
   keepExcludedCells?: boolean;
+  /**
+   * A survey design (strata, clusters, fpc, or replicate weights): its totals
+   * are counted beside the table (per layer level with --by, each level an
+   * independent sample), and every row of the sample is registered with it,
+   * rows outside the table's domain included.
+   */
+  design?: SurveyDesign;
 }
 
 /** Rows left out of the table for a missing value, by column and reason (a row missing in two columns counts in both). */
@@ -90,6 +99,20 @@ function checkRequest(request: TableRequest): void {
   if (request.weight && [request.rows, request.cols, request.by].includes(request.weight.column)) {
     throw usageError(`${weightOption(request)} "${request.weight.column}" is also a variable of the table; choose a numeric column of its own`);
   }
+  const design = request.design;
+  if (design?.kind === 'taylor') {
+    const numeric = [design.fpc, request.weight?.column].filter((c): c is string => c !== undefined && c !== null);
+    for (const [option, column] of [
+      ['--strata', design.strata],
+      ['--cluster', design.cluster],
+    ] as const) {
+      if (column !== null && numeric.includes(column)) throw usageError(`${option} "${column}" is also the ${column === design.fpc ? '--fpc' : '--weight'} column; a stratum or cluster column holds labels, not numbers`);
+    }
+    if (design.fpc !== null && [request.rows, request.cols, request.by, ...request.where.map((w) => w.column)].includes(design.fpc)) {
+      throw usageError(`--fpc "${design.fpc}" is also a variable of the table or a filter; choose the column of population sizes or sampling fractions`);
+    }
+    if (design.fpc !== null && design.fpc === request.weight?.column) throw usageError(`--fpc "${design.fpc}" is also the --weight column`);
+  }
 }
 
 function weightOption(request: TableRequest): string {
@@ -106,9 +129,14 @@ class Slots {
   readonly where: number[];
   readonly sum: number;
   readonly squares: number;
+  readonly strata: number;
+  readonly cluster: number;
+  readonly fpc: number;
+  /** Replicate weight slots, known once the header is read. */
+  replicates: number[] = [];
   private readonly options: string[] = [];
 
-  constructor(request: TableRequest) {
+  constructor(private readonly request: TableRequest) {
     this.row = this.slot(request.rows, '--rows');
     this.col = this.slot(request.cols, '--cols');
     this.by = request.by !== undefined ? this.slot(request.by, '--by') : -1;
@@ -116,6 +144,20 @@ class Slots {
     this.where = request.where.map((w) => this.slot(w.column, '--where'));
     this.sum = request.summedWeights ? this.slot(request.summedWeights.sum, '--summed-weights') : -1;
     this.squares = request.summedWeights ? this.slot(request.summedWeights.squares, '--summed-weights') : -1;
+    const design = request.design?.kind === 'taylor' ? request.design : null;
+    this.strata = design?.strata ? this.slot(design.strata, '--strata') : -1;
+    this.cluster = design?.cluster ? this.slot(design.cluster, '--cluster') : -1;
+    this.fpc = design?.fpc ? this.slot(design.fpc, '--fpc') : -1;
+  }
+
+  /** Slots read as text (numbers parsed by the row rules), not as level ids. */
+  textSlots(): Set<number> {
+    return new Set([this.weight, this.sum, this.squares, this.fpc, ...this.replicates].filter((slot) => slot >= 0));
+  }
+
+  /** The replicate weight columns, in order (none without a replicate design). */
+  replicateNames(): string[] {
+    return this.replicates.map((slot) => this.names[slot]);
   }
 
   private slot(name: string, option: string): number {
@@ -130,15 +172,32 @@ class Slots {
   select(header: string[], recodes: ReadonlyMap<string, unknown>, label: string, codebook?: Codebook | null): number[] {
     for (const column of recodes.keys()) resolveColumn(column, header, '--recode', label);
     if (codebook) checkCodebookColumns(codebook, header, label);
+    const design = this.request.design;
+    if (design?.kind === 'replicate') {
+      const names = resolveReplicateColumns(design.replicateColumns, header, label, (name) => resolveColumn(name, header, '--replicate-weights', label));
+      const used = [this.request.rows, this.request.cols, this.request.by, this.request.weight?.column, ...this.request.where.map((w) => w.column)];
+      const clash = names.find((name) => used.includes(name));
+      if (clash !== undefined) throw usageError(`--replicate-weights names "${clash}", which is also a variable of the table, a filter or the --weight column`);
+      this.replicates = names.map((name) => this.slot(name, '--replicate-weights'));
+      checkReplicateCount(design, names.length);
+    }
     return this.names.map((name, slot) => resolveColumn(name, header, this.options[slot], label));
   }
 }
 
-/** The counters of one request: the pooled table, one per layer level, and the rows left out for a missing value. */
+/**
+ * The counters of one request: the pooled table, one per layer level, and
+ * the rows left out for a missing value; with a survey design, its totals
+ * beside the pooled table (or beside each layer's, each level its own
+ * sample, when there is a layer).
+ */
 class LayeredCounter {
   readonly pooled: TableCounter;
   readonly strata = new Map<string, TableCounter>();
   private stratumOfId: (TableCounter | undefined)[] = [];
+  /** Design totals of the pooled table (no layer), or by layer level. */
+  pooledDesign: DesignCounter | null = null;
+  readonly layerDesigns = new Map<TableCounter, DesignCounter>();
   excluded = 0;
   /** Rows left out, by slot and reason. */
   private readonly reasons = new Map<number, Map<string, number>>();
@@ -179,8 +238,25 @@ class LayeredCounter {
     return new TableCounter(this.request.rows, this.request.cols, this.request.maxLevels, this.request.weight !== undefined, { rows: cap(this.request.rows), cols: cap(this.request.cols) }, this.request.other === undefined);
   }
 
-  /** Counts `rows` rows of one combination of value ids, of total weight w (+ wLow) and Σw² q (+ qLow). */
-  add(ids: Int32Array, rows: number, w: number, wLow: number, q: number, qLow: number): void {
+  /** The design counter a row belongs to (its layer's with a layer), or null when its layer value is missing. */
+  designOf(ids: Int32Array): DesignCounter | null {
+    const design = this.request.design as SurveyDesign;
+    const { by } = this.slots;
+    if (by < 0) return (this.pooledDesign ??= new DesignCounter(design, this.slots.replicates.length));
+    const b = ids[by];
+    if (this.missingReason(by, b) !== null) return null;
+    const layer = this.stratum(b);
+    let counter = this.layerDesigns.get(layer);
+    if (counter === undefined) this.layerDesigns.set(layer, (counter = new DesignCounter(design, this.slots.replicates.length)));
+    return counter;
+  }
+
+  /**
+   * Counts `rows` rows of one combination of value ids, of total weight w
+   * (+ wLow) and Σw² q (+ qLow); with a design, a row's unit (Taylor) or
+   * replicate weights go to its design counter.
+   */
+  add(ids: Int32Array, rows: number, w: number, wLow: number, q: number, qLow: number, design: DesignCounter | null = null, unit = -1, replicates: Float64Array | null = null): void {
     const { row, col, by } = this.slots;
     const r = ids[row];
     const c = ids[col];
@@ -221,6 +297,7 @@ class LayeredCounter {
     }
     this.pooled.add(r, c, rows, w, wLow, q, qLow);
     if (by >= 0) this.stratum(b).add(r, c, rows, w, wLow, q, qLow);
+    if (design !== null) design.add(r, c, unit, w + wLow, replicates);
   }
 
   private stratum(b: number): TableCounter {
@@ -252,19 +329,33 @@ function countGroup(ids: Int32Array, rows: number, gate: RowGate, counter: Layer
 }
 
 /** Reads the built-in reader's rows into the counter; returns what was read. */
-async function countRows(source: InputSource, reader: ReaderOptions, request: TableRequest, slots: Slots, gate: RowGate, counter: LayeredCounter, onLabels: (labels: (readonly string[])[]) => void): Promise<ReadSummary> {
+async function countRows(
+  source: InputSource,
+  reader: ReaderOptions,
+  request: TableRequest,
+  slots: Slots,
+  gate: RowGate,
+  counter: LayeredCounter,
+  onLabels: (labels: (readonly string[])[]) => void,
+  designRule: () => DesignRowRule | null,
+): Promise<ReadSummary> {
   const recodes = recodesByColumn(request.recodes);
   let labelsKnown = false;
   // Unweighted rows are tallied by their combination of ids, and each
   // combination goes through the filters and the counter once, as the
   // engine's groups do; the tally is emptied into the counter whenever it
   // grows large, so that its memory stays bounded.
-  const tally = slots.weight < 0 && slots.sum < 0 ? new IdTally(slots.names.length) : null;
+  const tally = slots.weight < 0 && slots.sum < 0 && !request.design ? new IdTally(slots.names.length) : null;
   const flush = () => {
     tally?.forEach((ids, rows) => countGroup(ids, rows, gate, counter));
     tally?.clear();
   };
-  const select = (header: string[]) => slots.select(header, recodes, source.label, request.codebook);
+  const textSlots = new Set<number>();
+  const select = (header: string[]) => {
+    const selected = slots.select(header, recodes, source.label, request.codebook);
+    for (const slot of slots.textSlots()) textSlots.add(slot);
+    return selected;
+  };
   if (tally !== null) {
     const threads = await threadsFor(source, reader);
     const counted = threads > 1 ? await tallyInParallel(source, reader, select, threads) : null;
@@ -288,6 +379,25 @@ async function countRows(source: InputSource, reader: ReaderOptions, request: Ta
         if (tally.size >= TALLY_FLUSH) flush();
         return;
       }
+      const rule = designRule();
+      if (rule !== null) {
+        // Every row of the sample belongs to the design, in the domain or not.
+        let unit = -1;
+        let design: DesignCounter | null = null;
+        if (rule.isTaylor) {
+          if (!rule.read(ids, texts, line, interners)) return;
+          design = counter.designOf(ids);
+          if (design !== null) unit = design.locate(rule.stratum, rule.cluster, rule.fpc, line);
+        }
+        const w = gate.admit(ids, texts, line);
+        if (w < 0) return;
+        if (!rule.isTaylor) {
+          if (!rule.replicates(texts, line)) return;
+          design = counter.designOf(ids);
+        }
+        counter.add(ids, 1, w, 0, w * w, 0, design, unit, rule.isTaylor ? null : rule.replicateWeights);
+        return;
+      }
       const w = gate.admit(ids, texts, line);
       if (w < 0) return;
       if (slots.sum < 0) {
@@ -303,7 +413,7 @@ async function countRows(source: InputSource, reader: ReaderOptions, request: Ta
       counter.add(ids, w, sums[0], 0, sums[1], 0);
     },
     undefined,
-    new Set([slots.weight, slots.sum, slots.squares].filter((slot) => slot >= 0)),
+    textSlots,
   );
   flush();
   if (!labelsKnown) onLabels(read.interners.map((i) => i.labels));
@@ -394,11 +504,21 @@ function finishTables(
   const rowLevels = request.rowOrder ? table.rowLevels : orderOf(slots.row, table.rowLevels);
   const colLevels = request.colOrder ? table.colLevels : orderOf(slots.col, table.colLevels);
   table = relabelTable(table, rowLevels, colLevels);
+  const designCells = (design: DesignCounter | null | undefined): DesignCells | null => {
+    if (!request.design) return null;
+    return (design ?? new DesignCounter(request.design, slots.replicates.length)).finish(request.weight?.column ?? null, slots.replicateNames(), rowLabel, colLabel);
+  };
   const own: Stratum[] | null =
     slots.by >= 0
       ? [...counter.strata.entries()]
           .sort((x, y) => compareNatural(x[0], y[0]))
-          .map(([level, layer]) => ({ level, table: layer.finish(rowLabel, colLabel).table, weighting: layer.weighting(kind), excluded: excludedOfLevel.get(level) ?? 0 }))
+          .map(([level, layer]) => ({
+            level,
+            table: layer.finish(rowLabel, colLabel).table,
+            weighting: layer.weighting(kind),
+            excluded: excludedOfLevel.get(level) ?? 0,
+            ...(request.design ? { design: designCells(counter.layerDesigns.get(layer)) } : {}),
+          }))
       : null;
   let strata = own?.map((s) => ({ ...s, table: relabelTable(s.table, table.rowLevels, table.colLevels) })) ?? null;
   if (request.other) {
@@ -411,7 +531,8 @@ function finishTables(
     }
   }
   checkTestable(request, table, counter.excluded, filtered);
-  return { counted: { table, weighting: counter.pooled.weighting(kind), strata, excluded: counter.excluded }, unknownRowLevels: finished.unknownRowLevels, unknownColLevels: finished.unknownColLevels };
+  const design = request.design && slots.by < 0 ? { design: designCells(counter.pooledDesign) } : {};
+  return { counted: { table, weighting: counter.pooled.weighting(kind), strata, excluded: counter.excluded, ...design }, unknownRowLevels: finished.unknownRowLevels, unknownColLevels: finished.unknownColLevels };
 }
 
 function checkTestable(request: TableRequest, table: TwoWayTable, excluded: number, filtered: number): void {
@@ -455,9 +576,16 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
     counter.raw = (slot, id) => labelsOf[slot]?.[id - 1] ?? '';
   }
   const onLabels = (known: (readonly string[])[]) => (labelsOf = known);
+  // The design rule needs the replicate slots, which the header decides: made on the first row.
+  let designRule: DesignRowRule | null = null;
+  const ruleOfRows = (): DesignRowRule | null => {
+    if (!request.design) return null;
+    return (designRule ??= new DesignRowRule(request.design, { strata: slots.strata, cluster: slots.cluster, fpc: slots.fpc, replicates: slots.replicates }, (slot) => slots.names[slot], source.label, reader.skipBadRows, request.decimalComma));
+  };
+  if (engine !== null && request.design) throw new Error('countTableWith: a survey design is counted by the built-in reader (io/counting.ts routes it)');
   const summary =
     engine === null
-      ? await countRows(source, reader, request, slots, gate, counter, onLabels)
+      ? await countRows(source, reader, request, slots, gate, counter, onLabels, ruleOfRows)
       : await countGroups(engine.engine, engine.input, source, reader, request, slots, gate, counter, onLabels);
   if (summary.records === 0) throw dataError(`${source.label}: the header has no data rows under it`);
   if (request.bins && counter.marginals) {
@@ -479,5 +607,5 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
     [slots.row, slots.col, ...(slots.by >= 0 ? [slots.by] : [])].map((slot) => ({ name: slots.names[slot], labels: labelsOf[slot] ?? [] })),
     declared,
   );
-  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, excludedBy: counter.excludedBy(), missingTokenNotes: missingTokenNotes(findings), excludedCells: counter.excludedCells ? [...counter.excludedCells].map(([key, rows]) => [JSON.parse(key) as string[], rows]) : [] };
+  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, badDesign: (designRule as DesignRowRule | null)?.skipped ?? 0, excludedBy: counter.excludedBy(), missingTokenNotes: missingTokenNotes(findings), excludedCells: counter.excludedCells ? [...counter.excludedCells].map(([key, rows]) => [JSON.parse(key) as string[], rows]) : [] };
 }

@@ -7,9 +7,11 @@
  * file the way the built-in reader does, the built-in reader counts it and
  * one note says so.
  */
+import { usageError } from '../errors.js';
 import type { CountedTable, CountPair } from '../table/countedTable.js';
 import type { EncodedColumn } from '../table/encodedColumn.js';
 import type { OrderedColumn } from '../table/orderedColumn.js';
+import type { RowDesign } from '../table/surveyDesign.js';
 import type { ColumnsRequest } from './columns.js';
 import { countTableWith, ExcludedBy, TableRequest } from './countTable.js';
 import { encodeWithReader } from './encodeColumns.js';
@@ -26,6 +28,8 @@ export interface CountedInput extends CountedTable {
   filtered: number;
   /** Rows skipped for an unusable weight (with --skip-bad-rows). */
   badWeights: number;
+  /** Rows skipped for a missing or unusable stratum, cluster, fpc or replicate weight (with --skip-bad-rows). */
+  badDesign: number;
   summary: ReadSummary;
   /** Levels named by --row-order / --col-order that never occur. */
   unknownRowLevels: string[];
@@ -49,6 +53,10 @@ export interface EncodedInput {
   weights?: { values: Float64Array; kind: 'weight' | 'freq' };
   filtered: number;
   badWeights: number;
+  /** Rows skipped for a missing or unusable design value (with --skip-bad-rows). */
+  badDesign: number;
+  /** The survey design as read (each kept row's unit or replicate weights), or null. */
+  design: RowDesign | null;
   summary: ReadSummary;
   /**
    * Prepares the counts of every pair of these columns (in report order,
@@ -100,10 +108,29 @@ async function onRoute<T>(source: InputSource, reader: ReaderOptions, route: Eng
   }
 }
 
+/**
+ * The route of a survey design: the built-in reader, which registers every
+ * row's stratum and PSU as it reads (the totals per PSU and cell, or per
+ * replicate, need each row's design values; see README "Survey designs").
+ * A plain CSV file that the engine would have counted is read by the
+ * built-in reader instead, and a note says so; Parquet files and patterns,
+ * which only the engine reads, are refused in one line.
+ */
+async function designRoute(route: EngineName, reader: ReaderOptions, source: InputSource, designed: boolean): Promise<EngineName> {
+  if (!designed || route === 'builtin') return route;
+  if ((await isPattern(source.path)) || isParquetPath(source.path)) {
+    throw usageError(
+      `${source.label}: a survey design (--strata, --cluster, --fpc, --replicate-weights) is counted by the built-in reader, which reads one CSV file (plain or gzip), not Parquet files or patterns; export the file as CSV`,
+    );
+  }
+  reader.onNote?.(`a survey design is counted by the built-in reader, row by row with each row's stratum and PSU; ${source.label} is read by it, not by the engine`);
+  return 'builtin';
+}
+
 /** Counts the table a request describes (and its layers) from the source. */
 export async function countTable(source: InputSource, reader: ReaderOptions, request: TableRequest): Promise<CountedInput> {
   // Cells counted elsewhere are small files: the built-in reader reads them.
-  const route = request.summedWeights ? 'builtin' : await chooseRoute(reader, source);
+  const route = request.summedWeights ? 'builtin' : await designRoute(await chooseRoute(reader, source), reader, source, request.design !== undefined);
   return onRoute(source, reader, route, (engine) => countTableWith(source, reader, request, engine));
 }
 
@@ -123,7 +150,8 @@ export async function encodeRows<T>(source: InputSource, reader: ReaderOptions, 
  * failure while counting pairs also falls back to the built-in reader.
  */
 export async function encodeColumns<T>(source: InputSource, reader: ReaderOptions, request: ColumnsRequest, use: (encoded: EncodedInput) => Promise<T>): Promise<T> {
-  return onRoute(source, reader, await chooseRoute(reader, source), async (engine) =>
+  const route = await designRoute(await chooseRoute(reader, source), reader, source, request.design !== undefined);
+  return onRoute(source, reader, route, async (engine) =>
     use(engine === null ? await encodeWithReader(source, reader, request) : await (await import('./engine/scanColumns.js')).encodeWithEngine(engine.engine, engine.input, reader, request)),
   );
 }

@@ -14,6 +14,9 @@ import type { EncodedInput } from './counting.js';
 import { MISSING_ID } from './fieldInterner.js';
 import { readRecords, ReaderOptions } from './readRecords.js';
 import { RecodedLabels, RowGate } from './rowRules.js';
+import { DesignRowRule } from './designRows.js';
+import { SampleDesignIndex } from '../stats/designTally.js';
+import type { RowDesign } from '../table/surveyDesign.js';
 import { InputSource, isGzipFile } from './source.js';
 
 /** Rows read before the number of rows is estimated from the file's size (and the arrays sized for it). */
@@ -56,22 +59,34 @@ class GrowingCodes {
   }
 }
 
-/** Per-row weights, grown like the codes. */
-class GrowingWeights {
-  values = new Float64Array(ESTIMATE_AT);
+/** Per-row numbers (`width` to a row: weights, a design's units or replicate weights), grown like the codes. */
+class GrowingWeights<T extends Float64Array | Int32Array = Float64Array> {
+  values: T;
+  constructor(
+    private readonly make: (length: number) => T = (length) => new Float64Array(length) as T,
+    private readonly width = 1,
+  ) {
+    this.values = make(ESTIMATE_AT * width);
+  }
   set(row: number, w: number): void {
     if (row >= this.values.length) this.reserve(Math.max(row + 1, Math.ceil(this.values.length * GROWTH)));
     this.values[row] = w;
   }
+  /** A row's `width` numbers at once. */
+  setRow(row: number, values: ArrayLike<number>): void {
+    const end = (row + 1) * this.width;
+    if (end > this.values.length) this.reserve(Math.max(row + 1, Math.ceil((this.values.length / this.width) * GROWTH)));
+    this.values.set(values, row * this.width);
+  }
   reserve(rows: number): void {
-    if (rows <= this.values.length) return;
-    const next = new Float64Array(rows);
+    if (rows * this.width <= this.values.length) return;
+    const next = this.make(rows * this.width);
     next.set(this.values);
     this.values = next;
   }
-  take(rows: number): Float64Array {
+  take(rows: number): T {
     this.reserve(rows);
-    return this.values.subarray(0, rows);
+    return this.values.subarray(0, rows * this.width) as T;
   }
 }
 
@@ -111,6 +126,15 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
   let internerLabels: (readonly string[])[] = [];
   const textSlots = new Set<number>();
   const weights = request.weight ? new GrowingWeights() : null;
+  // A survey design: every row of the sample is registered with the index
+  // (filtered rows too: their PSUs count); kept rows keep their unit or
+  // their replicate weights.
+  const design = request.design ?? null;
+  const index = design?.kind === 'taylor' ? new SampleDesignIndex({ clustered: design.cluster !== null }) : null;
+  const units = index !== null ? new GrowingWeights((length) => new Int32Array(length)) : null;
+  let replicateWeights: GrowingWeights | null = null;
+  let replicateColumns: string[] = [];
+  let designRule: DesignRowRule | null = null;
   const summary = await readRecords(
     source,
     reader,
@@ -153,17 +177,40 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
         source.label,
       );
       if (weightSlot >= 0) textSlots.add(weightSlot);
+      if (design !== null && selection.design !== null) {
+        const d = selection.design;
+        const designSlots = {
+          strata: d.strata !== null ? slotOf(d.strata) : -1,
+          cluster: d.cluster !== null ? slotOf(d.cluster) : -1,
+          fpc: d.fpc !== null ? slotOf(d.fpc) : -1,
+          replicates: d.replicates.map(slotOf),
+        };
+        if (designSlots.fpc >= 0) textSlots.add(designSlots.fpc);
+        for (const slot of designSlots.replicates) textSlots.add(slot);
+        replicateColumns = d.replicates.map((i) => header[i]);
+        if (replicateColumns.length > 0) replicateWeights = new GrowingWeights(undefined, replicateColumns.length);
+        designRule = new DesignRowRule(design, designSlots, (slot) => header[slots[slot]], source.label, reader.skipBadRows, request.decimalComma === true);
+      }
       return slots;
     },
     (ids, line, texts, interners, position) => {
       if (internerLabels.length === 0) internerLabels = interners.map((i) => i.labels);
+      let unit = -1;
+      const rule = designRule as DesignRowRule | null;
+      if (rule !== null && index !== null) {
+        if (!rule.read(ids, texts, line, interners)) return;
+        unit = index.locate(rule.stratum, rule.cluster, rule.fpc, line);
+      }
       const w = gate!.admit(ids, texts, line);
       if (w < 0) return;
+      if (rule !== null && replicateWeights !== null && !rule.replicates(texts, line)) return;
       const row = rows++;
       if (row === ESTIMATE_AT && fileSize !== null) {
         // Rows to come, from the bytes the first ones took (a little over, so that one size usually does).
         const estimate = Math.ceil((row * fileSize * 1.05) / Math.max(1, position())) + ESTIMATE_AT;
         weights?.reserve(estimate);
+        units?.reserve(estimate);
+        replicateWeights?.reserve(estimate);
         layerState?.codes?.reserve(estimate);
         for (const state of states) {
           state.codes?.reserve(estimate);
@@ -171,6 +218,8 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
         }
       }
       if (weights) weights.set(row, w);
+      if (units !== null) units.set(row, unit);
+      if (replicateWeights !== null) replicateWeights.setRow(row, (rule as DesignRowRule).replicateWeights);
       if (layerState && layerState.codes) {
         const id = ids[layerSlot];
         if (id === MISSING_ID) layerState.missing++;
@@ -201,7 +250,8 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
   if (rows === 0) throw dataError(`${source.label}: the header has no data rows under it`);
   // Values seen only in rows that were left out (--where, bad weights, bad
   // rows) are not levels of the kept rows: those columns are compacted.
-  const leftOut = ((gate as RowGate | null)?.filtered ?? 0) + ((gate as RowGate | null)?.badWeights ?? 0) + summary.badRows > 0;
+  const designSkipped = (designRule as DesignRowRule | null)?.skipped ?? 0;
+  const leftOut = ((gate as RowGate | null)?.filtered ?? 0) + ((gate as RowGate | null)?.badWeights ?? 0) + summary.badRows + designSkipped > 0;
   const columns = states.map<EncodedColumn>((state, k) => {
     const interner = summary.interners[k];
     let labels = interner.labels;
@@ -242,15 +292,28 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
   }
   const rowWeights = weights ? { values: weights.take(rows), kind: request.weight!.kind } : undefined;
   const { interners: _interners, ...read } = summary;
+  const rowDesign: RowDesign | null =
+    design === null
+      ? null
+      : {
+          design,
+          index,
+          units: units !== null ? units.take(rows) : null,
+          replicateWeights: replicateWeights !== null ? (replicateWeights as GrowingWeights).take(rows) : null,
+          replicateColumns,
+          weightColumn: request.weight?.column ?? null,
+        };
   return {
     columns,
     layer,
     rows,
     filtered: (gate as RowGate | null)?.filtered ?? 0,
     badWeights: (gate as RowGate | null)?.badWeights ?? 0,
+    badDesign: designSkipped,
+    design: rowDesign,
     summary: read,
     weights: rowWeights,
-    countPairs: async () => (a, b, layerColumn) => countPair(a, b, { weights: rowWeights, strata: layerColumn ?? undefined }),
+    countPairs: async () => (a, b, layerColumn) => countPair(a, b, { weights: rowWeights, strata: layerColumn ?? undefined, design: rowDesign ?? undefined }),
   };
 }
 

@@ -1,16 +1,28 @@
 /** The compare report as text for people. */
 import type { ChalkInstance } from 'chalk';
 import type { CompareReport, PeriodRecord } from '../analysis/compare.js';
-import { formatCount, formatMeasure, formatP, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
+import { formatCount, formatMeasure, formatP, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { renderGrid } from './grid.js';
 import { glued, wrapText } from './layout.js';
 import { cautionLines, DEFAULT_TEXT, heading, tableView, TextOptions } from './pairText.js';
-import { comparison, evidenceWords, testName } from './words.js';
+import { comparison, designOptionWords, evidenceWords, testName } from './words.js';
 
 type Testable = Extract<PeriodRecord, { testable: true }>;
 
-export function changeTestName(method: 'breslow-day' | 'no-three-way-interaction'): string {
+export function changeTestName(method: 'breslow-day' | 'no-three-way-interaction' | 'design-wald'): string {
+  if (method === 'design-wald') return 'design-based Wald test of equal log odds ratios';
   return method === 'breslow-day' ? 'Breslow–Day test of equal odds ratios' : 'G² test of no three-way interaction';
+}
+
+/** How the periods were weighted, in a sentence (null when they were not). */
+export function compareWeightingWords(report: CompareReport): string | null {
+  if (report.designed) {
+    const d = [report.before, report.after].flatMap((r) => (r.testable && r.design ? [r.design] : []))[0] ?? null;
+    const design = d ? ` (${designOptionWords(d)})` : '';
+    return `Each period is its own sample under the survey design${design}; the change and shift tests are design-based Wald tests for two independent samples.`;
+  }
+  if (report.weighted) return "Counts are sums of sampling weights; each period is tested on its table rescaled to Kish's effective sample size, which does not account for clustering or stratification.";
+  return null;
 }
 
 /** The decision of a comparison in words: did the association change, and did either margin shift? */
@@ -28,7 +40,8 @@ export function shiftWords(report: CompareReport, side: 'rows' | 'cols'): string
   const name = side === 'rows' ? report.rows.name : report.cols.name;
   if (!test || shifted === null) return `${name}: its distribution cannot be compared`;
   const alpha = report.verdict?.alpha;
-  return `${name}: ${shifted ? 'its distribution shifted' : 'no evidence its distribution shifted'} (${alpha === undefined ? glued('p', formatP(test.pValue)) : comparison(test.pValue, alpha, shifted)}, chi-square ${glued('df', String(test.df))})`;
+  const how = test.method === 'design-wald' ? (test.denDf !== null && test.denDf !== undefined ? `design-based Wald F, ${glued('df', String(test.df), 'and', formatStatistic(test.denDf, 0))}` : `design-based Wald χ², ${glued('df', String(test.df))}`) : `chi-square ${glued('df', String(test.df))}`;
+  return `${name}: ${shifted ? 'its distribution shifted' : 'no evidence its distribution shifted'} (${alpha === undefined ? glued('p', formatP(test.pValue)) : comparison(test.pValue, alpha, shifted)}, ${how})`;
 }
 
 export function renderCompareText(report: CompareReport, paint: ChalkInstance, options: TextOptions = DEFAULT_TEXT): string {
@@ -36,7 +49,8 @@ export function renderCompareText(report: CompareReport, paint: ChalkInstance, o
   const out: string[] = [];
   const { before, after } = report;
   out.push(...wrapText(`${report.rows.name} × ${report.cols.name}: ${before.label} against ${after.label}`, width).map((l) => paint.bold(l)));
-  if (report.weighted) out.push(...wrapText('Counts are sums of sampling weights; each period is tested on its table rescaled to its effective sample size.', width).map((l) => paint.dim(l)));
+  const weighting = compareWeightingWords(report);
+  if (weighting) out.push(...wrapText(weighting, width).map((l) => paint.dim(l)));
   out.push('');
   out.push(...wrapText(`${report.verdict?.changed ? '■' : '□'} ${compareHeadline(report)}`, width, '', '  ').map((l) => paint.bold(l)));
   out.push(...wrapText(shiftWords(report, 'rows'), width, '  ', '    '));
@@ -48,7 +62,9 @@ export function renderCompareText(report: CompareReport, paint: ChalkInstance, o
     ['n', (r) => formatCount(r.n), ''],
     ['leading p', (r) => value(r, (x) => formatP(x.verdict.pValue)), ''],
     ['test leading', (r) => value(r, (x) => testName(x.verdict.test, x).replace(/ test.*$/, '')), ''],
-    ['chi-square', (r) => value(r, (x) => formatStatistic(x.tests.pearson.statistic)), ''],
+    ...(report.designed
+      ? ([['mean design effect', (r) => value(r, (x) => formatRatio(x.design?.designEffects.mean)), '']] as [string, (r: PeriodRecord) => string, string][])
+      : ([['chi-square', (r) => value(r, (x) => formatStatistic(x.tests.pearson.statistic)), '']] as [string, (r: PeriodRecord) => string, string][])),
     ['bias-corrected V', (r) => value(r, (x) => formatMeasure(x.measures.biasCorrectedV)), formatSigned(report.deltaBiasCorrectedV)],
     ["Cramér's V", (r) => value(r, (x) => formatMeasure(x.measures.cramersV)), ''],
   ];

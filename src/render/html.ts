@@ -7,11 +7,11 @@ import type { CompareReport } from '../analysis/compare.js';
 import type { PairReport } from '../analysis/report.js';
 import type { ScanReport } from '../analysis/scan.js';
 import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
-import { changeTestName, compareHeadline, shiftWords } from './compareText.js';
+import { changeTestName, compareHeadline, compareWeightingWords, shiftWords } from './compareText.js';
 import { inputLine } from './pairText.js';
 import { pairFlags, scanSummary, FLAG_LEGEND } from './scanTable.js';
 import { escapeXml, mosaicPlot, residualHeatMap, strengthChart } from './svg.js';
-import { ADJUSTMENT_NAMES, CAUTION, comparison, headline, intervalWords, markLegend, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
+import { ADJUSTMENT_NAMES, CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, headline, intervalWords, markLegend, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
 
 const STYLE = `
   :root { color-scheme: light; }
@@ -83,7 +83,11 @@ function recordSections(record: AnalysisRecord, by?: string): string {
   const answer = `<div class="answer${v.passes ? '' : ' fails'}"><p class="lead">${e(`${headline(v, by)}: ${compare}, ${testName(v.test, record)}`)}</p>
 <p>${e(reasonSentence(record, by))}</p>
 <p>Strength: ${e(record.measures.biasCorrectedV === null ? 'not defined for this table' : `${v.strength}, bias-corrected V ${formatMeasure(m.biasCorrectedV)}. ${vIntervalWords(record)}.`)}</p>${
-    record.weighted ? `<p>Counts are sums of sampling weights; the tests use the effective sample of ${formatCount(Math.round(record.effectiveN * 10) / 10)}.</p>` : ''
+    record.design
+      ? `<p>Design: ${e(`${designEffectWords(record.design)}.`)}</p>`
+      : record.weighted
+        ? `<p>Counts are sums of sampling weights; the tests use the effective sample of ${formatCount(Math.round(record.effectiveN * 10) / 10)}, which does not account for clustering or stratification.</p>`
+        : ''
   }</div>`;
   const compact = gridTable(record, (i, j) => `${formatCount(record.counts[i][j])}<span class="share">${formatPercent(record.percentages.row[i][j], 0)}</span>`, true);
   const views = [
@@ -95,9 +99,18 @@ function recordSections(record: AnalysisRecord, by?: string): string {
   const statements = record.findings.statements.map((s) => `<li>${e(statementWords(record, s))}</li>`).join('');
   const testRow = (name: string, r: { statistic: number; df: number; pValue: number } | null, isLead: boolean) =>
     r ? `<tr${isLead ? ' class="lead"' : ''}><td>${isLead ? '► ' : ''}${name}</td><td>${formatStatistic(r.statistic)}</td><td>${r.df}</td><td>${formatP(r.pValue)}</td></tr>` : '';
+  const designTests =
+    t.designF && t.designPearson && t.designLikelihoodRatio
+      ? [
+          `<tr${lead === 'designF' ? ' class="lead"' : ''}><td>${lead === 'designF' ? '► ' : ''}design-based F (Rao–Scott, 2nd order)</td><td>${formatStatistic(t.designF.statistic)}</td><td>${formatStatistic(t.designF.numDf)} and ${formatStatistic(t.designF.denDf, 1)}</td><td>${formatP(t.designF.pValue)}</td></tr>`,
+          testRow('X² ÷ mean design effect (1st order)', t.designPearson, false),
+          testRow('G² ÷ mean design effect (1st order)', t.designLikelihoodRatio, false),
+          `<tr><td>X² ignoring the design (not a valid test here)</td><td>${formatStatistic(t.designPearson.uncorrected)}</td><td>${t.designPearson.df}</td><td></td></tr>`,
+        ].join('')
+      : null;
   const tests = [
-    testRow("chi-square (Pearson's X²)", t.pearson, lead === 'pearson' && v.test !== 'cmh'),
-    testRow('likelihood ratio (G²)', t.likelihoodRatio, false),
+    designTests ?? testRow("chi-square (Pearson's X²)", t.pearson, lead === 'pearson' && v.test !== 'cmh'),
+    designTests ? '' : testRow('likelihood ratio (G²)', t.likelihoodRatio, false),
     testRow("chi-square, Yates' correction", t.yates, false),
     t.fisher ? `<tr${lead === 'fisher' ? ' class="lead"' : ''}><td>${lead === 'fisher' ? '► ' : ''}${e(testName('fisher', record))}</td><td></td><td></td><td>${formatP(t.fisher.pValue)}</td></tr>` : '',
     t.monteCarlo
@@ -113,6 +126,7 @@ function recordSections(record: AnalysisRecord, by?: string): string {
     measureRow('phi', formatMeasure(m.phi)),
     measureRow("Tschuprow's T", formatMeasure(m.tschuprowT)),
     measureRow('contingency coefficient', formatMeasure(m.contingencyC), `corrected ${formatMeasure(m.correctedC)}`),
+    m.designCramersV ? measureRow("design-scaled Cramér's V", formatMeasure(m.designCramersV.value), designVWords(m.designCramersV).replace(/^[^:]*: /, '')) : '',
   ].join('');
   const corrected = m.zeroCellCorrection ? ' (0.5 added to every cell: a cell is zero)' : '';
   const twoByTwo =
@@ -148,9 +162,26 @@ function recordSections(record: AnalysisRecord, by?: string): string {
 <h2>Where it sits</h2><div class="figures">${residualHeatMap(record)}${mosaicPlot(record)}</div>
 <details><summary>Adjusted residuals as numbers</summary>${gridTable(record, (i, j) => residualCell(record, i, j), false)}<p class="dim">${e(markLegend(record))}</p></details>
 <ul>${statements}</ul>
+${designSection(record)}
 <!--held-fixed-->
 <h2>Supporting numbers</h2><h3>The same question, other tests (► the one that leads)</h3><table><tr><th>test</th><th>statistic</th><th>df</th><th>p-value</th></tr>${tests}</table>
 <h3>Strength on other scales (0 none, 1 complete)</h3><table>${strength}</table>${twoByTwo}${guessing}${ordinal}`;
+}
+
+/** With a survey design: the design, each cell's design effect, the shares with their intervals. */
+function designSection(record: AnalysisRecord): string {
+  const d = record.design;
+  if (!d) return '';
+  const effects = record.designEffects;
+  const shares = record.designPercentages;
+  const interval = (x: { lower: number | null; upper: number | null; method: string }) => (x.lower === null || x.upper === null ? UNDEFINED : `${formatPercent(x.lower)}–${formatPercent(x.upper)}${x.method === 'korn-graubard' ? '*' : ''}`);
+  return `<h2>The survey design</h2><p>${e(`${designWords(d)}; ${designEffectWords(d)}.`)}</p>${
+    effects ? `<h3>Design effect of each cell</h3>${gridTable(record, (i, j) => formatRatio(effects[i][j]), false)}` : ''
+  }${
+    shares
+      ? `<h3>Shares of each row, with their intervals</h3>${gridTable(record, (i, j) => `${formatPercent(shares.row[i][j].estimate)}<span class="share">${interval(shares.row[i][j])}</span>`, false)}<details><summary>Shares of each column</summary>${gridTable(record, (i, j) => `${formatPercent(shares.col[i][j].estimate)}<span class="share">${interval(shares.col[i][j])}</span>`, false)}</details><details><summary>Shares of the whole table</summary>${gridTable(record, (i, j) => `${formatPercent(shares.total[i][j].estimate)}<span class="share">${interval(shares.total[i][j])}</span>`, false)}</details><p class="dim">${e(`${designIntervalWords(shares.confidence, shares.degreesOfFreedom)}.`)}</p>`
+      : ''
+  }${record.measures.designCramersV ? `<p>${e(`${designVWords(record.measures.designCramersV)}.`)}</p>` : ''}`;
 }
 
 function heldFixedSection(report: PairReport): string {
@@ -220,10 +251,12 @@ export function renderCompareHtml(report: CompareReport): string {
 <p class="dim">Each cell: the count and its share of the row.</p>${gridTable(r, (i, j) => `${formatCount(r.counts[i][j])}<span class="share">${formatPercent(r.percentages.row[i][j], 0)}</span>`, true)}
 <div class="figures">${residualHeatMap(r, `Adjusted residuals, ${r.label}`)}</div></div>`
       : `<div><h2>${e(r.label)}</h2><p class="note">${e(r.reason)}</p></div>`;
-  const change = report.change ? `${changeTestName(report.change.method)}: ${formatStatistic(report.change.statistic)}, df ${report.change.df}, p ${formatP(report.change.pValue)}` : 'not computable';
+  const change = report.change
+    ? `${changeTestName(report.change.method)}: ${formatStatistic(report.change.statistic)}, df ${report.change.df}${report.change.denDf ? ` and ${formatStatistic(report.change.denDf, 0)}` : ''}, p ${formatP(report.change.pValue)}`
+    : 'not computable';
   const body = `<h1>${e(report.rows.name)} × ${e(report.cols.name)}: ${e(report.before.label)} against ${e(report.after.label)}</h1>
 <div class="answer${report.verdict?.changed ? '' : ' fails'}"><p class="lead">${e(compareHeadline(report))}</p><p>${e(change)}. Change in bias-corrected V: ${formatSigned(report.deltaBiasCorrectedV)}.</p>
-<p>${e(shiftWords(report, 'rows'))}</p><p>${e(shiftWords(report, 'cols'))}</p>${report.weighted ? '<p>Counts are sums of sampling weights; each period is tested on its table rescaled to its effective sample size.</p>' : ''}</div>
+<p>${e(shiftWords(report, 'rows'))}</p><p>${e(shiftWords(report, 'cols'))}</p>${compareWeightingWords(report) ? `<p>${e(compareWeightingWords(report) as string)}</p>` : ''}</div>
 ${side(report.before)}${side(report.after)}
 ${notes(report.warnings)}`;
   return page(`${report.rows.name} × ${report.cols.name}: ${report.before.label} against ${report.after.label}`, body);

@@ -8,7 +8,8 @@ import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, for
 import { inputLine } from './pairText.js';
 import { exactNumber } from './scanTable.js';
 import { spreadsheetField } from '../escape/spreadsheet.js';
-import { CAUTION, comparison, headline, intervalWords, markLegend, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
+import { CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, headline, intervalWords, markLegend, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
+import type { DesignShare } from '../analysis/design.js';
 
 /**
  * Stable column names of `pair --format csv|tsv`: one line per table cell,
@@ -69,7 +70,16 @@ function recordLines(record: AnalysisRecord, level: string): Line[] {
   if (t.fisher) line('test', 'fisher_exact', null, null, t.fisher.pValue);
   if (t.monteCarlo) line('test', 'simulated_exact', t.monteCarlo.standardError, t.monteCarlo.simulations, t.monteCarlo.pValue);
   test('linear_by_linear', t.linearByLinear);
+  if (t.designF && t.designPearson && t.designLikelihoodRatio) {
+    line('test', 'design_f', t.designF.statistic, t.designF.numDf, t.designF.pValue);
+    line('test', 'design_f_denominator_df', t.designF.denDf);
+    test('design_pearson', t.designPearson);
+    test('design_likelihood_ratio', t.designLikelihoodRatio);
+    line('test', 'pearson_ignoring_design', t.designPearson.uncorrected, t.designPearson.df);
+    line('test', 'likelihood_ratio_ignoring_design', t.designLikelihoodRatio.uncorrected, t.designLikelihoodRatio.df);
+  }
   for (const [key, name] of MEASURE_NAMES) line('measure', name, record.measures[key] as number | null);
+  if (record.measures.designCramersV) line('measure', 'design_cramers_v', record.measures.designCramersV.value);
   const vi = record.measures.cramersVInterval;
   if (vi) {
     line('measure', 'cramers_v_population', vi.estimate);
@@ -92,6 +102,40 @@ function recordLines(record: AnalysisRecord, level: string): Line[] {
   line('sample', 'n', record.n);
   line('sample', 'effective_n', record.effectiveN);
   line('sample', 'excluded', record.excluded);
+  const d = record.design;
+  if (d) {
+    line('design', 'kind', null, null, null, '', '', d.kind);
+    line('design', 'strata', d.strata);
+    line('design', 'clusters', d.clusters);
+    line('design', 'degrees_of_freedom', d.degreesOfFreedom);
+    line('design', 'replicates', d.replicates, null, null, '', '', d.method ?? '');
+    line('design', 'lonely_psu', d.lonelyStrata.length, null, null, '', '', d.lonelyPsu ?? '');
+    line('design', 'mean_design_effect', d.designEffects.mean);
+    line('design', 'min_design_effect', d.designEffects.min);
+    line('design', 'max_design_effect', d.designEffects.max);
+    line('design', 'unweighted_n', d.n);
+    line('design', 'design_effective_n', d.effectiveSampleSize);
+    if (record.designEffects) cells('design_effect', record.designEffects);
+    const shares = record.designPercentages;
+    if (shares) {
+      for (const [section, matrix] of [
+        ['design_row_share', shares.row],
+        ['design_col_share', shares.col],
+        ['design_total_share', shares.total],
+      ] as const) {
+        record.rows.levels.forEach((rl, i) =>
+          record.cols.levels.forEach((cl, j) => {
+            const x: DesignShare = matrix[i][j];
+            line(section, 'estimate', x.estimate, null, null, rl, cl, x.method);
+            line(section, 'standard_error', x.standardError, null, null, rl, cl);
+            line(section, 'lower', x.lower, null, null, rl, cl);
+            line(section, 'upper', x.upper, null, null, rl, cl);
+          }),
+        );
+      }
+    }
+  }
+  for (const w of record.warnings) line('warning', w.code, null, null, null, '', '', w.message);
   return lines;
 }
 
@@ -147,7 +191,8 @@ function markdownRecord(record: AnalysisRecord, by?: string): string[] {
   out.push('');
   out.push(`- Why this test: ${md(reasonSentence(record, by))}`);
   out.push(`- Strength: ${md(m.biasCorrectedV === null ? 'not defined for this table' : `${v.strength}, bias-corrected V ${formatMeasure(m.biasCorrectedV)}. ${vIntervalWords(record)}.`)}`);
-  if (record.weighted) out.push(`- Weights: counts are sums of sampling weights; the tests use the effective sample of ${formatCount(Math.round(record.effectiveN * 10) / 10)}.`);
+  if (record.design) out.push(`- Design: ${md(`${designEffectWords(record.design)}.`)}`);
+  else if (record.weighted) out.push(`- Weights: counts are sums of sampling weights; the tests use the effective sample of ${formatCount(Math.round(record.effectiveN * 10) / 10)}, which does not account for clustering or stratification.`);
   out.push('');
   out.push('Counts, each with its share of the row; "all": totals with their share of the whole table.');
   out.push('');
@@ -184,8 +229,16 @@ function markdownRecord(record: AnalysisRecord, by?: string): string[] {
   out.push('| test (► leads) | statistic | df | p-value |');
   out.push('|---|--:|--:|--:|');
   const row = (name: string, r: { statistic: number; df: number; pValue: number } | null, isLead = false) => r && out.push(`| ${isLead ? '► ' : ''}${name} | ${formatStatistic(r.statistic)} | ${r.df} | ${formatP(r.pValue)} |`);
-  row("chi-square (Pearson's X²)", tests.pearson, lead === 'pearson' && v.test !== 'cmh');
-  row('likelihood ratio (G²)', tests.likelihoodRatio);
+  if (tests.designF && tests.designPearson && tests.designLikelihoodRatio) {
+    const f = tests.designF;
+    out.push(`| ${lead === 'designF' ? '► ' : ''}design-based F (Rao–Scott, 2nd order) | ${formatStatistic(f.statistic)} | ${formatStatistic(f.numDf)} and ${formatStatistic(f.denDf, 1)} | ${formatP(f.pValue)} |`);
+    row('X² ÷ mean design effect (1st order)', tests.designPearson);
+    row('G² ÷ mean design effect (1st order)', tests.designLikelihoodRatio);
+    out.push(`| X² ignoring the design (not a valid test here) | ${formatStatistic(tests.designPearson.uncorrected)} | ${tests.designPearson.df} | |`);
+  } else {
+    row("chi-square (Pearson's X²)", tests.pearson, lead === 'pearson' && v.test !== 'cmh');
+    row('likelihood ratio (G²)', tests.likelihoodRatio);
+  }
   row("chi-square, Yates' correction", tests.yates);
   if (tests.fisher) out.push(`| ${lead === 'fisher' ? '► ' : ''}${md(testName('fisher', record))} | | | ${formatP(tests.fisher.pValue)} |`);
   if (tests.monteCarlo) out.push(`| ${lead === 'monteCarlo' ? '► ' : ''}simulated exact test (${formatCount(tests.monteCarlo.simulations)} tables, seed ${tests.monteCarlo.seed}) | | | ${formatP(tests.monteCarlo.pValue)} ± ${formatP(tests.monteCarlo.standardError)} |`);
@@ -207,6 +260,8 @@ function markdownRecord(record: AnalysisRecord, by?: string): string[] {
     const rr = m.relativeRisk;
     out.push(`| ratio of shares | ${formatRatio(rr.estimate)} | ${md(`share of "${rr.outcome}" among "${rr.exposed}" ÷ among "${rr.reference}"; ${intervalWords(rr.lower, rr.upper, rr.confidence)}${corrected}`)} |`);
   }
+  if (m.designCramersV) out.push(`| design-scaled Cramér's V | ${formatMeasure(m.designCramersV.value)} | ${md(designVWords(m.designCramersV).replace(/^[^:]*: /, ''))} |`);
+  out.push(...markdownDesign(record));
   if (record.ordinal) {
     out.push('');
     out.push('| with order (--ordinal) | estimate | se | p-value |');
@@ -221,6 +276,27 @@ function markdownRecord(record: AnalysisRecord, by?: string): string[] {
     ] as const) {
       out.push(`| ${md(name)} | ${formatSigned(e.estimate)} | ${formatMeasure(e.standardError)} | ${formatP(e.pValue)} |`);
     }
+  }
+  return out;
+}
+
+/** With a survey design: the design, each cell's design effect, the row shares with their intervals. */
+function markdownDesign(record: AnalysisRecord): string[] {
+  const d = record.design;
+  if (!d) return [];
+  const out = ['', `The survey design: ${md(designWords(d))}; ${md(designEffectWords(d))}.`];
+  if (record.designEffects) {
+    const effects = record.designEffects;
+    out.push('', 'Design effect of each cell:', '', ...markdownGrid(record, (i, j) => formatRatio(effects[i][j]), false));
+  }
+  const shares = record.designPercentages;
+  if (shares) {
+    out.push('', 'Shares of each row, with their intervals:', '');
+    out.push(...markdownGrid(record, (i, j) => {
+      const x = shares.row[i][j];
+      return `${formatPercent(x.estimate)} (${x.lower === null || x.upper === null ? UNDEFINED : `${formatPercent(x.lower)}–${formatPercent(x.upper)}`})${x.method === 'korn-graubard' ? '\\*' : ''}`;
+    }, false));
+    out.push('', md(`${designIntervalWords(shares.confidence, shares.degreesOfFreedom)}.`));
   }
   return out;
 }

@@ -8,7 +8,7 @@ import type { PairReport } from '../analysis/report.js';
 import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { renderGrid } from './grid.js';
 import { displayWidth, glued, padEnd, padStart, wrapText } from './layout.js';
-import { CAUTION, comparison, headline, intervalWords, markLegend, quoteLevel, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
+import { CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, headline, intervalWords, markLegend, quoteLevel, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
 
 /** What the cells of the table show (--cells). */
 export type CellView = 'compact' | 'counts' | 'row' | 'col' | 'total' | 'expected' | 'residuals';
@@ -71,6 +71,7 @@ export function inputLine(report: PairReport): string {
   if (input.filtered > 0) parts.push(`${glued(formatCount(input.filtered))} filtered out by --where`);
   if (input.badRowsSkipped > 0) parts.push(`${plural(input.badRowsSkipped, 'malformed row')} skipped`);
   if (input.badWeightsSkipped > 0) parts.push(`${plural(input.badWeightsSkipped, 'row')} with an unusable weight skipped`);
+  if (input.badDesignSkipped > 0) parts.push(`${plural(input.badDesignSkipped, 'row')} without a usable stratum, cluster, fpc or replicate weight skipped`);
   return parts.join(', ');
 }
 
@@ -84,7 +85,34 @@ export function answerLines(record: AnalysisRecord, paint: ChalkInstance, width:
   out.push(...labelled('why this test', reasonSentence(record, by), width));
   const strength = record.measures.biasCorrectedV === null ? 'not defined for this table' : `${record.verdict.strength}: bias-corrected V ${glued(formatMeasure(record.measures.biasCorrectedV))}. ${vIntervalWords(record)}.`;
   out.push(...labelled('strength', strength, width));
-  if (record.weighted) out.push(...labelled('weights', `counts are sums of sampling weights; the tests use the effective sample of ${glued(formatCount(Math.round(record.effectiveN * 10) / 10))}.`, width));
+  if (record.design) out.push(...labelled('design', `${designEffectWords(record.design)}.`, width));
+  else if (record.weighted) out.push(...labelled('weights', `counts are sums of sampling weights; the tests use the effective sample of ${glued(formatCount(Math.round(record.effectiveN * 10) / 10))}, which does not account for clustering or stratification.`, width));
+  return out;
+}
+
+/**
+ * With a survey design: each cell's design effect, the shares of each row
+ * with their design-based intervals (which interval, said below), and what
+ * the design-scaled V means.
+ */
+export function designLines(record: AnalysisRecord, paint: ChalkInstance, width: number): string[] {
+  const d = record.design;
+  if (!d) return [];
+  const out = heading(paint, 'The survey design', width);
+  out.push(...wrapText(`${designWords(d)}.`, width, '  ', '  '));
+  const grid = (cells: string[][]) =>
+    renderGrid({ rowTitle: record.rows.name, colTitle: `${record.cols.name} →`, rowLabels: record.rows.levels, colLabels: record.cols.levels, cells, strong: (s) => paint.bold(s), faint: (s) => paint.dim(s) }, width);
+  if (record.designEffects) {
+    out.push('', paint.dim('  Design effect of each cell (its variance over that of a simple random sample of the same size)'));
+    out.push(...grid(record.designEffects.map((row) => row.map((v) => (v === null ? UNDEFINED : formatRatio(v))))));
+  }
+  const shares = record.designPercentages;
+  if (shares) {
+    out.push('', paint.dim(`  Shares of each row, with their intervals`));
+    out.push(...grid(shares.row.map((row) => row.map((x) => `${formatPercent(x.estimate)} ${x.lower === null || x.upper === null ? UNDEFINED : `${formatPercent(x.lower)}–${formatPercent(x.upper)}`}${x.method === 'korn-graubard' ? '*' : ' '}`))));
+    out.push(...wrapText(`${designIntervalWords(shares.confidence, shares.degreesOfFreedom)}. Cell, column and margin shares with standard errors: --format json.`, width, '  ', '  ').map((l) => paint.dim(l)));
+  }
+  if (record.measures.designCramersV) out.push('', ...wrapText(`${designVWords(record.measures.designCramersV)}.`, width, '  ', '  '));
   return out;
 }
 
@@ -185,8 +213,16 @@ function detailLines(report: PairReport, paint: ChalkInstance, width: number): s
   const lead = report.findings.primaryTest.test;
   const out = heading(paint, 'Supporting numbers', width);
   out.push(paint.dim('  The same question, other tests (► the one that leads)'));
-  out.push(...testLine("chi-square (Pearson's X²)", tests.pearson, width, lead === 'pearson' && report.verdict.test !== 'cmh'));
-  out.push(...testLine('likelihood ratio (G²)', tests.likelihoodRatio, width, false));
+  if (tests.designF && tests.designPearson && tests.designLikelihoodRatio) {
+    const f = tests.designF;
+    out.push(...figure(`${lead === 'designF' ? '► ' : ''}design-based F (2nd order)`, formatStatistic(f.statistic), `${glued('df', formatStatistic(f.numDf), 'and', formatStatistic(f.denDf, 1))}, ${glued('p', formatP(f.pValue))}`, width));
+    out.push(...testLine('X² ÷ mean design effect', tests.designPearson, width, false));
+    out.push(...testLine('G² ÷ mean design effect', tests.designLikelihoodRatio, width, false));
+    out.push(...figure('X² ignoring the design', formatStatistic(tests.designPearson.uncorrected), `as if a simple random sample of ${glued(formatCount(report.design?.n ?? report.unweightedN))}: not a valid test here`, width));
+  } else {
+    out.push(...testLine("chi-square (Pearson's X²)", tests.pearson, width, lead === 'pearson' && report.verdict.test !== 'cmh'));
+    out.push(...testLine('likelihood ratio (G²)', tests.likelihoodRatio, width, false));
+  }
   if (tests.yates) out.push(...testLine("chi-square, Yates' correction", tests.yates, width, false));
   if (tests.fisher) out.push(...figure((lead === 'fisher' ? '► ' : '') + testName('fisher', report), '', glued('p', formatP(tests.fisher.pValue)), width));
   if (tests.monteCarlo) {
@@ -307,6 +343,7 @@ export function renderPairText(report: PairReport, paint: ChalkInstance, options
   out.push(...answerLines(report, paint, width, report.stratified?.by));
   out.push(...tableView(report, paint, options));
   out.push(...whereLines(report, paint, options));
+  out.push(...designLines(report, paint, width));
   out.push(...heldFixedLines(report, paint, width));
   out.push(...detailLines(report, paint, width));
   out.push(...checkLines(report.warnings, paint, width));

@@ -7,14 +7,16 @@ import type { ScanPair, ScanReport } from '../analysis/scan.js';
 import { formatCount, formatMeasure, formatP } from '../readableNumbers.js';
 import { displayWidth, foldLabel, glued, padEnd, padStart, wrapText } from './layout.js';
 import { cautionLines, heading } from './pairText.js';
-import { ADJUSTMENT_NAMES, alphaPhrase, CAUTION, testName } from './words.js';
+import { ADJUSTMENT_NAMES, alphaPhrase, CAUTION, designWords, testName } from './words.js';
+import type { DesignSummary } from '../analysis/design.js';
 import { md } from './pairDelimited.js';
 
 /** Short flags for a pair, the same words in every format. */
 export function pairFlags(pair: ScanPair): string[] {
   const flags: string[] = [];
   if (!pair.expectedCountRule.passes) flags.push('sparse');
-  if (pair.findings.primaryTest.test !== 'pearson') flags.push('exact-p');
+  if (pair.findings.primaryTest.test === 'fisher' || pair.findings.primaryTest.test === 'monteCarlo') flags.push('exact-p');
+  if (pair.weighting === 'weight' && pair.design === null) flags.push('weights-only');
   if (pair.warnings.some((w) => w.code === 'large-sample')) flags.push('large-n');
   if (pair.warnings.some((w) => w.code === 'reversal')) flags.push('reversal');
   else if (pair.warnings.some((w) => w.code === 'layer-explains' || w.code === 'layer-reveals')) flags.push('by-changes');
@@ -34,7 +36,13 @@ export function strengthBar(value: number | null, width = 10): string {
 
 /** The scan's setting in words: rows, pairs, the adjustment and how many pass in all. */
 export function scanSummary(report: ScanReport): string {
-  const weighting = report.weighting === 'weight' ? '; rows carry sampling weights, so the tests use effective sample sizes' : report.weighting === 'freq' ? '; rows carry frequency weights' : '';
+  const weighting = report.design
+    ? `; every pair's leading test is the design-based F test (Rao–Scott) for the survey design: ${designWords(report.design as DesignSummary)}`
+    : report.weighting === 'weight'
+      ? "; rows carry sampling weights, so the tests use Kish's effective sample sizes, which do not account for clustering or stratification"
+      : report.weighting === 'freq'
+        ? '; rows carry frequency weights'
+        : '';
   const layer = report.by ? `; each pair judged within levels of ${report.by} (Cochran–Mantel–Haenszel)` : '';
   return (
     `${glued(formatCount(report.n), 'rows')}, ${glued(String(report.columnsScored.length), 'columns')} scored, ${glued(String(report.pairsTested), 'pairs')} tested${weighting}${layer}. ` +
@@ -49,6 +57,7 @@ export const FLAG_LEGEND: Record<string, string> = {
   'large-n': 'significant but negligible in strength',
   reversal: 'holding the --by variable fixed reverses the association',
   'by-changes': 'holding the --by variable fixed changes whether it passes',
+  'weights-only': "sampling weights without a survey design: Kish's effective sample size, clustering and stratification not accounted for",
 };
 
 export function renderScanText(report: ScanReport, paint: ChalkInstance, options: { width: number } = { width: 80 }): string {
@@ -89,8 +98,11 @@ export function renderScanText(report: ScanReport, paint: ChalkInstance, options
   }
   out.push('');
   const used = [...new Set(report.pairs.flatMap(pairFlags))];
+  const leading = report.design
+    ? "The leading p-value is the design-based F test's (Rao–Scott, second order), for every pair."
+    : 'The leading p-value is the chi-square one, or the exact or simulated one where expected counts are small (simulated ones drawn until the decision is clear).';
   const legend =
-    `"passes": the adjusted leading p-value is at most ${glued('α', String(report.alpha))}. The leading p-value is the chi-square one, or the exact or simulated one where expected counts are small (simulated ones drawn until the decision is clear).` +
+    `"passes": the adjusted leading p-value is at most ${glued('α', String(report.alpha))}. ${leading}` +
     (used.length > 0 ? ' Notes: ' + used.map((f) => `${f} = ${FLAG_LEGEND[f]}`).join('; ') + '.' : '');
   out.push(...wrapText(legend, width).map((l) => paint.dim(l)));
   if (report.skipped.length > 0) {
@@ -147,6 +159,11 @@ export const SCAN_COLUMNS = [
   'leading_route',
   'simulations',
   'strength',
+  'design_f',
+  'design_num_df',
+  'design_den_df',
+  'design_p_value',
+  'mean_design_effect',
 ] as const;
 
 function scanRow(pair: ScanPair): (string | number | boolean | null)[] {
@@ -188,6 +205,11 @@ function scanRow(pair: ScanPair): (string | number | boolean | null)[] {
     pair.verdict.route,
     pair.tests.monteCarlo?.simulations ?? null,
     pair.verdict.strength,
+    pair.tests.designF?.statistic ?? null,
+    pair.tests.designF?.numDf ?? null,
+    pair.tests.designF?.denDf ?? null,
+    pair.tests.designF?.pValue ?? null,
+    pair.design?.designEffects.mean ?? null,
   ];
 }
 

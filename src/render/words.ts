@@ -3,6 +3,7 @@
  * facts.
  */
 import type { AnalysisRecord, Statement, Verdict } from '../analysis/analyzeTable.js';
+import type { DesignSummary } from '../analysis/design.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
 import { formatConfidence, formatCount, formatLevel, formatMeasure, formatP, formatRatio, formatSigned } from '../readableNumbers.js';
 import { GLUE, glued, shownLabel } from './layout.js';
@@ -39,6 +40,8 @@ export function testName(test: Verdict['test'], record?: Pick<AnalysisRecord, 'r
       return twoByTwo ? "Fisher's exact test" : 'exact test (network algorithm)';
     case 'monteCarlo':
       return 'simulated exact test';
+    case 'designF':
+      return 'design-based F test (Rao–Scott)';
     case 'cmh':
       return 'Cochran–Mantel–Haenszel test';
   }
@@ -69,7 +72,7 @@ export function headline(verdict: Verdict, by = 'the variable held fixed'): stri
 }
 
 /** Why the leading p-value leads, in a sentence. */
-export function reasonSentence(record: Pick<AnalysisRecord, 'verdict' | 'tests' | 'rows' | 'cols' | 'expectedCountRule' | 'findings'>, by?: string): string {
+export function reasonSentence(record: Pick<AnalysisRecord, 'verdict' | 'tests' | 'rows' | 'cols' | 'expectedCountRule' | 'findings' | 'design'>, by?: string): string {
   const v = record.verdict;
   const rule = record.expectedCountRule;
   const sparse = `${rule.cellsBelowFive} of ${rule.cells} expected counts are under 5, too few for the chi-square approximation`;
@@ -100,9 +103,13 @@ export function reasonSentence(record: Pick<AnalysisRecord, 'verdict' | 'tests' 
               ? '--exact never was given'
               : cause === 'no-simulations'
                 ? '--simulations 0 was given'
-                : 'none could be computed';
+                : cause === 'design'
+                  ? 'exact tests are not defined under a survey design'
+                  : 'none could be computed';
       return `${sparse}, but no exact p-value exists (${because}): the chi-square p-value leads, to be read with care.`;
     }
+    case 'survey-design':
+      return record.design ? designReason(record.design) : 'A survey design was given, so the design-based F test leads.';
     case 'held-fixed':
       return `--by holds ${by ?? 'a variable'} fixed: the Cochran–Mantel–Haenszel test asks whether the association holds within its levels, so its p-value leads.`;
   }
@@ -174,4 +181,47 @@ export function markLegend(record: Pick<AnalysisRecord, 'findings'>): string {
   const t = record.findings.cellThreshold;
   if (t.cells === 1) return `▲▲ ▼▼ beyond ±${trimZeros(t.adjusted.toFixed(2))} (${alphaPhrase(t.alpha)}; the four cells of a 2×2 table carry one departure)`;
   return `▲▲ ▼▼ beyond ±${trimZeros(t.adjusted.toFixed(2))} (critical value for ${t.cells} ${t.cells === 1 ? 'cell' : 'cells'}, Bonferroni at ${alphaPhrase(t.alpha)}); ▲ ▼ beyond ±${trimZeros(t.single.toFixed(2))} (one cell on its own)`;
+}
+
+/** The options that describe the design: "--strata SDMVSTRA, --cluster SDMVPSU" or "--replicate-method fay, ρ 0.3". */
+export function designOptionWords(d: DesignSummary): string {
+  if (d.kind === 'replicate') {
+    const rho = d.rho !== null ? `, ${glued('ρ', String(d.rho))}` : '';
+    return `--replicate-method ${d.method}${rho}${d.centre === 'full-sample' ? ', centred at the full-sample estimate' : ''}`;
+  }
+  return [d.columns.strata !== null ? `--strata ${d.columns.strata}` : '', d.columns.cluster !== null ? `--cluster ${d.columns.cluster}` : 'each row its own PSU', d.columns.fpc !== null ? `--fpc ${d.columns.fpc}` : '']
+    .filter((x) => x !== '')
+    .join(', ');
+}
+
+/** The design in a few words: "15 strata, 31 PSUs, 16 degrees of freedom (--strata SDMVSTRA, --cluster SDMVPSU)". */
+export function designWords(d: DesignSummary): string {
+  const plural = (n: number, word: string, words = `${word}s`) => glued(formatCount(n), n === 1 ? word : words);
+  const df = plural(d.degreesOfFreedom, 'degree of freedom', 'degrees of freedom');
+  if (d.kind === 'replicate') return `${plural(d.replicates ?? 0, 'replicate weight')}, ${df} (${designOptionWords(d)})`;
+  return `${plural(d.strata ?? 1, 'stratum', 'strata')}, ${plural(d.clusters ?? 0, 'PSU')}, ${df} (${designOptionWords(d)})`;
+}
+
+/** Why the design-based F test leads, in a sentence. */
+export function designReason(d: DesignSummary): string {
+  const carried = d.kind === 'replicate' ? 'the replicate weights carry the design into its p-value' : 'it carries the strata, clusters and weights into its p-value, assuming PSUs drawn with replacement and many of them';
+  return `A survey design was given: ${designWords(d)}. The second-order Rao–Scott F test leads; ${carried}.`;
+}
+
+/** The mean design effect and what it does to the evidence, in words. */
+export function designEffectWords(d: DesignSummary): string {
+  const e = d.designEffects;
+  const range = e.min !== null && e.max !== null && e.min !== e.max ? ` (from ${glued(formatRatio(e.min), 'to', formatRatio(e.max))})` : '';
+  const change = e.mean >= 1 ? 'worth about as much as' : 'worth more: as much as';
+  return `mean design effect ${glued(formatRatio(e.mean))}${range}: the ${glued(formatCount(d.n), 'rows')} in the table are ${change} ${glued(formatCount(Math.round(d.effectiveSampleSize)))} from a simple random sample (a mean design effect of 2 halves the evidence)`;
+}
+
+/** What the design-scaled V says. */
+export function designVWords(v: { value: number; effectiveSampleSize: number }): string {
+  return `${glued("Cramér's", 'V', formatMeasure(v.value))} of the design-scaled statistic: the strength of the association in the population the design represents; the design changes how sure one can be of it, not how strong it is`;
+}
+
+/** Which interval the design-based percentages carry. */
+export function designIntervalWords(confidence: number, df: number): string {
+  return `${glued(formatConfidence(confidence), 'intervals')}: logit, with t on ${glued(formatCount(df), 'df')}; Korn–Graubard (marked *) where a share is 0 or 1 or its rarer outcome has fewer than 10 design-effective cases`;
 }

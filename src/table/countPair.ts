@@ -9,6 +9,7 @@ import { compareNatural } from './naturalOrder.js';
 import type { OrderedColumn } from './orderedColumn.js';
 import { TwoWayTable } from './twoWayTable.js';
 import { Weighting } from './weighting.js';
+import { designCellsOfPair, type RowDesign } from './surveyDesign.js';
 
 export interface CountPairOptions {
   /** Per-row weights (sampling weights or frequencies). */
@@ -20,6 +21,8 @@ export interface CountPairOptions {
    * the number of rows of each entry. Without it every entry is one row.
    */
   rowsPerEntry?: Float64Array;
+  /** A survey design read with the rows (one unit or set of replicate weights per row): its totals are counted too. */
+  design?: RowDesign;
 }
 
 /** Exact group sums from an engine, as hi + lo pairs: Σw in values/low, Σw² in squares/squaresLow. */
@@ -167,5 +170,6 @@ export function countPair(rowColumn: OrderedColumn, colColumn: OrderedColumn, op
     }
     strata.sort((x, y) => compareNatural(x.level, y.level));
   }
-  return { table: pooled.table, weighting: pooled.weighting, strata, excluded };
+  const design = options.design ? { design: designCellsOfPair(rowColumn.labels, colColumn.labels, a, b, options.design, weights ?? null) } : {};
+  return { table: pooled.table, weighting: pooled.weighting, strata, excluded, ...design };
 }

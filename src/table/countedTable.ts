@@ -5,6 +5,7 @@
  * countPair.ts from coded columns). Also the --other merge of rare levels.
  */
 import type { OrderedColumn } from './orderedColumn.js';
+import type { DesignCells } from './surveyDesign.js';
 import { relabelTable, TwoWayTable } from './twoWayTable.js';
 import type { Weighting } from './weighting.js';
 
@@ -15,6 +16,8 @@ export interface Stratum {
   weighting: Weighting;
   /** Rows of this level left out for a missing value of the table (counted by io/countTable.ts; absent where not counted). */
   excluded?: number;
+  /** With a survey design: this level's design totals (each level its own sample). */
+  design?: DesignCells | null;
 }
 
 export interface CountedTable {
@@ -24,6 +27,8 @@ export interface CountedTable {
   strata: Stratum[] | null;
   /** Rows left out for a missing value in a column of the table (or of the layer). */
   excluded: number;
+  /** With a survey design (and no layer): the design totals counted beside the table. */
+  design?: DesignCells | null;
 }
 
 /** Counts one pair's table (and its layers) from two columns in report order. */

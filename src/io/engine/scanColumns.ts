@@ -255,6 +255,8 @@ export async function encodeWithEngine(engine: Engine, input: EngineInput, reade
     rows,
     filtered,
     badWeights,
+    badDesign: 0,
+    design: null,
     summary: { header: rel.header, delimiter: rel.delimiter, records, blankLines: await blank, badRows: 0, engine: 'duckdb', format: input.format, files: input.files.length },
     countPairs: async () => (a, b, layerColumn) => countPair(a, b, { weights, strata: layerColumn ?? undefined }),
   };
