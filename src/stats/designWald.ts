@@ -34,6 +34,11 @@ import { upperTailF } from './fDistribution.js';
  *    one-to-one map of these); undefined when a cell is empty in either
  *    sample;
  *  - a margin: the first r − 1 row (or c − 1 column) shares p_i+.
+ *
+ * @example The NHANES 2009–2010 extract of the survey package for R split into two samples by stratum
+ *          (SDMVSTRA ≤ 82 and the rest, 8 design df each), agecat × race: the 9 log odds ratios give
+ *          W = 16.18 and F = 0.899 on 9 and 8 df, p = 0.565; the row margin F = 4.01 on 3 and 14 df
+ *          (test/stats/designWald.test.ts, recorded with svyby and svycontrast).
  */
 
 export interface DesignWaldTest {

@@ -519,3 +519,26 @@ describe('a design without its own variation', () => {
     expect(report.design.degreesOfFreedom).toBe(n - 1);
   });
 });
+
+describe('who counts a design: the built-in reader (the engine route, io/counting.ts)', () => {
+  const design = survey.taylor[4];
+  const args = [...tableArgs(design.data, design.tables[1]), ...designArgs(design.design)];
+
+  it('--engine duckdb on a CSV file: the built-in reader counts it, one note says so, the report is the same', async () => {
+    const builtin = await runJson(args);
+    const viaOption = await run([...args, '--engine', 'duckdb', '--format', 'json']);
+    expect(viaOption.status, viaOption.stderr).toBe(0);
+    expect(viaOption.stderr.trim().split('\n')).toHaveLength(1);
+    expect(viaOption.stderr).toMatch(/a survey design is counted by the built-in reader/);
+    const report = JSON.parse(viaOption.stdout);
+    expect(report.input.engine).toBe('builtin');
+    expect(report.tests).toEqual(builtin.tests);
+  });
+
+  it('a Parquet file with a design is refused in one line (exit 2), before anything is read', async () => {
+    const parquet = tempFile('design.parquet', 'PAR1 not really parquet');
+    const result = await run(['pair', parquet, '--rows', 'a', '--cols', 'b', '--weight', 'w', '--strata', 's']);
+    expect(result.status).toBe(2);
+    expect(result.stderr).toMatch(/a survey design .* is counted by the built-in reader, which reads one CSV file .*not Parquet files or patterns/);
+  });
+});

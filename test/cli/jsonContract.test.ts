@@ -71,7 +71,7 @@ function isDocumented(path: string, section: string, depth = 0): boolean {
   const steps = path.split('.');
   for (let cut = steps.length; cut >= 1; cut--) {
     const head = steps.slice(0, cut).join('.');
-    const bare = head.replace(/\[\]$/, '');
+    const bare = head.replace(/(\[\])+$/, ''); // a matrix of objects: row[][]
     for (const row of rows) {
       if (!row.paths.includes(head) && !row.paths.includes(bare)) continue;
       const below = steps.slice(cut).map((s) => s.replace(/\[\]$/, ''));
@@ -110,6 +110,14 @@ describe('docs/json.md documents every field the JSON output has, by its whole p
     const api = join(ROOT, 'fixtures', 'reference', 'banner-api.csv');
     const book = tempFile('contract-book.json', JSON.stringify({ codebook: 1, columns: [{ name: 'programmes', question: 'Programmes', values: [{ code: 'awards', label: 'awards' }], nets: [{ name: 'any', codes: ['awards'] }] }] }));
     expectDocumented(await runJson(['banner', api, '--break', 'stype,size_band', '--questions', 'sch_wide', '--means', 'api00', '--multi-split', 'programmes:;', '--weight', 'pupil_weight', '--codebook', book, '--mark-levels', '95,90']), 'banner');
+  });
+
+  it('with a survey design: pair, scan (--full) and compare (NHANES extract of the survey package for R, its strata and PSUs)', async () => {
+    const nhanes = join(ROOT, 'fixtures', 'reference', 'survey-data', 'nhanes.csv');
+    const design = ['--weight', 'WTMEC2YR', '--strata', 'SDMVSTRA', '--cluster', 'SDMVPSU'];
+    expectDocumented(await runJson(['pair', nhanes, '--rows', 'agecat', '--cols', 'race', ...design]), 'pair');
+    expectDocumented(await runJson(['scan', nhanes, '--columns', 'agecat,race,HI_CHOL', '--full', ...design]), 'scan');
+    expectDocumented(await runJson(['compare', nhanes, '--period', 'RIAGENDR', '--rows', 'agecat', '--cols', 'race', ...design]), 'compare');
   });
 
   it('scan (with a layer and --full) and compare', async () => {
