@@ -86,6 +86,15 @@ export function expectClose(actual: number | null | undefined, expected: number,
   }
 }
 
+/** expectClose with a label, so that a failure says which quantity differs. */
+export function expectCloseLabelled(label: string, actual: number | null | undefined, expected: number, tolerance: number): void {
+  try {
+    expectClose(actual, expected, tolerance);
+  } catch (error) {
+    throw new Error(`${label}: ${(error as Error).message}`);
+  }
+}
+
 export function expectMatrixClose(actual: readonly (readonly (number | null)[])[], expected: readonly (readonly number[])[], tolerance = 1e-10): void {
   expect(actual.length).toBe(expected.length);
   actual.forEach((row, i) => row.forEach((v, j) => expectClose(v, expected[i][j], tolerance)));

@@ -7,7 +7,7 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { expectClose, readReferenceFixture, ROOT } from '../helpers.js';
+import { expectClose, expectCloseLabelled as close, readReferenceFixture, ROOT } from '../helpers.js';
 import { survey, type DesignSpec, type ProportionReference, type TableReference } from '../stats/surveyFixtures.js';
 import { run, runJson, tempFile } from './cliHelpers.js';
 
@@ -27,15 +27,6 @@ function designArgs(design: DesignSpec): string[] {
 
 function tableArgs(file: string, table: { rowVariable: string; colVariable: string; rowLevels: string[]; colLevels: string[] }): string[] {
   return ['pair', data(file), '--rows', table.rowVariable, '--cols', table.colVariable, '--row-order', table.rowLevels.join(','), '--col-order', table.colLevels.join(',')];
-}
-
-/** expectClose with a label, so that a failure says which quantity differs. */
-function close(label: string, actual: number | null | undefined, expected: number, tolerance: number): void {
-  try {
-    expectClose(actual, expected, tolerance);
-  } catch (error) {
-    throw new Error(`${label}: ${(error as Error).message}`);
-  }
 }
 
 /** The design-based fields of a pair report against a recorded table. */

@@ -1,21 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { denseCovariance, type DesignEstimate } from '../../src/stats/designCovariance.js';
 import { designTests } from '../../src/stats/raoScott.js';
-import { expectClose } from '../helpers.js';
+import { expectClose, expectCloseLabelled as close } from '../helpers.js';
 import { replicateEstimate, survey, taylorEstimate, type TableReference } from './surveyFixtures.js';
 
 // Reference library: the survey package for R (Debian r-cran-survey 4.1-1-1), recorded by
 // scripts/record_survey_reference.R; differences of convention are handled as that script describes.
 const LIBRARY = 'survey for R (r-cran-survey 4.1-1-1)';
-
-/** expectClose with a label, so that a failure says which quantity differs. */
-function close(label: string, actual: number | null | undefined, expected: number, tolerance: number): void {
-  try {
-    expectClose(actual, expected, tolerance);
-  } catch (error) {
-    throw new Error(`${label}: ${(error as Error).message}`);
-  }
-}
 
 function compareWithLibrary(estimate: DesignEstimate, ref: TableReference): void {
   const r = ref.rowLevels.length;
