@@ -1,33 +1,53 @@
 #!/usr/bin/env node
-// npm run bench: tabsight against the route a data team would write instead
-// (pandas reading the CSV + scipy's chi2_contingency, bench/reference_route.py),
-// measured in the same run as whole-process wall time, median of several runs,
-// reported as ratios. Generates its seeded files in bench/data/ (not in git).
-// Options: --runs N (default 5), --quick (3 runs, no 10x memory file),
-// --only banner (the banner scenario alone).
+// npm run bench: tabsight against the routes a data team would write instead
+// and against the floor of its own language, measured in the same run as
+// whole-process wall time (start-up included), the routes alternating run by
+// run, reported as the median of the per-run ratios, with the machine's
+// number of cores beside each figure. Generates its seeded files in
+// bench/data/ (not in git).
+//
+// Routes: pandas (Debian's python3-pandas and scipy, bench/reference_route.py),
+// polars (the python3 on the PATH, with polars from the registry, and scipy;
+// bench/polars_route.py), the embedded engine (--engine duckdb), and the
+// floor: a plain Node.js byte loop that reads the file and finds its line
+// ends (bench/floor.mjs).
+//
+// Options: --runs N (default 5), --quick (3 runs; no 10-million-row files).
 import { spawnSync } from 'node:child_process';
-import { existsSync, readFileSync, statSync, writeFileSync } from 'node:fs';
-import { cpus } from 'node:os';
+import { existsSync, statSync, writeFileSync, readFileSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { bannerFile, DATA, pairFile, scanFile, surveyFile } from './generate.mjs';
+import { DATA, pairFile, scanFile, surveyFile } from './generate.mjs';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const root = join(here, '..');
 const bin = join(root, 'bin', 'tabsight.js');
 const args = process.argv.slice(2);
 const quick = args.includes('--quick');
-const only = args.includes('--only') ? args[args.indexOf('--only') + 1] : null;
 const runs = Number(args[args.indexOf('--runs') + 1]) || (quick ? 3 : 5);
-const python = '/usr/bin/python3';
+const debianPython = '/usr/bin/python3';
+const cores = availableParallelism();
+const node = process.execPath;
+const POLARS_VERSION = '1.44.2';
 
-function ensureReference() {
-  const check = () => spawnSync(python, ['-c', 'import pandas, scipy, statsmodels'], { stdio: 'ignore' }).status === 0;
+function ensurePandas() {
+  const check = () => spawnSync(debianPython, ['-c', 'import pandas, scipy'], { stdio: 'ignore' }).status === 0;
   if (check()) return;
-  console.log('installing the reference route: apt-get install python3-pandas python3-scipy python3-statsmodels');
+  console.log('installing the pandas route: apt-get install python3-pandas python3-scipy');
   spawnSync('apt-get', ['update', '-qq'], { stdio: 'inherit' });
-  spawnSync('apt-get', ['install', '-y', '-qq', 'python3-pandas', 'python3-scipy', 'python3-statsmodels'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
-  if (!check()) throw new Error('the reference route (Debian python3-pandas, python3-scipy, python3-statsmodels) could not be installed');
+  spawnSync('apt-get', ['install', '-y', '-qq', 'python3-pandas', 'python3-scipy'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+  if (!check()) throw new Error('the pandas route (Debian python3-pandas, python3-scipy) could not be installed');
+}
+
+/** The python3 on the PATH with polars and scipy (polars installed from the registry when missing), or null. */
+function polarsPython() {
+  const check = () => spawnSync('python3', ['-c', 'import polars, scipy, numpy'], { stdio: 'ignore' }).status === 0;
+  if (!check()) {
+    console.log(`installing the polars route: python3 -m pip install polars==${POLARS_VERSION}`);
+    spawnSync('python3', ['-m', 'pip', 'install', '-q', `polars==${POLARS_VERSION}`, 'scipy', 'numpy'], { stdio: 'inherit' });
+  }
+  return check() ? 'python3' : null;
 }
 
 const hasTime = existsSync('/usr/bin/time');
@@ -48,117 +68,148 @@ function median(values) {
   return sorted[Math.floor(sorted.length / 2)];
 }
 
-/** Alternates the two routes run by run so that drift on the machine hits both alike. */
-function compare(name, ours, theirs, goal) {
+/** Alternates two routes run by run (A B A B …) so that drift on the machine hits both alike; the ratio is the median of the per-run ratios. */
+function versus(ours, theirs, n = runs) {
   const a = [];
   const b = [];
-  for (let k = 0; k < runs; k++) {
+  for (let k = 0; k < n; k++) {
     a.push(once(...ours));
     b.push(once(...theirs));
   }
-  const mine = median(a.map((r) => r.seconds));
-  const reference = median(b.map((r) => r.seconds));
-  const ratio = mine / reference;
-  return { name, mine, reference, ratio, goal, met: ratio <= goal, peak: median(a.map((r) => r.peak ?? 0)) };
+  return {
+    mine: median(a.map((r) => r.seconds)),
+    reference: median(b.map((r) => r.seconds)),
+    ratio: median(a.map((r, k) => r.seconds / b[k].seconds)),
+    peak: median(a.map((r) => r.peak ?? 0)),
+  };
 }
 
-async function benchBanner() {
-  // The banner: 100,000 respondents × 60 questions × 5 break variables (25
-  // break columns), weighted, as text and as a spreadsheet, against the
-  // dataframe route (bench/banner_reference.py: pandas crosstabs normalised per
-  // column, chi2_contingency, statsmodels' z-test per pair of columns in a loop).
-  const banner = await bannerFile();
-  const bannerBreaks = 'age_band,region,membership,income_band,household';
-  const bannerArgs = (extra) => [bin, 'banner', banner, '--break', bannerBreaks, '--weight', 'weight', ...extra];
-  const bannerReference = [python, [join(here, 'banner_reference.py'), banner, bannerBreaks, 'weight', join(DATA, 'banner-reference-out.csv')]];
-  const bannerText = compare('banner text, 100k x 60 q x 25 cols', [process.execPath, bannerArgs(['--output', join(DATA, 'banner-out.txt')])], bannerReference, 0.1);
-  const bannerXlsx = compare('banner xlsx, 100k x 60 q x 25 cols', [process.execPath, bannerArgs(['--output', join(DATA, 'banner-out.xlsx')])], bannerReference, 0.1);
-  for (const r of [bannerText, bannerXlsx]) {
-    console.log(`${r.name.padEnd(36)} ${r.mine.toFixed(2).padStart(8)} s ${r.reference.toFixed(2).padStart(9)} s ${r.ratio.toFixed(3).padStart(7)}   ≤ ${r.goal} ${r.met ? 'met' : 'NOT MET'}`);
+const lines = [];
+function report(line = '') {
+  console.log(line);
+  lines.push(line);
+}
+function verdict(met) {
+  return met ? 'met' : 'NOT MET';
+}
+const s = (x) => `${x.toFixed(2)} s`;
+const tabsight = (...rest) => [node, [bin, ...rest]];
+
+ensurePandas();
+const polars = polarsPython();
+report(`npm run bench on ${cores} cores (${new Date().toISOString().slice(0, 10)}); whole-process wall time, median of ${runs} alternating runs; ratio = tabsight / other route (below 1: tabsight faster)`);
+
+// --- pair -----------------------------------------------------------------
+const pair1m = await pairFile();
+const pairArgs = (file, ...extra) => tabsight('pair', file, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', 'builtin', ...extra);
+report('\npair region x segment');
+report('scenario                                           tabsight   other     ratio   goal');
+const row = (name, r, goal, met) => report(`${name.padEnd(50)} ${s(r.mine).padStart(8)} ${s(r.reference).padStart(8)} ${r.ratio.toFixed(3).padStart(7)}   ${goal}${met === undefined ? '' : ` ${verdict(met)}`}`);
+const mb1m = statSync(pair1m).size / 1e6;
+const p1 = versus(pairArgs(pair1m), [debianPython, [join(here, 'reference_route.py'), 'pair', pair1m, 'region', 'segment']]);
+row(`1M rows (${mb1m.toFixed(0)} MB) vs pandas`, p1, '<= 0.5', p1.ratio <= 0.5);
+if (polars) {
+  const p1p = versus(pairArgs(pair1m), [polars, [join(here, 'polars_route.py'), 'pair', pair1m, 'region', 'segment']]);
+  row(`1M rows vs polars`, p1p, '<= 0.333', p1p.ratio <= 1 / 3);
+}
+const p1t = versus(pairArgs(pair1m, '--threads', String(Math.max(2, cores))), pairArgs(pair1m, '--threads', '1'));
+row(`1M rows, ${Math.max(2, cores)} threads vs 1 thread`, p1t, 'auto uses 1 below 96 MB');
+report(`  1M rows, one thread: ${(mb1m / p1.mine).toFixed(0)} MB/s whole process`);
+
+if (!quick) {
+  const pair10m = await pairFile(10_000_000, 'pair-10m.csv');
+  const mb = statSync(pair10m).size / 1e6;
+  const floorRun = [node, [join(here, 'floor.mjs'), pair10m]];
+  const single = versus(pairArgs(pair10m, '--threads', '1'), floorRun);
+  const auto = versus(pairArgs(pair10m), floorRun);
+  row(`10M rows (${mb.toFixed(0)} MB), 1 thread vs the floor`, single, '');
+  row(`10M rows, auto (${cores} threads) vs the floor`, auto, '<= 1.5', auto.ratio <= 1.5);
+  report(`  10M rows, 1 thread: ${(mb / single.mine).toFixed(0)} MB/s whole process (goal >= 230 MB/s per core) ${verdict(mb / single.mine >= 230)}`);
+  report(`  10M rows, auto on ${cores} cores: ${(mb / auto.mine).toFixed(0)} MB/s whole process (goal about 350 MB/s with two) ${verdict(mb / auto.mine >= 350 * Math.min(cores, 2) / 2)}`);
+  if (polars) {
+    const p10p = versus(pairArgs(pair10m), [polars, [join(here, 'polars_route.py'), 'pair', pair10m, 'region', 'segment']]);
+    row(`10M rows, auto vs polars`, p10p, '<= 0.333', p10p.ratio <= 1 / 3);
   }
   if (hasTime) {
-    // Memory: the columns used are 66 (60 questions, 5 breaks, the weight) × 100,000 rows; the
-    // baseline is the same command on the first 1,000 rows (the program, its libraries, the report).
-    const tiny = join(DATA, 'banner-1k.csv');
-    if (!existsSync(tiny)) writeFileSync(tiny, readFileSync(banner, 'utf8').split('\n').slice(0, 1001).join('\n') + '\n');
-    const base = median(Array.from({ length: 3 }, () => once(process.execPath, [bin, 'banner', tiny, '--break', bannerBreaks, '--weight', 'weight', '--output', join(DATA, 'banner-1k.txt')]).peak));
-    const cells = 66 * 100_000;
-    console.log(`banner peak memory: ${bannerText.peak.toFixed(0)} MB (baseline on 1,000 rows ${base.toFixed(0)} MB): ${(((bannerText.peak - base) * 1024 * 1024) / cells).toFixed(1)} bytes per cell of the ${cells.toLocaleString('en-US')} cells used (goal about 2); ${cpus().length} cores`);
+    const small = median(Array.from({ length: 3 }, () => once(...pairArgs(pair1m, '--threads', '1')).peak));
+    const big = median(Array.from({ length: 3 }, () => once(...pairArgs(pair10m, '--threads', '1')).peak));
+    report(`  peak memory of pair: ${small.toFixed(0)} MB on 1M rows, ${big.toFixed(0)} MB on 10M rows, ratio ${(big / small).toFixed(2)} (goal <= 1.5) ${verdict(big / small <= 1.5)}`);
   }
 }
 
-ensureReference();
-if (only === 'banner') {
-  await benchBanner();
-  process.exit(0);
+// --- scan -----------------------------------------------------------------
+const scanArgs = (file, ...extra) => tabsight('scan', file, '--format', 'csv', '--engine', 'builtin', ...extra);
+const scan200 = await scanFile();
+report('\nscan (every pair of columns)');
+report('scenario                                           tabsight   other     ratio   goal');
+const sc = versus(scanArgs(scan200), [debianPython, [join(here, 'reference_route.py'), 'scan', scan200]]);
+row('200k x 30 (435 pairs) vs pandas', sc, '<= 0.1', sc.ratio <= 0.1);
+if (polars) {
+  const scp = versus(scanArgs(scan200), [polars, [join(here, 'polars_route.py'), 'scan', scan200]]);
+  row('200k x 30 vs polars', scp, '<= 0.167', scp.ratio <= 1 / 6);
 }
-const scan = await scanFile();
-const pair = await pairFile();
-const results = [];
-results.push(compare('scan, 200,000 rows x 30 columns', [process.execPath, [bin, 'scan', scan, '--format', 'csv', '--engine', 'builtin']], [python, [join(here, 'reference_route.py'), 'scan', scan]], 0.1));
-results.push(compare('pair, 1,000,000 rows x 8 columns', [process.execPath, [bin, 'pair', pair, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', 'builtin']], [python, [join(here, 'reference_route.py'), 'pair', pair, 'region', 'segment']], 0.5));
-
-console.log(`\nwhole-process wall time, median of ${runs} runs, same machine, same run\n`);
-console.log('scenario                              tabsight   reference   ratio   goal');
-for (const r of results) {
-  console.log(`${r.name.padEnd(36)} ${r.mine.toFixed(2).padStart(8)} s ${r.reference.toFixed(2).padStart(9)} s ${r.ratio.toFixed(3).padStart(7)}   ≤ ${r.goal} ${r.met ? 'met' : 'NOT MET'}`);
+// Linear in rows x pairs: seconds per million (row x pair) on each shape.
+const shapes = [
+  ['200k x 30', scan200, 200_000, 435],
+  ['1M x 30', await scanFile(1_000_000, 30, 'scan-1m.csv'), 1_000_000, 435],
+  ['200k x 100', await scanFile(200_000, 100, 'scan-200k-100.csv'), 200_000, 4950],
+];
+report('  time per million (row x pair), built-in reader, median of 3:');
+const perUnit = [];
+for (const [name, file, rows, pairs] of shapes) {
+  const t = median(Array.from({ length: 3 }, () => once(...scanArgs(file)).seconds));
+  perUnit.push((t / (rows * pairs)) * 1e6);
+  report(`  ${name.padEnd(12)} ${s(t).padStart(9)}  ${((t / (rows * pairs)) * 1e6).toFixed(4)} s per million row-pairs`);
 }
-// Exact and simulated p-values in scan: the sparse pairs of a survey-sized
-// file with --exact auto (exact within the work bound, else simulated with
-// sequential stopping) against --exact never (chi-square only), same run.
-const survey = await surveyFile();
-const exactBudget = compare('scan --exact auto vs never, 4,642 x 28', [process.execPath, [bin, 'scan', survey, '--format', 'csv', '--engine', 'builtin']], [process.execPath, [bin, 'scan', survey, '--format', 'csv', '--engine', 'builtin', '--exact', 'never']], 3);
-console.log(`\nscan exact budget: --exact auto ${exactBudget.mine.toFixed(2)} s, --exact never ${exactBudget.reference.toFixed(2)} s, ratio ${exactBudget.ratio.toFixed(2)} (goal ≤ 3) ${exactBudget.met ? 'met' : 'NOT MET'}`);
-
-await benchBanner();
-
-const pairResult = results[1];
-const megabytes = statSync(pair).size / 1e6;
-console.log(`\npair throughput: ${(megabytes / pairResult.mine).toFixed(0)} MB/s, ${(1e6 / pairResult.mine / 1e6).toFixed(2)} million rows/s (whole process, ${megabytes.toFixed(0)} MB file)`);
-
+report(`  spread of the time per row-pair across the shapes: ${(Math.max(...perUnit) / Math.min(...perUnit)).toFixed(2)}x (linear: near 1; start-up weighs on the smallest)`);
 if (!quick && hasTime) {
-  const large = await pairFile(10_000_000, 'pair-10m.csv');
-  const small = median(Array.from({ length: 3 }, () => once(process.execPath, [bin, 'pair', pair, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', 'builtin']).peak));
-  const big = median(Array.from({ length: 3 }, () => once(process.execPath, [bin, 'pair', large, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', 'builtin']).peak));
-  console.log(`peak memory of pair (built-in reader): ${small.toFixed(0)} MB on 1M rows, ${big.toFixed(0)} MB on 10M rows: ratio ${(big / small).toFixed(2)} (goal ≤ 1.5)`);
+  const big = await scanFile(10_000_000, 30, 'scan-10m.csv');
+  const run = once(...scanArgs(big, '--exact', 'never'));
+  const cells = 10_000_000 * 30;
+  report(`  10M x 30: ${s(run.seconds)}, peak memory ${run.peak.toFixed(0)} MB = ${((run.peak * 1024 * 1024) / cells).toFixed(2)} bytes per cell (goal <= 2.5) ${verdict((run.peak * 1024 * 1024) / cells <= 2.5)}`);
 }
 
-// The embedded engine (--engine duckdb) against the built-in reader and the
-// dataframe route, in the same run, on CSV and on the same rows as Parquet.
-// Debian has no Parquet reader for pandas (no pyarrow), so on Parquet the
-// dataframe route is the CSV one.
-const engineLoads = spawnSync(process.execPath, ['-e', "import('@duckdb/node-api').then(() => process.exit(0), () => process.exit(1))"], { cwd: root }).status === 0;
-if (!engineLoads) {
-  console.log('\nengine route: @duckdb/node-api is not installed (optional dependency); skipped');
-} else {
-  const sizes = quick ? [[1_000_000, pair]] : [[1_000_000, pair], [10_000_000, await pairFile(10_000_000, 'pair-10m.csv')]];
-  console.log(`\nengine route (pair region x segment), whole-process wall time, median of ${runs} runs\n`);
-  console.log('input                          engine    built-in  dataframe  engine/built-in  engine/dataframe');
-  for (const [rows, csv] of sizes) {
-    const parquet = csv.replace(/\.csv$/, '.parquet');
+// --- exact tests ------------------------------------------------------------
+const survey = await surveyFile();
+const exact = versus(tabsight('scan', survey, '--format', 'csv', '--engine', 'builtin'), tabsight('scan', survey, '--format', 'csv', '--engine', 'builtin', '--exact', 'never'));
+report(`\nscan --exact auto vs --exact never, 4,642 x 28: ${s(exact.mine)} vs ${s(exact.reference)}, ratio ${exact.ratio.toFixed(2)} (goal <= 3) ${verdict(exact.ratio <= 3)}`);
+report(spawnSync(node, [join(here, 'exact2x2.mjs')], { encoding: 'utf8' }).stdout.trim());
+
+// --- small files --------------------------------------------------------------
+const tiny = join(DATA, 'scan-10.csv');
+writeFileSync(tiny, readFileSync(scan200, 'utf8').split('\n').slice(0, 11).join('\n') + '\n');
+const bare = [node, ['-e', '0']];
+report(`\na 10-row file against node -e 0 (start-up), ${cores} cores`);
+const small = [
+  ['pair q01 x q02', tabsight('pair', tiny, '--rows', 'q01', '--cols', 'q02')],
+  ['scan, 5 columns (10 pairs)', tabsight('scan', tiny, '--columns', 'q01,q02,q03,q04,q05')],
+  ['scan, all 30 columns (435 exact tests)', tabsight('scan', tiny)],
+];
+for (const [name, command] of small) {
+  const r = versus(command, bare, Math.max(runs, 7));
+  report(`  ${name.padEnd(40)} ${s(r.mine)} vs ${s(r.reference)}: ${r.ratio.toFixed(2)}x (goal <= 1.5) ${verdict(r.ratio <= 1.5)}`);
+}
+
+// --- the engine ---------------------------------------------------------------
+const engineLoads = spawnSync(node, ['-e', "import('@duckdb/node-api').then(() => process.exit(0), () => process.exit(1))"], { cwd: root }).status === 0;
+if (!engineLoads) report('\nengine route: @duckdb/node-api is not installed (optional dependency); skipped');
+else {
+  report(`\nthe engine (--engine duckdb) against the built-in reader on CSV (which --engine auto takes), ${cores} cores`);
+  const files = quick ? [[pair1m, '1M']] : [[pair1m, '1M'], [await pairFile(10_000_000, 'pair-10m.csv'), '10M']];
+  for (const [file, label] of files) {
+    const r = versus(tabsight('pair', file, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', 'duckdb'), pairArgs(file));
+    report(`  pair ${label} rows: engine ${s(r.mine)}, built-in ${s(r.reference)}, engine / built-in ${r.ratio.toFixed(2)} (auto keeps the built-in reader: ${verdict(r.ratio >= 1)})`);
+    const parquet = file.replace(/\.csv$/, '.parquet');
     if (!existsSync(parquet)) {
-      const made = spawnSync(process.execPath, [join(here, 'to-parquet.mjs'), csv, parquet], { cwd: root, encoding: 'utf8' });
+      const made = spawnSync(node, [join(here, 'to-parquet.mjs'), file, parquet], { cwd: root, encoding: 'utf8' });
       if (made.status !== 0) throw new Error(`to-parquet failed: ${made.stderr}`);
     }
-    const pairArgs = (file, engine) => [bin, 'pair', file, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', engine];
-    const times = { engineCsv: [], engineParquet: [], builtin: [], dataframe: [] };
-    const peaks = [];
-    for (let k = 0; k < runs; k++) {
-      const engineRun = once(process.execPath, pairArgs(csv, 'duckdb'));
-      times.engineCsv.push(engineRun.seconds);
-      peaks.push(engineRun.peak ?? 0);
-      times.engineParquet.push(once(process.execPath, pairArgs(parquet, 'duckdb')).seconds);
-      times.builtin.push(once(process.execPath, pairArgs(csv, 'builtin')).seconds);
-      times.dataframe.push(once(python, [join(here, 'reference_route.py'), 'pair', csv, 'region', 'segment']).seconds);
-    }
-    const m = Object.fromEntries(Object.entries(times).map(([k, v]) => [k, median(v)]));
-    const label = `${(rows / 1e6).toFixed(0)}M rows`;
-    for (const [name, t] of [[`${label}, CSV (${(statSync(csv).size / 1e6).toFixed(0)} MB)`, m.engineCsv], [`${label}, Parquet (${(statSync(parquet).size / 1e6).toFixed(0)} MB)`, m.engineParquet]]) {
-      console.log(`${name.padEnd(30)} ${t.toFixed(2).padStart(6)} s ${m.builtin.toFixed(2).padStart(8)} s ${m.dataframe.toFixed(2).padStart(8)} s ${(t / m.builtin).toFixed(3).padStart(15)} ${(t / m.dataframe).toFixed(3).padStart(17)}`);
-    }
-    if (hasTime) console.log(`${''.padEnd(30)} engine peak memory on the CSV: ${median(peaks).toFixed(0)} MB`);
+    const pq = versus(tabsight('pair', parquet, '--rows', 'region', '--cols', 'segment', '--format', 'json'), pairArgs(file));
+    report(`  pair ${label} rows, Parquet through the engine (auto) vs the CSV through the built-in reader: ${pq.ratio.toFixed(2)}`);
   }
+  const se = versus(tabsight('scan', scan200, '--format', 'csv', '--engine', 'duckdb'), scanArgs(scan200), 3);
+  report(`  scan 200k x 30: engine ${s(se.mine)} (peak ${se.peak.toFixed(0)} MB), built-in ${s(se.reference)}, engine / built-in ${se.ratio.toFixed(2)} (auto keeps the built-in reader: ${verdict(se.ratio >= 1)})`);
 }
 
-const accuracy = spawnSync(process.execPath, [join(here, 'jstat-accuracy.mjs')], { encoding: 'utf8' });
-process.stdout.write('\n' + accuracy.stdout);
+const accuracy = spawnSync(node, [join(here, 'jstat-accuracy.mjs')], { encoding: 'utf8' });
+report('\n' + accuracy.stdout.trim());

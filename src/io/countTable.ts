@@ -27,6 +27,7 @@ import { detectMissingTokens, missingTokenNotes } from './missingTokens.js';
 import { checkReplicateCount, DesignRowRule, resolveReplicateColumns } from './designRows.js';
 import { Codebook, codebookColumn } from '../table/codebook.js';
 import { levelOrder, LevelRules } from '../table/levelRules.js';
+import { EngineFallback } from './engine/query.js';
 import { IdTally } from './idTally.js';
 import { tallyInParallel, threadsFor } from './parallelCount.js';
 import { CutSpec, equalFrequencyBinsFromCounts } from '../table/bins.js';
@@ -434,7 +435,7 @@ async function countGroups(engine: Engine, input: EngineInput, source: InputSour
   const ids = new Int32Array(slots.names.length);
   const weight = request.weight;
   // The engine's modules are loaded only on its route.
-  const [{ engineGroups }, { EngineFallback }] = await Promise.all([import('./engine/groups.js'), import('./engine/query.js')]);
+  const { engineGroups } = await import('./engine/groups.js');
   return engineGroups(
     engine,
     input,

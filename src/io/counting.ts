@@ -17,6 +17,7 @@ import { countTableWith, ExcludedBy, TableRequest } from './countTable.js';
 import { encodeWithReader } from './encodeColumns.js';
 import { engineInput, EngineInput, isParquetPath, isPattern } from './engine/files.js';
 import type { Engine } from './engine/module.js';
+import { EngineFallback } from './engine/query.js';
 import type { EngineName, ReaderOptions, ReadSummary } from './readRecords.js';
 import { InputSource, isStreamPath } from './source.js';
 
@@ -94,7 +95,7 @@ export async function chooseRoute(reader: ReaderOptions, source: InputSource): P
 async function onRoute<T>(source: InputSource, reader: ReaderOptions, route: EngineName, work: (engine: { engine: Engine; input: EngineInput } | null) => Promise<T>): Promise<T> {
   if (route === 'builtin') return work(null);
   // The engine's modules are loaded only on its route.
-  const [{ openEngine }, { EngineFallback }] = await Promise.all([import('./engine/module.js'), import('./engine/query.js')]);
+  const { openEngine } = await import('./engine/module.js');
   const open = () => openEngine(reader.engineModule);
   const input = await engineInput(source, open);
   reader.checkInputs?.(input.files);

@@ -8,6 +8,7 @@
  * identifier column cannot exhaust memory.
  */
 export const MISSING_ID = 0;
+const CACHE_MASK = 255;
 export const OVERFLOW_ID = -1;
 
 export class FieldInterner {
@@ -22,6 +23,8 @@ export class FieldInterner {
   private slotHash = new Int32Array(1 << 10);
   private slotCount = 0;
   private mask = (1 << 10) - 1;
+  /** The table slot last found for each cache key (−1: none). */
+  private readonly cacheSlot = new Int32Array(CACHE_MASK + 1).fill(-1);
   /** Distinct labels refused past the limit (a lower bound on how many more there are). */
   overflowed = 0;
 
@@ -59,9 +62,25 @@ export class FieldInterner {
     while (start < end && (buf[start] === 0x20 || buf[start] === 0x09)) start++;
     while (end > start && (buf[end - 1] === 0x20 || buf[end - 1] === 0x09)) end--;
     if (start === end) return MISSING_ID;
+    const length = end - start;
+    // A small cache keyed by length and the first and last bytes: a column of
+    // few levels finds its value here with one comparison, without hashing.
+    const probe = (length * 0x9e5 + buf[start] * 0x3b + buf[end - 1]) & CACHE_MASK;
+    const cached = this.cacheSlot[probe];
+    if (cached >= 0 && this.slotLength[cached] === length) {
+      const at = this.slotStart[cached];
+      const keys = this.keys;
+      let same = true;
+      for (let i = 0; i < length; i++) {
+        if (keys[at + i] !== buf[start + i]) {
+          same = false;
+          break;
+        }
+      }
+      if (same) return this.slotId[cached];
+    }
     let hash = 0x811c9dc5;
     for (let i = start; i < end; i++) hash = Math.imul(hash ^ buf[i], 0x01000193);
-    const length = end - start;
     let slot = hash & this.mask;
     for (;;) {
       const id = this.slotId[slot];
@@ -75,7 +94,10 @@ export class FieldInterner {
             break;
           }
         }
-        if (same) return id;
+        if (same) {
+          this.cacheSlot[probe] = slot;
+          return id;
+        }
       }
       slot = (slot + 1) & this.mask;
     }
@@ -102,6 +124,7 @@ export class FieldInterner {
   }
 
   private rehash(): void {
+    this.cacheSlot.fill(-1); // table slots move
     const size = (this.mask + 1) * 2;
     const start = this.slotStart;
     const length = this.slotLength;

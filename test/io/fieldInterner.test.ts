@@ -46,4 +46,15 @@ describe('field interner', () => {
     expect(intern(interner, 'a')).toBe(1);
     expect(interner.overflowed).toBe(1);
   });
+
+  it('keeps apart values that share their length, first and last byte (the look-up cache), before and after the table grows (common practice: a cache is checked byte for byte)', () => {
+    const interner = new FieldInterner(new Set(), 100_000);
+    const values = ['axc', 'abc', 'a€c', 'ayc', 'abc'];
+    const first = values.map((v) => intern(interner, v));
+    expect(first).toEqual([1, 2, 3, 4, 2]);
+    // Thousands of values make the table grow (its slots move); the early ones keep their ids.
+    for (let k = 0; k < 5000; k++) intern(interner, `a${k}c`);
+    expect(values.map((v) => intern(interner, v))).toEqual(first);
+    expect(intern(interner, 'a4999c')).toBe(5004);
+  });
 });
