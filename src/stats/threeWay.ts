@@ -111,23 +111,29 @@ export function noThreeWayInteraction(
   const fitJK = new Float64Array(c * K);
   let iterations = 0;
   let converged = false;
+  // The sweep in flat index arithmetic (cell x = (k·r + i)·c + j), in the same order of additions as the margins' definitions.
   while (iterations < maxIterations) {
     iterations++;
     previous.set(m);
     // scale to n_ij+
     fitIJ.fill(0);
-    for (let k = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++) fitIJ[i * c + j] += m[at(k, i, j)];
-    for (let k = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++) m[at(k, i, j)] = scaled(m[at(k, i, j)], observedIJ[i * c + j], fitIJ[i * c + j]);
+    for (let k = 0, x = 0; k < K; k++) for (let ij = 0; ij < r * c; ij++, x++) fitIJ[ij] += m[x];
+    for (let k = 0, x = 0; k < K; k++) for (let ij = 0; ij < r * c; ij++, x++) m[x] = scaled(m[x], observedIJ[ij], fitIJ[ij]);
     // scale to n_i+k
     fitIK.fill(0);
-    for (let k = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++) fitIK[i * K + k] += m[at(k, i, j)];
-    for (let k = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++) m[at(k, i, j)] = scaled(m[at(k, i, j)], observedIK[i * K + k], fitIK[i * K + k]);
+    for (let k = 0, x = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++, x++) fitIK[i * K + k] += m[x];
+    for (let k = 0, x = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++, x++) m[x] = scaled(m[x], observedIK[i * K + k], fitIK[i * K + k]);
     // scale to n_+jk
     fitJK.fill(0);
-    for (let k = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++) fitJK[j * K + k] += m[at(k, i, j)];
-    for (let k = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++) m[at(k, i, j)] = scaled(m[at(k, i, j)], observedJK[j * K + k], fitJK[j * K + k]);
+    for (let k = 0, x = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++, x++) fitJK[j * K + k] += m[x];
+    for (let k = 0, x = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++, x++) m[x] = scaled(m[x], observedJK[j * K + k], fitJK[j * K + k]);
     let change = 0;
-    for (let x = 0; x < cells; x++) change = Math.max(change, Math.abs(m[x] - previous[x]) / Math.max(1, Math.abs(m[x])));
+    for (let x = 0; x < cells; x++) {
+      const size = Math.abs(m[x]);
+      const moved = Math.abs(m[x] - previous[x]) / (size > 1 ? size : 1);
+      // (a cell that is not a number never settles)
+      if (moved > change || Number.isNaN(moved)) change = Number.isNaN(moved) ? Infinity : moved;
+    }
     if (change < tolerance) {
       converged = true;
       break;
