@@ -19,6 +19,7 @@ import { resolveColumn } from './columns.js';
 import type { CountedInput } from './counting.js';
 import { EngineInput } from './engine/files.js';
 import type { Engine } from './engine/module.js';
+import type { EngineGroup } from './engine/groups.js';
 import { DEFAULT_DISTINCT_LIMIT, readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
 import { FieldInterner, MISSING_ID } from './fieldInterner.js';
 import { ColumnLevels, parseWeightValue, Recode, recodesByColumn, RowGate, weightError, WhereClause } from './rowRules.js';
@@ -427,7 +428,7 @@ async function countRows(
  * and filtered like a row's, and its weight sums (exact, from the engine) or
  * its unusable weight (judged by the reader's rule) are counted.
  */
-async function countGroups(engine: Engine, input: EngineInput, source: InputSource, reader: ReaderOptions, request: TableRequest, slots: Slots, gate: RowGate, counter: LayeredCounter, onLabels: (labels: (readonly string[])[]) => void): Promise<ReadSummary> {
+async function countGroups(engine: EngineRoute, input: EngineInput, source: InputSource, reader: ReaderOptions, request: TableRequest, slots: Slots, gate: RowGate, counter: LayeredCounter, onLabels: (labels: (readonly string[])[]) => void): Promise<ReadSummary> {
   const recodes = recodesByColumn(request.recodes);
   const missing = new Set(reader.missing.map((m) => m.trim()));
   const interners = slots.names.map(() => new FieldInterner(missing, DEFAULT_DISTINCT_LIMIT));
@@ -436,8 +437,16 @@ async function countGroups(engine: Engine, input: EngineInput, source: InputSour
   const weight = request.weight;
   // The engine's modules are loaded only on its route.
   const { engineGroups } = await import('./engine/groups.js');
-  return engineGroups(
-    engine,
+  // Groups the engine already counted for this file (in one pass over several files) are handed on as they are.
+  const groupsOf: typeof engineGroups = engine.replay
+    ? async (_engine, _input, _reader, select, _weight, onGroup) => {
+        select(engine.replay!.summary.header);
+        for (const group of engine.replay!.groups) onGroup(group);
+        return { ...engine.replay!.summary, byFile: null };
+      }
+    : engineGroups;
+  const { byFile: _byFile, ...summary } = await groupsOf(
+    engine.engine,
     input,
     reader,
     (header) => slots.select(header, recodes, source.label, request.codebook),
@@ -475,6 +484,7 @@ async function countGroups(engine: Engine, input: EngineInput, source: InputSour
       counter.add(ids, group.rows, w, wLow, q, qLow);
     },
   );
+  return summary;
 }
 
 /**
@@ -555,7 +565,7 @@ function checkTestable(request: TableRequest, table: TwoWayTable, excluded: numb
  * layer, one table per layer level), from the built-in reader's rows or,
  * with `engine`, from the engine's groups.
  */
-export async function countTableWith(source: InputSource, reader: ReaderOptions, request: TableRequest, engine: { engine: Engine; input: EngineInput } | null): Promise<CountedInput> {
+export async function countTableWith(source: InputSource, reader: ReaderOptions, request: TableRequest, engine: ({ input: EngineInput } & EngineRoute) | null): Promise<CountedInput> {
   checkRequest(request);
   const recodes = recodesByColumn(request.recodes);
   const slots = new Slots(request);
@@ -587,7 +597,7 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
   const summary =
     engine === null
       ? await countRows(source, reader, request, slots, gate, counter, onLabels, ruleOfRows)
-      : await countGroups(engine.engine, engine.input, source, reader, request, slots, gate, counter, onLabels);
+      : await countGroups(engine, engine.input, source, reader, request, slots, gate, counter, onLabels);
   if (summary.records === 0) throw dataError(`${source.label}: the header has no data rows under it`);
   if (request.bins && counter.marginals) {
     [slots.row, slots.col].forEach((slot, side) => {
@@ -609,4 +619,40 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
     declared,
   );
   return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, badDesign: (designRule as DesignRowRule | null)?.skipped ?? 0, excludedBy: counter.excludedBy(), missingTokenNotes: missingTokenNotes(findings), excludedCells: counter.excludedCells ? [...counter.excludedCells].map(([key, rows]) => [JSON.parse(key) as string[], rows]) : [] };
+}
+
+/** The engine, and (one file of several counted in one pass) the groups it counted for that file with what it read of it. */
+export interface EngineRoute {
+  engine: Engine;
+  replay?: { groups: EngineGroup[]; summary: ReadSummary };
+}
+
+/**
+ * Counts the same table in each file of the input in one pass of the
+ * engine, the file of each row being one more key of its groups; each
+ * file's groups then go through countTableWith as that file's own, so that
+ * each file is counted exactly as it would be alone (its summary, rows left
+ * out and notes its own).
+ */
+export async function countFilesWith(engine: Engine, input: EngineInput, reader: ReaderOptions, request: TableRequest): Promise<CountedInput[]> {
+  checkRequest(request);
+  const { engineGroups } = await import('./engine/groups.js');
+  const recodes = recodesByColumn(request.recodes);
+  const slots = new Slots(request);
+  const groups: EngineGroup[][] = input.files.map(() => []);
+  const { byFile, ...summary } = await engineGroups(
+    engine,
+    input,
+    reader,
+    (header) => slots.select(header, recodes, input.label, request.codebook),
+    request.weight ? { slot: slots.weight, kind: request.weight.kind, decimalComma: request.decimalComma } : null,
+    (group) => groups[group.file].push(group),
+    true,
+  );
+  const counted: CountedInput[] = [];
+  for (const [k, file] of input.files.entries()) {
+    const own: ReadSummary = { ...summary, records: byFile![k].records, blankLines: byFile![k].blankLines, files: 1 };
+    counted.push(await countTableWith({ path: file, label: file }, reader, request, { engine, input, replay: { groups: groups[k], summary: own } }));
+  }
+  return counted;
 }

@@ -13,13 +13,13 @@ import type { EncodedColumn } from '../table/encodedColumn.js';
 import type { OrderedColumn } from '../table/orderedColumn.js';
 import type { RowDesign } from '../table/surveyDesign.js';
 import type { ColumnsRequest } from './columns.js';
-import { countTableWith, ExcludedBy, TableRequest } from './countTable.js';
+import { countFilesWith, countTableWith, ExcludedBy, TableRequest } from './countTable.js';
 import { encodeWithReader } from './encodeColumns.js';
 import { engineInput, EngineInput, isParquetPath, isPattern } from './engine/files.js';
 import type { Engine } from './engine/module.js';
 import { EngineFallback } from './engine/query.js';
 import type { EngineName, ReaderOptions, ReadSummary } from './readRecords.js';
-import { InputSource, isStreamPath } from './source.js';
+import { checkFile, InputSource, isStreamPath } from './source.js';
 
 /** A counted table and what counting it read and left out. */
 export interface CountedInput extends CountedTable {
@@ -158,12 +158,53 @@ export async function encodeColumns<T>(source: InputSource, reader: ReaderOption
 }
 
 /**
- * Counts the same table in each of several files (the waves of a series),
- * one pass per file with the built-in reader; each file is counted exactly
- * as `countTable` counts it alone.
+ * Who counts the files of a series under --engine: auto takes the engine
+ * (one pass over every file) only where it alone reads them (Parquet), as
+ * for one file; standard input and streams always go to the built-in reader.
+ */
+export async function chooseFilesRoute(reader: ReaderOptions, sources: readonly InputSource[]): Promise<EngineName> {
+  const choice = reader.engine ?? 'builtin';
+  if (choice !== 'auto') return choice;
+  for (const source of sources) if (source.path === '-' || (await isStreamPath(source.path))) return 'builtin';
+  return sources.some((s) => isParquetPath(s.path)) ? 'duckdb' : 'builtin';
+}
+
+/**
+ * Counts the same table in each of several files (the waves of a series):
+ * with the built-in reader one pass per file, with the engine one pass over
+ * all of them, grouped by file. Either way each file is counted exactly as
+ * `countTable` counts it alone. Where the engine cannot read the files the
+ * tool's way (a file it would read differently, files with different
+ * headers), the built-in reader counts them one by one and a note says so.
  */
 export async function countFiles(sources: readonly InputSource[], reader: ReaderOptions, request: TableRequest): Promise<CountedInput[]> {
-  const counted: CountedInput[] = [];
-  for (const source of sources) counted.push(await countTable(source, reader, request));
-  return counted;
+  const oneByOne = async (by: ReaderOptions) => {
+    const counted: CountedInput[] = [];
+    for (const source of sources) counted.push(await countTable(source, by, request));
+    return counted;
+  };
+  // Cells counted elsewhere are small files, and a survey design is counted row by row: both by the built-in reader, file by file (countTable routes each).
+  const route = request.summedWeights || request.design ? 'builtin' : await chooseFilesRoute(reader, sources);
+  if (route === 'builtin') return oneByOne(reader);
+  for (const source of sources) {
+    if (source.path === '-') throw usageError('--engine duckdb reads files, not standard input; give the waves as files, or use --engine builtin');
+    const stats = await checkFile(source);
+    if (!stats.isFile()) throw usageError(`--engine duckdb reads files; ${source.label} is a stream (a pipe, FIFO or device), which the built-in reader reads once: use --engine builtin`);
+  }
+  const parquet = sources.filter((s) => isParquetPath(s.path)).length;
+  if (parquet > 0 && parquet < sources.length) throw usageError('the waves mix Parquet and CSV files; give files of one format');
+  const files = sources.map((s) => s.path);
+  reader.checkInputs?.(files);
+  const input: EngineInput = { label: `${files.length} files`, format: parquet > 0 ? 'parquet' : 'csv', files, glob: false };
+  // The engine's modules are loaded only on its route.
+  const { openEngine } = await import('./engine/module.js');
+  const engine = await openEngine(reader.engineModule);
+  try {
+    return await countFilesWith(engine, input, reader, request);
+  } catch (error) {
+    if (!(error instanceof EngineFallback)) throw error;
+    const result = await oneByOne({ ...reader, engine: 'builtin' });
+    reader.onNote?.(`the engine cannot read these ${files.length} files in one pass the way the built-in reader does (${error.message}); counted one by one with the built-in reader`);
+    return result;
+  }
 }

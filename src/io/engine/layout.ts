@@ -6,7 +6,7 @@
  * reader counts them), a NUL byte anywhere, a character after a closing
  * quote (which the built-in reader refuses).
  */
-import { createReadStream } from 'node:fs';
+import { createReadStream, promises as fs } from 'node:fs';
 import { readRecords, ReaderOptions } from '../readRecords.js';
 import { InputSource, isGzipFile, rawChunks } from '../source.js';
 import { EngineFallback } from './query.js';
@@ -41,6 +41,47 @@ export async function csvLayout(file: string, reader: ReaderOptions): Promise<Cs
   }
   const skip = found.line - 1;
   return { file, header: found.header, skip, whitespaceLinesBeforeHeader: await whitespaceLines(source, skip), delimiter: found.delimiter, gzip: await isGzipFile(file) };
+}
+
+/** Bytes of a file's start read to compare first lines. */
+const FIRST_LINE_LIMIT = 1 << 16;
+
+/**
+ * The first line of a plain file (up to and with its line feed) when it
+ * settles the file's layout alone: no gzip, no quote, a line feed within
+ * the first 64 KiB; otherwise null.
+ */
+export async function plainFirstLine(file: string): Promise<Buffer | null> {
+  const handle = await fs.open(file, 'r');
+  try {
+    const head = Buffer.alloc(FIRST_LINE_LIMIT);
+    const { bytesRead } = await handle.read(head, 0, FIRST_LINE_LIMIT, 0);
+    if (bytesRead >= 2 && head[0] === 0x1f && head[1] === 0x8b) return null;
+    const end = head.subarray(0, bytesRead).indexOf(LF);
+    if (end < 0) return null;
+    const line = head.subarray(0, end + 1);
+    return line.includes(0x22) ? null : Buffer.from(line);
+  } finally {
+    await handle.close();
+  }
+}
+
+/**
+ * The layouts of several files: each sniffed by the built-in reader, but a
+ * file whose first line is byte for byte that of the first file (which had
+ * its header on that line, unquoted, nothing before it) has that file's
+ * layout without being sniffed again (the header line alone gives the
+ * header and the delimiter).
+ */
+export async function csvLayouts(files: readonly string[], reader: ReaderOptions): Promise<CsvFileLayout[]> {
+  const first = await csvLayout(files[0], reader);
+  const firstLine = first.skip === 0 && !first.gzip && files.length > 1 ? await plainFirstLine(first.file) : null;
+  const layouts = [first];
+  for (const file of files.slice(1)) {
+    const line = firstLine === null ? null : await plainFirstLine(file);
+    layouts.push(line !== null && firstLine !== null && line.equals(firstLine) ? { ...first, file } : await csvLayout(file, reader));
+  }
+  return layouts;
 }
 
 /**

@@ -31,8 +31,8 @@ function fileList(files: readonly string[]): string {
 }
 
 /** Parquet files, columns matched by name across files. */
-export function readParquetSql(files: readonly string[]): string {
-  return `read_parquet(${fileList(files)}, union_by_name = true)`;
+export function readParquetSql(files: readonly string[], withFile = false): string {
+  return `read_parquet(${fileList(files)}, union_by_name = true${withFile ? ', filename = true' : ''})`;
 }
 
 /** The CSV dialect of one group of files, as the built-in reader found it. */
@@ -45,9 +45,10 @@ export interface CsvDialect {
 
 /**
  * CSV files read strictly (RFC 4180 quotes, no type guessing): every column
- * as text under the names c0, c1, …
+ * as text under the names c0, c1, … (and, `withFile`, the file each row
+ * came from, as the engine names it, under `filename`).
  */
-export function readCsvSql(files: readonly string[], dialect: CsvDialect, columnCount: number, hasHeader: boolean): string {
+export function readCsvSql(files: readonly string[], dialect: CsvDialect, columnCount: number, hasHeader: boolean, withFile = false): string {
   const columns = `{${Array.from({ length: columnCount }, (_v, k) => `'c${k}': 'VARCHAR'`).join(', ')}}`;
   const options = [
     `header = ${hasHeader}`,
@@ -60,6 +61,7 @@ export function readCsvSql(files: readonly string[], dialect: CsvDialect, column
     `compression = ${dialect.gzip ? "'gzip'" : "'none'"}`,
     `strict_mode = true`,
     `null_padding = false`,
+    ...(withFile ? ['filename = true'] : []),
   ];
   return `SELECT * FROM read_csv(${fileList(files)}, ${options.join(', ')})`;
 }
