@@ -3,6 +3,7 @@
 //                   the same kind of file at 1M x 30, 10M x 30 (memory) and 200k x 100 (4,950 pairs)
 //   pair-1m.csv   : 1,000,000 rows x 8 columns (about 60 MB)
 //   pair-10m.csv  : ten times the pair file, for the streaming-memory check (only with --large)
+//   weekly/       : 52 weekly files of 100,000 rows each (the pair file's columns), for waves
 import { createWriteStream, existsSync, mkdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -105,6 +106,38 @@ export async function pairFile(rows = 1_000_000, name = 'pair-1m.csv') {
     ].join(',');
   });
   return path;
+}
+
+/**
+ * A year of weekly exports: 52 files of `rows` rows each (the pair file's
+ * eight columns), named week-2025-W01.csv … week-2025-W52.csv, in which the
+ * region × segment association drifts a little from week to week.
+ */
+export async function weeklyFiles(rows = 100_000, weeks = 52) {
+  const dir = join(DATA, 'weekly');
+  const name = (w) => join(dir, `week-2025-W${String(w).padStart(2, '0')}.csv`);
+  if (existsSync(name(weeks))) return { dir, pattern: join(dir, 'week-2025-W*.csv'), files: Array.from({ length: weeks }, (_v, k) => name(k + 1)) };
+  mkdirSync(dir, { recursive: true });
+  const header = 'respondent,region,segment,channel,answer,score,basket,flag';
+  for (let w = 1; w <= weeks; w++) {
+    const random = mulberry32(1000 + w);
+    const tie = 0.5 + (0.2 * w) / weeks;
+    await writeLines(name(w), header, rows, (i) => {
+      const region = Math.floor(random() * 6);
+      const segment = random() < tie ? region % 4 : Math.floor(random() * 4);
+      return [
+        `W${w}-${i}`,
+        LEVEL_WORDS[region],
+        ['retail', 'trade', 'public', 'online'][segment],
+        ['store', 'phone', 'web'][Math.floor(random() * 3)],
+        ['yes', 'no', 'unsure'][Math.floor(random() * 3)],
+        String(1 + Math.floor(random() * 5)),
+        (random() * 200).toFixed(2),
+        random() < 0.5 ? 'Y' : 'N',
+      ].join(',');
+    });
+  }
+  return { dir, pattern: join(dir, 'week-2025-W*.csv'), files: Array.from({ length: weeks }, (_v, k) => name(k + 1)) };
 }
 
 if (process.argv[1] === fileURLToPath(import.meta.url)) {

@@ -5,6 +5,7 @@ Run with Debian's python3 (python3-pandas, python3-scipy).
 
     reference_route.py scan FILE          every pair of columns
     reference_route.py pair FILE ROWS COLS   one pair
+    reference_route.py waves ROWS COLS FILE…  one pair in each of several files (waves)
 """
 import itertools
 import json
@@ -26,6 +27,14 @@ def analyse(frame, a, b):
 
 def main():
     mode, path = sys.argv[1], sys.argv[2]
+    if mode == "waves":
+        a, b, files = sys.argv[2], sys.argv[3], sys.argv[4:]
+        waves = []
+        for f in files:
+            frame = pd.read_csv(f, dtype=str, usecols=[a, b], keep_default_na=False, na_values=[""])
+            waves.append(analyse(frame, a, b))
+        print(json.dumps({"waves": len(waves)}))
+        return
     if mode == "pair":
         a, b = sys.argv[3], sys.argv[4]
         frame = pd.read_csv(path, dtype=str, usecols=[a, b], keep_default_na=False, na_values=[""])

@@ -12,13 +12,14 @@
 // floor: a plain Node.js byte loop that reads the file and finds its line
 // ends (bench/floor.mjs).
 //
-// Options: --runs N (default 5), --quick (3 runs; no 10-million-row files).
+// Options: --runs N (default 5), --quick (3 runs; no 10-million-row files),
+// --only waves (that scenario alone).
 import { spawnSync } from 'node:child_process';
 import { existsSync, statSync, writeFileSync, readFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { DATA, pairFile, scanFile, surveyFile } from './generate.mjs';
+import { DATA, pairFile, scanFile, surveyFile, weeklyFiles } from './generate.mjs';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const root = join(here, '..');
@@ -95,7 +96,33 @@ function verdict(met) {
 const s = (x) => `${x.toFixed(2)} s`;
 const tabsight = (...rest) => [node, [bin, ...rest]];
 
+/**
+ * waves: a year of weekly exports (52 files of 100,000 rows, given as the
+ * pattern a weekly script gives) against the pandas route looping the same
+ * per-wave crosstab and chi-square; and the engine's one pass over all the
+ * files against the built-in reader's pass per file (which --engine auto takes).
+ */
+async function benchWaves() {
+  const weekly = await weeklyFiles();
+  const mb = weekly.files.reduce((sum, f) => sum + statSync(f).size, 0) / 1e6;
+  const wavesArgs = (engine) => tabsight('waves', weekly.pattern, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', engine);
+  report(`
+waves region x segment over 52 weekly files (${mb.toFixed(0)} MB), ${cores} cores`);
+  report('scenario                                           tabsight   other     ratio   goal');
+  const w = versus(wavesArgs('auto'), [debianPython, [join(here, 'reference_route.py'), 'waves', 'region', 'segment', ...weekly.files]]);
+  report(`${'52 x 100k rows vs pandas (loop of crosstab + chi2)'.padEnd(50)} ${s(w.mine).padStart(8)} ${s(w.reference).padStart(8)} ${w.ratio.toFixed(3).padStart(7)}   <= 0.2 ${verdict(w.ratio <= 0.2)}`);
+  const engineLoads = spawnSync(node, ['-e', "import('@duckdb/node-api').then(() => process.exit(0), () => process.exit(1))"], { cwd: root }).status === 0;
+  if (!engineLoads) return;
+  const e = versus(wavesArgs('duckdb'), wavesArgs('builtin'), 3);
+  report(`  engine (one pass over the 52 files) ${s(e.mine)}, built-in reader (one pass per file) ${s(e.reference)}, engine / built-in ${e.ratio.toFixed(2)}`);
+}
+
 ensurePandas();
+if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'waves') {
+  report(`npm run bench --only waves on ${cores} cores (${new Date().toISOString().slice(0, 10)}); whole-process wall time, median of ${runs} alternating runs`);
+  await benchWaves();
+  process.exit(0);
+}
 const polars = polarsPython();
 report(`npm run bench on ${cores} cores (${new Date().toISOString().slice(0, 10)}); whole-process wall time, median of ${runs} alternating runs; ratio = tabsight / other route (below 1: tabsight faster)`);
 
@@ -189,6 +216,9 @@ for (const [name, command] of small) {
   const r = versus(command, bare, Math.max(runs, 7));
   report(`  ${name.padEnd(40)} ${s(r.mine)} vs ${s(r.reference)}: ${r.ratio.toFixed(2)}x (goal <= 1.5) ${verdict(r.ratio <= 1.5)}`);
 }
+
+// --- waves ----------------------------------------------------------------------
+await benchWaves();
 
 // --- the engine ---------------------------------------------------------------
 const engineLoads = spawnSync(node, ['-e', "import('@duckdb/node-api').then(() => process.exit(0), () => process.exit(1))"], { cwd: root }).status === 0;
