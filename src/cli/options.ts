@@ -25,17 +25,18 @@ import type { OutputGuard } from '../output/guard.js';
  * compare): the two columns and their level order, the output format, the
  * significance level, what the cells of text tables show, colour.
  */
-export function addTableOptions(command: Command, formats: readonly string[]): Command {
-  return command
+export function addTableOptions(command: Command, formats: readonly string[], cellTables = true): Command {
+  command
     .requiredOption('--rows <column>', 'column whose levels form the rows')
     .requiredOption('--cols <column>', 'column whose levels form the columns')
     .option('--row-order <levels>', 'comma-separated order of the row levels (others follow in natural order)')
     .option('--col-order <levels>', 'comma-separated order of the column levels')
     .addOption(new Option('--format <format>', 'output format').choices(formats).default('text'))
     .option('--alpha <level>', 'significance level of every decision in the report (and of --exit-status)', '0.05')
-    .option('--bins <k>', 'cut a numeric side with more than k values into k equal-frequency bins (as scan --bins cuts it)')
-    .addOption(new Option('--cells <view>', 'what the cells of the text tables show: compact (count and row share), counts, row, col, total (shares), expected, residuals').choices(CELL_VIEWS).default('compact'))
-    .option('--no-color', 'plain text without colour');
+    .option('--bins <k>', 'cut a numeric side with more than k values into k equal-frequency bins (as scan --bins cuts it)');
+  // (a report without cell tables, such as waves, has no --cells)
+  if (cellTables) command.addOption(new Option('--cells <view>', 'what the cells of the text tables show: compact (count and row share), counts, row, col, total (shares), expected, residuals').choices(CELL_VIEWS).default('compact'));
+  return command.option('--no-color', 'plain text without colour');
 }
 
 /** Options every reading command shares, declared once. */

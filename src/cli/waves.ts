@@ -67,6 +67,8 @@ export function wavesPlan(inputs: string[], raw: RawWavesOptions): WavesPlan {
   } else {
     if (raw.levels !== undefined) throw usageError('--levels chooses levels of --period; give --period too');
     if (inputs.includes('-')) throw usageError('standard input holds one file: use it with --period, or give the waves as files');
+    // Bins from each file's own values would cut each wave differently.
+    if (table.bins) throw usageError('--bins cuts a side at the quantiles of the rows read, which differ from file to file, so the waves would not share their levels; give fixed cut points with --cuts, or one file with --period');
     waves = { kind: 'files', inputs, order: raw.waveOrder };
   }
   return { waves, spacing: raw.spacing, reader, table: { ...table, allowDegenerate: true }, order, analysis, format: raw.format, report: reportPlan(raw) };
@@ -84,7 +86,7 @@ export function wavesCommand(accept: (plan: WavesPlan) => void): Command {
         .default('auto'),
     )
     .addOption(new Option('--spacing <how>', 'the trend\'s scale: auto (per year for dated waves, else per wave), even (per wave)').choices(['auto', 'even']).default('auto'));
-  addTableOptions(command, Object.keys(WAVES_RENDERERS));
+  addTableOptions(command, Object.keys(WAVES_RENDERERS), false);
   addReaderOptions(command);
   addSurveyOptions(command, false);
   addSummedWeightsOption(command);

@@ -337,6 +337,11 @@ describe('waves: bad usage is one line with its status', () => {
     expect(levels.status).toBe(2);
     expect(levels.stderr).toMatch(/"Atlantis" is not a level of branch/);
     expect((await run(['waves', '-', 'x.csv', '--rows', 'r', '--cols', 'c'], 'r,c\n')).status).toBe(2);
+    // quantile bins of each file would give each wave its own levels
+    const bins = await run(['waves', file, file, '--rows', 'r', '--cols', 'c', '--bins', '3', '--wave-order', 'given']);
+    expect(bins.status).toBe(2);
+    expect(bins.stderr).toMatch(/--bins cuts a side at the quantiles .* give fixed cut points with --cuts/);
+    expect((await run(['waves', file, file, '--rows', 'r', '--cols', 'c', '--cells', 'counts', '--wave-order', 'given'])).status).toBe(2);
     const none = await run(['waves', file.replace(/one\.csv$/, 'nothing-*.csv'), '--rows', 'r', '--cols', 'c', '--engine', 'builtin']);
     expect(none.status).toBe(1);
     expect(none.stderr).toMatch(/no file matches this pattern/);
