@@ -13,13 +13,13 @@
 // ends (bench/floor.mjs).
 //
 // Options: --runs N (default 5), --quick (3 runs; no 10-million-row files),
-// --only waves (that scenario alone).
+// --only waves or --only banner (that scenario alone).
 import { spawnSync } from 'node:child_process';
 import { existsSync, statSync, writeFileSync, readFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { DATA, pairFile, scanFile, surveyFile, weeklyFiles } from './generate.mjs';
+import { bannerFile, DATA, pairFile, scanFile, surveyFile, weeklyFiles } from './generate.mjs';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const root = join(here, '..');
@@ -33,12 +33,12 @@ const node = process.execPath;
 const POLARS_VERSION = '1.44.2';
 
 function ensurePandas() {
-  const check = () => spawnSync(debianPython, ['-c', 'import pandas, scipy'], { stdio: 'ignore' }).status === 0;
+  const check = () => spawnSync(debianPython, ['-c', 'import pandas, scipy, statsmodels'], { stdio: 'ignore' }).status === 0;
   if (check()) return;
-  console.log('installing the pandas route: apt-get install python3-pandas python3-scipy');
+  console.log('installing the pandas route: apt-get install python3-pandas python3-scipy python3-statsmodels');
   spawnSync('apt-get', ['update', '-qq'], { stdio: 'inherit' });
-  spawnSync('apt-get', ['install', '-y', '-qq', 'python3-pandas', 'python3-scipy'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
-  if (!check()) throw new Error('the pandas route (Debian python3-pandas, python3-scipy) could not be installed');
+  spawnSync('apt-get', ['install', '-y', '-qq', 'python3-pandas', 'python3-scipy', 'python3-statsmodels'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+  if (!check()) throw new Error('the pandas route (Debian python3-pandas, python3-scipy, python3-statsmodels) could not be installed');
 }
 
 /** The python3 on the PATH with polars and scipy (polars installed from the registry when missing), or null. */
@@ -117,10 +117,39 @@ waves region x segment over 52 weekly files (${mb.toFixed(0)} MB), ${cores} core
   report(`  engine (one pass over the 52 files) ${s(e.mine)}, built-in reader (one pass per file) ${s(e.reference)}, engine / built-in ${e.ratio.toFixed(2)}`);
 }
 
+async function benchBanner() {
+  // The banner: 100,000 respondents × 60 questions × 5 break variables (25
+  // break columns), weighted, as text and as a spreadsheet, against the
+  // dataframe route (bench/banner_reference.py: pandas crosstabs normalised per
+  // column, chi2_contingency, statsmodels' z-test per pair of columns in a loop).
+  const banner = await bannerFile();
+  const bannerBreaks = 'age_band,region,membership,income_band,household';
+  const bannerArgs = (extra) => [bin, 'banner', banner, '--break', bannerBreaks, '--weight', 'weight', ...extra];
+  const bannerReference = [debianPython, [join(here, 'banner_reference.py'), banner, bannerBreaks, 'weight', join(DATA, 'banner-reference-out.csv')]];
+  report(`\nbanner, 100k x 60 questions x 25 break columns, weighted, against pandas and statsmodels, ${cores} cores`);
+  const text = versus([node, bannerArgs(['--output', join(DATA, 'banner-out.txt')])], bannerReference);
+  const xlsx = versus([node, bannerArgs(['--output', join(DATA, 'banner-out.xlsx')])], bannerReference);
+  for (const [name, r] of [['text', text], ['xlsx', xlsx]]) report(`  banner ${name}: ${s(r.mine)} vs ${s(r.reference)}, ratio ${r.ratio.toFixed(3)} (goal <= 0.1) ${verdict(r.ratio <= 0.1)}`);
+  if (hasTime) {
+    // Memory: the columns used are 66 (60 questions, 5 breaks, the weight) × 100,000 rows; the
+    // baseline is the same command on the first 1,000 rows (the program, its libraries, the report).
+    const tinyBanner = join(DATA, 'banner-1k.csv');
+    if (!existsSync(tinyBanner)) writeFileSync(tinyBanner, readFileSync(banner, 'utf8').split('\n').slice(0, 1001).join('\n') + '\n');
+    const base = median(Array.from({ length: 3 }, () => once(node, [bin, 'banner', tinyBanner, '--break', bannerBreaks, '--weight', 'weight', '--output', join(DATA, 'banner-1k.txt')]).peak));
+    const cells = 66 * 100_000;
+    report(`  banner peak memory: ${text.peak.toFixed(0)} MB (baseline on 1,000 rows ${base.toFixed(0)} MB): ${(((text.peak - base) * 1024 * 1024) / cells).toFixed(1)} bytes per cell of the ${cells.toLocaleString('en-US')} cells used (goal about 2)`);
+  }
+}
+
 ensurePandas();
+if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'banner') {
+  await benchBanner();
+  process.exit(0);
+}
 if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'waves') {
   report(`npm run bench --only waves on ${cores} cores (${new Date().toISOString().slice(0, 10)}); whole-process wall time, median of ${runs} alternating runs`);
   await benchWaves();
+await benchBanner();
   process.exit(0);
 }
 const polars = polarsPython();
