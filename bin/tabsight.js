@@ -1,10 +1,13 @@
 #!/usr/bin/env node
-import { existsSync } from 'node:fs';
+import { statSync } from 'node:fs';
 
-// The bundled program when the build made one (scripts/bundle.mjs: one file
-// starts faster), else the modules in dist/ as tsc wrote them.
+// The bundled program when the build made one from the current modules
+// (scripts/bundle.mjs: one file starts faster), else the modules in dist/ as
+// tsc wrote them (also after a tsc run that left an older bundle behind).
 const bundled = new URL('../dist/bundle/tabsight.js', import.meta.url);
-const { main } = await import(existsSync(bundled) ? bundled.href : '../dist/cli/main.js');
+const modules = new URL('../dist/cli/main.js', import.meta.url);
+const bundleTime = statSync(bundled, { throwIfNoEntry: false })?.mtimeMs ?? -1;
+const { main } = await import(bundleTime >= (statSync(modules, { throwIfNoEntry: false })?.mtimeMs ?? 0) ? bundled.href : modules.href);
 
 main(process.argv).then(
   (status) => {
