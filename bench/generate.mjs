@@ -181,3 +181,34 @@ export async function bannerFile(rows = 100_000, name = 'banner-100k.csv') {
   });
   return path;
 }
+
+/**
+ * A survey with a design, for the design-based bench: 1,000,000 rows in 50
+ * strata of 2 PSUs each, a sampling weight that varies by stratum and row,
+ * and 30 categorical columns of 2 to 9 levels (some depending on the column
+ * before, some on the PSU, so that the design effects are not all 1; 1%
+ * missing).
+ */
+export async function designFile(rows = 1_000_000, columns = 30, name = 'design-1m.csv') {
+  const path = join(DATA, name);
+  if (existsSync(path)) return path;
+  mkdirSync(DATA, { recursive: true });
+  const random = mulberry32(5002);
+  const levels = Array.from({ length: columns }, (_v, k) => 2 + (k % 8));
+  const header = ['stratum', 'psu', 'weight', ...Array.from({ length: columns }, (_v, k) => `q${String(k + 1).padStart(2, '0')}`)].join(',');
+  await writeLines(path, header, rows, () => {
+    const stratum = Math.floor(random() * 50);
+    const psu = 1 + Math.floor(random() * 2);
+    const weight = ((0.5 + 4.5 * random()) * (1 + (stratum % 3))).toFixed(3);
+    const row = [];
+    for (let k = 0; k < columns; k++) {
+      let level;
+      if (k % 5 === 1 && random() < 0.4) level = Math.floor((row[k - 1] * levels[k]) / levels[k - 1]);
+      else if (random() < 0.15) level = (stratum * 2 + psu + k) % levels[k];
+      else level = Math.floor(random() * levels[k]);
+      row.push(level);
+    }
+    return [`s${String(stratum + 1).padStart(2, '0')}`, String(psu), weight, ...row.map((l, k) => (random() < 0.01 ? '' : LEVEL_WORDS[l] + (k % 3 === 0 ? ' option' : '')))].join(',');
+  });
+  return path;
+}

@@ -13,13 +13,13 @@
 // ends (bench/floor.mjs).
 //
 // Options: --runs N (default 5), --quick (3 runs; no 10-million-row files),
-// --only waves or --only banner (that scenario alone).
+// --only waves, --only banner or --only design (that scenario alone).
 import { spawnSync } from 'node:child_process';
 import { existsSync, statSync, writeFileSync, readFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { bannerFile, DATA, pairFile, scanFile, surveyFile, weeklyFiles } from './generate.mjs';
+import { bannerFile, DATA, designFile, pairFile, scanFile, surveyFile, weeklyFiles } from './generate.mjs';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const root = join(here, '..');
@@ -141,6 +141,32 @@ async function benchBanner() {
   }
 }
 
+/**
+ * A survey design against --weight alone (Kish's approximation) on the same
+ * 1,000,000 rows of 50 strata x 2 PSUs: the design registers every row's PSU
+ * and counts per-PSU totals beside each table (pair), and beside every
+ * pair's table in the same pass (scan, 30 columns, 435 pairs).
+ */
+async function benchDesign() {
+  const file = await designFile();
+  const design = ['--weight', 'weight', '--strata', 'stratum', '--cluster', 'psu'];
+  const columns = Array.from({ length: 30 }, (_v, k) => `q${String(k + 1).padStart(2, '0')}`).join(',');
+  const pairDesign = (...extra) => tabsight('pair', file, '--rows', 'q02', '--cols', 'q05', '--format', 'json', '--engine', 'builtin', ...extra);
+  const scanDesign = (...extra) => tabsight('scan', file, '--columns', columns, '--format', 'csv', '--engine', 'builtin', ...extra);
+  report(`
+survey design: 1,000,000 rows in 50 strata x 2 PSUs (${(statSync(file).size / 1e6).toFixed(0)} MB) against --weight alone, ${cores} cores`);
+  report('scenario                                           design    weight     ratio   goal');
+  const p = versus(pairDesign(...design), pairDesign('--weight', 'weight'));
+  report(`${'pair q02 x q05'.padEnd(50)} ${s(p.mine).padStart(8)} ${s(p.reference).padStart(8)} ${p.ratio.toFixed(3).padStart(7)}   <= 1.5 ${verdict(p.ratio <= 1.5)}`);
+  const sc = versus(scanDesign(...design), scanDesign('--weight', 'weight'));
+  report(`${'scan of 30 columns (435 pairs)'.padEnd(50)} ${s(sc.mine).padStart(8)} ${s(sc.reference).padStart(8)} ${sc.ratio.toFixed(3).padStart(7)}   <= 2 ${verdict(sc.ratio <= 2)}`);
+}
+
+if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'design') {
+  report(`npm run bench --only design on ${cores} cores (${new Date().toISOString().slice(0, 10)}); whole-process wall time, median of ${runs} alternating runs`);
+  await benchDesign();
+  process.exit(0);
+}
 ensurePandas();
 if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'banner') {
   await benchBanner();
@@ -248,6 +274,9 @@ for (const [name, command] of small) {
 
 // --- waves ----------------------------------------------------------------------
 await benchWaves();
+
+// --- survey designs ---------------------------------------------------------
+await benchDesign();
 
 // --- the engine ---------------------------------------------------------------
 const engineLoads = spawnSync(node, ['-e', "import('@duckdb/node-api').then(() => process.exit(0), () => process.exit(1))"], { cwd: root }).status === 0;

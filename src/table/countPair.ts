@@ -9,7 +9,7 @@ import { compareNatural } from './naturalOrder.js';
 import type { OrderedColumn } from './orderedColumn.js';
 import { TwoWayTable } from './twoWayTable.js';
 import { Weighting } from './weighting.js';
-import { designCellsOfPair, type RowDesign } from './surveyDesign.js';
+import { replicateCellsOfPair, taylorCellsFromPlanes, type DesignCells, type RowDesign } from './surveyDesign.js';
 
 export interface CountPairOptions {
   /** Per-row weights (sampling weights or frequencies). */
@@ -58,7 +58,28 @@ export function countPair(rowColumn: OrderedColumn, colColumn: OrderedColumn, op
   const sumsLow = new Float64Array(weights ? layers * plane : 0);
   const squares = new Float64Array(weights ? layers * plane : 0);
   const squaresLow = new Float64Array(weights ? layers * plane : 0);
-  if (rowsPer) {
+  // A Taylor design without a layer: its per-PSU totals are counted in the same pass, on the same padded grid.
+  const taylor = options.design?.index && !layerCodes && !rowsPer ? options.design : null;
+  let designCells: DesignCells | null = null;
+  if (taylor) {
+    const index = taylor.index!;
+    const units = taylor.units as Int32Array;
+    const unitSums = new Float64Array(index.unitCount * plane);
+    const unitSquares = index.clustered ? null : new Float64Array(index.unitCount * plane);
+    for (let k = 0; k < rows; k++) {
+      const at = a[k] * width + b[k];
+      const w = weights ? weights[k] : 1;
+      counts[at]++;
+      if (weights) {
+        addCompensated(sums, sumsLow, at, w);
+        addCompensated(squares, squaresLow, at, w * w);
+      }
+      const u = units[k] * plane + at;
+      unitSums[u] += w;
+      if (unitSquares !== null) unitSquares[u] += w * w;
+    }
+    designCells = taylorCellsFromPlanes(rowColumn.labels, colColumn.labels, taylor, unitSums, unitSquares, counts);
+  } else if (rowsPer) {
     for (let k = 0; k < rows; k++) {
       const at = (layerCodes ? layerCodes[k] * plane : 0) + a[k] * width + b[k];
       counts[at] += rowsPer[k];
@@ -170,6 +191,11 @@ export function countPair(rowColumn: OrderedColumn, colColumn: OrderedColumn, op
     }
     strata.sort((x, y) => compareNatural(x.level, y.level));
   }
-  const design = options.design ? { design: designCellsOfPair(rowColumn.labels, colColumn.labels, a, b, options.design, weights ?? null) } : {};
+  if (options.design && designCells === null) {
+    // Replicate weights (a Taylor design is counted in the pass above; a scan refuses layers with a design).
+    if (options.design.index || layerCodes || rowsPer) throw new Error('countPair: a Taylor design is counted without layers or grouped entries');
+    designCells = replicateCellsOfPair(rowColumn.labels, colColumn.labels, a, b, options.design, weights ?? null);
+  }
+  const design = designCells ? { design: designCells } : {};
   return { table: pooled.table, weighting: pooled.weighting, strata, excluded, ...design };
 }

@@ -182,64 +182,75 @@ export interface RowDesign {
 }
 
 /**
- * The design totals of one pair of coded columns (codes 1.. per level, 0
- * missing), counted from each row's unit or replicate weights: the scan's
- * way, one pass over the rows per pair. Cells are numbered row-major over
- * the columns' levels (i − 1)(c) + (j − 1); rows with a missing value add
- * nothing (domain rows: their PSUs were registered while reading).
- * Memory: units × cells (Taylor) or (R + 1) × cells (replicates).
+ * The Taylor design totals of one pair from per-PSU sums on the padded grid
+ * of table/countPair.ts (row and column 0 hold rows with a missing value:
+ * domain rows, left out here), counted there in the same pass as the table.
+ * Cells are numbered row-major over the columns' levels, (i − 1)c + (j − 1).
  */
-export function designCellsOfPair(rowLabels: readonly string[], colLabels: readonly string[], rowCodes: ArrayLike<number>, colCodes: ArrayLike<number>, design: RowDesign, weights: Float64Array | null): DesignCells {
+export function taylorCellsFromPlanes(
+  rowLabels: readonly string[],
+  colLabels: readonly string[],
+  design: RowDesign,
+  unitSums: Float64Array,
+  unitSquares: Float64Array | null,
+  paddedCounts: ArrayLike<number>,
+): DesignCells {
+  const index = design.index as SampleDesignIndex;
+  const width = colLabels.length;
+  const height = rowLabels.length;
+  const cells = height * width;
+  const plane = (height + 1) * (width + 1);
+  const inner = (source: ArrayLike<number>, offset: number): Float64Array => {
+    const out = new Float64Array(cells);
+    for (let i = 0; i < height; i++) for (let j = 0; j < width; j++) out[i * width + j] = source[offset + (i + 1) * (width + 1) + (j + 1)];
+    return out;
+  };
+  const totals = new PsuCellTotals(index);
+  for (let u = 0; u < index.unitCount; u++) {
+    totals.weightTotals.push(inner(unitSums, u * plane));
+    if (unitSquares !== null) totals.squareTotals.push(inner(unitSquares, u * plane));
+  }
+  totals.counts = inner(paddedCounts, 0);
+  totals.cellCapacity = cells;
+  return {
+    design: design.design,
+    weightColumn: design.weightColumn,
+    replicateColumns: design.replicateColumns,
+    totals,
+    cellLabels: (cell) => (cell < cells ? [rowLabels[Math.floor(cell / width)], colLabels[cell % width]] : null),
+    cellCount: cells,
+  };
+}
+
+/**
+ * The replicate-weight totals of one pair of coded columns (codes 1.. per
+ * level, 0 missing): for every cell, the sum of each replicate weight and of
+ * the full-sample weight over the complete rows, one pass over the rows.
+ * Cells are numbered row-major, (i − 1)c + (j − 1); rows with a missing
+ * value add nothing. Memory (R + 1) × cells; time rows × R.
+ */
+export function replicateCellsOfPair(rowLabels: readonly string[], colLabels: readonly string[], rowCodes: ArrayLike<number>, colCodes: ArrayLike<number>, design: RowDesign, weights: Float64Array | null): DesignCells {
   const width = colLabels.length;
   const cells = rowLabels.length * width;
   const rows = rowCodes.length;
   const counts = new Float64Array(cells);
-  let totals: PsuCellTotals | ReplicateCellTotals;
-  if (design.index !== null) {
-    const index = design.index;
-    const units = design.units as Int32Array;
-    const unitCount = index.unitCount;
-    const sums = new Float64Array(unitCount * cells);
-    const squares = index.clustered ? null : new Float64Array(unitCount * cells);
-    for (let k = 0; k < rows; k++) {
-      const a = rowCodes[k];
-      const b = colCodes[k];
-      if (a === 0 || b === 0) continue;
-      const cell = (a - 1) * width + (b - 1);
-      const w = weights === null ? 1 : weights[k];
-      const at = units[k] * cells + cell;
-      sums[at] += w;
-      if (squares !== null) squares[at] += w * w;
-      counts[cell]++;
-    }
-    const psu = new PsuCellTotals(index);
-    for (let u = 0; u < unitCount; u++) {
-      psu.weightTotals.push(sums.subarray(u * cells, (u + 1) * cells));
-      if (squares !== null) psu.squareTotals.push(squares.subarray(u * cells, (u + 1) * cells));
-    }
-    psu.counts = counts;
-    psu.cellCapacity = cells;
-    totals = psu;
-  } else {
-    const R = design.replicateColumns.length;
-    const replicateWeights = design.replicateWeights as Float64Array;
-    const replicate = new ReplicateCellTotals(R);
-    const sums = Array.from({ length: R + 1 }, () => new Float64Array(cells));
-    for (let k = 0; k < rows; k++) {
-      const a = rowCodes[k];
-      const b = colCodes[k];
-      if (a === 0 || b === 0) continue;
-      const cell = (a - 1) * width + (b - 1);
-      const base = k * R;
-      for (let r = 0; r < R; r++) sums[r][cell] += replicateWeights[base + r];
-      sums[R][cell] += weights === null ? 1 : weights[k];
-      counts[cell]++;
-    }
-    replicate.totals = sums;
-    replicate.counts = counts;
-    replicate.cellCapacity = cells;
-    totals = replicate;
+  const R = design.replicateColumns.length;
+  const replicateWeights = design.replicateWeights as Float64Array;
+  const totals = new ReplicateCellTotals(R);
+  const sums = Array.from({ length: R + 1 }, () => new Float64Array(cells));
+  for (let k = 0; k < rows; k++) {
+    const a = rowCodes[k];
+    const b = colCodes[k];
+    if (a === 0 || b === 0) continue;
+    const cell = (a - 1) * width + (b - 1);
+    const base = k * R;
+    for (let r = 0; r < R; r++) sums[r][cell] += replicateWeights[base + r];
+    sums[R][cell] += weights === null ? 1 : weights[k];
+    counts[cell]++;
   }
+  totals.totals = sums;
+  totals.counts = counts;
+  totals.cellCapacity = cells;
   return {
     design: design.design,
     weightColumn: design.weightColumn,

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { PsuCellTotals } from '../../src/stats/designTally.js';
-import { DesignCounter, designCellsOfPair, layoutFor, matchesPattern, type SurveyDesign } from '../../src/table/surveyDesign.js';
+import { DesignCounter, layoutFor, matchesPattern, type SurveyDesign } from '../../src/table/surveyDesign.js';
+import { countPair } from '../../src/table/countPair.js';
 import { SampleDesignIndex } from '../../src/stats/designTally.js';
 
 const TAYLOR: SurveyDesign = { kind: 'taylor', strata: 's', cluster: 'c', fpc: null, lonelyPsu: 'fail' };
@@ -45,7 +46,7 @@ describe('cells numbered while reading, laid out on the final table', () => {
     expect(Array.from(layout.position as Int32Array)).toEqual([0, 2, 3, 3]);
   });
 
-  it("a scan pair's totals from codes equal the row-by-row totals of the pair path (the same sums in the same order)", () => {
+  it("a scan pair's totals, counted with its table on the padded grid, equal the row-by-row totals of the pair path (the same sums in the same order)", () => {
     const index = new SampleDesignIndex({ clustered: true });
     const rows = [
       ['h1', 'p1', 1, 1, 2.5],
@@ -59,7 +60,10 @@ describe('cells numbered while reading, laid out on the final table', () => {
     const a = Uint16Array.from(rows.map((x) => x[2]));
     const b = Uint16Array.from(rows.map((x) => x[3]));
     const weights = Float64Array.from(rows.map((x) => x[4]));
-    const cells = designCellsOfPair(['r1', 'r2'], ['c1', 'c2'], a, b, { design: TAYLOR, index, units, replicateWeights: null, replicateColumns: [], weightColumn: 'w' }, weights);
+    const cells = countPair({ name: 'a', labels: ['r1', 'r2'], codes: a }, { name: 'b', labels: ['c1', 'c2'], codes: b }, {
+      weights: { values: weights, kind: 'weight' },
+      design: { design: TAYLOR, index, units, replicateWeights: null, replicateColumns: [], weightColumn: 'w' },
+    }).design!;
     const byRow = new PsuCellTotals(index);
     rows.forEach((x, k) => {
       if (x[2] > 0 && x[3] > 0) byRow.add(units[k], (x[2] - 1) * 2 + (x[3] - 1), x[4]);
