@@ -4,7 +4,7 @@ import { dataError, usageError } from '../errors.js';
 import { countTable, TableRequest } from '../io/counting.js';
 import { resolveColumn } from '../io/columns.js';
 import { readRecords } from '../io/readRecords.js';
-import { parseWeightValue } from '../io/rowRules.js';
+import { parseExactCount } from '../io/rowRules.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { compareNatural } from '../table/naturalOrder.js';
 import { delimitedField, looksLikeFormula } from '../escape/spreadsheet.js';
@@ -17,7 +17,7 @@ import { DONE, Outcome } from './outcome.js';
  * are written exactly as the data says, because the tool reads them back
  * (--freq count, merge); a spreadsheet should open them as text.
  */
-function noteFormulas(io: CliIo, header: string[], rows: [string[], number][]): void {
+function noteFormulas(io: CliIo, header: string[], rows: [string[], number | bigint][]): void {
   const labels = new Set([...header, ...rows.flatMap(([key]) => key)].filter(looksLikeFormula));
   if (labels.size === 0) return;
   const [first] = labels;
@@ -27,13 +27,13 @@ function noteFormulas(io: CliIo, header: string[], rows: [string[], number][]): 
 }
 
 /** The long count format that `--freq count` reads back: one line per combination. */
-function countLines(header: string[], rows: [string[], number][]): string {
+function countLines(header: string[], rows: [string[], number | bigint][]): string {
   const out = [header.map((h) => delimitedField(h, ',')).join(',')];
   for (const [key, n] of rows) out.push([...key.map((k) => delimitedField(k, ',')), String(n)].join(','));
   return out.join('\n') + '\n';
 }
 
-function sortKeys(rows: [string[], number][]): [string[], number][] {
+function sortKeys<T>(rows: [string[], T][]): [string[], T][] {
   return rows.sort((x, y) => {
     for (let k = 0; k < x[0].length; k++) {
       const d = compareNatural(x[0][k], y[0][k]);
@@ -126,7 +126,7 @@ export function mergeCommand(accept: (plan: MergePlan) => void): Command {
 export async function runMerge(plan: MergePlan, io: CliIo): Promise<Outcome> {
   const files = plan.files;
   let header: string[] | null = null;
-  const totals = new Map<string, [string[], number]>();
+  const totals = new Map<string, [string[], bigint]>();
   outputGuard(io, { output: plan.output }).checkInputs(files);
   for (const file of files) {
     const source = inputSource(file, io.stdin);
@@ -146,7 +146,8 @@ export async function runMerge(plan: MergePlan, io: CliIo): Promise<Outcome> {
         return names.map((_n, i) => i);
       },
       (_ids, line, texts) => {
-        const parsed = parseWeightValue(texts[countIndex], 'freq', false);
+        // Counts are added exactly (BigInt): partial counts past 2^53 keep every unit.
+        const parsed = parseExactCount(texts[countIndex]);
         if (typeof parsed === 'string') throw dataError(`${source.label}, line ${line}: the count ${parsed}`);
         const key = texts.slice(0, width - 1).map((t) => (t ?? '').trim());
         const id = key.join('\u0000');

@@ -14,7 +14,6 @@ import { TOOL_VERSION } from '../version.js';
 import { CliIo, processIo } from './output.js';
 import { ClosedPipe } from '../output/reasons.js';
 import { messageLine } from '../escape/terminal.js';
-import { removeTemporariesOnSignals } from '../output/temporaries.js';
 import { Outcome, statusOf } from './outcome.js';
 import { programShell, withOutput } from './shell.js';
 
@@ -118,6 +117,5 @@ export async function main(argv: string[]): Promise<number> {
   // be written (a closed pipe) must not change the status either.
   process.stdout.on('error', () => undefined);
   process.stderr.on('error', () => undefined);
-  removeTemporariesOnSignals();
   return (await run(argv.slice(2), processIo())).status;
 }

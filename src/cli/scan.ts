@@ -1,5 +1,6 @@
 /** `tabsight scan`: its options, parsed once into a ScanPlan, and runScan, which encodes the columns in one read and scores every pair. */
 import { Command, Option } from 'commander';
+import { checkScanSize } from '../table/limits.js';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { prepareColumns, ScanOptions, scorePairs } from '../analysis/scan.js';
 import type { ColumnsRequest } from '../io/columns.js';
@@ -183,6 +184,11 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
     const declared = new Set([...reader.missing.map((m) => m.trim()), ...(survey.codebook?.columns.flatMap((c) => c.missing.map((m) => m.code)) ?? [])]);
     for (const note of missingTokenNotes(detectMissingTokens(encoded.columns.map((c) => ({ name: c.name, labels: c.labels })), declared))) noteWriter(io)(note);
     const prepared = prepareColumns(encoded.columns, encoded.layer, encoded.rows, options);
+    // The work is bounded before any pair is counted (src/table/limits.ts).
+    checkScanSize(
+      prepared.ordered.map((c) => ({ name: c.name, levels: c.labels.length })),
+      prepared.layer ? prepared.layer.labels.length : 1,
+    );
     const countPair = await encoded.countPairs(prepared.ordered, prepared.layer);
     return scorePairs(prepared, encoded.rows, inputSummary(source.label, encoded), options, countPair);
   });

@@ -7,6 +7,7 @@
  * src/table's.
  */
 import { dataError, usageError } from '../errors.js';
+import { checkTableSize } from '../table/limits.js';
 import { pairFromBuckets } from '../numerics/compensatedSum.js';
 import { CountedTable, mergeRareLevels, Stratum } from '../table/countedTable.js';
 import { DesignCells, DesignCounter, SurveyDesign } from '../table/surveyDesign.js';
@@ -511,6 +512,7 @@ function finishTables(
     excludedOfLevel.set(level, (excludedOfLevel.get(level) ?? 0) + rows);
   }
   let table = dropEmptyLevels(finished.table);
+  if (slots.by >= 0) checkTableSize(request.rows, table.rowLevels.length, request.cols, table.colLevels.length, { name: request.by ?? '', levels: counter.strata.size });
   // Without an order option, a side takes the order of its codebook and recodes (natural order otherwise).
   const rowLevels = request.rowOrder ? table.rowLevels : orderOf(slots.row, table.rowLevels);
   const colLevels = request.colOrder ? table.colLevels : orderOf(slots.col, table.colLevels);

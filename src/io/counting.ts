@@ -17,7 +17,7 @@ import { countFilesWith, countTableWith, ExcludedBy, TableRequest } from './coun
 import { encodeWithReader } from './encodeColumns.js';
 import { engineInput, EngineInput, isParquetPath, isPattern } from './engine/files.js';
 import type { Engine } from './engine/module.js';
-import { EngineFallback } from './engine/query.js';
+import { EngineFallback, PatternFailure } from './engine/query.js';
 import type { EngineName, ReaderOptions, ReadSummary } from './readRecords.js';
 import { checkFile, InputSource, isStreamPath } from './source.js';
 
@@ -102,6 +102,12 @@ async function onRoute<T>(source: InputSource, reader: ReaderOptions, route: Eng
   try {
     return await work({ engine: await open(), input });
   } catch (error) {
+    if (error instanceof PatternFailure) {
+      // The built-in reader names the file and line at fault; the engine's message stands when it finds none.
+      const { readRecords } = await import('./readRecords.js');
+      for (const file of input.files) await readRecords({ path: file, label: file }, reader, () => [], () => undefined);
+      throw error.oneLine;
+    }
     if (!(error instanceof EngineFallback)) throw error;
     const result = await work(null);
     reader.onNote?.(`the engine cannot read ${source.label} the way the built-in reader does (${error.message}); counted with the built-in reader`);

@@ -29,6 +29,16 @@ export interface TokenizerHandlers {
 }
 
 const NO_FIELDS: string[] = [];
+
+/**
+ * The longest record, in bytes (a quoted field with line breaks in it
+ * counts whole): one endless field or line cannot grow memory past it.
+ * 64 MiB (README, "Failures and what the tool guarantees").
+ */
+export const RECORD_BYTE_LIMIT = 64 * 1024 * 1024;
+
+/** The most columns a header may have (README, "Failures and what the tool guarantees"). */
+export const COLUMN_LIMIT = 1_000_000;
 const QUOTE = 0x22;
 const LF = 0x0a;
 const CR = 0x0d;
@@ -74,8 +84,10 @@ export class CsvTokenizer {
     this.append(chunk);
     // A long partial record is only re-scanned once the window has grown
     // enough, so one huge field costs linear, not quadratic, time.
-    if (this.end - this.start < this.retryAt) return;
-    this.parse(false);
+    if (this.end - this.start >= this.retryAt) this.parse(false);
+    if (this.end - this.start > RECORD_BYTE_LIMIT) {
+      this.fail(`a record longer than ${RECORD_BYTE_LIMIT / (1024 * 1024)} MiB, the limit for one record (a quoted field with its line breaks included); a closing quote may be missing, or the file has no line breaks`, this.line);
+    }
   }
 
   finish(): void {
@@ -339,6 +351,7 @@ export class CsvTokenizer {
           }
         }
         field++;
+        if (slots === null && field > COLUMN_LIMIT) this.fail(`the header has more than ${COLUMN_LIMIT.toLocaleString('en-US')} columns, the limit`, recordLine);
         if (p >= end) {
           if (!final) break;
           complete = true;

@@ -74,7 +74,43 @@ export function parseWeightValue(raw: string | undefined, kind: WeightKind, deci
   if (!Number.isFinite(value)) return `"${text}" is not a finite number`;
   if (value < 0) return `"${text}" is negative`;
   if (kind === 'freq' && !Number.isInteger(value)) return `"${text}" is not a whole number (a frequency counts rows)`;
+  // A count past 2^53 that a double cannot hold exactly would be changed silently: refused (merge adds such counts exactly).
+  if (kind === 'freq' && value > Number.MAX_SAFE_INTEGER) {
+    const exact = parseExactCount(text, decimalComma);
+    if (typeof exact === 'bigint' && exact !== BigInt(value)) return `"${text}" is past 2^53 and cannot be counted exactly (it would be read as ${BigInt(value)}); split the line into smaller counts`;
+  }
   return value;
+}
+
+/** The largest power of ten an exact count may carry in its exponent (10^1000 is far past any count). */
+const MAX_COUNT_EXPONENT = 1000;
+
+/**
+ * A count's exact value as an integer, from its text ("12", "1.5e3",
+ * "120000000000000000001"), with no rounding: merge adds counts with it,
+ * so counts past 2^53 are never changed. Returns the integer or a
+ * one-line reason it is refused (as parseWeightValue for a frequency).
+ */
+export function parseExactCount(raw: string | undefined, decimalComma = false): bigint | string {
+  const text = (raw ?? '').trim();
+  const normalised = decimalComma ? text.replace(',', '.') : text;
+  const parts = /^([+-]?)(\d*)(?:\.(\d*))?(?:[eE]([+-]?\d+))?$/.exec(normalised);
+  if (parts === null || !NUMBER.test(normalised)) {
+    const reason = parseWeightValue(raw, 'freq', decimalComma);
+    return typeof reason === 'string' ? reason : `"${text}" is not a number`;
+  }
+  const [, sign, whole, fraction = '', exponentText = '0'] = parts;
+  let digits = (whole + fraction).replace(/^0+/, '');
+  if (digits === '') return 0n;
+  if (sign === '-') return `"${text}" is negative`;
+  let exponent = Number(exponentText) - fraction.length;
+  // Trailing zeros move into the exponent, so "1500.00" is 15e2.
+  const trailing = /0*$/.exec(digits)![0].length;
+  digits = digits.slice(0, digits.length - trailing);
+  exponent += trailing;
+  if (exponent < 0) return `"${text}" is not a whole number (a frequency counts rows)`;
+  if (exponent > MAX_COUNT_EXPONENT) return `"${text}" is too large to be a count`;
+  return BigInt(digits) * 10n ** BigInt(exponent);
 }
 
 export function weightError(label: string, line: number, option: string, column: string, reason: string): Error {

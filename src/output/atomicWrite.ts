@@ -22,6 +22,7 @@ import { dataError } from '../errors.js';
 import type { OutputTarget } from './guard.js';
 import { ClosedPipe, writeFailure } from './reasons.js';
 import { holdTemporary, releaseTemporary } from './temporaries.js';
+import { withSignalCleanup } from '../cleanup.js';
 
 /**
  * Test hooks (from the environment, TABSIGHT_FAIL_WRITE_AFTER and
@@ -119,8 +120,12 @@ async function writeAtomically(target: OutputTarget, path: string, existing: Sta
   }
 }
 
-/** Writes `text` (or bytes: a spreadsheet) to the file a target names (see the top of this file). */
-export async function writeTarget(target: OutputTarget, text: string | Uint8Array, hooks: WriteHooks = {}): Promise<void> {
+/** Writes `text` to the file a target names (see the top of this file); a signal meanwhile removes the temporary file. */
+export function writeTarget(target: OutputTarget, text: string | Uint8Array, hooks: WriteHooks = {}): Promise<void> {
+  return withSignalCleanup(() => writeTargetNow(target, text, hooks));
+}
+
+async function writeTargetNow(target: OutputTarget, text: string | Uint8Array, hooks: WriteHooks): Promise<void> {
   const existing = await existingTarget(target);
   const bytes = typeof text === 'string' ? Buffer.from(text, 'utf8') : Buffer.from(text.buffer, text.byteOffset, text.byteLength);
   if (existing !== null && !existing.isFile()) return writeInPlace(target, target.path, bytes, hooks);

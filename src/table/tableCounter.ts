@@ -4,6 +4,7 @@
  * (compensated when weighted), and the sums of the weighting.
  */
 import { dataError } from '../errors.js';
+import { checkTableSize } from './limits.js';
 import { addCompensated, CompensatedSum } from '../numerics/compensatedSum.js';
 import { orderLevels, TwoWayTable } from './twoWayTable.js';
 import type { Weighting } from './weighting.js';
@@ -151,6 +152,7 @@ export class TableCounter {
     const cols = orderLevels([...new Set(colNames)], colOrder);
     this.checkCap(this.rowName, this.rowSide, this.capLabels ? rows.order.length : undefined);
     this.checkCap(this.colName, this.colSide, this.capLabels ? cols.order.length : undefined);
+    checkTableSize(this.rowName, rows.order.length, this.colName, cols.order.length);
     const rowIndex = new Map(rows.order.map((l, k) => [l, k]));
     const colIndex = new Map(cols.order.map((l, k) => [l, k]));
     const counts = rows.order.map(() => new Array<number>(cols.order.length).fill(0));

@@ -10,6 +10,7 @@ import { addOutputCases } from './outputs.mjs';
 import { addStreamCases } from './streams.mjs';
 import { addEscapingCases } from './escaping.mjs';
 import { addEngineReachCases } from './engineReach.mjs';
+import { addLimitCases } from './limits.mjs';
 
 const DEMO = fileURLToPath(new URL('../../fixtures/demo/patron-survey.csv', import.meta.url));
 
@@ -124,6 +125,7 @@ export function makeCorpus(dir, which = 'all') {
     status: 0,
     json: (out) => { if (out.n !== 5) throw new Error(`n = ${out.n}`); },
   });
+  addLimitCases({ dir, add, large });
   if (which !== 'large') {
     addOutputCases({ dir, add, demo: DEMO });
     addStreamCases({ dir, add });

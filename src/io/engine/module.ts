@@ -7,13 +7,14 @@
  * installs or loads extension code on its own (so a URL cannot make it fetch
  * code from the network), keeps no persistent secrets, and keeps its home,
  * extension, secret and spill folders in one temporary folder of the run,
- * removed when the process ends (normally or by SIGINT, SIGTERM, SIGHUP);
- * the configuration is locked, so no query can change it.
+ * removed when the process ends (normally, or by SIGINT, SIGTERM or SIGHUP
+ * during a query); the configuration is locked, so no query can change it.
  */
-import { mkdtempSync, rmSync } from 'node:fs';
+import { randomBytes } from 'node:crypto';
+import { rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { atProcessEnd } from '../../cleanup.js';
+import { atProcessEnd, withSignalCleanup } from '../../cleanup.js';
 import { usageError } from '../../errors.js';
 import { ENGINE_PACKAGE, ENGINE_VERSION } from '../../version.js';
 
@@ -46,9 +47,14 @@ function numbersOf(vector: Vector, rows: number): ArrayLike<number> {
 
 const opened = new Map<string, Promise<Engine>>();
 
-/** The engine's settings (see the top of this file); its folder is made here and removed when the process ends. */
+/**
+ * The engine's settings (see the top of this file). Its folder is a fresh
+ * path that the engine creates only when it needs it (to spill a large
+ * query), and that is removed when the process ends, or by a signal during
+ * a query (src/cleanup.ts).
+ */
 export function engineSettings(): Record<string, string> {
-  const home = mkdtempSync(join(tmpdir(), 'tabsight-engine-'));
+  const home = join(tmpdir(), `tabsight-engine-${process.pid}-${randomBytes(6).toString('hex')}`);
   atProcessEnd(() => rmSync(home, { recursive: true, force: true }));
   return {
     autoinstall_known_extensions: 'false',
@@ -80,14 +86,15 @@ export function openEngine(specifier: string = ENGINE_PACKAGE): Promise<Engine> 
       }
       const connection = await (await module.DuckDBInstance.create(':memory:', engineSettings())).connect();
       return {
-        query: async (sql: string) => (await connection.runAndReadAll(sql)).getRows(),
-        numericChunks: async (sql: string, visit: (columns: ArrayLike<number>[], rows: number) => void) => {
-          const result = await connection.stream(sql);
-          for (let chunk = await result.fetchChunk(); chunk !== null && chunk.rowCount > 0; chunk = await result.fetchChunk()) {
-            const rows = chunk.rowCount;
-            visit(Array.from({ length: chunk.columnCount }, (_v, k) => numbersOf(chunk.getColumnVector(k), rows)), rows);
-          }
-        },
+        query: (sql: string) => withSignalCleanup(async () => (await connection.runAndReadAll(sql)).getRows()),
+        numericChunks: (sql: string, visit: (columns: ArrayLike<number>[], rows: number) => void) =>
+          withSignalCleanup(async () => {
+            const result = await connection.stream(sql);
+            for (let chunk = await result.fetchChunk(); chunk !== null && chunk.rowCount > 0; chunk = await result.fetchChunk()) {
+              const rows = chunk.rowCount;
+              visit(Array.from({ length: chunk.columnCount }, (_v, k) => numbersOf(chunk.getColumnVector(k), rows)), rows);
+            }
+          }),
       };
     })();
     opened.set(specifier, engine);

@@ -11,6 +11,22 @@ import type { Engine } from './module.js';
 /** Raised when the engine cannot read a file the tool's way; the built-in reader then reads it (io/counting.ts). */
 export class EngineFallback extends Error {}
 
+/**
+ * Raised when the engine cannot read a pattern of CSV files: the built-in
+ * reader then reads each file, so that the one line names the file and the
+ * line at fault (io/counting.ts); this message stands when none is.
+ */
+export class PatternFailure extends Error {
+  constructor(readonly oneLine: Error) {
+    super(oneLine.message);
+  }
+}
+
+function patternFailure(input: EngineInput, message: string): Error {
+  const oneLine = dataError(`${input.label}: the engine could not read the input (${message}); --engine builtin reads one CSV file at a time and names the line`);
+  return input.format === 'csv' ? new PatternFailure(oneLine) : oneLine;
+}
+
 /** The first line of an engine message, without its class prefix ("IO Error: …"). */
 export function engineMessage(error: unknown): string {
   const text = error instanceof Error ? error.message : String(error);
@@ -35,9 +51,7 @@ export async function querySql(engine: Engine, sql: string, describe: (message: 
  */
 export function queryInput(engine: Engine, input: EngineInput, sql: string): Promise<unknown[][]> {
   return querySql(engine, sql, (message) =>
-    input.format === 'csv' && !input.glob
-      ? new EngineFallback(message)
-      : dataError(`${input.label}: the engine could not read the input (${message}); --engine builtin reads one CSV file at a time and names the line`),
+    input.format === 'csv' && !input.glob ? new EngineFallback(message) : patternFailure(input, message),
   );
 }
 
@@ -57,8 +71,6 @@ export async function chunksOfInput(engine: Engine, input: EngineInput, sql: str
     // The tool's own errors, and faults of `visit` (bugs), pass through.
     if (error instanceof TabsightError || error === failedVisit) throw error;
     const message = engineMessage(error);
-    throw input.format === 'csv' && !input.glob
-      ? new EngineFallback(message)
-      : dataError(`${input.label}: the engine could not read the input (${message}); --engine builtin reads one CSV file at a time and names the line`);
+    throw input.format === 'csv' && !input.glob ? new EngineFallback(message) : patternFailure(input, message);
   }
 }

@@ -6,6 +6,7 @@
  * the portable counting SQL that `tabsight sql` prints for any engine.
  */
 import type { WeightKind } from '../rowRules.js';
+import { RECORD_BYTE_LIMIT } from '../csvTokenizer.js';
 import { TOOL_VERSION } from '../../version.js';
 
 /** Quoting by the SQL standard, and comments that data cannot end: src/escape/sql.ts. */
@@ -60,6 +61,8 @@ export function readCsvSql(files: readonly string[], dialect: CsvDialect, column
     `columns = ${columns}`,
     `compression = ${dialect.gzip ? "'gzip'" : "'none'"}`,
     `strict_mode = true`,
+    // The built-in reader's limit for one record, so that both read the same lines (the engine's default is 2 MB).
+    `max_line_size = ${RECORD_BYTE_LIMIT}`,
     `null_padding = false`,
     ...(withFile ? ['filename = true'] : []),
   ];
@@ -89,7 +92,9 @@ export interface WeightSql {
  */
 export function weightedRowsSql(from: string, columns: readonly string[], weight: WeightSql): string {
   const normalised = weight.decimalComma ? `regexp_replace(wt, ',', '.')` : 'wt';
-  const whole = weight.kind === 'freq' ? ' AND wd = floor(wd)' : '';
+  // A frequency is whole, and past 2^53 only when the double is exactly the text's value (the tool's rule, parseWeightValue).
+  const exact = `TRY_CAST(${normalised} AS DECIMAL(38,0))`;
+  const whole = weight.kind === 'freq' ? ` AND wd = floor(wd) AND (wd <= 9007199254740991 OR (${exact} IS NOT NULL AND ${exact} = TRY_CAST(wd AS DECIMAL(38,0))))` : '';
   return `
     WITH src AS (SELECT ${columns.join(', ')}, trim(${weight.text}) AS wt FROM ${from}),
     parsed AS (SELECT *, CASE WHEN regexp_full_match(${normalised}, '${NUMBER_PATTERN}') THEN TRY_CAST(${normalised} AS DOUBLE) END AS wd FROM src),
