@@ -98,7 +98,7 @@ function labelled(column: EncodedColumn, rules: LevelRules, codebook: Codebook |
   const plain = !rules.codebook && !rules.cuts && !rules.recode;
   const shaped = plain ? { column: recodeColumn(column, undefined, rules.keepMissing), order: [] as string[] } : shapeColumn(column, rules);
   if (shaped.column.codes === null) return null;
-  const ordered = orderColumn(shaped.column, null, shaped.order);
+  const ordered = orderColumn(shaped.column, shaped.order);
   const entry = rules.codebook ?? undefined;
   if (entry && codebook) {
     for (const w of labellingWarnings(entry, labelColumn(entry, column.labels), codebook.file)) if (!warnings.some((x) => x.message === w.message)) warnings.push({ code: w.code, message: w.message });
@@ -203,7 +203,7 @@ export function prepareBanner(columns: EncodedColumn[], rows: number, options: P
     const relabels = Boolean(columnRules.codebook || columnRules.cuts || columnRules.recode);
     let screened = column;
     if (column.codes !== null && column.labels.length > options.maxLevels && !relabels) screened = { ...column, codes: null };
-    const reason = screenColumn(screened, rows, { maxLevels: options.maxLevels, bins: null });
+    const reason = screenColumn(screened, rows, { maxLevels: options.maxLevels });
     if (reason) {
       skipped.push(reason.code === 'numeric' ? { ...reason, reason: `numeric with ${column.distinct.toLocaleString('en-US')} distinct values; --means ${shellWord(name)} shows its mean per column` } : reason);
       continue;

@@ -6,6 +6,7 @@ import { pearsonChiSquare, TestResult } from '../stats/chiSquareTests.js';
 import { breslowDay, mantelHaenszelOddsRatio } from '../stats/stratified.js';
 import { noThreeWayInteraction } from '../stats/threeWay.js';
 import { compareNatural } from '../table/naturalOrder.js';
+import type { ExcludedBy } from '../table/countedTable.js';
 import { dropEmptyLevels, relabelTable, TwoWayTable } from '../table/twoWayTable.js';
 import { rescaleToEffectiveSize, Weighting } from '../table/weighting.js';
 import { AnalysisOptions, AnalysisRecord, analyzeTable, Evidence, evidenceOf, Warning } from './analyzeTable.js';
@@ -22,12 +23,15 @@ export interface PeriodInput {
   table: TwoWayTable;
   weighting: Weighting;
   excluded: number;
+  /** The same rows by column and reason, where they were counted. */
+  excludedBy?: ExcludedBy[];
   input: InputSummary;
   /** With a survey design: this period's design totals (each period its own sample). */
   design?: DesignInput | null;
 }
 
-export type PeriodRecord = ({ label: string; testable: true; input: InputSummary } & AnalysisRecord) | { label: string; testable: false; input: InputSummary; n: number; reason: string };
+/** A period's record; `excludedBy` (the rows left out by column and reason) where the period's rows were counted so. */
+export type PeriodRecord = (({ label: string; testable: true; input: InputSummary } & AnalysisRecord) | { label: string; testable: false; input: InputSummary; n: number; reason: string }) & { excludedBy?: ExcludedBy[] };
 
 export interface ChangeTest extends TestResult {
   method: 'breslow-day' | 'no-three-way-interaction' | 'design-wald';
@@ -82,16 +86,17 @@ export function unionOfLevels(lists: readonly (readonly string[])[], requested?:
 export function periodRecord(p: PeriodInput, options: AnalysisOptions): PeriodRecord {
   const own = dropEmptyLevels(p.table);
   const n = own.counts.flat().reduce((s, v) => s + v, 0);
+  const leftOut = p.excludedBy ? { excludedBy: p.excludedBy } : {};
   if (own.rowLevels.length < 2 || own.colLevels.length < 2) {
     const side = own.rowLevels.length < 2 ? own.rowName : own.colName;
-    return { label: p.label, testable: false, input: p.input, n, reason: `"${side}" has fewer than two levels in this period` };
+    return { label: p.label, testable: false, input: p.input, n, reason: `"${side}" has fewer than two levels in this period`, ...leftOut };
   }
   try {
-    return { label: p.label, testable: true, input: p.input, ...analyzeTable(own, p.excluded, options, p.weighting, p.design ?? null) };
+    return { label: p.label, testable: true, input: p.input, ...analyzeTable(own, p.excluded, options, p.weighting, p.design ?? null), ...leftOut };
   } catch (error) {
     // A design that gives this period no variance or no degrees of freedom: the period is reported as untestable.
     if (!(p.design && error instanceof TabsightError)) throw error;
-    return { label: p.label, testable: false, input: p.input, n, reason: error.message };
+    return { label: p.label, testable: false, input: p.input, n, reason: error.message, ...leftOut };
   }
 }
 

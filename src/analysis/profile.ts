@@ -3,7 +3,8 @@
  * with it before relating columns.
  */
 import type { ColumnTally, ProfiledFile } from '../io/profileColumns.js';
-import { isMissingLooking, missingTokenNotes, MissingTokenFinding } from '../io/missingTokens.js';
+import { missingTokenNotes, MissingTokenFinding } from '../io/missingTokens.js';
+import { isMissingLooking } from '../table/missingLooking.js';
 import { shellWord } from '../escape/shell.js';
 import { Codebook, CodebookColumn, CodebookWarning, codebookColumn, labelColumn, labellingWarnings } from '../table/codebook.js';
 import { compareNatural, isNumericLabel, rangeKey } from '../table/naturalOrder.js';
@@ -354,7 +355,8 @@ export function profileFile(file: ProfiledFile, input: InputSummary, options: Pr
     rows,
     codebook: options.codebook?.file ?? null,
     columns,
-    notes: missingTokenNotes(findings),
+    // A numeric column is read as numeric past its missing-looking values: its note says so.
+    notes: missingTokenNotes(findings, (name) => (columns.find((c) => c.name === name)?.kind === 'numeric' ? 'numeric' : 'level')),
     warnings,
   };
   return { report, starter };

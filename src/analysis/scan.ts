@@ -3,11 +3,13 @@
  * as a single pair would be, multiple-testing adjustment and ranking.
  */
 import { adjustPValues, Adjustment } from '../stats/multipleTesting.js';
-import { CountPair, mergeRareLevels } from '../table/countedTable.js';
-import { EncodedColumn, recodeColumn, shapeColumn } from '../table/encodedColumn.js';
-import type { LevelRules } from '../table/levelRules.js';
+import { CountPair, ExcludedBy, mergeRareLevels } from '../table/countedTable.js';
+import { EncodedColumn, missingByReason, recodeColumn, rowsPerCode, shapeColumn } from '../table/encodedColumn.js';
+import { binsOf, LevelRules, missingLevelLabels } from '../table/levelRules.js';
+import { binNumericLevels } from '../table/bins.js';
+import { isMissingLooking } from '../table/missingLooking.js';
 import { derivation } from '../table/derived.js';
-import { OrderedColumn, orderColumn } from '../table/orderedColumn.js';
+import { binnedColumn, OrderedColumn, orderColumn } from '../table/orderedColumn.js';
 import { relabelTable } from '../table/twoWayTable.js';
 import { analyzeStrata, StratifiedSummary, StratumRecord } from './stratify.js';
 import { AnalysisOptions, AnalysisRecord, analyzeTable, decide, isLargeSample } from './analyzeTable.js';
@@ -20,6 +22,7 @@ import type { DesignSummary } from './design.js';
 
 export interface ScanOptions {
   maxLevels: number;
+  /** --bins k: a numeric column with more than k numbers is cut into k equal-frequency bins (a codebook's bins for a column win). */
   bins: number | null;
   /** Recodes by column (applied to the codes before screening). */
   recodes: Map<string, Map<string, string>>;
@@ -48,6 +51,8 @@ export interface ScanPair extends Omit<AnalysisRecord, 'counts' | 'rowTotals' | 
   rank: number;
   pAdjusted: number;
   passes: boolean;
+  /** The rows left out of this pair's table, by column and reason (as pair's excludedBy). */
+  excludedBy: ExcludedBy[];
   stratified?: StratifiedSummary;
   strata?: StratumRecord[];
   counts?: number[][];
@@ -94,6 +99,8 @@ export interface ScanReport {
   untestable: UntestablePair[];
   /** Pairs where one column is a recoding of the other, left out of the ranking and the multiple-testing family (unless --keep-derived). */
   derived: DerivedPair[];
+  /** The rows each scored column (and the --by variable) leaves out of its pairs, by reason: a pair leaves out the rows of both its columns. */
+  excludedBy: ExcludedBy[];
   /** The variable held fixed, when --by was given. */
   by: string | null;
   /** With --weight or --freq: how rows were weighted ("none" otherwise). */
@@ -104,8 +111,12 @@ export interface ScanReport {
 
 const IDENTIFIER_SHARE = 0.9;
 
-/** Screening: decides which candidates take part, with the reason for each one left out. */
-export function screenColumn(column: EncodedColumn, rows: number, options: Pick<ScanOptions, 'maxLevels' | 'bins'>): SkippedColumn | null {
+/**
+ * Screening: decides which candidates take part, with the reason for each
+ * one left out. A column past the level cap has no codes by now (a numeric
+ * one that could be binned was binned before screening).
+ */
+export function screenColumn(column: EncodedColumn, rows: number, options: Pick<ScanOptions, 'maxLevels'> & { other?: ScanOptions['other'] }): SkippedColumn | null {
   const present = rows - column.missing;
   const distinct = column.distinctCapped ? `more than ${column.distinct.toLocaleString('en-US')}` : column.distinct.toLocaleString('en-US');
   if (present === 0) return { column: column.name, code: 'no-values', reason: 'every value is missing' };
@@ -115,11 +126,12 @@ export function screenColumn(column: EncodedColumn, rows: number, options: Pick<
     return { column: column.name, code: 'identifier', reason: `an identifier: ${distinct} distinct values in ${present.toLocaleString('en-US')} rows` };
   }
   if (column.codes === null) {
-    if (column.numeric && options.bins !== null) return null; // binned below
     if (column.numeric) {
-      return { column: column.name, code: 'numeric', reason: `numeric with ${distinct} distinct values; --bins 5 cuts it into 5 equal-frequency groups` };
+      const binnable = !column.distinctCapped;
+      return { column: column.name, code: 'numeric', reason: `numeric with ${distinct} distinct values; ${binnable ? '--bins 5 cuts it into 5 equal-frequency groups' : 'too many to bin: cut it with --cuts or --recode'}` };
     }
-    return { column: column.name, code: 'too-many-levels', reason: `${distinct} distinct values, more than --max-levels ${options.maxLevels}` };
+    const other = options.other ? `, and --other ${options.other.k} keeps ${options.other.k + 1}` : '';
+    return { column: column.name, code: 'too-many-levels', reason: `${distinct} distinct values, more than --max-levels ${options.maxLevels}${other}` };
   }
   return null;
 }
@@ -129,27 +141,63 @@ export interface PreparedColumns {
   ordered: OrderedColumn[];
   skipped: SkippedColumn[];
   layer: OrderedColumn | null;
+  /** The rows each column that takes part (and the layer) leaves out of its pairs, by reason (encodedColumn.ts: missingByReason). */
+  excludedBy: ExcludedBy[];
+  /** Columns cut into equal-frequency bins, with the levels kept beside the bins (missing-looking values, missing values kept as levels). */
+  binned: { column: string; bins: number; apart: string[] }[];
 }
 
-/** Screening, recodes and binning: the columns that take part, in report order, and the layer. */
-export function prepareColumns(columns: EncodedColumn[], layer: EncodedColumn | null, rows: number, options: ScanOptions): PreparedColumns {
+/**
+ * Screening, level rules, binning and order: the columns that take part,
+ * in report order, and the layer. In this order, for each column: its level
+ * rules (codebook, cuts, recodes, --keep-missing); the screening of columns
+ * with no values, one level, or an identifier's values; equal-frequency bins
+ * for a numeric column (--bins k, or the codebook's bins) with more than k
+ * numbers, however many levels it has; then the level cap, which --other
+ * relaxes (it merges levels, pair by pair, before the cap applies).
+ */
+export function prepareColumns(columns: EncodedColumn[], layer: EncodedColumn | null, rows: number, options: ScanOptions, frequencies?: Float64Array): PreparedColumns {
   const skipped: SkippedColumn[] = [];
   const ordered: OrderedColumn[] = [];
-  const shape = (column: EncodedColumn) => {
-    const rules = options.rules?.(column.name) ?? null;
+  const binned: PreparedColumns['binned'] = [];
+  const missing = new Map<string, ExcludedBy[]>();
+  const leftOut = (column: EncodedColumn, rules: LevelRules | null) =>
+    missing.set(column.name, missingByReason(column, rules, options.keepMissing, frequencies).map((e) => ({ column: column.name, ...e })));
+  const shape = (column: EncodedColumn, rules: LevelRules | null) => {
     if (rules === null || (!rules.codebook && !rules.cuts && !rules.recode)) return { column: recodeColumn(column, options.recodes.get(column.name), options.keepMissing), order: [] as string[] };
     return shapeColumn(column, rules);
   };
+  // --other k leaves at most k + 1 levels a side: within the cap, a column with more levels takes part.
+  const otherRescues = options.other !== null && options.other.k + 1 <= options.maxLevels;
   for (const original of columns) {
-    let { column, order } = shape(original);
-    if (column.codes !== null && column.labels.length > options.maxLevels) column = { ...column, codes: null };
+    const rules = options.rules?.(original.name) ?? null;
+    leftOut(original, rules);
+    let { column, order } = shape(original, rules);
+    const early = screenColumn({ ...column, codes: column.codes ?? new Uint8Array(0) }, rows, options);
+    if (early) {
+      skipped.push(early);
+      continue;
+    }
+    const bins = binsOf(rules, options.bins);
+    if (bins !== null && column.codes !== null) {
+      const missingLevels = rules ? missingLevelLabels(rules) : new Set<string>();
+      const binning = binNumericLevels(column.labels, rowsPerCode(column.codes, column.labels.length).subarray(1), bins, (level) => isMissingLooking(level) || (options.keepMissing && missingLevels.has(level)));
+      if (binning) {
+        ordered.push(binnedColumn(column, binning));
+        binned.push({ column: column.name, bins, apart: binning.apart });
+        continue;
+      }
+    }
+    if (column.codes !== null && column.labels.length > options.maxLevels && !otherRescues) column = { ...column, codes: null };
     const reason = screenColumn(column, rows, options);
     if (reason) skipped.push(reason);
-    else ordered.push(orderColumn(column, options.bins, order));
+    else ordered.push(orderColumn(column, order));
   }
-  const shapedLayer = layer ? shape(layer) : null;
-  const orderedLayer = shapedLayer ? orderColumn(shapedLayer.column, null, shapedLayer.order) : null;
-  return { ordered, skipped, layer: orderedLayer };
+  if (layer) leftOut(layer, options.rules?.(layer.name) ?? null);
+  const shapedLayer = layer ? shape(layer, options.rules?.(layer.name) ?? null) : null;
+  const orderedLayer = shapedLayer ? orderColumn(shapedLayer.column, shapedLayer.order) : null;
+  const taking = [...ordered, ...(orderedLayer ? [orderedLayer] : [])];
+  return { ordered, skipped, layer: orderedLayer, binned, excludedBy: taking.flatMap((c) => missing.get(c.name) ?? []) };
 }
 
 /**
@@ -159,6 +207,8 @@ export function prepareColumns(columns: EncodedColumn[], layer: EncodedColumn | 
  */
 export function scorePairs(prepared: PreparedColumns, rows: number, input: InputSummary, options: ScanOptions, countPair: CountPair): ScanReport {
   const { ordered, skipped, layer } = prepared;
+  // A pair's rows left out: those of its two columns and of the layer, in that order.
+  const excludedOf = (rowName: string, colName: string) => [rowName, colName, ...(layer ? [layer.name] : [])].flatMap((name) => prepared.excludedBy.filter((e) => e.column === name));
   const untestable: UntestablePair[] = [];
   const derived: DerivedPair[] = [];
   const records: (AnalysisRecord & { layered?: ReturnType<typeof analyzeStrata> })[] = [];
@@ -219,7 +269,7 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
     if (record.layered) decideHeldFixed(record, record.layered.stratified, adjustment);
     else decide(record, { adjustment, large: isLargeSample(record) });
     const { counts, rowTotals, colTotals, expected, residuals, contributions, percentages, designEffects, designPercentages, layered, ...rest } = record;
-    const pair: ScanPair = { ...rest, rank: 0, pAdjusted: adjusted[k], passes: record.verdict.passes };
+    const pair: ScanPair = { ...rest, rank: 0, pAdjusted: adjusted[k], passes: record.verdict.passes, excludedBy: excludedOf(record.rows.name, record.cols.name) };
     if (layered) pair.stratified = layered.stratified;
     if (options.full) Object.assign(pair, { counts, rowTotals, colTotals, expected, residuals, contributions, percentages, designEffects, designPercentages }, layered ? { strata: layered.strata } : {});
     return pair;
@@ -242,6 +292,7 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
     skipped,
     untestable,
     derived,
+    excludedBy: prepared.excludedBy,
     by: layer ? layer.name : null,
     weighting: records[0]?.weighting ?? 'none',
     design: scanDesign(records[0]?.design ?? null),

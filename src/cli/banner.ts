@@ -5,7 +5,7 @@ import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { BannerCellPart, bannerReport, BannerSettings, ColumnAdjustment, MultipleResponseReferral } from '../analysis/banner.js';
 import { BannerSelection, bannerColumnsOf, MultipleSpec, prepareBanner } from '../analysis/bannerQuestions.js';
 import { columnRules, TableRequest } from '../io/countTable.js';
-import { detectMissingTokens, missingTokenNotes } from '../io/missingTokens.js';
+import { detectMissingTokens, encodedValues, missingTokenNotes } from '../io/missingTokens.js';
 import type { ColumnsRequest } from '../io/columns.js';
 import { encodeRows } from '../io/counting.js';
 import { recodesByColumn } from '../io/rowRules.js';
@@ -205,7 +205,7 @@ export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
   };
   const report = await encodeRows(source, reader, request, async (encoded) => {
     const declared = new Set([...reader.missing.map((m) => m.trim()), ...(codebook?.columns.flatMap((c) => c.missing.map((m) => m.code)) ?? [])]);
-    for (const note of missingTokenNotes(detectMissingTokens(encoded.columns.map((c) => ({ name: c.name, labels: c.labels })), declared))) noteWriter(io)(note);
+    for (const note of missingTokenNotes(detectMissingTokens(encoded.columns.map(encodedValues), declared))) noteWriter(io)(note);
     const prepared = prepareBanner(encoded.columns, encoded.rows, { selection: plan.selection, sets, rules: (name) => columnRules(table, name, recodes), maxLevels: reader.maxLevels, codebook, label: source.label });
     if (prepared.questions.length === 0) throw usageError(`no question to tabulate in ${source.label}: ${prepared.skipped.length ? `left out ${prepared.skipped.map((s) => `${s.column} (${s.reason})`).join('; ')}` : 'name some with --questions'}`);
     return bannerReport({ input: inputSummary(source.label, encoded), respondents: encoded.rows, weights: encoded.weights, ...prepared }, plan.settings);

@@ -6,7 +6,8 @@
  */
 import type { Warning } from '../analysis/analyzeTable.js';
 import type { NamedVariable } from '../analysis/analyzeTable.js';
-import { columnRules, ExcludedBy, TableRequest } from '../io/countTable.js';
+import { columnRules, TableRequest } from '../io/countTable.js';
+import type { ExcludedBy } from '../table/countedTable.js';
 import { recodesByColumn } from '../io/rowRules.js';
 import { codebookColumn } from '../table/codebook.js';
 import { codebookFacts, LevelRules } from '../table/levelRules.js';

@@ -26,9 +26,10 @@ import {
   splitList,
   readerFor,
   tablePlan,
+  refuseBinsPerFile,
 } from './options.js';
 import type { CellView } from '../render/pairText.js';
-import { CliIo, emit, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
+import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { OutputGuard } from '../output/guard.js';
 import type { Outcome } from './outcome.js';
 
@@ -65,6 +66,7 @@ export function comparePlan(beforeFile: string, afterFile: string | undefined, r
   } else {
     if (afterFile === undefined) throw usageError('compare needs two files (before and after), or one file with --period');
     periods = { kind: 'files', before: beforeFile, after: afterFile };
+    refuseBinsPerFile(table, 'the two files');
   }
   return { periods, reader, table: { ...table, allowDegenerate: true }, order, analysis, alpha, format: raw.format, cells: raw.cells, report: reportPlan(raw) };
 }
@@ -98,9 +100,9 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,
   return command;
 }
 
-function period(label: string, counted: Pick<CountedInput, 'table' | 'weighting' | 'excluded' | 'design'>, input: PeriodInput['input'], plan: ComparePlan): PeriodInput {
+function period(label: string, counted: Pick<CountedInput, 'table' | 'weighting' | 'excluded' | 'excludedBy' | 'design'>, input: PeriodInput['input'], plan: ComparePlan): PeriodInput {
   const design = counted.design ? { cells: counted.design, other: plan.table.other ?? null } : null;
-  return { label, table: counted.table, weighting: counted.weighting, excluded: counted.excluded, input, design };
+  return { label, table: counted.table, weighting: counted.weighting, excluded: counted.excluded, excludedBy: counted.excludedBy, input, design };
 }
 
 /** The two periods of one file, told apart by a column: its two levels, or the two named by --levels. */
@@ -118,9 +120,10 @@ async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: s
   }
   const input = inputSummary(source.label, counted);
   const [b, a] = pick.map((l) => strata.find((s) => s.level === l)!);
+  for (const note of counted.missingTokenNotes) noteWriter(io)(note);
   return [
-    period(`${column} ${b.level}`, { table: b.table, weighting: b.weighting, excluded: b.excluded ?? 0, design: b.design }, input, plan),
-    period(`${column} ${a.level}`, { table: a.table, weighting: a.weighting, excluded: a.excluded ?? 0, design: a.design }, input, plan),
+    period(`${column} ${b.level}`, { table: b.table, weighting: b.weighting, excluded: b.excluded ?? 0, excludedBy: b.excludedBy ?? [], design: b.design }, input, plan),
+    period(`${column} ${a.level}`, { table: a.table, weighting: a.weighting, excluded: a.excluded ?? 0, excludedBy: a.excludedBy ?? [], design: a.design }, input, plan),
   ];
 }
 
@@ -146,6 +149,8 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
     const sources = [inputSource(plan.periods.before, io.stdin), inputSource(plan.periods.after, io.stdin)];
     const counted: CountedInput[] = [];
     for (const source of sources) counted.push(await countTable(source, readerFor(plan.reader, io, guard), plan.table));
+    // A note said once when both files give it.
+    for (const note of new Set(counted.flatMap((c) => c.missingTokenNotes))) noteWriter(io)(note);
     before = period(sources[0].label, counted[0], inputSummary(sources[0].label, counted[0]), plan);
     after = period(sources[1].label, counted[1], inputSummary(sources[1].label, counted[1]), plan);
   }

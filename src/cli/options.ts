@@ -16,6 +16,9 @@ import type { Codebook } from '../table/codebook.js';
 import { CutSpec, parseCuts } from '../table/bins.js';
 import type { InputSummary } from '../analysis/report.js';
 import type { TableRequest } from '../io/counting.js';
+import { columnRules } from '../io/countTable.js';
+import { binsOf } from '../table/levelRules.js';
+import { shellWord } from '../escape/shell.js';
 import { CELL_VIEWS } from '../render/pairText.js';
 import { CliIo, noteWriter } from './output.js';
 import type { OutputGuard } from '../output/guard.js';
@@ -384,6 +387,21 @@ export interface ReportPlan {
 
 export function reportPlan(raw: RawReportOptions): ReportPlan {
   return { output: raw.output, plot: raw.plot, exitStatus: raw.exitStatus === true, color: raw.color !== false, rawCells: raw.rawCells === true };
+}
+
+/**
+ * Equal-frequency bins (--bins, a codebook's bins) are cut at each counted
+ * file's own quantiles: over several files (compare's two, waves' many) the
+ * files' bins would differ, and their tables could not be laid side by side.
+ * Refused before anything is read, with the ways that do give common bins.
+ */
+export function refuseBinsPerFile(table: TableRequest, files: string): void {
+  for (const side of [table.rows, table.cols]) {
+    const k = binsOf(columnRules(table, side), table.bins ?? null);
+    if (k === null) continue;
+    const given = table.bins !== undefined && table.bins !== null && table.codebook?.columns.find((c) => c.name === side)?.bins == null ? `--bins ${k}` : `the codebook's bins for "${side}"`;
+    throw usageError(`${given} would cut ${files} each at its own quantiles, into bins that differ; give fixed edges with --cuts ${shellWord(`${side}:…`)} (tabsight profile suggests them), or one file with --period`);
+  }
 }
 
 /** The options of a command that analyses one pair of columns (pair, compare), parsed once. */

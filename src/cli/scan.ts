@@ -3,7 +3,7 @@ import { Command, Option } from 'commander';
 import { checkScanSize } from '../table/limits.js';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { prepareColumns, ScanOptions, scorePairs } from '../analysis/scan.js';
-import type { ColumnsRequest } from '../io/columns.js';
+import { ColumnsRequest, RECODED_READING_CAP } from '../io/columns.js';
 import { encodeColumns } from '../io/counting.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { SCAN_RENDERERS, ScanFormat } from '../render/renderers.js';
@@ -14,7 +14,7 @@ import { recodesByColumn } from '../io/rowRules.js';
 import { columnRules, TableRequest } from '../io/countTable.js';
 import { codebookColumn } from '../table/codebook.js';
 import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
-import { detectMissingTokens, missingTokenNotes } from '../io/missingTokens.js';
+import { detectMissingTokens, encodedValues, missingTokenNotes } from '../io/missingTokens.js';
 import type { Outcome } from './outcome.js';
 import { stackSvg, strengthChart } from '../render/svg.js';
 
@@ -149,7 +149,9 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
     columns: plan.columns.include,
     exclude: plan.columns.exclude,
     maxLevels: reader.maxLevels,
-    keepNumeric: plan.bins !== null,
+    // Binning (--bins, or a codebook's bins) keeps numeric columns past the cap; --other merges levels before the cap applies.
+    keepNumeric: plan.bins !== null || (survey.codebook?.columns.some((c) => c.bins !== null) ?? false),
+    readingCap: survey.other ? Math.max(RECODED_READING_CAP, reader.maxLevels) : undefined,
     maxColumns: plan.columns.maxColumns,
     where: survey.where,
     recodes: relabelled,
@@ -182,8 +184,13 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
     progress.done();
     if (encoded.design?.index && survey.design?.kind === 'taylor') checkDesign(encoded.design.index, survey.design.lonelyPsu);
     const declared = new Set([...reader.missing.map((m) => m.trim()), ...(survey.codebook?.columns.flatMap((c) => c.missing.map((m) => m.code)) ?? [])]);
-    for (const note of missingTokenNotes(detectMissingTokens(encoded.columns.map((c) => ({ name: c.name, labels: c.labels })), declared))) noteWriter(io)(note);
-    const prepared = prepareColumns(encoded.columns, encoded.layer, encoded.rows, options);
+    // With their rows where the codes are kept; a column past the level cap still names its tokens.
+    const findings = detectMissingTokens(encoded.columns.map(encodedValues), declared);
+    const prepared = prepareColumns(encoded.columns, encoded.layer, encoded.rows, options, encoded.weights?.kind === 'freq' ? encoded.weights.values : undefined);
+    // Each note says what became of the values: levels, levels beside a binned column's bins, or looked past in a numeric column left out.
+    const binned = new Set(prepared.binned.map((b) => b.column));
+    const numeric = new Set(prepared.skipped.filter((s) => s.code === 'numeric').map((s) => s.column));
+    for (const note of missingTokenNotes(findings, (column) => (binned.has(column) ? 'binned' : numeric.has(column) ? 'numeric' : 'level'))) noteWriter(io)(note);
     // The work is bounded before any pair is counted (src/table/limits.ts).
     checkScanSize(
       prepared.ordered.map((c) => ({ name: c.name, levels: c.labels.length })),

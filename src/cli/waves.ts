@@ -28,6 +28,7 @@ import {
   readerFor,
   splitList,
   tablePlan,
+  refuseBinsPerFile,
 } from './options.js';
 import { CliIo, emit, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { OutputGuard } from '../output/guard.js';
@@ -70,6 +71,7 @@ export function wavesPlan(inputs: string[], raw: RawWavesOptions): WavesPlan {
     // Bins from each file's own values would cut each wave differently.
     if (table.bins) throw usageError('--bins cuts a side at the quantiles of the rows read, which differ from file to file, so the waves would not share their levels; give fixed cut points with --cuts, or one file with --period');
     waves = { kind: 'files', inputs, order: raw.waveOrder };
+    refuseBinsPerFile(table, 'the wave files');
   }
   return { waves, spacing: raw.spacing, reader, table: { ...table, allowDegenerate: true }, order, analysis, format: raw.format, report: reportPlan(raw) };
 }
@@ -111,8 +113,8 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,
   return command;
 }
 
-function waveInput(label: string, key: string, counted: Pick<CountedInput, 'table' | 'weighting' | 'excluded'>, input: WaveInput['input']): WaveInput {
-  return { label, key, table: counted.table, weighting: counted.weighting, excluded: counted.excluded, input };
+function waveInput(label: string, key: string, counted: Pick<CountedInput, 'table' | 'weighting' | 'excluded' | 'excludedBy'>, input: WaveInput['input']): WaveInput {
+  return { label, key, table: counted.table, weighting: counted.weighting, excluded: counted.excluded, excludedBy: counted.excludedBy, input };
 }
 
 /** The name a wave of a file is shown by: its dated key as written, else its file's base name. */
@@ -163,7 +165,7 @@ async function wavesOfColumn(plan: WavesPlan, input: string, column: string, lis
   const summary = inputSummary(source.label, counted);
   const waves = ordered.levels.map((level) => {
     const s = strata.find((x) => x.level === level)!;
-    return waveInput(`${column} ${level}`, level, { table: s.table, weighting: s.weighting, excluded: s.excluded ?? 0 }, summary);
+    return waveInput(`${column} ${level}`, level, { table: s.table, weighting: s.weighting, excluded: s.excluded ?? 0, excludedBy: s.excludedBy ?? [] }, summary);
   });
   const inWaves = strata.reduce((sum, s) => sum + (s.excluded ?? 0), 0);
   const setup: WaveSetup = {

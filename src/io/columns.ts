@@ -69,6 +69,7 @@ export interface ColumnsRequest {
   columns?: string[];
   exclude?: string[];
   maxLevels: number;
+  /** Binning was asked for (--bins, a codebook's bins): a column that reads as numbers keeps its codes past the level cap (table/encodedColumn.ts). */
   keepNumeric: boolean;
   /** Refuse more candidate columns than this (the pairs grow with its square). */
   maxColumns: number;
@@ -91,6 +92,8 @@ export interface ColumnsRequest {
   select?: (header: readonly string[]) => string[];
   /** Columns that may hold up to RECODED_READING_CAP levels (banner: numeric questions and delimited answers). */
   wide?: ReadonlySet<string>;
+  /** Raw levels any column may hold while reading (default: maxLevels); scan --other raises it, since levels are merged before the cap applies. */
+  readingCap?: number;
   /** The fewest candidate columns the command needs (default 2, a pair). */
   minColumns?: number;
 }

@@ -9,7 +9,7 @@
 import { dataError, usageError } from '../errors.js';
 import { checkTableSize } from '../table/limits.js';
 import { pairFromBuckets } from '../numerics/compensatedSum.js';
-import { CountedTable, mergeRareLevels, Stratum } from '../table/countedTable.js';
+import { CountedTable, ExcludedBy, mergeRareLevels, Stratum } from '../table/countedTable.js';
 import { DesignCells, DesignCounter, SurveyDesign } from '../table/surveyDesign.js';
 import { compareNatural } from '../table/naturalOrder.js';
 import { TableCounter } from '../table/tableCounter.js';
@@ -28,12 +28,12 @@ import { checkCodebookColumns } from './codebookFile.js';
 import { detectMissingTokens, missingTokenNotes } from './missingTokens.js';
 import { checkReplicateCount, DesignRowRule, resolveReplicateColumns } from './designRows.js';
 import { Codebook, codebookColumn } from '../table/codebook.js';
-import { levelOrder, LevelRules } from '../table/levelRules.js';
+import { binsOf, levelOrder, LevelRules, missingLevelLabels, missingReasonOrder } from '../table/levelRules.js';
+import { isMissingLooking } from '../table/missingLooking.js';
 import { EngineFallback } from './engine/query.js';
 import { IdTally } from './idTally.js';
 import { tallyInParallel, threadsFor } from './parallelCount.js';
-import { CutSpec, equalFrequencyBinsFromCounts } from '../table/bins.js';
-import { isNumericLabel } from '../table/naturalOrder.js';
+import { binNumericLevels, CutSpec } from '../table/bins.js';
 import { InputSource } from './source.js';
 
 /** The table to count from a source: its columns and the rules that shape rows and levels. */
@@ -60,7 +60,7 @@ export interface TableRequest {
   codebook?: Codebook | null;
   /** --cuts: cut points by column (a codebook's cuts count too). */
   cuts?: CutSpec[];
-  /** --bins k: a numeric side with more than k values is cut into k equal-frequency bins, as scan cuts it. */
+  /** --bins k: a numeric side with more than k numbers is cut into k equal-frequency bins, as scan cuts it (a codebook's bins for a column win). */
   bins?: number | null;
   /** Keep the rows left out for a missing value by their values (count writes them, so that a count file keeps them). */
   keepExcludedCells?: boolean;
@@ -71,13 +71,6 @@ export interface TableRequest {
    * rows outside the table's domain included.
    */
   design?: SurveyDesign;
-}
-
-/** Rows left out of the table for a missing value, by column and reason (a row missing in two columns counts in both). */
-export interface ExcludedBy {
-  column: string;
-  reason: string;
-  rows: number;
 }
 
 /** The rules a column's values pass before counting (table/levelRules.ts). */
@@ -92,7 +85,7 @@ export const RELABELLED_READING_CAP = 65534;
 
 function relabelled(request: TableRequest, name: string): boolean {
   const rules = columnRules(request, name);
-  return rules.recode !== null || (rules.cuts ?? null) !== null || (rules.codebook?.values.length ?? 0) > 0 || (request.bins ?? null) !== null || request.other !== undefined;
+  return rules.recode !== null || (rules.cuts ?? null) !== null || (rules.codebook?.values.length ?? 0) > 0 || binsOf(rules, request.bins ?? null) !== null || request.other !== undefined;
 }
 
 /** Usage errors of a request, before anything is read. */
@@ -188,6 +181,33 @@ class Slots {
   }
 }
 
+/** Rows left out for a missing value, by slot and reason. */
+class ReasonTally {
+  private readonly bySlot = new Map<number, Map<string, number>>();
+
+  add(slot: number, reason: string, rows: number): void {
+    let byReason = this.bySlot.get(slot);
+    if (byReason === undefined) this.bySlot.set(slot, (byReason = new Map()));
+    byReason.set(reason, (byReason.get(reason) ?? 0) + rows);
+  }
+
+  /** In slot order (rows, cols, layer), each column's reasons in the order its rules give (levelRules.ts: missingReasonOrder). */
+  list(names: readonly string[], reasonOrder: (slot: number) => readonly string[]): ExcludedBy[] {
+    return [...this.bySlot.entries()]
+      .sort((a, b) => a[0] - b[0])
+      .flatMap(([slot, byReason]) => {
+        const order = reasonOrder(slot);
+        const rank = (reason: string) => (order.includes(reason) ? order.indexOf(reason) : order.length);
+        return [...byReason.entries()].sort((x, y) => rank(x[0]) - rank(y[0])).map(([reason, rows]) => ({ column: names[slot], reason, rows }));
+      });
+  }
+
+  /** Adds another tally's rows (layer levels recoded alike). */
+  merge(other: ReasonTally): void {
+    for (const [slot, byReason] of other.bySlot) for (const [reason, rows] of byReason) this.add(slot, reason, rows);
+  }
+}
+
 /**
  * The counters of one request: the pooled table, one per layer level, and
  * the rows left out for a missing value; with a survey design, its totals
@@ -203,14 +223,15 @@ class LayeredCounter {
   readonly layerDesigns = new Map<TableCounter, DesignCounter>();
   excluded = 0;
   /** Rows left out, by slot and reason. */
-  private readonly reasons = new Map<number, Map<string, number>>();
-  /** Rows left out for a missing value of the table, by the value id of their (present) layer level. */
+  readonly reasons = new ReasonTally();
+  /** Rows left out for a missing value of the table, by the value id of their (present) layer level: how many, and by slot and reason. */
   readonly excludedByLayer = new Map<number, number>();
+  readonly reasonsByLayer = new Map<number, ReasonTally>();
   /** For count: the rows left out, by their combination of values as written (a JSON array of strings). */
   excludedCells: Map<string, number> | null = null;
   /** The value an id stands for, as read (for excludedCells). */
   raw: (slot: number, id: number) => string = () => '';
-  /** With --bins: rows per value id of the row and the column variable, over every row the filters keep (as scan bins them). */
+  /** With bins: rows per value id of the row and the column variable, over every row the filters keep (as scan bins them). */
   marginals: [Float64Array, Float64Array] | null = null;
 
   constructor(
@@ -222,18 +243,6 @@ class LayeredCounter {
     this.pooled = this.tableCounter();
   }
 
-  /** The rows left out for a missing value, by column and reason, in slot order. */
-  excludedBy(): ExcludedBy[] {
-    return [...this.reasons.entries()]
-      .sort((a, b) => a[0] - b[0])
-      .flatMap(([slot, byReason]) => [...byReason.entries()].map(([reason, rows]) => ({ column: this.slots.names[slot], reason, rows })));
-  }
-
-  private leaveOut(slot: number, reason: string, rows: number): void {
-    let byReason = this.reasons.get(slot);
-    if (byReason === undefined) this.reasons.set(slot, (byReason = new Map()));
-    byReason.set(reason, (byReason.get(reason) ?? 0) + rows);
-  }
 
   private tableCounter(): TableCounter {
     const cap = (name: string) => (relabelled(this.request, name) ? Math.max(RELABELLED_READING_CAP, this.request.maxLevels) : this.request.maxLevels);
@@ -292,10 +301,16 @@ class LayeredCounter {
         const key = JSON.stringify([...(by >= 0 ? [value(by, b, byReason)] : []), value(row, r, rowReason), value(col, c, colReason)]);
         this.excludedCells.set(key, (this.excludedCells.get(key) ?? 0) + rows);
       }
-      if (rowReason !== null) this.leaveOut(row, rowReason, rows);
-      if (colReason !== null) this.leaveOut(col, colReason, rows);
-      if (byReason !== null) this.leaveOut(by, byReason, rows);
-      else if (by >= 0) this.excludedByLayer.set(b, (this.excludedByLayer.get(b) ?? 0) + rows);
+      if (rowReason !== null) this.reasons.add(row, rowReason, rows);
+      if (colReason !== null) this.reasons.add(col, colReason, rows);
+      if (byReason !== null) this.reasons.add(by, byReason, rows);
+      else if (by >= 0) {
+        this.excludedByLayer.set(b, (this.excludedByLayer.get(b) ?? 0) + rows);
+        let layer = this.reasonsByLayer.get(b);
+        if (layer === undefined) this.reasonsByLayer.set(b, (layer = new ReasonTally()));
+        if (rowReason !== null) layer.add(row, rowReason, rows);
+        if (colReason !== null) layer.add(col, colReason, rows);
+      }
       return;
     }
     this.pooled.add(r, c, rows, w, wLow, q, qLow);
@@ -501,6 +516,7 @@ function finishTables(
   filtered: number,
   kind: Weighting['kind'],
   orderOf: (slot: number, levels: readonly string[]) => string[],
+  reasonOrder: (slot: number) => readonly string[],
 ): { counted: CountedTable; unknownRowLevels: string[]; unknownColLevels: string[] } {
   const rowLabel = (id: number) => label(slots.row, id);
   const colLabel = (id: number) => label(slots.col, id);
@@ -510,6 +526,13 @@ function finishTables(
   for (const [id, rows] of counter.excludedByLayer) {
     const level = id < 0 ? '(beyond the level limit)' : label(slots.by, id);
     excludedOfLevel.set(level, (excludedOfLevel.get(level) ?? 0) + rows);
+  }
+  const reasonsOfLevel = new Map<string, ReasonTally>();
+  for (const [id, tally] of counter.reasonsByLayer) {
+    const level = id < 0 ? '(beyond the level limit)' : label(slots.by, id);
+    let merged = reasonsOfLevel.get(level);
+    if (merged === undefined) reasonsOfLevel.set(level, (merged = new ReasonTally()));
+    merged.merge(tally);
   }
   let table = dropEmptyLevels(finished.table);
   if (slots.by >= 0) checkTableSize(request.rows, table.rowLevels.length, request.cols, table.colLevels.length, { name: request.by ?? '', levels: counter.strata.size });
@@ -533,6 +556,7 @@ function finishTables(
             ...(request.design ? { design: designCells(counter.layerDesigns.get(layer)) } : {}),
           }))
       : null;
+  for (const s of own ?? []) s.excludedBy = reasonsOfLevel.get(s.level)?.list(slots.names, reasonOrder) ?? [];
   let strata = own?.map((s) => ({ ...s, table: relabelTable(s.table, table.rowLevels, table.colLevels) })) ?? null;
   if (request.other) {
     ({ table, strata } = mergeRareLevels(table, own, request.other.k, request.other.label));
@@ -583,7 +607,9 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
     source.label,
   );
   const counter = new LayeredCounter(request, slots, label, (slot, id) => labels[slot].missingReason(id));
-  if (request.bins) counter.marginals = [new Float64Array(64), new Float64Array(64)];
+  // Equal-frequency bins per side (--bins, or the codebook's bins), decided once the values are read.
+  const binsOfSide = [slots.row, slots.col].map((slot) => binsOf(labels[slot].rules, request.bins ?? null));
+  if (binsOfSide.some((k) => k !== null)) counter.marginals = [new Float64Array(64), new Float64Array(64)];
   if (request.keepExcludedCells) {
     counter.excludedCells = new Map();
     counter.raw = (slot, id) => labelsOf[slot]?.[id - 1] ?? '';
@@ -601,26 +627,42 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
       ? await countRows(source, reader, request, slots, gate, counter, onLabels, ruleOfRows)
       : await countGroups(engine, engine.input, source, reader, request, slots, gate, counter, onLabels);
   if (summary.records === 0) throw dataError(`${source.label}: the header has no data rows under it`);
-  if (request.bins && counter.marginals) {
+  // The bins of a numeric side: from its levels as counting sees them (missing values have no rows here), the rule of scan --bins (table/bins.ts).
+  const binOrder = new Map<number, string[]>();
+  if (counter.marginals) {
     [slots.row, slots.col].forEach((slot, side) => {
+      const k = binsOfSide[side];
+      if (k === null) return;
       const rules = labels[slot].rules;
-      if (rules.recode || rules.cuts || (rules.codebook?.values.length ?? 0) > 0) return;
       const values = labelsOf[slot] ?? [];
-      if (values.length <= (request.bins as number) || !values.every(isNumericLabel)) return;
       const tally = counter.marginals![side];
-      const binned = equalFrequencyBinsFromCounts(values.map(Number), values.map((_v, k) => tally[k + 1] ?? 0), request.bins as number);
-      labels[slot].useBins(['', ...binned.binOf.map((b) => (b > 0 ? binned.labels[b - 1] : ''))]);
+      const levels = values.map((_v, i) => labels[slot].of(i + 1));
+      const rows = values.map((_v, i) => (labels[slot].missingReason(i + 1) === null ? (tally[i + 1] ?? 0) : 0));
+      const missingLevels = missingLevelLabels(rules);
+      const binning = binNumericLevels(levels, rows, k, (level) => isMissingLooking(level) || (rules.keepMissing && missingLevels.has(level)));
+      if (binning === null) return;
+      labels[slot].useBins(['', ...binning.labelOf]);
+      binOrder.set(slot, binning.order);
     });
   }
+  const orderOf = (slot: number, levels: readonly string[]): string[] => {
+    const bins = binOrder.get(slot);
+    if (bins === undefined) return levelOrder(labels[slot].rules, levels);
+    // Bins lowest first, then the levels kept beside them; anything else (the empty fields kept by --keep-missing) in the rules' order.
+    return [...bins.filter((l) => levels.includes(l)), ...levelOrder(labels[slot].rules, levels.filter((l) => !bins.includes(l)))];
+  };
   const kind: Weighting['kind'] = request.summedWeights ? 'weight' : request.weight ? request.weight.kind : 'none';
-  const { counted, unknownRowLevels, unknownColLevels } = finishTables(request, counter, label, slots, gate.filtered, kind, (slot, levels) => levelOrder(labels[slot].rules, levels));
+  const reasonOrder = (slot: number) => missingReasonOrder(labels[slot].rules);
+  const { counted, unknownRowLevels, unknownColLevels } = finishTables(request, counter, label, slots, gate.filtered, kind, orderOf, reasonOrder);
   // Values that commonly mean missing but are counted as levels: one note per column (io/missingTokens.ts).
   const declared = new Set([...reader.missing.map((m) => m.trim()), ...[slots.row, slots.col].flatMap((slot) => labels[slot].rules.codebook?.missing.map((m) => m.code) ?? [])]);
   const findings = detectMissingTokens(
     [slots.row, slots.col, ...(slots.by >= 0 ? [slots.by] : [])].map((slot) => ({ name: slots.names[slot], labels: labelsOf[slot] ?? [] })),
     declared,
   );
-  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, badDesign: (designRule as DesignRowRule | null)?.skipped ?? 0, excludedBy: counter.excludedBy(), missingTokenNotes: missingTokenNotes(findings), excludedCells: counter.excludedCells ? [...counter.excludedCells].map(([key, rows]) => [JSON.parse(key) as string[], rows]) : [] };
+  const binnedNames = new Set([...binOrder.keys()].map((slot) => slots.names[slot]));
+  const notes = missingTokenNotes(findings, (column) => (binnedNames.has(column) ? 'binned' : 'level'));
+  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, badDesign: (designRule as DesignRowRule | null)?.skipped ?? 0, excludedBy: counter.reasons.list(slots.names, reasonOrder), missingTokenNotes: notes, excludedCells: counter.excludedCells ? [...counter.excludedCells].map(([key, rows]) => [JSON.parse(key) as string[], rows]) : [] };
 }
 
 /** The engine, and (one file of several counted in one pass) the groups it counted for that file with what it read of it. */

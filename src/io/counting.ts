@@ -8,12 +8,12 @@
  * one note says so.
  */
 import { usageError } from '../errors.js';
-import type { CountedTable, CountPair } from '../table/countedTable.js';
+import type { CountedTable, CountPair, ExcludedBy } from '../table/countedTable.js';
 import type { EncodedColumn } from '../table/encodedColumn.js';
 import type { OrderedColumn } from '../table/orderedColumn.js';
 import type { RowDesign } from '../table/surveyDesign.js';
 import type { ColumnsRequest } from './columns.js';
-import { countFilesWith, countTableWith, ExcludedBy, TableRequest } from './countTable.js';
+import { countFilesWith, countTableWith, TableRequest } from './countTable.js';
 import { encodeWithReader } from './encodeColumns.js';
 import { engineInput, EngineInput, isParquetPath, isPattern } from './engine/files.js';
 import type { Engine } from './engine/module.js';
@@ -50,7 +50,7 @@ export interface EncodedInput {
   layer: EncodedColumn | null;
   /** Rows kept (past the filters, with a usable weight). */
   rows: number;
-  /** The built-in reader's weight (or frequency) of each kept row, in row order; absent without --weight/--freq and on the engine's route. */
+  /** The weight (or frequency) of each kept row, in row order; absent without --weight/--freq. */
   weights?: { values: Float64Array; kind: 'weight' | 'freq' };
   filtered: number;
   badWeights: number;

@@ -8,6 +8,7 @@ import { promises as fs } from 'node:fs';
 import { dataError } from '../errors.js';
 import { countPair } from '../table/countPair.js';
 import { Codes, codesFor, EncodedColumn, largestCode, remapCodes } from '../table/encodedColumn.js';
+import { isMissingLooking, numericIgnoringTokens } from '../table/missingLooking.js';
 import { isNumericLabel } from '../table/naturalOrder.js';
 import { ColumnsRequest, DISTINCT_TRACKING_LIMIT, RECODED_READING_CAP, scanSelection } from './columns.js';
 import type { EncodedInput } from './counting.js';
@@ -94,12 +95,26 @@ interface ColumnState {
   name: string;
   /** Raw levels the column may hold while reading. */
   cap: number;
-  /** Codes past this cannot be kept (the column is past its cap for good). */
+  /** Codes past this cannot be kept (the column is past its cap for good), unless the column may be binned. */
   dropAbove: number;
   codes: GrowingCodes | null;
-  /** Every row's value id, kept only for numeric columns when binning was asked for. */
-  allIds: GrowingCodes | null;
+  /** With binning asked for: the values checked so far are all numbers or missing-looking tokens (ids up to `checked`). */
+  mayBeNumeric: boolean;
+  checked: number;
   missing: number;
+}
+
+/**
+ * Whether a column may still be binned: every value read so far (ids 1 up
+ * to `id`) is a number or a missing-looking token. Checked once per new
+ * value, from where the last check stopped.
+ */
+function stillNumeric(state: ColumnState, labels: readonly string[], id: number): boolean {
+  for (; state.mayBeNumeric && state.checked < id && state.checked < labels.length; state.checked++) {
+    const label = labels[state.checked];
+    if (!isNumericLabel(label) && !isMissingLooking(label)) state.mayBeNumeric = false;
+  }
+  return state.mayBeNumeric;
 }
 
 /**
@@ -149,11 +164,12 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
         return slots.length - 1;
       };
       for (const i of chosen) {
-        const cap = request.recodes?.has(header[i]) || request.wide?.has(header[i]) ? Math.max(RECODED_READING_CAP, request.maxLevels) : request.maxLevels;
+        const cap = request.recodes?.has(header[i]) || request.wide?.has(header[i]) ? Math.max(RECODED_READING_CAP, request.maxLevels) : (request.readingCap ?? request.maxLevels);
         states.push({
           name: header[i],
           codes: new GrowingCodes(ESTIMATE_AT),
-          allIds: request.keepNumeric ? new GrowingCodes(ESTIMATE_AT) : null,
+          mayBeNumeric: request.keepNumeric,
+          checked: 0,
           missing: 0,
           cap,
           dropAbove: rowsMayBeLeftOut ? readingCap : Math.min(cap, readingCap),
@@ -162,7 +178,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
       if (selection.layer !== null) {
         const index = selection.layer;
         layerSlot = slotOf(index);
-        layerState = { name: header[index], codes: new GrowingCodes(ESTIMATE_AT), allIds: null, missing: 0, cap: RECODED_READING_CAP, dropAbove: RECODED_READING_CAP };
+        layerState = { name: header[index], codes: new GrowingCodes(ESTIMATE_AT), mayBeNumeric: false, checked: 0, missing: 0, cap: RECODED_READING_CAP, dropAbove: RECODED_READING_CAP };
       }
       if (selection.weight !== null) weightSlot = slotOf(selection.weight);
       const whereSlots = selection.where.map((index) => slotOf(index));
@@ -214,7 +230,6 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
         layerState?.codes?.reserve(estimate);
         for (const state of states) {
           state.codes?.reserve(estimate);
-          state.allIds?.reserve(estimate);
         }
       }
       if (weights) weights.set(row, w);
@@ -234,12 +249,9 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
           continue;
         }
         if (state.codes !== null) {
-          if (id > state.dropAbove || id < 0) state.codes = null;
+          // Past its cap a column is dropped, unless it may be binned: then it keeps its codes while its values read as numbers.
+          if (id < 0 || (id > state.dropAbove && !stillNumeric(state, interners[k].labels, id))) state.codes = null;
           else state.codes.set(row, id);
-        }
-        if (state.allIds !== null) {
-          if (id < 0) state.allIds = null;
-          else state.allIds.set(row, id);
         }
       }
       if (request.progress && (rows & 0xffff) === 0) request.progress(rows);
@@ -257,19 +269,9 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
     let labels = interner.labels;
     let codes = state.codes?.take(rows) ?? null;
     if (leftOut && codes !== null) ({ codes, labels } = compactCodes(codes, labels));
-    if (codes !== null && labels.length > state.cap) codes = null;
-    const numeric = labels.length > 0 && labels.every(isNumericLabel);
-    const allLabels = interner.labels;
-    const integer = numeric && labels.every((l) => /^[+-]?\d+$/.test(l));
-    let values: Float64Array | null = null;
-    if (numeric && state.allIds !== null) {
-      const numberOf = new Float64Array(labels.length + 1);
-      numberOf[0] = Number.NaN;
-      allLabels.forEach((l, i) => (numberOf[i + 1] = Number(l)));
-      const idsOfRows = state.allIds.take(rows);
-      values = new Float64Array(rows);
-      for (let r = 0; r < rows; r++) values[r] = numberOf[idsOfRows[r]];
-    }
+    // Numbers apart from missing-looking tokens (table/missingLooking.ts); such a column keeps its codes past the cap when it may be binned.
+    const { numeric, integer } = numericIgnoringTokens(labels);
+    if (codes !== null && labels.length > state.cap && !(request.keepNumeric && numeric)) codes = null;
     return {
       name: state.name,
       labels: codes !== null ? labels : [],
@@ -279,7 +281,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
       distinctCapped: interner.overflowed > 0,
       numeric,
       integer,
-      values,
+      missingLooking: labels.filter(isMissingLooking),
     };
   });
   let layer: EncodedColumn | null = null;
@@ -288,7 +290,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
     layerState = finalLayer;
     const labels = summary.interners[layerSlot].labels;
     if (layerState.codes === null) throw dataError(`--by "${layerState.name}" has more than ${RECODED_READING_CAP.toLocaleString('en-US')} distinct values; a layer needs few levels`);
-    layer = { name: layerState.name, labels, codes: layerState.codes.take(rows), missing: layerState.missing, distinct: labels.length, distinctCapped: false, numeric: false, integer: false, values: null };
+    layer = { name: layerState.name, labels, codes: layerState.codes.take(rows), missing: layerState.missing, distinct: labels.length, distinctCapped: false, numeric: false, integer: false, missingLooking: [] };
   }
   const rowWeights = weights ? { values: weights.take(rows), kind: request.weight!.kind } : undefined;
   const { interners: _interners, ...read } = summary;

@@ -5,7 +5,7 @@
 import { dataError } from '../errors.js';
 import { DistinctSketch } from '../table/distinctSketch.js';
 import { isNumericLabel } from '../table/naturalOrder.js';
-import { isMissingLooking } from './missingTokens.js';
+import { isMissingLooking } from '../table/missingLooking.js';
 import { readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
 import { InputSource } from './source.js';
 

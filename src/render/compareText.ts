@@ -6,6 +6,7 @@ import { renderGrid } from './grid.js';
 import { glued, wrapText } from './layout.js';
 import { cautionLines, DEFAULT_TEXT, heading, tableView, TextOptions } from './pairText.js';
 import { comparison, designOptionWords, evidenceWords, testName } from './words.js';
+import type { ExcludedBy } from '../table/countedTable.js';
 
 type Testable = Extract<PeriodRecord, { testable: true }>;
 
@@ -67,7 +68,15 @@ export function renderCompareText(report: CompareReport, paint: ChalkInstance, o
       : ([['chi-square', (r) => value(r, (x) => formatStatistic(x.tests.pearson.statistic)), '']] as [string, (r: PeriodRecord) => string, string][])),
     ['bias-corrected V', (r) => value(r, (x) => formatMeasure(x.measures.biasCorrectedV)), formatSigned(report.deltaBiasCorrectedV)],
     ["Cramér's V", (r) => value(r, (x) => formatMeasure(x.measures.cramersV)), ''],
+    ['left out (missing)', (r) => value(r, (x) => formatCount(x.excluded)), ''],
   ];
+  // The rows left out by column and reason, side by side, where they were counted so.
+  const reasons: ExcludedBy[] = [...(before.excludedBy ?? []), ...(after.excludedBy ?? [])];
+  const keys = [...new Set(reasons.map((e) => JSON.stringify([e.column, e.reason])))].map((k) => JSON.parse(k) as [string, string]);
+  for (const [column, reason] of keys) {
+    const rows = (r: PeriodRecord) => (r.excludedBy ? formatCount(r.excludedBy.find((e) => e.column === column && e.reason === reason)?.rows ?? 0) : UNDEFINED);
+    figures.push([`  ${column}: ${reason}`, rows, '']);
+  }
   out.push(
     ...renderGrid(
       {

@@ -9,9 +9,9 @@ import type { ScanReport } from '../analysis/scan.js';
 import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { changeTestName, compareHeadline, compareWeightingWords, shiftWords } from './compareText.js';
 import { inputLine } from './pairText.js';
-import { pairFlags, scanSummary, FLAG_LEGEND } from './scanTable.js';
+import { pairFlags, scanSummary, FLAG_LEGEND, SCAN_LEFT_OUT_HEADING, SCAN_LEFT_OUT_NOTE } from './scanTable.js';
 import { escapeXml, mosaicPlot, residualHeatMap, strengthChart } from './svg.js';
-import { ADJUSTMENT_NAMES, CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, headline, intervalWords, markLegend, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
+import { ADJUSTMENT_NAMES, CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, excludedByWords, headline, intervalWords, leftOutWords, markLegend, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
 
 const STYLE = `
   :root { color-scheme: light; }
@@ -232,6 +232,7 @@ export function renderScanHtml(report: ScanReport): string {
   const skipped = report.skipped.map((s) => `<li>${e(s.column)}: ${e(s.reason)}</li>`).join('');
   const untestable = report.untestable.map((u) => `<li>${e(u.rows)} × ${e(u.cols)}: ${e(u.reason)}</li>`).join('');
   const derived = (report.derived ?? []).map((d) => `<li>${e(d.rows)} × ${e(d.cols)}: ${e(d.reason)}</li>`).join('');
+  const leftOut = excludedByWords(report.excludedBy ?? []).map((w) => `<li>${e(w)}</li>`).join('');
   const used = [...new Set(report.pairs.flatMap(pairFlags))];
   const body = `<h1>Pairs of ${e(report.input.file)}</h1>
 <p class="meta">${e(scanSummary(report))}</p>
@@ -240,14 +241,14 @@ export function renderScanHtml(report: ScanReport): string {
 <h2>Pairs, strongest first</h2><table><tr><th>#</th><th>passes</th><th>pair</th><th>bias-corrected V</th><th>Cramér's V</th><th>leading p</th><th>test</th><th>adjusted p</th><th>notes</th></tr>${rows}</table>
 ${used.length ? `<p class="dim">${e(used.map((f) => `${f} = ${FLAG_LEGEND[f]}`).join('; '))}</p>` : ''}
 ${report.pairs.length < report.pairsTested ? `<p class="dim">${report.pairsTested - report.pairs.length} weaker pairs not shown (--top); ${report.pairsPassing} of all ${report.pairsTested} pairs pass.</p>` : ''}
-${skipped ? `<h2>Columns left out</h2><ul>${skipped}</ul>` : ''}${untestable ? `<h2>Pairs that could not be tested</h2><ul>${untestable}</ul>` : ''}${derived ? `<h2>One column a recoding of the other (not ranked)</h2><ul>${derived}</ul>` : ''}`;
+${skipped ? `<h2>Columns left out</h2><ul>${skipped}</ul>` : ''}${untestable ? `<h2>Pairs that could not be tested</h2><ul>${untestable}</ul>` : ''}${derived ? `<h2>One column a recoding of the other (not ranked)</h2><ul>${derived}</ul>` : ''}${leftOut ? `<h2>${e(SCAN_LEFT_OUT_HEADING)}</h2><p class="dim">${e(SCAN_LEFT_OUT_NOTE)}</p><ul>${leftOut}</ul>` : ''}`;
   return page(`Pairs of ${report.input.file}`, body);
 }
 
 export function renderCompareHtml(report: CompareReport): string {
   const side = (r: CompareReport['before']) =>
     r.testable
-      ? `<div><h2>${e(r.label)}</h2><div class="answer${r.verdict.passes ? '' : ' fails'}"><p class="lead">${e(`${headline(r.verdict)}: ${comparison(r.verdict.pValue, r.verdict.alpha, r.verdict.passes)}, ${testName(r.verdict.test, r)}`)}</p><p>n ${formatCount(r.n)}; bias-corrected V ${formatMeasure(r.measures.biasCorrectedV)}; ${e(vIntervalWords(r))}</p></div>
+      ? `<div><h2>${e(r.label)}</h2><div class="answer${r.verdict.passes ? '' : ' fails'}"><p class="lead">${e(`${headline(r.verdict)}: ${comparison(r.verdict.pValue, r.verdict.alpha, r.verdict.passes)}, ${testName(r.verdict.test, r)}`)}</p><p>n ${formatCount(r.n)}; bias-corrected V ${formatMeasure(r.measures.biasCorrectedV)}; ${e(vIntervalWords(r))}</p>${r.excluded > 0 ? `<p class="meta">${e(leftOutWords(r.excluded, r.excludedBy))}</p>` : ''}</div>
 <p class="dim">Each cell: the count and its share of the row.</p>${gridTable(r, (i, j) => `${formatCount(r.counts[i][j])}<span class="share">${formatPercent(r.percentages.row[i][j], 0)}</span>`, true)}
 <div class="figures">${residualHeatMap(r, `Adjusted residuals, ${r.label}`)}</div></div>`
       : `<div><h2>${e(r.label)}</h2><p class="note">${e(r.reason)}</p></div>`;

@@ -139,8 +139,14 @@ function recordLines(record: AnalysisRecord, level: string): Line[] {
   return lines;
 }
 
+/** The rows left out by column and reason: `excluded_by_rows`, `excluded_by_cols`, `excluded_by_layer` (the --by variable), the reason in `text`. */
+function excludedByLines(report: PairReport): Line[] {
+  const side = (column: string) => (column === report.rows.name ? 'rows' : column === report.cols.name ? 'cols' : 'layer');
+  return (report.excludedBy ?? []).map((e) => ['sample', `excluded_by_${side(e.column)}`, '', '', e.rows, null, null, '', e.reason]);
+}
+
 export function pairLines(report: PairReport): Line[] {
-  const lines = recordLines(report, '');
+  const lines = [...recordLines(report, ''), ...excludedByLines(report)];
   const { stratified, strata } = report;
   if (stratified && strata) {
     const held = (name: string, value: number | null, df: number | null = null, p: number | null = null) => lines.push(['held_fixed', name, '', '', value, df, p, '', stratified.by]);

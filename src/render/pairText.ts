@@ -8,7 +8,7 @@ import type { PairReport } from '../analysis/report.js';
 import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { renderGrid } from './grid.js';
 import { displayWidth, glued, padEnd, padStart, wrapText } from './layout.js';
-import { CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, headline, intervalWords, markLegend, quoteLevel, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
+import { CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, headline, intervalWords, leftOutWords, markLegend, quoteLevel, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
 
 /** What the cells of the table show (--cells). */
 export type CellView = 'compact' | 'counts' | 'row' | 'col' | 'total' | 'expected' | 'residuals';
@@ -67,7 +67,7 @@ export function inputLine(report: PairReport): string {
   } else if (report.weighting === 'freq') {
     parts.push(`${glued(formatCount(report.unweightedN))} in the table standing for ${glued(formatCount(report.n))} observations`);
   } else parts.push(`${glued(formatCount(report.n))} in the table`);
-  if (report.excluded > 0) parts.push(`${glued(formatCount(report.excluded))} left out for a missing value`);
+  if (report.excluded > 0) parts.push(leftOutWords(report.excluded, report.excludedBy));
   if (input.filtered > 0) parts.push(`${glued(formatCount(input.filtered))} filtered out by --where`);
   if (input.badRowsSkipped > 0) parts.push(`${plural(input.badRowsSkipped, 'malformed row')} skipped`);
   if (input.badWeightsSkipped > 0) parts.push(`${plural(input.badWeightsSkipped, 'row')} with an unusable weight skipped`);

@@ -7,7 +7,7 @@ import type { ScanPair, ScanReport } from '../analysis/scan.js';
 import { formatCount, formatMeasure, formatP } from '../readableNumbers.js';
 import { displayWidth, foldLabel, glued, padEnd, padStart, wrapText } from './layout.js';
 import { cautionLines, heading } from './pairText.js';
-import { ADJUSTMENT_NAMES, alphaPhrase, CAUTION, designWords, testName } from './words.js';
+import { ADJUSTMENT_NAMES, alphaPhrase, CAUTION, designWords, excludedByWords, testName } from './words.js';
 import type { DesignSummary } from '../analysis/design.js';
 import { md } from './pairDelimited.js';
 
@@ -50,6 +50,10 @@ export function scanSummary(report: ScanReport): string {
     `${glued(String(report.pairsPassing), 'of', String(report.pairsTested))} pass${report.pairs.length < report.pairsTested ? ` (the ${report.pairs.length} strongest are shown)` : ''}.`
   );
 }
+
+/** The heading and the reading of the scan's rows left out, the same words in every format. */
+export const SCAN_LEFT_OUT_HEADING = 'Rows left out for a missing value';
+export const SCAN_LEFT_OUT_NOTE = 'Each column below leaves these rows out of every pair it is in; a pair leaves out the rows missing in either of its columns.';
 
 export const FLAG_LEGEND: Record<string, string> = {
   sparse: 'fails the expected-count rule',
@@ -117,6 +121,11 @@ export function renderScanText(report: ScanReport, paint: ChalkInstance, options
     out.push(...heading(paint, 'One column a recoding of the other (not ranked; --keep-derived scores them)', width));
     for (const d of report.derived) out.push(...wrapText(`${d.rows} × ${d.cols}: ${d.reason}`, width, '  ', '    '));
   }
+  if ((report.excludedBy ?? []).length > 0) {
+    out.push(...heading(paint, SCAN_LEFT_OUT_HEADING, width));
+    out.push(...wrapText(SCAN_LEFT_OUT_NOTE, width, '  ', '  ').map((l) => paint.dim(l)));
+    for (const words of excludedByWords(report.excludedBy)) out.push(...wrapText(words, width, '  ', '    '));
+  }
   out.push(...cautionLines(paint, width));
   return out.join('\n') + '\n';
 }
@@ -164,6 +173,7 @@ export const SCAN_COLUMNS = [
   'design_den_df',
   'design_p_value',
   'mean_design_effect',
+  'excluded_by',
 ] as const;
 
 function scanRow(pair: ScanPair): (string | number | boolean | null)[] {
@@ -210,6 +220,7 @@ function scanRow(pair: ScanPair): (string | number | boolean | null)[] {
     pair.tests.designF?.denDf ?? null,
     pair.tests.designF?.pValue ?? null,
     pair.design?.designEffects.mean ?? null,
+    excludedByWords(pair.excludedBy ?? [], true).join('; '),
   ];
 }
 
@@ -265,6 +276,10 @@ export function renderScanMarkdown(report: ScanReport): string {
   if ((report.derived ?? []).length > 0) {
     out.push('');
     out.push('One column a recoding of the other (not ranked): ' + report.derived.map((d) => `${md(d.rows)} × ${md(d.cols)} (${md(d.reason)})`).join('; ') + '.');
+  }
+  if ((report.excludedBy ?? []).length > 0) {
+    out.push('');
+    out.push(`${SCAN_LEFT_OUT_HEADING}: ${excludedByWords(report.excludedBy).map(md).join('; ')}. ${SCAN_LEFT_OUT_NOTE}`);
   }
   out.push('');
   out.push(`_${md(CAUTION)}_`);

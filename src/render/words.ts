@@ -5,6 +5,7 @@
 import type { AnalysisRecord, Statement, Verdict } from '../analysis/analyzeTable.js';
 import type { DesignSummary } from '../analysis/design.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
+import type { ExcludedBy } from '../table/countedTable.js';
 import { formatConfidence, formatCount, formatLevel, formatMeasure, formatP, formatRatio, formatSigned } from '../readableNumbers.js';
 import { GLUE, glued, shownLabel } from './layout.js';
 
@@ -224,4 +225,17 @@ export function designVWords(v: { value: number; effectiveSampleSize: number }):
 /** Which interval the design-based percentages carry. */
 export function designIntervalWords(confidence: number, df: number): string {
   return `${glued(formatConfidence(confidence), 'intervals')}: logit, with t on ${glued(formatCount(df), 'df')}; Korn–Graubard (marked *) where a share is 0 or 1 or its rarer outcome has fewer than 10 design-effective cases`;
+}
+
+/** The rows left out, one phrase per column: "PID: 8 refused, 4 empty" (reasons in the record's order; numbers glued to their reason unless `plain`, for CSV cells). */
+export function excludedByWords(excludedBy: readonly ExcludedBy[], plain = false): string[] {
+  const columns = [...new Set(excludedBy.map((e) => e.column))];
+  const phrase = (e: ExcludedBy) => (plain ? `${e.rows} ${e.reason}` : glued(formatCount(e.rows), e.reason));
+  return columns.map((column) => `${column}: ${excludedBy.filter((e) => e.column === column).map(phrase).join(', ')}`);
+}
+
+/** "12 left out for a missing value (PID: 8 refused, 4 empty; vote: 3 empty)"; the reasons where the record has them. */
+export function leftOutWords(excluded: number, excludedBy?: readonly ExcludedBy[]): string {
+  const reasons = excludedBy && excludedBy.length > 0 ? ` (${excludedByWords(excludedBy).join('; ')})` : '';
+  return `${glued(formatCount(excluded))} left out for a missing value${reasons}`;
 }

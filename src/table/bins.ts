@@ -2,7 +2,8 @@
  * Binning numeric columns: equal-frequency bins (from values or from value
  * counts) and cut-point bins, labelled by their ranges.
  */
-import { compareNatural } from './naturalOrder.js';
+import { compareNatural, isNumericLabel } from './naturalOrder.js';
+import { MISSING_LEVEL } from './twoWayTable.js';
 import { usageError } from '../errors.js';
 
 export interface Binning {
@@ -91,6 +92,54 @@ export function equalFrequencyBinsFromCounts(values: readonly number[], counts: 
   });
   const labels = edges.map((_e, b) => (minimum[b] === maximum[b] ? formatEdge(minimum[b]) : `${formatEdge(minimum[b])}–${formatEdge(maximum[b])}`));
   return { labels, binOf };
+}
+
+/** A column's levels binned: the level each of its levels becomes, and the new levels in order. */
+export interface LevelBinning {
+  /** Parallel to the levels given: the bin label of a number, or the level itself for one set apart. */
+  labelOf: string[];
+  /** The bins, lowest first, then the levels set apart (natural order, "(missing)" last). */
+  order: string[];
+  /** The levels set apart that hold rows (missing-looking values, missing values kept as levels). */
+  apart: string[];
+}
+
+/**
+ * Equal-frequency bins for a column whose levels are numbers, apart from
+ * some levels that stay as they are (`apart`: values that commonly mean
+ * missing, missing values kept as levels): the numbers are cut into k bins
+ * exactly as equalFrequencyBins cuts the rows (the same order statistics,
+ * from the rows of each level), and each level set apart keeps its label
+ * and follows the bins (in natural order, the level of empty fields last).
+ * The one rule of `pair --bins` and `scan --bins`.
+ *
+ * Null when the column is not numeric in this sense (a level with rows is
+ * neither a number nor set apart, or no level is a number), or when it has
+ * at most k numbers with rows: then its levels stay as they are.
+ */
+export function binNumericLevels(levels: readonly string[], rows: ArrayLike<number>, k: number, apart: (level: string) => boolean): LevelBinning | null {
+  const numbers = new Array<number>(levels.length).fill(Number.NaN);
+  const kept: string[] = [];
+  let distinct = 0;
+  for (let i = 0; i < levels.length; i++) {
+    if (!(rows[i] > 0)) continue;
+    if (isBinnable(levels[i])) {
+      numbers[i] = Number(levels[i]);
+      distinct++;
+    } else if (apart(levels[i])) {
+      if (!kept.includes(levels[i])) kept.push(levels[i]);
+    } else return null;
+  }
+  if (distinct <= k) return null;
+  const binned = equalFrequencyBinsFromCounts(numbers, Array.from({ length: levels.length }, (_v, i) => rows[i]), k);
+  const labelOf = levels.map((level, i) => (binned.binOf[i] > 0 ? binned.labels[binned.binOf[i] - 1] : level));
+  kept.sort((a, b) => Number(a === MISSING_LEVEL) - Number(b === MISSING_LEVEL) || compareNatural(a, b));
+  return { labelOf, order: [...binned.labels, ...kept], apart: kept };
+}
+
+/** A level that is a finite number (what bins take). */
+function isBinnable(level: string): boolean {
+  return isNumericLabel(level) && Number.isFinite(Number(level));
 }
 
 /** Orders a column's dictionary (labels by code − 1) naturally; returns the rank of each code. */

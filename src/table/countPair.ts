@@ -144,6 +144,14 @@ export function countPair(rowColumn: OrderedColumn, colColumn: OrderedColumn, op
   const totalRows = rowsPer ? rowsPer.reduce((t, v) => t + v, 0) : rows;
   let excluded = totalRows;
   for (let i = 1; i < height; i++) for (let j = 1; j < width; j++) excluded -= pooledCounts[i * width + j];
+  if (options.weights?.kind === 'freq') {
+    // With frequencies a line left out stands for as many rows as its frequency says (as pair counts it): every line's sum less the kept cells'.
+    let all = 0;
+    for (let i = 0; i < sums.length; i++) all += sums[i] + sumsLow[i];
+    let kept = 0;
+    for (let i = 1; i < height; i++) for (let j = 1; j < width; j++) kept += pooledSums[i * width + j] + pooledSumsLow[i * width + j];
+    excluded = all - kept;
+  }
   const rowKeep: number[] = [];
   const colKeep: number[] = [];
   for (let i = 1; i < height; i++) {

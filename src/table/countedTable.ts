@@ -9,6 +9,18 @@ import type { DesignCells } from './surveyDesign.js';
 import { relabelTable, TwoWayTable } from './twoWayTable.js';
 import type { Weighting } from './weighting.js';
 
+/**
+ * Rows left out of a table for a missing value, by column and reason: the
+ * reason is "empty" (an empty field, or a value named by --missing) or a
+ * codebook missing code's reason. A row missing in two columns counts under
+ * both, so the entries can add up to more than the rows left out.
+ */
+export interface ExcludedBy {
+  column: string;
+  reason: string;
+  rows: number;
+}
+
 /** The table of one level of the layer (--by). */
 export interface Stratum {
   level: string;
@@ -18,6 +30,8 @@ export interface Stratum {
   excluded?: number;
   /** With a survey design: this level's design totals (each level its own sample). */
   design?: DesignCells | null;
+  /** The same rows by column and reason (io/countTable.ts; absent where not counted). */
+  excludedBy?: ExcludedBy[];
 }
 
 export interface CountedTable {

@@ -4,8 +4,9 @@
  * needs; and its recode (--recode, --keep-missing) applied to the codes.
  */
 import { MISSING_LEVEL } from './twoWayTable.js';
-import { indexCodebook, levelOrder, levelOutcome, LevelRules } from './levelRules.js';
+import { EMPTY_REASON, indexCodebook, levelOrder, levelOutcome, LevelRules, missingReasonOrder } from './levelRules.js';
 import { isNumericLabel } from './naturalOrder.js';
+import { isMissingLooking, numericIgnoringTokens } from './missingLooking.js';
 
 /** A code per row: one byte while a column has at most 255 levels, two up to 65,535, else four. */
 export type Codes = Uint8Array | Uint16Array | Uint32Array;
@@ -37,9 +38,10 @@ export interface EncodedColumn {
   /** Level labels; code k (1-based) is labels[k − 1]; code 0 is missing. */
   labels: string[];
   /**
-   * A code per data row (the built-in reader) or per distinct value read
-   * (the engine, whose entries each stand for many rows); null once the
-   * column passed the level cap.
+   * A code per kept row, whoever read it (the built-in reader or the
+   * engine); null once the column passed the level cap. When binning was
+   * asked for (--bins, a codebook's bins), a numeric column keeps its codes
+   * past the cap, so that its numbers can be binned from them.
    */
   codes: Codes | null;
   missing: number;
@@ -47,10 +49,25 @@ export interface EncodedColumn {
   distinct: number;
   /** True when the column had more distinct values than the reader tracks. */
   distinctCapped: boolean;
+  /** Every value is a number, apart from values that commonly mean missing (table/missingLooking.ts), and at least one is. */
   numeric: boolean;
+  /** ... and every number is a whole number. */
   integer: boolean;
-  /** Numeric values per row (NaN for missing), kept only when binning was asked for. */
-  values: Float64Array | null;
+  /** The missing-looking values among the column's values (table/missingLooking.ts), known even where its codes are not kept. */
+  missingLooking: string[];
+}
+
+/** Rows per code of a column (index 0: missing rows), counted from its codes. */
+export function rowsPerCode(codes: Codes, levels: number): Float64Array {
+  const rows = new Float64Array(levels + 1);
+  for (let k = 0; k < codes.length; k++) rows[codes[k]]++;
+  return rows;
+}
+
+/** What screening needs to know of a column's new levels: whether they are numbers (past missing-looking values), and which look missing. */
+function levelFacts(labels: readonly string[]): Pick<EncodedColumn, 'numeric' | 'integer' | 'missingLooking'> {
+  const { numeric, integer } = numericIgnoringTokens(labels);
+  return { numeric, integer, missingLooking: labels.filter(isMissingLooking) };
 }
 
 /**
@@ -76,7 +93,46 @@ export function recodeColumn(column: EncodedColumn, mapping: ReadonlyMap<string,
   column.labels.forEach((raw, k) => (remap[k + 1] = codeOf(mapping?.get(raw) ?? raw)));
   if (keepMissing && column.missing > 0) remap[0] = codeOf(MISSING_LEVEL);
   const codes = remapCodes(column.codes, remap, labels.length);
-  return { ...column, labels, codes, distinct: labels.length, missing: keepMissing ? 0 : column.missing };
+  return { ...column, ...levelFacts(labels), labels, codes, distinct: labels.length, missing: keepMissing ? 0 : column.missing };
+}
+
+/**
+ * Rows a column leaves out of every pair it takes part in, by reason
+ * (levelRules.ts): "empty" for empty fields (and --missing values), a
+ * codebook missing code's reason for its code; none with --keep-missing,
+ * which keeps them as levels. Counted from the column's codes before its
+ * rules renumber them; with frequencies (--freq) a row counts as its
+ * frequency, as pair counts it. Reasons in the order of missingReasonOrder.
+ */
+export function missingByReason(column: EncodedColumn, rules: LevelRules | null, keepMissing: boolean, frequencies?: Float64Array): { reason: string; rows: number }[] {
+  if (keepMissing) return [];
+  const order = missingReasonOrder(rules);
+  const emptyAt = order.indexOf(EMPTY_REASON);
+  if (column.codes === null) return column.missing > 0 ? [{ reason: EMPTY_REASON, rows: column.missing }] : [];
+  // The reason of each code (its index in `order`), or −1 when it is counted.
+  const reasonOf = new Int32Array(column.labels.length + 1).fill(-1);
+  reasonOf[0] = emptyAt;
+  let coded = false;
+  if (rules?.codebook && rules.codebook.missing.length > 0) {
+    const index = indexCodebook(rules.codebook);
+    column.labels.forEach((raw, k) => {
+      const outcome = levelOutcome({ ...rules, keepMissing: false }, raw, index);
+      if (outcome.kind === 'missing') {
+        reasonOf[k + 1] = order.indexOf(outcome.reason);
+        coded = true;
+      }
+    });
+  }
+  const rows = new Float64Array(order.length);
+  if (!coded && !frequencies) rows[emptyAt] = column.missing;
+  else {
+    const codes = column.codes;
+    for (let r = 0; r < codes.length; r++) {
+      const at = reasonOf[codes[r]];
+      if (at >= 0) rows[at] += frequencies ? frequencies[r] : 1;
+    }
+  }
+  return order.map((reason, k) => ({ reason, rows: rows[k] })).filter((e) => e.rows > 0);
 }
 
 /**
@@ -119,5 +175,5 @@ export function shapeColumn(column: EncodedColumn, rules: LevelRules): { column:
     if (now === 0 && was !== 0) change++;
     else if (now !== 0 && was === 0) change--;
   }
-  return { column: { ...column, labels, codes, distinct: labels.length, missing: Math.max(0, column.missing + change) }, order: levelOrder(rules, labels) };
+  return { column: { ...column, ...levelFacts(labels), labels, codes, distinct: labels.length, missing: Math.max(0, column.missing + change) }, order: levelOrder(rules, labels) };
 }

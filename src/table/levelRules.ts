@@ -91,13 +91,12 @@ export function levelOrder(rules: LevelRules, levels: readonly string[]): string
     if (present.has(label) && !order.includes(label)) order.push(label);
   };
   const index = indexCodebook(rules.codebook);
-  const missingLevels = new Set<string>([EMPTY_LEVEL]);
+  const missingLevels = missingLevelLabels(rules);
   if (rules.codebook) {
     for (const v of rules.codebook.values) {
       const outcome = levelOutcome(rules, v.code, index);
       if (outcome.kind === 'level') take(outcome.label);
     }
-    for (const m of rules.codebook.missing) missingLevels.add(m.label ?? m.reason);
   }
   for (const label of rules.recode?.order ?? []) take(label);
   const rest = levels.filter((l) => !order.includes(l) && !missingLevels.has(l)).sort(compareNatural);
@@ -105,6 +104,28 @@ export function levelOrder(rules: LevelRules, levels: readonly string[]): string
   for (const m of rules.codebook?.missing ?? []) take(m.label ?? m.reason);
   take(EMPTY_LEVEL);
   return order;
+}
+
+/** The order rows left out are reported in, by reason: the codebook's missing codes in its order, then empty fields. */
+export function missingReasonOrder(rules: LevelRules | null): string[] {
+  return [...new Set([...(rules?.codebook?.missing ?? []).map((m) => m.reason), EMPTY_REASON])];
+}
+
+/** The levels that stand for missing values when --keep-missing keeps them: "(missing)" and the labels (or reasons) of the codebook's missing codes. */
+export function missingLevelLabels(rules: LevelRules): Set<string> {
+  return new Set<string>([EMPTY_LEVEL, ...(rules.codebook?.missing ?? []).map((m) => m.label ?? m.reason)]);
+}
+
+/**
+ * How many equal-frequency bins a column is cut into, or null: none when
+ * its rules turn its values into other levels (codebook labels, cut points,
+ * a recode: they win); else the codebook's bins for the column, else
+ * --bins k. (Whether the column's values are numbers is bins.ts's
+ * binNumericLevels.)
+ */
+export function binsOf(rules: LevelRules | null, bins: number | null): number | null {
+  if (rules && (rules.recode || (rules.cuts ?? null) !== null || (rules.codebook?.values.length ?? 0) > 0)) return null;
+  return rules?.codebook?.bins ?? bins;
 }
 
 /**

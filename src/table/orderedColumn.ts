@@ -2,7 +2,7 @@
  * A column in report order, ready to be counted: labels in natural order
  * (or bins, lowest first) and codes renumbered to match (0 missing).
  */
-import { equalFrequencyBins, naturalRanks } from './bins.js';
+import { LevelBinning, naturalRanks } from './bins.js';
 import { Codes, EncodedColumn, remapCodes } from './encodedColumn.js';
 
 export interface OrderedColumn {
@@ -13,12 +13,9 @@ export interface OrderedColumn {
   codes: Codes;
 }
 
-/** A screened column's codes in report order (renumbered in place: the column given is used up): natural order, or equal-frequency bins (lowest first) for a column past the cap. */
-export function orderColumn(column: EncodedColumn, bins: number | null, order?: readonly string[]): OrderedColumn {
-  if (column.codes === null) {
-    const binning = equalFrequencyBins(column.values as Float64Array, bins as number);
-    return { name: column.name, labels: binning.labels, codes: binning.codes };
-  }
+/** A screened column's codes in report order (renumbered in place: the column given is used up): a given order (codebook, ranges) for the labels it names, the rest in natural order. */
+export function orderColumn(column: EncodedColumn, order?: readonly string[]): OrderedColumn {
+  const codes = column.codes as Codes;
   // A given order (codebook, ranges) ranks the labels it names; the rest follow naturally.
   const rank = order && order.length > 0 ? rankByOrder(column.labels, order) : naturalRanks(column.labels);
   const labels = new Array<string>(column.labels.length);
@@ -26,7 +23,15 @@ export function orderColumn(column: EncodedColumn, bins: number | null, order?: 
   const remap = new Uint32Array(column.labels.length + 1);
   for (let code = 1; code <= column.labels.length; code++) remap[code] = rank[code - 1] + 1;
   // Renumbered in place: the encoded column's codes become the ordered ones.
-  return { name: column.name, labels, codes: remapCodes(column.codes, remap, column.labels.length) };
+  return { name: column.name, labels, codes: remapCodes(codes, remap, column.labels.length) };
+}
+
+/** A column cut into bins (bins.ts: binNumericLevels), its codes renumbered in place to the bins' order. */
+export function binnedColumn(column: EncodedColumn, binning: LevelBinning): OrderedColumn {
+  const position = new Map(binning.order.map((label, k) => [label, k + 1]));
+  const remap = new Uint32Array(column.labels.length + 1);
+  column.labels.forEach((_l, k) => (remap[k + 1] = position.get(binning.labelOf[k]) ?? 0));
+  return { name: column.name, labels: [...binning.order], codes: remapCodes(column.codes as Codes, remap, binning.order.length) };
 }
 
 function rankByOrder(labels: readonly string[], order: readonly string[]): number[] {

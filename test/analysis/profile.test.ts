@@ -121,7 +121,7 @@ describe('profile rules on small files (the rules as stated in src/analysis/prof
     expect(age.kind).toBe('numeric');
     expect(age.missingLooking).toEqual([{ token: 'NA', rows: 4 }, { token: '.', rows: 3 }]);
     expect(age.suggestions[0]).toBe(`--missing NA,. treats "NA", "." as missing`);
-    expect(report.notes).toEqual([`column "age" holds "NA" (4 rows), "." (3 rows), values that commonly mean missing; counted as levels unless you pass --missing NA,.`]);
+    expect(report.notes).toEqual([`column "age" holds "NA" (4 rows), "." (3 rows), values that commonly mean missing; the column's other values are numbers, so it is read as numeric; --missing NA,. treats them as missing`]);
     const declared = await profile(text('ages2.csv', `age\n${rows.join('\n')}\n`), { missing: ['NA'] });
     expect(declared.report.columns[0].declaredMissing).toEqual([{ token: 'NA', rows: 4 }]);
     expect(declared.report.columns[0].missingLooking).toEqual([{ token: '.', rows: 3 }]);

@@ -17,7 +17,7 @@ const input: InputSummary = { file: 'test', engine: 'builtin', format: 'csv', fi
 
 function column(name: string, labels: string[], codes: number[], facts: Partial<EncodedColumn> = {}): EncodedColumn {
   const missing = codes.filter((c) => c === 0).length;
-  return { name, labels, codes: Uint16Array.from(codes), missing, distinct: labels.length, distinctCapped: false, numeric: false, integer: false, values: null, ...facts };
+  return { name, labels, codes: Uint16Array.from(codes), missing, distinct: labels.length, distinctCapped: false, numeric: false, integer: false, missingLooking: [], ...facts };
 }
 
 describe('screening the candidate columns', () => {

@@ -88,15 +88,57 @@ describe('missing codes with their reasons (docs/codebook.md), checked against a
   const book = tempFile('coded.json', JSON.stringify({ codebook: 1, columns: [{ name: 'q', question: 'Do you agree?', values: [{ code: 1, label: 'yes' }, { code: 2, label: 'no' }, { code: 3, label: 'maybe' }, { code: 8, missing: "don't know" }, { code: 9, missing: 'refused', label: 'refused to say' }] }] }));
   const rows = parse(csv, { columns: true }) as { q: string; a: string }[];
   const count = (value: string) => rows.filter((r) => r.q === value).length;
+  // In codebook order, empty fields last (docs/json.md).
+  const byReason = () => [
+    { column: 'q', reason: "don't know", rows: count('8') },
+    { column: 'q', reason: 'refused', rows: count('9') },
+    { column: 'q', reason: 'empty', rows: count('') },
+  ];
   it('are left out and counted by reason; unseen codes are a warning', async () => {
     const out = await runJson(['pair', data, '--rows', 'q', '--cols', 'a', '--codebook', book]);
     expect(out.excluded).toBe(count('9') + count('8') + count(''));
-    expect(out.excludedBy).toEqual([
-      { column: 'q', reason: 'refused', rows: count('9') },
-      { column: 'q', reason: 'empty', rows: count('') },
-      { column: 'q', reason: "don't know", rows: count('8') },
-    ]);
+    expect(out.excludedBy).toEqual(byReason());
     expect(out.warnings.map((w: { code: string }) => w.code)).toContain('code-not-seen');
+  });
+  it('scan gives each pair the same excludedBy as pair, and each column\'s rows left out once (issue rule: as in pair)', async () => {
+    const out = await runJson(['scan', data, '--codebook', book]);
+    expect(out.pairs[0].excluded).toBe(count('9') + count('8') + count(''));
+    expect(out.pairs[0].excludedBy).toEqual(byReason());
+    expect(out.excludedBy).toEqual(byReason());
+    for (const format of ['text', 'markdown', 'html', 'csv']) {
+      const shown = await run(['scan', data, '--codebook', book, '--format', format]);
+      expect(shown.stdout, format).toMatch(/q: 1\sdon(’|'|&#39;)t know, 2\srefused, 1\sempty/);
+    }
+  });
+  it('compare gives each period its excludedBy, counted within the period (--period column and two files alike)', async () => {
+    const periods = tempFile('coded-periods.csv', 'q,a,wave\n' + rows.map((r, i) => `${r.q},${r.a},${i < 6 ? 'w1' : 'w2'}`).join('\n') + '\n');
+    const within = (from: number, to: number) => {
+      const part = rows.slice(from, to);
+      const n = (value: string) => part.filter((r) => r.q === value).length;
+      return [
+        { column: 'q', reason: "don't know", rows: n('8') },
+        { column: 'q', reason: 'refused', rows: n('9') },
+        { column: 'q', reason: 'empty', rows: n('') },
+      ].filter((e) => e.rows > 0);
+    };
+    const out = await runJson(['compare', periods, '--period', 'wave', '--rows', 'q', '--cols', 'a', '--codebook', book]);
+    expect(out.before.excludedBy).toEqual(within(0, 6));
+    expect(out.after.excludedBy).toEqual(within(6, rows.length));
+    const first = tempFile('coded-w1.csv', 'q,a\n' + rows.slice(0, 6).map((r) => `${r.q},${r.a}`).join('\n') + '\n');
+    const second = tempFile('coded-w2.csv', 'q,a\n' + rows.slice(6).map((r) => `${r.q},${r.a}`).join('\n') + '\n');
+    const files = await runJson(['compare', first, second, '--rows', 'q', '--cols', 'a', '--codebook', book]);
+    expect(files.before.excludedBy).toEqual(within(0, 6));
+    expect(files.after.excludedBy).toEqual(within(6, rows.length));
+    const text = await run(['compare', periods, '--period', 'wave', '--rows', 'q', '--cols', 'a', '--codebook', book]);
+    expect(text.stdout).toMatch(/q: refused +\d+ +\d+/);
+  });
+  it('pair shows the reasons in every format: the summary line, and one CSV line per reason', async () => {
+    for (const format of ['text', 'markdown', 'html']) {
+      const out = await run(['pair', data, '--rows', 'q', '--cols', 'a', '--codebook', book, '--format', format]);
+      expect(out.stdout, format).toMatch(/4 left out\sfor a missing value \(q:\s+1\sdon(’|'|&#39;)t know, 2\srefused, 1\sempty\)/);
+    }
+    const csvOut = await run(['pair', data, '--rows', 'q', '--cols', 'a', '--codebook', book, '--format', 'csv']);
+    expect(csvOut.stdout).toContain(`sample,excluded_by_rows,,,${count('9')},,,,refused\n`);
   });
   it('--keep-missing keeps them as levels, after the answers, under their labels', async () => {
     const out = await runJson(['pair', data, '--rows', 'q', '--cols', 'a', '--codebook', book, '--keep-missing']);
@@ -160,7 +202,7 @@ describe('the missing-token note (list and sources in src/io/missingTokens.ts)',
     const quiet = await run(['pair', data, '--rows', 'age', '--cols', 'g', '--missing', 'NA,.', '--format', 'json']);
     expect(quiet.stderr).toBe('');
     const scan = await run(['scan', data, '--format', 'json']);
-    expect(scan.stderr).toContain('column "age" holds "NA", "."');
+    expect(scan.stderr).toContain('column "age" holds "NA" (1 row), "." (1 row)');
   });
 });
 
@@ -180,13 +222,88 @@ describe('scan: derived pairs and --bins', () => {
     expect(kept.pairs[0].measures.cramersV).toBeCloseTo(1, 12);
   });
   it('pair --bins gives the same equal-frequency bins and counts as scan --bins', async () => {
-    for (const [column, k] of [[q('TVnews'), 5], [q('age'), 4], [q('popul'), 6]] as const) {
-      const scan = await runJson(['scan', DATA, '--bins', String(k), '--columns', `${column},${q('vote')}`, '--full', '--max-levels', '5']);
+    for (const [column, k] of [[q('TVnews'), 5], [q('age'), 4], [q('popul'), 6], [q('income'), 3]] as const) {
+      const scan = await runJson(['scan', DATA, '--bins', String(k), '--columns', `${column},${q('vote')}`, '--full']);
       expect(scan.skipped).toEqual([]);
       const pair = await runJson(['pair', DATA, '--rows', column, '--cols', q('vote'), '--bins', String(k)]);
       expect(pair.rows.levels).toEqual(scan.pairs[0].rows.levels);
       expect(pair.counts).toEqual(scan.pairs[0].counts);
     }
+  });
+  it('scan --bins k cuts every numeric column with more than k values, within --max-levels or not (distinct values: pandas nunique, fixtures/anes96/reference.json)', async () => {
+    const distinct = JSON.parse(readFileSync(join(ANES, 'reference.json'), 'utf8')).columns as Record<string, { distinct: number }>;
+    const plain = await runJson(['scan', DATA]);
+    const tv = plain.pairs.find((p: { rows: { name: string } }) => p.rows.name === q('TVnews'));
+    // Without --bins, the 8 answers of TVnews are 8 nominal levels.
+    expect(tv.rows.levels).toHaveLength(distinct.TVnews.distinct);
+    const out = await runJson(['scan', DATA, '--bins', '5']);
+    expect(out.skipped).toEqual([]);
+    const levelsOf = new Map<string, string[]>();
+    for (const p of out.pairs) for (const side of [p.rows, p.cols]) levelsOf.set(side.name, side.levels);
+    for (const [name, { distinct: n }] of Object.entries(distinct)) {
+      const levels = levelsOf.get(q(name)) as string[];
+      if (n > 5) {
+        expect(levels.length, name).toBeLessThanOrEqual(5);
+        expect(levels.every((l) => /^-?[\d.]+(–-?[\d.]+)?$/.test(l)), name).toBe(true);
+      } else expect(levels, name).toHaveLength(n);
+    }
+  });
+  it('a codebook\'s bins cut a column in pair, scan and compare as --bins does, without --bins (docs/codebook.md)', async () => {
+    const book = tempFile('age-bins.json', JSON.stringify({ codebook: 1, columns: [{ name: q('age'), bins: 4 }] }));
+    const byOption = await runJson(['pair', DATA, '--rows', q('age'), '--cols', q('vote'), '--bins', '4']);
+    const byBook = await runJson(['pair', DATA, '--rows', q('age'), '--cols', q('vote'), '--codebook', book]);
+    expect(byBook.rows.levels).toEqual(byOption.rows.levels);
+    expect(byBook.counts).toEqual(byOption.counts);
+    expect(byBook.rows.ordered).toBe(true);
+    const scan = await runJson(['scan', DATA, '--columns', `${q('age')},${q('vote')}`, '--codebook', book, '--full']);
+    expect(scan.pairs[0].rows.levels).toEqual(byOption.rows.levels);
+    expect(scan.pairs[0].counts).toEqual(byOption.counts);
+    const compare = await runJson(['compare', DATA, '--period', q('vote'), '--rows', q('age'), '--cols', q('PID'), '--codebook', book]);
+    expect(compare.rows.levels).toEqual(byOption.rows.levels);
+  });
+});
+
+describe('a numeric column whose only non-numbers are missing-looking values (issue rule; tokens: src/table/missingLooking.ts)', () => {
+  // Ages with "NA" in some rows and 99 meaning "refused" (a codebook missing code), counted independently with csv-parse below.
+  const csv = 'age,g\n' + Array.from({ length: 60 }, (_v, i) => `${i % 9 === 0 ? 'NA' : i % 13 === 0 ? '99' : 18 + ((i * 17) % 63)},${i % 3 === 0 ? 'x' : 'y'}`).join('\n') + '\n';
+  const data = tempFile('ages-na.csv', csv);
+  const book = tempFile('ages-na.json', JSON.stringify({ codebook: 1, columns: [{ name: 'age', values: [{ code: 99, missing: 'refused' }] }] }));
+  const rows = parse(csv, { columns: true }) as { age: string; g: string }[];
+  const count = (value: string) => rows.filter((r) => r.age === value).length;
+  it('is binned by pair and scan alike, the token kept as its own level after the bins, and the note says so', async () => {
+    const pair = await run(['pair', data, '--rows', 'age', '--cols', 'g', '--bins', '4', '--codebook', book, '--format', 'json']);
+    expect(pair.status).toBe(0);
+    const table = JSON.parse(pair.stdout);
+    expect(table.rows.levels).toHaveLength(5);
+    expect(table.rows.levels[4]).toBe('NA');
+    expect(table.rowTotals[4]).toBe(count('NA'));
+    expect(table.excludedBy).toEqual([{ column: 'age', reason: 'refused', rows: count('99') }]);
+    expect(pair.stderr).toContain(`column "age" holds "NA", a value that commonly means missing; the column's other values are numbers, cut into bins, and it is counted as a level beside the bins unless you pass --missing NA`);
+    const scan = await run(['scan', data, '--bins', '4', '--codebook', book, '--format', 'json', '--full']);
+    const scanned = JSON.parse(scan.stdout).pairs[0];
+    expect(scanned.rows.levels).toEqual(table.rows.levels);
+    expect(scanned.counts).toEqual(table.counts);
+    expect(scan.stderr).toContain(`column "age" holds "NA" (${count('NA')} rows), a value that commonly means missing; the column's other values are numbers, cut into bins`);
+  });
+  it('without --bins scan reads it as numeric, left out with the suggestion, and the note says the column is read as numeric', async () => {
+    const scan = await run(['scan', data, '--codebook', book, '--max-levels', '10', '--format', 'json']);
+    const skipped = JSON.parse(scan.stdout).skipped;
+    expect(skipped).toEqual([{ column: 'age', code: 'numeric', reason: expect.stringContaining('--bins 5') }]);
+    expect(scan.stderr).toContain('so it is read as numeric; --missing NA treats it as missing');
+  });
+  it('--keep-missing keeps the refused as a level beside the bins too, after "NA"', async () => {
+    const out = await runJson(['pair', data, '--rows', 'age', '--cols', 'g', '--bins', '4', '--codebook', book, '--keep-missing']);
+    expect(out.rows.levels.slice(4)).toEqual(['NA', 'refused']);
+    expect(out.rowTotals.slice(4)).toEqual([count('NA'), count('99')]);
+    expect(out.excluded).toBe(0);
+    const scan = await runJson(['scan', data, '--bins', '4', '--codebook', book, '--keep-missing', '--full']);
+    expect(scan.pairs[0].rows.levels).toEqual(out.rows.levels);
+    expect(scan.pairs[0].counts).toEqual(out.counts);
+  });
+  it('--missing NA makes the token missing: the bins are those of the numbers alone', async () => {
+    const out = await runJson(['pair', data, '--rows', 'age', '--cols', 'g', '--bins', '4', '--codebook', book, '--missing', 'NA']);
+    expect(out.rows.levels).toHaveLength(4);
+    expect(out.excluded).toBe(count('NA') + count('99'));
   });
 });
 
@@ -221,5 +338,37 @@ describe('--other is applied before the level cap (issue rule), counts checked a
     const refused = await run(['pair', DATA, '--rows', q('age'), '--cols', q('vote')]);
     expect(refused.status).toBe(1);
     expect(refused.stderr).toContain('--other k');
+  });
+  it('scan: --other 8 rescues the same column (its levels and totals as pair\'s), where without it the column is left out', async () => {
+    const ages = JSON.parse(readFileSync(join(ANES, 'reference.json'), 'utf8')).columns.age.counts as Record<string, number>;
+    const ranked = Object.entries(ages).sort((x, y) => y[1] - x[1] || Number(x[0]) - Number(y[0]));
+    const kept = ranked.slice(0, 8).map(([age]) => age).sort((x, y) => Number(x) - Number(y));
+    const without = await runJson(['scan', DATA, '--columns', `${q('age')},${q('vote')},${q('educ')}`]);
+    expect(without.skipped.map((s: { column: string }) => s.column)).toEqual([q('age')]);
+    const out = await runJson(['scan', DATA, '--columns', `${q('age')},${q('vote')},${q('educ')}`, '--other', '8', '--full']);
+    expect(out.skipped).toEqual([]);
+    const pair = out.pairs.find((p: { rows: { name: string }; cols: { name: string } }) => p.rows.name === q('age') && p.cols.name === q('vote'));
+    expect(pair.rows.levels).toEqual([...kept, 'other']);
+    expect(pair.rowTotals).toEqual([...kept.map((age) => ages[age]), ranked.slice(8).reduce((s, [, c]) => s + c, 0)]);
+    // --other 60 would keep 61 levels, more than --max-levels 50: the column stays out, and the reason says why.
+    const tooMany = await runJson(['scan', DATA, '--columns', `${q('age')},${q('vote')},${q('educ')}`, '--other', '60', '--recode', `${q('age')}:19=nineteen`]);
+    expect(tooMany.skipped).toEqual([{ column: q('age'), code: 'too-many-levels', reason: '71 distinct values, more than --max-levels 50, and --other 60 keeps 61' }]);
+  });
+});
+
+describe('bins over several files (compare with two files, waves): each file would be cut at its own quantiles, so they are refused (rule of src/cli/options.ts)', () => {
+  const lines = readFileSync(DATA, 'utf8').trimEnd().split('\n');
+  const first = tempFile('anes-first.tsv', [lines[0], ...lines.slice(1, 400)].join('\n') + '\n');
+  const second = tempFile('anes-second.tsv', [lines[0], ...lines.slice(400)].join('\n') + '\n');
+  it('--bins, or a codebook\'s bins, is a usage error naming --cuts and --period; one file with --period bins both periods alike', async () => {
+    const byOption = await run(['compare', first, second, '--rows', q('age'), '--cols', q('vote'), '--bins', '4']);
+    expect(byOption.status).toBe(2);
+    expect(byOption.stderr).toMatch(/^tabsight: --bins 4 would cut the two files each at its own quantiles, .*--cuts .*--period\n$/);
+    const book = tempFile('age-bins-waves.json', JSON.stringify({ codebook: 1, columns: [{ name: q('age'), bins: 4 }] }));
+    const byBook = await run(['waves', first, second, '--rows', q('age'), '--cols', q('vote'), '--codebook', book]);
+    expect(byBook.status).toBe(2);
+    expect(byBook.stderr).toContain(`the codebook's bins for "${q('age')}" would cut the wave files`);
+    const together = await runJson(['compare', DATA, '--period', q('vote'), '--rows', q('age'), '--cols', q('PID'), '--bins', '4']);
+    expect(together.rows.levels).toHaveLength(4);
   });
 });

@@ -63,6 +63,24 @@ describeEngine('engine and built-in reader give the same report on the demo file
   });
 });
 
+describeEngine('the engine bins, merges and notes as the built-in reader does on a real coded export (ANES 1996, statsmodels)', () => {
+  const anes = join(ROOT, 'fixtures', 'anes96', 'anes96.csv');
+  it('scan --bins 5: every numeric column with more than 5 values binned alike', () => sameBothWays(['scan', anes, '--bins', '5', '--full']));
+  it('scan --other 8 rescues the columns past --max-levels alike', () => sameBothWays(['scan', anes, '--other', '8', '--columns', "'age','popul','vote'", '--full']));
+  it('a numeric column with "NA": the same bins, the same note', async () => {
+    const csv = 'age,g\n' + Array.from({ length: 80 }, (_v, i) => `${i % 7 === 0 ? 'NA' : i % 11 === 0 ? '.' : 20 + ((i * 13) % 57)},${i % 3 ? 'x' : 'y'}`).join('\n') + '\n';
+    const data = tempFile('engine-ages-na.csv', csv);
+    for (const args of [['--bins', '4'], ['--max-levels', '10']]) {
+      const builtin = await run(['scan', data, ...args, '--format', 'json', '--engine', 'builtin']);
+      const engine = await run(['scan', data, ...args, '--format', 'json', '--engine', 'duckdb']);
+      expect(engine.status, engine.stderr).toBe(0);
+      expect(engine.stderr).toBe(builtin.stderr);
+      expect(builtin.stderr).toContain('"NA"');
+      expect(withoutEngine(JSON.parse(engine.stdout))).toEqual(withoutEngine(JSON.parse(builtin.stdout)));
+    }
+  });
+});
+
 describeEngine('gzip, Parquet and patterns of many files', () => {
   const dir = join(tempFile('unused', ''), '..', 'engine-inputs');
   mkdirSync(dir, { recursive: true });

@@ -37,7 +37,7 @@ describe('the scan\'s encoded columns: one byte a cell while a column has at mos
     expect(remapCodes(codes, Uint32Array.from({ length: 256 }, (_v, k) => 255 - k), 255)).toBe(codes);
     expect([...codes]).toEqual([254, 253, 255, 0]);
     const labels = Array.from({ length: 255 }, (_v, k) => `l${k}`);
-    const column = { name: 'x', labels, codes: Uint8Array.from([1, 0, 255]), missing: 1, distinct: 255, distinctCapped: false, numeric: false, integer: false, values: null };
+    const column = { name: 'x', labels, codes: Uint8Array.from([1, 0, 255]), missing: 1, distinct: 255, distinctCapped: false, numeric: false, integer: false, missingLooking: [] };
     const kept = recodeColumn(column, undefined, true);
     expect(kept.codes).toBeInstanceOf(Uint16Array);
     expect([...kept.codes!]).toEqual([1, 256, 255]);

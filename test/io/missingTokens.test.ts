@@ -1,18 +1,8 @@
-import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
+// Finding missing-looking values in a file's columns and the note that names them (src/io/missingTokens.ts).
 import { describe, expect, it } from 'vitest';
-import { detectMissingTokens, isMissingLooking, MISSING_LOOKING_TOKENS, missingTokenNotes, numericIgnoringTokens } from '../../src/io/missingTokens.js';
-import { ROOT } from '../helpers.js';
+import { detectMissingTokens, missingTokenNotes } from '../../src/io/missingTokens.js';
 
-describe('missing-looking tokens', () => {
-  it('include every default missing marker of the pandas CSV reader (recorded by scripts/record_missing_tokens.py), apart from the empty field, which is always missing', () => {
-    const recorded = JSON.parse(readFileSync(join(ROOT, 'fixtures', 'reference', 'missing-tokens.json'), 'utf8')) as { tokens: string[] };
-    for (const token of recorded.tokens.filter((t) => t !== '')) expect(MISSING_LOOKING_TOKENS).toContain(token);
-  });
-  it('add the marks of common practice (".", "-", "?", spreadsheet errors) and match exactly, case as written', () => {
-    for (const token of ['.', '-', '--', '?', '#NULL!', 'missing']) expect(isMissingLooking(token)).toBe(true);
-    for (const value of ['None', 'Na', 'none', '0', 'no', 'N', ' NA']) expect(isMissingLooking(value)).toBe(false);
-  });
+describe('the missing-token note', () => {
   it('says which column holds which token in how many rows, leaving out tokens already declared missing', () => {
     const findings = detectMissingTokens(
       [
@@ -28,13 +18,12 @@ describe('missing-looking tokens', () => {
     ]);
     expect(missingTokenNotes(findings)).toEqual([`column "age" holds "NA" (3 rows), "." (1 row), values that commonly mean missing; counted as levels unless you pass --missing NA,.`]);
   });
+  it('says what became of the values: kept beside the bins of a binned column, or looked past in a numeric one', () => {
+    const findings = [{ column: 'age', token: 'NA', rows: 3 }];
+    expect(missingTokenNotes(findings, () => 'binned')).toEqual([`column "age" holds "NA" (3 rows), a value that commonly means missing; the column's other values are numbers, cut into bins, and it is counted as a level beside the bins unless you pass --missing NA`]);
+    expect(missingTokenNotes(findings, () => 'numeric')).toEqual([`column "age" holds "NA" (3 rows), a value that commonly means missing; the column's other values are numbers, so it is read as numeric; --missing NA treats it as missing`]);
+  });
   it('quotes a token with an apostrophe for the shell in the suggested option', () => {
     expect(missingTokenNotes([{ column: 'x', token: "N'A", rows: 1 }])[0]).toContain(`--missing 'N'\\''A'`);
-  });
-  it('a numeric column stays numeric when its only non-numbers are such tokens', () => {
-    expect(numericIgnoringTokens(['34', 'NA', '51', '-', '.'])).toEqual({ numeric: true, integer: true, tokens: ['NA', '-', '.'] });
-    expect(numericIgnoringTokens(['1.5', '#N/A'])).toEqual({ numeric: true, integer: false, tokens: ['#N/A'] });
-    expect(numericIgnoringTokens(['34', 'unknown']).numeric).toBe(false);
-    expect(numericIgnoringTokens(['NA', '?']).numeric).toBe(false);
   });
 });

@@ -83,7 +83,7 @@ describe('countPair', () => {
 
 describe('shaping an encoded column', () => {
   // A fresh column for each use: recoding and ordering renumber the codes in place.
-  const column = (): EncodedColumn => ({ name: 'size', labels: ['S', 'M', 'L', 'XL'], codes: Uint8Array.from([1, 2, 0, 3, 4, 1]), missing: 1, distinct: 4, distinctCapped: false, numeric: false, integer: false, values: null });
+  const column = (): EncodedColumn => ({ name: 'size', labels: ['S', 'M', 'L', 'XL'], codes: Uint8Array.from([1, 2, 0, 3, 4, 1]), missing: 1, distinct: 4, distinctCapped: false, numeric: false, integer: false, missingLooking: [] });
 
   it('--recode merges levels recoded alike; --keep-missing makes missing the level "(missing)"', () => {
     const recoded = recodeColumn(column(), new Map([['S', 'small'], ['M', 'small'], ['L', 'large'], ['XL', 'large']]), true);
@@ -93,7 +93,7 @@ describe('shaping an encoded column', () => {
   });
 
   it('report order is natural order, codes renumbered to match', () => {
-    const ordered = orderColumn({ ...column(), labels: ['item 10', 'item 2', 'b', 'a'] }, null);
+    const ordered = orderColumn({ ...column(), labels: ['item 10', 'item 2', 'b', 'a'] });
     expect(ordered.labels).toEqual(['a', 'b', 'item 2', 'item 10']);
     expect([...ordered.codes]).toEqual([4, 3, 0, 2, 1, 4]);
   });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { cutPointBins, equalFrequencyBins, equalFrequencyBinsFromCounts, parseCuts } from '../../src/table/bins.js';
+import { binNumericLevels, cutPointBins, equalFrequencyBins, equalFrequencyBinsFromCounts, parseCuts } from '../../src/table/bins.js';
 import { compareNatural } from '../../src/table/naturalOrder.js';
 import { TabsightError } from '../../src/errors.js';
 
@@ -60,5 +60,31 @@ describe('equal-frequency bins from value counts', () => {
       }),
       { numRuns: 300 },
     );
+  });
+});
+
+describe('binning a column\'s levels (the one rule of pair --bins and scan --bins)', () => {
+  const apart = (level: string) => level === 'NA' || level === '(missing)';
+  it('cuts the numbers as equalFrequencyBins cuts their rows, and keeps levels set apart beside the bins, "(missing)" last', () => {
+    const levels = ['34', 'NA', '51', '(missing)', '18', '65', '40', '29'];
+    const rows = [3, 2, 4, 1, 2, 5, 3, 1];
+    const numbers = Float64Array.from(levels.flatMap((l, i) => (apart(l) ? [] : new Array<number>(rows[i]).fill(Number(l)))));
+    const direct = equalFrequencyBins(numbers, 3);
+    const binning = binNumericLevels(levels, rows, 3, apart);
+    expect(binning).not.toBeNull();
+    expect(binning!.order).toEqual([...direct.labels, 'NA', '(missing)']);
+    expect(binning!.apart).toEqual(['NA', '(missing)']);
+    levels.forEach((level, i) => {
+      if (apart(level)) expect(binning!.labelOf[i]).toBe(level);
+      else expect(binning!.labelOf[i]).toBe(direct.labels[direct.codes[numbers.indexOf(Number(level))] - 1]);
+    });
+  });
+  it('leaves a column alone that has a level neither a number nor set apart, or at most k numbers with rows', () => {
+    expect(binNumericLevels(['1', '2', '3', 'many'], [1, 1, 1, 1], 2, apart)).toBeNull();
+    expect(binNumericLevels(['1', '2', '3', 'NA'], [1, 1, 1, 9], 3, apart)).toBeNull();
+    expect(binNumericLevels(['1', '2', '3', '4'], [1, 1, 1, 0], 3, apart)).toBeNull();
+    expect(binNumericLevels(['NA'], [4], 2, apart)).toBeNull();
+    // Four rows, k = 3: edges at the sorted rows ⌈i·4/3⌉ (0-based) = 0, 2, 3, that is 1, 3 and 4.
+    expect(binNumericLevels(['1', '2', '3', '4'], [1, 1, 1, 1], 3, apart)?.order).toEqual(['1–2', '3', '4']);
   });
 });

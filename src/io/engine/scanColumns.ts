@@ -14,7 +14,7 @@
 import { dataError } from '../../errors.js';
 import { countPair } from '../../table/countPair.js';
 import { codesFor, EncodedColumn } from '../../table/encodedColumn.js';
-import { isNumericLabel } from '../../table/naturalOrder.js';
+import { isMissingLooking, MISSING_LOOKING_TOKENS, numericIgnoringTokens } from '../../table/missingLooking.js';
 import { ColumnsRequest, DISTINCT_TRACKING_LIMIT, RECODED_READING_CAP, scanSelection } from '../columns.js';
 import type { EncodedInput } from '../counting.js';
 import { FieldInterner } from '../fieldInterner.js';
@@ -99,23 +99,33 @@ interface ColumnProfile {
   missing: number;
   numeric: boolean;
   integer: boolean;
+  /** The missing-looking values the column holds. */
+  missingLooking: string[];
 }
 
-/** How many distinct trimmed values each column holds among the kept rows, how many are missing, whether all are numbers. */
+/**
+ * How many distinct trimmed values each column holds among the kept rows,
+ * how many are missing, and whether all are numbers apart from
+ * missing-looking tokens (table/missingLooking.ts), at least one being a number.
+ */
 async function profileColumns(engine: Engine, input: EngineInput, keys: readonly ScanKey[], missing: ReadonlySet<string>): Promise<{ rows: number; profiles: ColumnProfile[] }> {
   const missingList = [...missing].map(sqlLiteral);
+  const tokenList = MISSING_LOOKING_TOKENS.filter((t) => !missing.has(t)).map(sqlLiteral);
   const trimmed = (v: string) => `trim(${v}, ' \t')`;
   const isMissing = (v: string) => `(${v} IS NULL OR ${trimmed(v)} = ''${missingList.length > 0 ? ` OR ${trimmed(v)} IN (${missingList.join(', ')})` : ''})`;
+  const isNumber = (v: string) => `NOT ${isMissing(v)} AND ${trimmed(v)} NOT IN (${tokenList.join(', ')})`;
   const measures = keys.map(({ sql: v }) =>
     [
       `COUNT(DISTINCT ${trimmed(v)}) FILTER (WHERE NOT ${isMissing(v)})`,
       `COUNT(*) FILTER (WHERE ${isMissing(v)})`,
-      `bool_and(regexp_full_match(${trimmed(v)}, '${NUMBER_PATTERN}')) FILTER (WHERE NOT ${isMissing(v)})`,
-      `bool_and(regexp_full_match(${trimmed(v)}, '[+-]?[0-9]+')) FILTER (WHERE NOT ${isMissing(v)})`,
+      `bool_and(regexp_full_match(${trimmed(v)}, '${NUMBER_PATTERN}')) FILTER (WHERE ${isNumber(v)})`,
+      `bool_and(regexp_full_match(${trimmed(v)}, '[+-]?[0-9]+')) FILTER (WHERE ${isNumber(v)})`,
+      // The tokens hold no line break (table/missingLooking.ts), so one joins them.
+      `string_agg(DISTINCT ${trimmed(v)}, chr(10)) FILTER (WHERE NOT ${isMissing(v)} AND ${trimmed(v)} IN (${tokenList.join(', ')}))`,
     ].join(', '),
   );
   const [row] = await queryInput(engine, input, `SELECT COUNT(*), ${measures.join(', ')} FROM ${TABLE} WHERE ${KEPT}`);
-  const profiles = keys.map((_key, k) => ({ distinct: Number(row[1 + 4 * k]), missing: Number(row[2 + 4 * k]), numeric: row[3 + 4 * k] === true, integer: row[4 + 4 * k] === true }));
+  const profiles = keys.map((_key, k) => ({ distinct: Number(row[1 + 5 * k]), missing: Number(row[2 + 5 * k]), numeric: row[3 + 5 * k] === true, integer: row[4 + 5 * k] === true, missingLooking: row[5 + 5 * k] === null ? [] : String(row[5 + 5 * k]).split('\n') }));
   return { rows: Number(row[0]), profiles };
 }
 
@@ -141,20 +151,18 @@ async function fetchEntries(engine: Engine, input: EngineInput, keys: readonly S
   return entries;
 }
 
-/** A column's entries turned into the tool's codes (or, binned, numbers): what each entry number stands for. */
+/** A column's entries turned into the tool's codes: what each entry number stands for. */
 interface EntryMeaning {
   column: EncodedColumn;
-  /** The code of each entry (when the column is within its cap). */
+  /** The code of each entry (when the column is within its cap, or numeric and to be binned). */
   codes: Uint32Array | null;
-  /** The number of each entry (NaN when missing), for a numeric column to be binned. */
-  values: Float64Array | null;
 }
 
 /**
  * A column from its entries: one code per entry, the reader's trim and
- * missing rule applied; past the cap, a numeric column to be binned keeps
- * each entry's number instead. The per-row codes or numbers are filled in
- * from the rows' entry numbers (encodeRows).
+ * missing rule applied; past the cap, only a numeric column to be binned
+ * keeps its codes (as the built-in reader's does). The per-row codes are
+ * filled in from the rows' entry numbers (encodeRows).
  */
 function encodeEntries(key: ScanKey, e: Entries, missingTokens: ReadonlySet<string>, keepNumeric: boolean): EntryMeaning {
   const interner = new FieldInterner(missingTokens, Number.MAX_SAFE_INTEGER);
@@ -165,26 +173,23 @@ function encodeEntries(key: ScanKey, e: Entries, missingTokens: ReadonlySet<stri
     if (codes[i] === 0) missing += e.counts[i];
   });
   const labels = interner.labels;
-  const numeric = labels.length > 0 && labels.every(isNumericLabel);
-  const integer = numeric && labels.every((l) => /^[+-]?\d+$/.test(l));
-  const withinCap = labels.length <= key.cap;
-  const values = !withinCap && numeric && keepNumeric ? Float64Array.from(codes, (code) => (code === 0 ? Number.NaN : Number(labels[code - 1]))) : null;
-  const column: EncodedColumn = { name: key.name, labels: withinCap ? labels : [], codes: null, missing, distinct: labels.length, distinctCapped: false, numeric, integer, values: null };
-  return { column, codes: withinCap ? codes : null, values };
+  const { numeric, integer } = numericIgnoringTokens(labels);
+  const kept = labels.length <= key.cap || (numeric && keepNumeric);
+  const column: EncodedColumn = { name: key.name, labels: kept ? labels : [], codes: null, missing, distinct: labels.length, distinctCapped: false, numeric, integer, missingLooking: labels.filter(isMissingLooking) };
+  return { column, codes: kept ? codes : null };
 }
 
 /**
  * Every kept row as its columns' entry numbers (and its weight), streamed
  * from the engine chunk by chunk, turned into per-row codes (one byte a
- * cell while a column has at most 255 levels) or numbers.
+ * cell while a column has at most 255 levels).
  */
 async function encodeRows(engine: Engine, input: EngineInput, keys: readonly ScanKey[], meanings: readonly (EntryMeaning | null)[], rows: number, weighted: boolean): Promise<Float64Array | null> {
-  const fetched = meanings.map((m, k) => (m !== null && (m.codes !== null || m.values !== null) ? k : -1)).filter((k) => k >= 0);
+  const fetched = meanings.map((m, k) => (m !== null && m.codes !== null ? k : -1)).filter((k) => k >= 0);
   const weights = weighted ? new Float64Array(rows) : null;
   const outputs = fetched.map((k) => {
     const m = meanings[k] as EntryMeaning;
-    if (m.codes !== null) return (m.column.codes = codesFor(m.column.labels.length, rows));
-    return (m.column.values = new Float64Array(rows));
+    return (m.column.codes = codesFor(m.column.labels.length, rows));
   });
   if (fetched.length === 0 && !weighted) return weights;
   const select = [...fetched.map((k) => `e${k}.i`), ...(weighted ? ['r.wd'] : [])];
@@ -196,7 +201,7 @@ async function encodeRows(engine: Engine, input: EngineInput, keys: readonly Sca
       const entryNumbers = columns[f];
       const m = meanings[k] as EntryMeaning;
       const out = outputs[f];
-      const map = (m.codes ?? m.values) as ArrayLike<number>;
+      const map = m.codes as Uint32Array;
       for (let i = 0; i < count; i++) out[at + i] = map[entryNumbers[i]];
     });
     if (weights) weights.set(columns[fetched.length].length === count ? columns[fetched.length] : Array.prototype.slice.call(columns[fetched.length], 0, count), at);
@@ -209,7 +214,7 @@ async function encodeRows(engine: Engine, input: EngineInput, keys: readonly Sca
 /** A column whose values were not fetched (past every cap): only its profile. */
 function profiledColumn(name: string, p: ColumnProfile): EncodedColumn {
   const capped = p.distinct > DISTINCT_TRACKING_LIMIT;
-  return { name, labels: [], codes: null, missing: p.missing, distinct: capped ? DISTINCT_TRACKING_LIMIT : p.distinct, distinctCapped: capped, numeric: p.numeric && p.distinct > 0, integer: p.integer && p.distinct > 0, values: null };
+  return { name, labels: [], codes: null, missing: p.missing, distinct: capped ? DISTINCT_TRACKING_LIMIT : p.distinct, distinctCapped: capped, numeric: p.numeric && p.distinct > 0, integer: p.integer && p.distinct > 0, missingLooking: p.missingLooking };
 }
 
 /** The scan's columns from the engine: the same EncodedInput as the built-in reader's, with pair counts done in the engine. */
@@ -218,7 +223,7 @@ export async function encodeWithEngine(engine: Engine, input: EngineInput, reade
   const selection = scanSelection(rel.header, request, input.label);
   const missingTokens = new Set(reader.missing.map((m) => m.trim()));
   const text = (index: number) => `CAST(${rel.names[index]} AS VARCHAR)`;
-  const capOf = (name: string) => (request.recodes?.has(name) ? Math.max(RECODED_READING_CAP, request.maxLevels) : request.maxLevels);
+  const capOf = (name: string) => (request.recodes?.has(name) ? Math.max(RECODED_READING_CAP, request.maxLevels) : (request.readingCap ?? request.maxLevels));
   const scanKeys: ScanKey[] = selection.candidates.map((index, k) => ({ name: rel.header[index], sql: `v${k}`, cap: capOf(rel.header[index]) }));
   if (selection.layer !== null) scanKeys.push({ name: rel.header[selection.layer], sql: 'vl', cap: RECODED_READING_CAP });
   const columnsSql = scanKeys.map((key, k) => `${text(k < selection.candidates.length ? selection.candidates[k] : (selection.layer as number))} AS ${key.sql}`);
@@ -258,6 +263,7 @@ export async function encodeWithEngine(engine: Engine, input: EngineInput, reade
     badDesign: 0,
     design: null,
     summary: { header: rel.header, delimiter: rel.delimiter, records, blankLines: await blank, badRows: 0, engine: 'duckdb', format: input.format, files: input.files.length },
+    weights,
     countPairs: async () => (a, b, layerColumn) => countPair(a, b, { weights, strata: layerColumn ?? undefined }),
   };
 }
