@@ -32,7 +32,7 @@ import { binsOf, levelOrder, LevelRules, missingLevelLabels, missingReasonOrder 
 import { isMissingLooking } from '../table/missingLooking.js';
 import { EngineFallback } from './engine/query.js';
 import { IdTally } from './idTally.js';
-import { tallyInParallel, threadsFor } from './parallelCount.js';
+import { rangeCountableSize, tallyInParallel, threadsFor } from './parallelCount.js';
 import { binNumericLevels, CutSpec } from '../table/bins.js';
 import { InputSource } from './source.js';
 
@@ -376,7 +376,9 @@ async function countRows(
   };
   if (tally !== null) {
     const threads = await threadsFor(source, reader);
-    const counted = threads > 1 ? await tallyInParallel(source, reader, select, threads) : null;
+    // In a series of files (reader.rangePool), every plain file is counted by the pool's threads.
+    const pooled = reader.rangePool !== undefined && (threads > 1 || (await rangeCountableSize(source, reader)) !== null);
+    const counted = pooled || threads > 1 ? await tallyInParallel(source, reader, select, threads, { run: reader.rangePool }) : null;
     if (counted !== null) {
       onLabels(counted.labels);
       counted.forEach((ids, rows) => countGroup(ids, rows, gate, counter));

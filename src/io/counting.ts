@@ -191,7 +191,7 @@ export async function countFiles(sources: readonly InputSource[], reader: Reader
   };
   // Cells counted elsewhere are small files, and a survey design is counted row by row: both by the built-in reader, file by file (countTable routes each).
   const route = request.summedWeights || request.design ? 'builtin' : await chooseFilesRoute(reader, sources);
-  if (route === 'builtin') return oneByOne(reader);
+  if (route === 'builtin') return plainUnweighted(request) ? inPool(sources, reader, request) : oneByOne(reader);
   for (const source of sources) {
     if (source.path === '-') throw usageError('--engine duckdb reads files, not standard input; give the waves as files, or use --engine builtin');
     const stats = await checkFile(source);
@@ -212,5 +212,57 @@ export async function countFiles(sources: readonly InputSource[], reader: Reader
     const result = await oneByOne({ ...reader, engine: 'builtin' });
     reader.onNote?.(`the engine cannot read these ${files.length} files in one pass the way the built-in reader does (${error.message}); counted one by one with the built-in reader`);
     return result;
+  }
+}
+
+/** A request whose rows are tallied by their combination of values (io/countTable.ts), which range workers can count. */
+function plainUnweighted(request: TableRequest): boolean {
+  return request.weight === undefined && request.summedWeights === undefined && request.design === undefined;
+}
+
+/** Files read ahead of the one being counted: their headers are read and their bodies queued for the pool. */
+const FILES_AHEAD = 4;
+
+/**
+ * The files of a series counted on every core: a pool of worker threads
+ * (io/rangePool.ts) counts each plain file while this thread reads the next
+ * files' headers and turns finished tallies into tables, a few files ahead.
+ * Each file is counted exactly as countTable counts it alone (a file the
+ * workers cannot settle is read again by the single reader), and a failure
+ * is the one of the first file in order that fails, as when they are read
+ * one by one.
+ */
+async function inPool(sources: readonly InputSource[], reader: ReaderOptions, request: TableRequest): Promise<CountedInput[]> {
+  const { poolThreads, workerUrl } = await import('./parallelCount.js');
+  const threads = poolThreads(reader, sources.length);
+  const results: CountedInput[] = [];
+  if (threads < 2) {
+    for (const source of sources) results.push(await countTable(source, reader, request));
+    return results;
+  }
+  const { RangePool } = await import('./rangePool.js');
+  const pool = new RangePool(threads, workerUrl());
+  try {
+    const pooled: ReaderOptions = { ...reader, rangePool: pool.run };
+    const running: Promise<CountedInput>[] = [];
+    const settle = (p: Promise<CountedInput>) => p.then((value) => ({ value }), (error: unknown) => ({ error }));
+    const started = () => {
+      const k = running.length;
+      running.push(countTable(sources[k], pooled, request));
+      running[k].catch(() => undefined); // awaited in order below
+    };
+    for (let k = 0; k < sources.length; k++) {
+      while (running.length < sources.length && running.length <= k + FILES_AHEAD) started();
+      const outcome = await settle(running[k]);
+      if ('error' in outcome) {
+        // Files after it may be in flight: they finish (or fail) before the pool stops.
+        await Promise.all(running.slice(k + 1).map(settle));
+        throw outcome.error;
+      }
+      results.push(outcome.value);
+    }
+    return results;
+  } finally {
+    await pool.close();
   }
 }

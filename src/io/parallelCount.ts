@@ -23,7 +23,7 @@ import { Worker } from 'node:worker_threads';
 import { DEFAULT_DISTINCT_LIMIT, HeaderEnd, ReaderOptions, ReadSummary, readRecords, ColumnSelector } from './readRecords.js';
 import { FieldInterner } from './fieldInterner.js';
 import type { RangeJob, RangeTally } from './rangeCount.js';
-import { InputSource, isGzipFile } from './source.js';
+import { InputSource } from './source.js';
 
 /** Under --threads auto, plain files from this size on are counted on every core (see README, Speed). */
 export const PARALLEL_MIN_BYTES = 96 * 1024 * 1024;
@@ -41,29 +41,48 @@ export interface ParallelTally {
 /** How the ranges are counted: in worker threads, or (tests) by a function given. */
 export type RangeRunner = (job: RangeJob) => Promise<RangeTally>;
 
-/** How many threads count this source, or 1 when it is for the single reader. */
-export async function threadsFor(source: InputSource, reader: ReaderOptions): Promise<number> {
-  const asked = reader.threads ?? 'auto';
-  if (asked !== 'auto' && asked < 2) return 1;
-  if (source.path === '-' || !reader.header) return 1;
-  if (reader.encoding !== undefined && !/^utf-?8$/i.test(reader.encoding)) return 1;
+/**
+ * The size of a source that ranges can count: a regular UTF-8 file with a
+ * header, neither gzip nor UTF-16; null for anything the single reader
+ * reads (streams, legacy encodings, files without a header, or a file it
+ * cannot open, whose problem it names).
+ */
+export async function rangeCountableSize(source: InputSource, reader: ReaderOptions): Promise<number | null> {
+  if (source.path === '-' || !reader.header) return null;
+  if (reader.encoding !== undefined && !/^utf-?8$/i.test(reader.encoding)) return null;
   try {
     const stat = await fs.stat(source.path);
-    if (!stat.isFile()) return 1;
-    if (asked === 'auto' && stat.size < PARALLEL_MIN_BYTES) return 1;
+    if (!stat.isFile()) return null;
     const handle = await fs.open(source.path, 'r');
     try {
       const head = Buffer.alloc(2);
       await handle.read(head, 0, 2, 0);
-      // UTF-16 is transcoded by the single reader.
-      if ((head[0] === 0xff && head[1] === 0xfe) || (head[0] === 0xfe && head[1] === 0xff)) return 1;
+      // UTF-16 is transcoded by the single reader, and gzip inflated by it.
+      if ((head[0] === 0xff && head[1] === 0xfe) || (head[0] === 0xfe && head[1] === 0xff)) return null;
+      if (head[0] === 0x1f && head[1] === 0x8b) return null;
     } finally {
       await handle.close();
     }
-    if (await isGzipFile(source.path)) return 1;
+    return stat.size;
   } catch {
-    return 1; // the single reader names the problem
+    return null; // the single reader names the problem
   }
+}
+
+/** Threads for a series of files under --threads (io/rangePool.ts): every core under auto, up to one per file; 1 for none. */
+export function poolThreads(reader: ReaderOptions, files: number): number {
+  const asked = reader.threads ?? 'auto';
+  const threads = asked === 'auto' ? Math.min(availableParallelism(), AUTO_THREADS_MAX) : asked;
+  return Math.max(1, Math.min(threads, files));
+}
+
+/** How many threads count this source, or 1 when it is for the single reader. */
+export async function threadsFor(source: InputSource, reader: ReaderOptions): Promise<number> {
+  const asked = reader.threads ?? 'auto';
+  if (asked !== 'auto' && asked < 2) return 1;
+  const size = await rangeCountableSize(source, reader);
+  if (size === null) return 1;
+  if (asked === 'auto' && size < PARALLEL_MIN_BYTES) return 1;
   return asked === 'auto' ? Math.min(availableParallelism(), AUTO_THREADS_MAX) : asked;
 }
 
@@ -175,7 +194,7 @@ async function startsWithUtf8Mark(path: string): Promise<boolean> {
 }
 
 /** The worker script beside this module (from the sources under test, the built one). */
-function workerUrl(): URL {
+export function workerUrl(): URL {
   const here = import.meta.url;
   return here.endsWith('.ts') ? new URL('../../dist/io/rangeWorker.js', here) : new URL('./rangeWorker.js', here);
 }

@@ -8,6 +8,7 @@ import { validateHeader } from './columns.js';
 import { CsvTokenizer, detectDelimiter } from './csvTokenizer.js';
 import { InputSource, utf8Chunks } from './source.js';
 import { FieldInterner } from './fieldInterner.js';
+import type { RangeJob, RangeTally } from './rangeCount.js';
 
 export interface ReaderOptions {
   /** One character; detected from the header line when absent. */
@@ -30,6 +31,11 @@ export interface ReaderOptions {
    * number that many threads for any plain file, 1 the single reader.
    */
   threads?: number | 'auto';
+  /**
+   * Worker threads kept for a series of files (io/rangePool.ts): each plain
+   * file is counted there, whole or in ranges, instead of by threads of its own.
+   */
+  rangePool?: (job: RangeJob) => Promise<RangeTally>;
   /** Receives a one-line note the user should see (for example, that the engine fell back). */
   onNote?: (note: string) => void;
   /** Sees the files a pattern matched before any is read, so that an output that is one of them is refused (src/output/guard.ts). */
@@ -74,6 +80,24 @@ export type RowHandler = (ids: Int32Array, line: number, texts: (string | undefi
 export const DEFAULT_DISTINCT_LIMIT = 1_000_000;
 
 const SAMPLE_LIMIT = 1 << 20;
+
+/**
+ * The first line of the sample (its first SAMPLE_LIMIT bytes) that is not
+ * blank, decoded; lines end at CR LF, LF or CR. Only the lines up to it are
+ * decoded (decoding the whole sample was a fixed cost of every file read).
+ */
+export function firstNonBlankLine(sample: Uint8Array): string {
+  const bytes = Buffer.from(sample.buffer, sample.byteOffset, Math.min(sample.length, SAMPLE_LIMIT));
+  let from = 0;
+  while (from <= bytes.length) {
+    let end = from;
+    while (end < bytes.length && bytes[end] !== 0x0a && bytes[end] !== 0x0d) end++;
+    const line = bytes.toString('utf8', from, end);
+    if (line.trim() !== '') return line;
+    from = end + (bytes[end] === 0x0d && bytes[end + 1] === 0x0a ? 2 : 1);
+  }
+  return '';
+}
 
 export function parseDelimiterOption(value: string): string {
   const named: Record<string, string> = { tab: '\t', '\\t': '\t', comma: ',', semicolon: ';', pipe: '|' };
@@ -120,11 +144,7 @@ export async function readRecords(
   let bufferedLength = 0;
 
   const start = (sample: Uint8Array) => {
-    if (delimiter === undefined) {
-      const text = Buffer.from(sample.buffer, sample.byteOffset, Math.min(sample.length, SAMPLE_LIMIT)).toString('utf8');
-      const firstLine = text.split(/\r\n|\n|\r/).find((l) => l.trim() !== '') ?? '';
-      delimiter = detectDelimiter(firstLine);
-    }
+    if (delimiter === undefined) delimiter = detectDelimiter(firstNonBlankLine(sample));
     tokenizer = new CsvTokenizer(
       delimiter.charCodeAt(0),
       {
@@ -185,6 +205,12 @@ export async function readRecords(
   };
 
   for await (const chunk of utf8Chunks(source, options.encoding)) {
+    if (tokenizer === null && bufferedLength === 0 && chunk.indexOf(0x0a) >= 0) {
+      // The usual start: the first block holds a line end (the tokenizer copies what it keeps).
+      start(chunk);
+      (tokenizer as unknown as CsvTokenizer).push(chunk);
+      continue;
+    }
     if (tokenizer === null) {
       // The chunk's buffer is reused for the next read: keep a copy.
       buffered.push(Uint8Array.prototype.slice.call(chunk));

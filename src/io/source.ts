@@ -101,6 +101,8 @@ async function openSource(source: InputSource): Promise<OpenedSource> {
 
 /** Bytes read from a regular file at a time. */
 export const READ_BLOCK = 1 << 20;
+/** Bytes of a regular file's first read. */
+const FIRST_BLOCK = 1 << 16;
 
 /**
  * A regular file's bytes, block by block, through two buffers used in turn
@@ -112,7 +114,9 @@ export const READ_BLOCK = 1 << 20;
 async function* fileBlocks(path: string): AsyncGenerator<Buffer> {
   const handle = await fs.open(path, 'r');
   const blocks = [Buffer.allocUnsafe(READ_BLOCK), Buffer.allocUnsafe(READ_BLOCK)];
-  let next = handle.read(blocks[0], 0, READ_BLOCK, null);
+  // The first read is short: it holds the header (all that a reader of the
+  // header wants) and, for a small file, the whole file.
+  let next = handle.read(blocks[0], 0, FIRST_BLOCK, null);
   try {
     for (let k = 1; ; k ^= 1) {
       const { bytesRead, buffer } = await next;
@@ -155,8 +159,11 @@ async function* inflatedWhenCompressed(iterator: AsyncIterator<Buffer>): AsyncGe
       ended = true;
       break;
     }
-    // (Copied: a chunk may be valid only until the next one is read.)
-    head = Buffer.concat([head, next.value]);
+    // (Copied when another chunk must be read to see two bytes: a chunk may be
+    // valid only until the next one is read. A first chunk of two bytes or
+    // more is handed on as it is: copying a whole block was a fixed cost of
+    // every file.)
+    head = head.length === 0 && next.value.length >= 2 ? next.value : Buffer.concat([head, next.value]);
   }
   async function* all(): AsyncGenerator<Buffer> {
     try {
