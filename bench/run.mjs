@@ -145,7 +145,8 @@ async function benchBanner() {
  * A survey design against --weight alone (Kish's approximation) on the same
  * 1,000,000 rows of 50 strata x 2 PSUs: the design registers every row's PSU
  * and counts per-PSU totals beside each table (pair), and beside every
- * pair's table in the same pass (scan, 30 columns, 435 pairs).
+ * pair's table in the same pass (scan, 30 columns, 435 pairs); waves with
+ * the levels of one column as independent waves.
  */
 async function benchDesign() {
   const file = await designFile();
@@ -160,6 +161,10 @@ survey design: 1,000,000 rows in 50 strata x 2 PSUs (${(statSync(file).size / 1e
   report(`${'pair q02 x q05'.padEnd(50)} ${s(p.mine).padStart(8)} ${s(p.reference).padStart(8)} ${p.ratio.toFixed(3).padStart(7)}   <= 1.5 ${verdict(p.ratio <= 1.5)}`);
   const sc = versus(scanDesign(...design), scanDesign('--weight', 'weight'));
   report(`${'scan of 30 columns (435 pairs)'.padEnd(50)} ${s(sc.mine).padStart(8)} ${s(sc.reference).padStart(8)} ${sc.ratio.toFixed(3).padStart(7)}   <= 2 ${verdict(sc.ratio <= 2)}`);
+  // waves: the 9 levels of q08 as independent waves, each its own sample of the 50 strata x 2 PSUs (no goal set)
+  const wavesDesign = (...extra) => tabsight('waves', file, '--period', 'q08', '--rows', 'q02', '--cols', 'q05', '--format', 'json', '--engine', 'builtin', ...extra);
+  const wv = versus(wavesDesign(...design), wavesDesign('--weight', 'weight'));
+  report(`${'waves, 9 waves of q02 x q05 (--period q08)'.padEnd(50)} ${s(wv.mine).padStart(8)} ${s(wv.reference).padStart(8)} ${wv.ratio.toFixed(3).padStart(7)}   (none)`);
 }
 
 if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'design') {

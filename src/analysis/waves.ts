@@ -22,6 +22,7 @@ import { TOOL_VERSION } from '../version.js';
 import { AnalysisOptions, Evidence, evidenceOf, Warning } from './analyzeTable.js';
 import { unknownOrderWarnings } from './report.js';
 import { ChangeTest, compareReport, CompareReport, PeriodInput, PeriodRecord, periodRecord, unionOfLevels } from './compare.js';
+import { DesignAcross, designAcrossWaves, waveWald as waveWaldOf, WavesDesign, WaveWald } from './wavesDesign.js';
 
 /** One wave as counted: the period of `compare`, plus the short name the report shows. */
 export interface WaveInput extends PeriodInput {
@@ -49,8 +50,8 @@ export interface WaveSetup {
 export type WaveRecord = PeriodRecord & { key: string; score: number };
 
 export interface SameAssociation {
-  /** The test that decides: Breslow–Day with Tarone's correction for 2×2 tables, else the G² of no three-way interaction. */
-  test: 'breslow-day-tarone' | 'no-three-way-interaction';
+  /** The test that decides: Breslow–Day with Tarone's correction for 2×2 tables, else the G² of no three-way interaction; with a survey design the design-based Wald test of equal log odds ratios. */
+  test: 'breslow-day-tarone' | 'no-three-way-interaction' | 'design-wald';
   statistic: number;
   df: number;
   pValue: number;
@@ -68,6 +69,8 @@ export interface SameAssociation {
   } | null;
   /** 2×2: equal odds ratios in every wave (Breslow–Day, Tarone's correction), around the Mantel–Haenszel common odds ratio. */
   equalOdds: (TestResult & { uncorrected: number; commonOddsRatio: CommonOddsRatio }) | null;
+  /** With a survey design: the Wald test (F form and W) and the waves it compares (those with defined log odds ratios). */
+  design: (WaveWald & { waves: string[] }) | null;
 }
 
 export interface WavesTrend {
@@ -98,6 +101,17 @@ export interface WavesTrend {
   scoreTest: (TestResult & { direction: -1 | 0 | 1 }) | null;
   woolf: LogOddsRatioTrend | null;
   layerEffect: Omit<LayerEffectTrend, 'test'> | null;
+  /** With a survey design: the trend fitted by GLS to each wave's design-based log odds ratios (the Wald test, F form on 1 and ν df). */
+  design: {
+    test: WaveWald;
+    standardError: number;
+    /** The waves in the fit (those with defined log odds ratios). */
+    waves: string[];
+    /** 2×2: the waves about the line (Q on K − 2 df); r×c: the trend model's own fit (Q on (K−1)(r−1)(c−1) − 1 df). */
+    scatter: TestResult | null;
+    /** r×c: the common pattern of log odds ratios at the mean score; 2×2: null. */
+    pattern: number[] | null;
+  } | null;
 }
 
 export interface WaveDeparture {
@@ -106,9 +120,11 @@ export interface WaveDeparture {
   key: string;
   /** 2×2: (a − A)/√Var around the common odds ratio (Breslow & Day); r×c: null. */
   z: number | null;
-  /** 2×2: z²; r×c: G² of no three-way interaction minus that of the other waves. */
+  /** 2×2: z²; r×c: G² of no three-way interaction minus that of the other waves; with a survey design the Wald F of the wave against the others' common log odds ratios. */
   statistic: number;
   df: number;
+  /** With a survey design: the F form's denominator df (null when W is referred to χ²); otherwise null. */
+  denDf: number | null;
   pValue: number;
   /** Holm's adjustment over the waves tested. */
   adjustedPValue: number;
@@ -119,9 +135,17 @@ export interface WaveDeparture {
 }
 
 export interface WaveDrift {
-  pearson: TestResult;
-  likelihoodRatio: TestResult;
-  /** pearson.pValue ≤ alpha. */
+  /** The test that decides: Pearson's chi-square of margin × wave, or with a survey design the design-based Wald test of equal shares. */
+  test: 'pearson' | 'design-wald';
+  statistic: number;
+  df: number;
+  pValue: number;
+  /** Without a design: the tests of homogeneity of margin × wave; null with a design. */
+  pearson: TestResult | null;
+  likelihoodRatio: TestResult | null;
+  /** With a survey design: the Wald test (F form and W). */
+  design: WaveWald | null;
+  /** pValue ≤ alpha. */
   drifted: boolean;
   /** Each wave's shares of the margin's levels, in percent (rows: waves, columns: levels), from the weighted counts shown. */
   shares: (number | null)[][];
@@ -153,7 +177,7 @@ export type WavesStatement =
   | { kind: 'trend'; method: WavesTrend['method']; direction: WavesTrend['direction']; passes: boolean; factor: number; factorLower: number | null; factorUpper: number | null; confidence: number; unit: WavesTrend['unit']; perAverageWave: WavesTrend['perAverageWave']; pValue: number; adjustedPValue: number }
   | { kind: 'stands-out'; key: string; direction: WaveDeparture['direction']; z: number | null; adjustedPValue: number }
   | { kind: 'more-stand-out'; count: number }
-  | { kind: 'margin'; side: 'rows' | 'cols'; name: string; drifted: boolean; pValue: number }
+  | { kind: 'margin'; side: 'rows' | 'cols'; name: string; drifted: boolean; pValue: number; test: WaveDrift['test'] }
   | { kind: 'many-looks'; waves: number };
 
 export interface WavesReport {
@@ -174,8 +198,11 @@ export interface WavesReport {
   partialLevels: { rows: PartialLevel[]; cols: PartialLevel[] };
   verdict: WavesVerdict;
   statements: WavesStatement[];
-  /** Sampling weights: every test across waves uses each wave's table rescaled to its effective sample size. */
+  /** Sampling weights: every test across waves uses each wave's table rescaled to its effective sample size (without a design). */
   weighted: boolean;
+  /** A survey design: each wave its own sample, each wave's leading test design-based, the tests across waves design-based Wald tests. */
+  designed: boolean;
+  design: WavesDesign | null;
   settings: { alpha: number; confidence: number; spacing: 'auto' | 'even' };
   warnings: Warning[];
 }
@@ -202,8 +229,8 @@ function sameAssociation(stack: number[][][], twoByTwo: boolean, confidence: num
     const bdt = common ? breslowDayTarone(stack, common.estimate) : null;
     if (common && bdt) equalOdds = { ...bdt, commonOddsRatio: common };
   }
-  if (equalOdds) return { test: 'breslow-day-tarone', statistic: equalOdds.statistic, df: equalOdds.df, pValue: equalOdds.pValue, interaction, equalOdds };
-  if (interaction) return { test: 'no-three-way-interaction', statistic: interaction.statistic, df: interaction.df, pValue: interaction.pValue, interaction, equalOdds: null };
+  if (equalOdds) return { test: 'breslow-day-tarone', statistic: equalOdds.statistic, df: equalOdds.df, pValue: equalOdds.pValue, interaction, equalOdds, design: null };
+  if (interaction) return { test: 'no-three-way-interaction', statistic: interaction.statistic, df: interaction.df, pValue: interaction.pValue, interaction, equalOdds: null, design: null };
   return null;
 }
 
@@ -245,6 +272,7 @@ function trendOf(stack: number[][][], scores: WaveScores, twoByTwo: boolean, con
       scoreTest: score,
       woolf,
       layerEffect: null,
+      design: null,
     };
   }
   const fit = layerEffectTrend(stack, scores.values, confidence);
@@ -270,6 +298,7 @@ function trendOf(stack: number[][][], scores: WaveScores, twoByTwo: boolean, con
     scoreTest: null,
     woolf: null,
     layerEffect,
+    design: null,
   };
 }
 
@@ -290,17 +319,101 @@ function departuresOf(stack: number[][][], keys: readonly string[], twoByTwo: bo
   return tested.map(({ r, w }, k) => {
     const z = r!.z;
     const direction = z === null || commonOddsRatio === null || commonOddsRatio === 1 || z === 0 ? null : (z > 0) === (commonOddsRatio > 1) ? 'stronger' : 'weaker';
-    return { wave: w, key: keys[w], z, statistic: r!.statistic, df: r!.df, pValue: r!.pValue, adjustedPValue: adjusted[k], standsOut: adjusted[k] <= alpha, direction };
+    return { wave: w, key: keys[w], z, statistic: r!.statistic, df: r!.df, denDf: null, pValue: r!.pValue, adjustedPValue: adjusted[k], standsOut: adjusted[k] <= alpha, direction };
+  });
+}
+
+function sharesOf(margins: number[][]): (number | null)[][] {
+  return margins.map((m) => {
+    const total = m.reduce((s, v) => s + v, 0);
+    return m.map((v) => (total > 0 ? (100 * v) / total : null));
   });
 }
 
 function driftOf(test: DriftTest | null, margins: number[][], alpha: number): WaveDrift | null {
   if (test === null) return null;
-  const shares = margins.map((m) => {
-    const total = m.reduce((s, v) => s + v, 0);
-    return m.map((v) => (total > 0 ? (100 * v) / total : null));
+  const p = test.pearson;
+  return { test: 'pearson', statistic: p.statistic, df: p.df, pValue: p.pValue, pearson: p, likelihoodRatio: test.likelihoodRatio, design: null, drifted: p.pValue <= alpha, shares: sharesOf(margins) };
+}
+
+function designDriftOf(test: WaveWald | null, margins: number[][], alpha: number): WaveDrift | null {
+  if (test === null) return null;
+  return { test: 'design-wald', statistic: test.statistic, df: test.df, pValue: test.pValue, pearson: null, likelihoodRatio: null, design: test, drifted: test.pValue <= alpha, shares: sharesOf(margins) };
+}
+
+/** The design-based trend record from the GLS fits. */
+function designTrendOf(across: DesignAcross, scores: WaveScores, keys: readonly string[], confidence: number): WavesTrend | null {
+  const used = across.associationWaves.map((k) => keys[k]);
+  if (across.linear) {
+    const fit = across.linear;
+    const test = waveWaldOf(fit.test);
+    const common = across.commonLogOddsRatio ?? 0;
+    const direction = fit.slope === 0 || common === 0 ? null : Math.sign(fit.slope) === Math.sign(common) ? 'grows' : 'fades';
+    return {
+      method: 'odds-ratio',
+      statistic: test.statistic,
+      df: test.df,
+      pValue: test.pValue,
+      slope: fit.slope,
+      lower: fit.lower,
+      upper: fit.upper,
+      confidence,
+      factor: Math.exp(fit.slope),
+      factorLower: Math.exp(fit.lower),
+      factorUpper: Math.exp(fit.upper),
+      unit: scores.unit,
+      perAverageWave: perAverageWave(scores, fit.slope, fit.lower, fit.upper),
+      direction,
+      converged: true,
+      fitted: scores.values.map((x) => Math.exp(fit.intercept + fit.slope * x)),
+      scoreTest: null,
+      woolf: null,
+      layerEffect: null,
+      design: { test, standardError: fit.standardError, waves: used, scatter: fit.scatter, pattern: null },
+    };
+  }
+  if (across.layerEffect) {
+    const fit = across.layerEffect;
+    const test = waveWaldOf(fit.test);
+    const at = (x: number | null) => (x === null ? null : Math.exp(x));
+    return {
+      method: 'layer-effect',
+      statistic: test.statistic,
+      df: test.df,
+      pValue: test.pValue,
+      slope: fit.slope,
+      lower: fit.lower,
+      upper: fit.upper,
+      confidence,
+      factor: Math.exp(fit.slope),
+      factorLower: at(fit.lower),
+      factorUpper: at(fit.upper),
+      unit: scores.unit,
+      perAverageWave: perAverageWave(scores, fit.slope, fit.lower, fit.upper),
+      direction: fit.slope > 0 ? 'grows' : fit.slope < 0 ? 'fades' : null,
+      converged: true,
+      fitted: scores.values.map((x) => Math.exp(fit.slope * (x - fit.scoreCentre))),
+      scoreTest: null,
+      woolf: null,
+      layerEffect: null,
+      design: { test, standardError: fit.standardError, waves: used, scatter: fit.fit, pattern: fit.pattern },
+    };
+  }
+  return null;
+}
+
+/** Each association wave's departure from the others' common log odds ratios, Holm-adjusted over the waves tested. */
+function designDeparturesOf(across: DesignAcross, keys: readonly string[], alpha: number): WaveDeparture[] | null {
+  if (across.departures === null) return null;
+  const tested = across.departures.map((d, at) => ({ d, w: across.associationWaves[at] })).filter((x) => x.d !== null);
+  if (tested.length < 3) return null;
+  const adjusted = holm(tested.map((x) => x.d!.test.pValue));
+  const common = across.commonLogOddsRatio;
+  return tested.map(({ d, w }, k) => {
+    const z = d!.z;
+    const direction = z === null || common === null || common === 0 || z === 0 ? null : (z > 0) === (common > 0) ? 'stronger' : 'weaker';
+    return { wave: w, key: keys[w], z, statistic: d!.test.statistic, df: d!.test.df, denDf: d!.test.denDf, pValue: d!.test.pValue, adjustedPValue: adjusted[k], standsOut: adjusted[k] <= alpha, direction };
   });
-  return { pearson: test.pearson, likelihoodRatio: test.likelihoodRatio, drifted: test.pearson.pValue <= alpha, shares };
 }
 
 function verdictOf(trend: WavesTrend | null, same: SameAssociation | null, alpha: number): WavesVerdict {
@@ -352,21 +465,38 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
   const waves: WaveRecord[] = aligned.map((w, k) => ({ ...periodRecord(w, options), key: w.key, score: setup.scores.values[k] }));
   const stack = aligned.map((w) => rescaleToEffectiveSize(w.table.counts, w.weighting));
   const latest = compareReport(inputs[K - 2], inputs[K - 1], options, order);
-
-  const same = sameAssociation(stack, twoByTwo, options.confidence);
-  const common = same?.equalOdds?.commonOddsRatio.estimate ?? (twoByTwo ? (mantelHaenszelOddsRatio(stack, options.confidence)?.estimate ?? null) : null);
-  const trend = trendOf(stack, setup.scores, twoByTwo, options.confidence, common === null ? null : Math.log(common));
-  const departures = departuresOf(stack, keys, twoByTwo, alpha, common);
-  const drift = marginDrift(stack);
   const shownRowMargins = aligned.map((w) => w.table.counts.map((row) => row.reduce((s, v) => s + v, 0)));
   const shownColMargins = aligned.map((w) => colLevels.map((_l, j) => w.table.counts.reduce((s, row) => s + row[j], 0)));
-  const marginDriftRecord = { rows: driftOf(drift.rows, shownRowMargins, alpha), cols: driftOf(drift.columns, shownColMargins, alpha) };
+  const designed = inputs.every((w) => w.design);
+
+  let same: SameAssociation | null;
+  let trend: WavesTrend | null;
+  let departures: WaveDeparture[] | null;
+  let marginDriftRecord: WavesReport['marginDrift'];
+  let across: DesignAcross | null = null;
+  if (designed) {
+    // Each wave its own sample: design-based Wald tests on each wave's estimates and design covariance.
+    across = designAcrossWaves(inputs, rowLevels, colLevels, setup.scores, options.confidence);
+    const used = across.associationWaves.map((k) => keys[k]);
+    same = across.same ? { test: 'design-wald', statistic: across.same.statistic, df: across.same.df, pValue: across.same.pValue, interaction: null, equalOdds: null, design: { ...across.same, waves: used } } : null;
+    trend = designTrendOf(across, setup.scores, keys, options.confidence);
+    departures = designDeparturesOf(across, keys, alpha);
+    marginDriftRecord = { rows: designDriftOf(across.drift.rows, shownRowMargins, alpha), cols: designDriftOf(across.drift.cols, shownColMargins, alpha) };
+  } else {
+    same = sameAssociation(stack, twoByTwo, options.confidence);
+    const common = same?.equalOdds?.commonOddsRatio.estimate ?? (twoByTwo ? (mantelHaenszelOddsRatio(stack, options.confidence)?.estimate ?? null) : null);
+    trend = trendOf(stack, setup.scores, twoByTwo, options.confidence, common === null ? null : Math.log(common));
+    departures = departuresOf(stack, keys, twoByTwo, alpha, common);
+    const drift = marginDrift(stack);
+    marginDriftRecord = { rows: driftOf(drift.rows, shownRowMargins, alpha), cols: driftOf(drift.columns, shownColMargins, alpha) };
+  }
   const partialLevels = { rows: partial(rowLevels, present.map((t) => t.rowLevels), keys), cols: partial(colLevels, present.map((t) => t.colLevels), keys) };
   const verdict = verdictOf(trend, same, alpha);
 
   const warnings: Warning[] = [
     ...unknownOrderWarnings('--row-order', (order.rows ?? []).filter((l) => !rowLevels.includes(l))),
     ...unknownOrderWarnings('--col-order', (order.cols ?? []).filter((l) => !colLevels.includes(l))),
+    ...(across?.warnings ?? []),
   ];
   const describe = (name: string, levels: PartialLevel[]) =>
     levels.map((p) => `${name} "${p.level}" (absent from ${p.absentFrom.length === 1 ? `wave ${p.absentFrom[0]}` : `${p.absentFrom.length} waves: ${p.absentFrom.slice(0, 5).join(', ')}${p.absentFrom.length > 5 ? ', …' : ''}`})`);
@@ -382,7 +512,7 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
   if (sparse.length > 0) {
     warnings.push({
       code: 'sparse-waves',
-      message: `${sparse.length === 1 ? `wave ${sparse[0]} fails` : `${sparse.length} of ${K} waves fail`} the expected-count rule${sparse.length > 1 ? ` (${sparse.slice(0, 5).join(', ')}${sparse.length > 5 ? ', …' : ''})` : ''}: their own p-values are exact or simulated, but the tests across waves rest on chi-square approximations; read them with care, or merge sparse levels (--recode, --other)`,
+      message: `${sparse.length === 1 ? `wave ${sparse[0]} fails` : `${sparse.length} of ${K} waves fail`} the expected-count rule${sparse.length > 1 ? ` (${sparse.slice(0, 5).join(', ')}${sparse.length > 5 ? ', …' : ''})` : ''}: ${designed ? 'exact tests are not defined under a survey design, so their own tests and' : 'their own p-values are exact or simulated, but'} the tests across waves rest on ${designed ? 'large-sample' : 'chi-square'} approximations; read them with care, or merge sparse levels (--recode, --other)`,
     });
   }
   if (same?.interaction && !same.interaction.converged) {
@@ -395,7 +525,9 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
   if (trend === null && span > 0) {
     warnings.push({
       code: 'trend-not-fitted',
-      message: twoByTwo
+      message: designed
+        ? 'no design-based trend could be estimated: fewer than two waves have defined log odds ratios with an invertible design covariance'
+        : twoByTwo
         ? 'no trend in the odds ratio could be estimated: fewer than two waves have a defined odds ratio'
         : 'no trend could be estimated: the trend model does not settle on these sparse tables (cells of zero leave its fit without a finite estimate); merge sparse levels (--recode, --other) to test for a trend',
     });
@@ -444,8 +576,8 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
   const standing = (departures ?? []).filter((d) => d.standsOut).sort((a, b) => a.adjustedPValue - b.adjustedPValue);
   for (const d of standing.slice(0, MAX_NAMED_DEPARTURES)) statements.push({ kind: 'stands-out', key: d.key, direction: d.direction, z: d.z, adjustedPValue: d.adjustedPValue });
   if (standing.length > MAX_NAMED_DEPARTURES) statements.push({ kind: 'more-stand-out', count: standing.length - MAX_NAMED_DEPARTURES });
-  if (marginDriftRecord.rows) statements.push({ kind: 'margin', side: 'rows', name: rowName, drifted: marginDriftRecord.rows.drifted, pValue: marginDriftRecord.rows.pearson.pValue });
-  if (marginDriftRecord.cols) statements.push({ kind: 'margin', side: 'cols', name: colName, drifted: marginDriftRecord.cols.drifted, pValue: marginDriftRecord.cols.pearson.pValue });
+  if (marginDriftRecord.rows) statements.push({ kind: 'margin', side: 'rows', name: rowName, drifted: marginDriftRecord.rows.drifted, pValue: marginDriftRecord.rows.pValue, test: marginDriftRecord.rows.test });
+  if (marginDriftRecord.cols) statements.push({ kind: 'margin', side: 'cols', name: colName, drifted: marginDriftRecord.cols.drifted, pValue: marginDriftRecord.cols.pValue, test: marginDriftRecord.cols.test });
   statements.push({ kind: 'many-looks', waves: K });
 
   return {
@@ -464,6 +596,8 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
     verdict,
     statements,
     weighted: inputs.some((w) => w.weighting.kind === 'weight'),
+    designed,
+    design: across?.design ?? null,
     settings: { alpha, confidence: options.confidence, spacing },
     warnings,
   };

@@ -13,6 +13,7 @@ import { stackSvg } from '../render/svg.js';
 import { baseName, orderOfFiles, orderOfLevels, Spacing, WaveKey, WaveOrderMode, waveScores } from '../table/waveKeys.js';
 import {
   addAnalysisOptions,
+  addDesignOptions,
   addReaderOptions,
   addRawCellsOption,
   addReportOptions,
@@ -91,6 +92,7 @@ export function wavesCommand(accept: (plan: WavesPlan) => void): Command {
   addTableOptions(command, Object.keys(WAVES_RENDERERS), false);
   addReaderOptions(command);
   addSurveyOptions(command, false);
+  addDesignOptions(command);
   addSummedWeightsOption(command);
   addAnalysisOptions(command);
   addReportOptions(command);
@@ -102,6 +104,7 @@ Examples:
   tabsight waves 'exports/2026-W*.csv' --rows region --cols answer
   tabsight waves week01.csv week02.csv week03.csv --rows region --cols answer --wave-order given
   tabsight waves survey.csv --period year --rows education --cols vocabulary --format html --output waves.html
+  tabsight waves survey.csv --period year --rows smoker --cols region --weight wt --strata stratum --cluster psu
 
 Files are sorted by the date (2026-01-05, 20260105), ISO week (2026-W05),
 month (2026-01) or, failing those, the last number in their names.
@@ -113,8 +116,10 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,
   return command;
 }
 
-function waveInput(label: string, key: string, counted: Pick<CountedInput, 'table' | 'weighting' | 'excluded' | 'excludedBy'>, input: WaveInput['input']): WaveInput {
-  return { label, key, table: counted.table, weighting: counted.weighting, excluded: counted.excluded, excludedBy: counted.excludedBy, input };
+function waveInput(label: string, key: string, counted: Pick<CountedInput, 'table' | 'weighting' | 'excluded' | 'excludedBy' | 'design'>, input: WaveInput['input'], plan: WavesPlan): WaveInput {
+  // With a survey design, each wave is its own sample: its own strata and PSUs (or replicate weights).
+  const design = counted.design ? { cells: counted.design, other: plan.table.other ?? null } : null;
+  return { label, key, table: counted.table, weighting: counted.weighting, excluded: counted.excluded, excludedBy: counted.excludedBy, input, design };
 }
 
 /** The name a wave of a file is shown by: its dated key as written, else its file's base name. */
@@ -136,7 +141,7 @@ async function wavesOfFiles(plan: WavesPlan, inputs: string[], mode: WaveOrderMo
   const sources: InputSource[] = ordered.order.map((k) => inputSource(files[k], io.stdin));
   const counted = await countFiles(sources, readerFor(plan.reader, io, guard), plan.table);
   const keys = ordered.order.map((k) => ordered.keys[k]);
-  const waves = sources.map((source, k) => waveInput(source.label, fileKey(source.path, keys[k]), counted[k], inputSummary(source.label, counted[k])));
+  const waves = sources.map((source, k) => waveInput(source.label, fileKey(source.path, keys[k]), counted[k], inputSummary(source.label, counted[k]), plan));
   const setup: WaveSetup = {
     source: 'files',
     period: null,
@@ -165,7 +170,7 @@ async function wavesOfColumn(plan: WavesPlan, input: string, column: string, lis
   const summary = inputSummary(source.label, counted);
   const waves = ordered.levels.map((level) => {
     const s = strata.find((x) => x.level === level)!;
-    return waveInput(`${column} ${level}`, level, { table: s.table, weighting: s.weighting, excluded: s.excluded ?? 0, excludedBy: s.excludedBy ?? [] }, summary);
+    return waveInput(`${column} ${level}`, level, { table: s.table, weighting: s.weighting, excluded: s.excluded ?? 0, excludedBy: s.excludedBy ?? [], design: s.design }, summary, plan);
   });
   const inWaves = strata.reduce((sum, s) => sum + (s.excluded ?? 0), 0);
   const setup: WaveSetup = {

@@ -4,7 +4,7 @@ import { md } from './pairDelimited.js';
 import { exactNumber } from './scanTable.js';
 import { spreadsheetField } from '../escape/spreadsheet.js';
 import { CAUTION, testName } from './words.js';
-import { acrossTests, latestHeadline, patternHeadline, setupWords, slopeWords, vWithInterval, wavesStatementWords } from './wavesWords.js';
+import { acrossTests, latestHeadline, patternHeadline, setupWords, slopeWords, vWithInterval, wavesStatementWords, weightingWords } from './wavesWords.js';
 
 /**
  * Stable column names of `waves --format csv|tsv`: one line per wave, in
@@ -43,6 +43,9 @@ export const WAVES_COLUMNS = [
   'deciding_p_value',
   'alpha',
   'latest_changed',
+  'design_df',
+  'mean_design_effect',
+  'weighting',
 ] as const;
 
 type Value = string | number | boolean | null;
@@ -82,6 +85,9 @@ function waveLine(report: WavesReport, w: WaveRecord, k: number): Value[] {
     v.decidingPValue,
     v.alpha,
     report.latest.verdict?.changed ?? null,
+    t?.design?.degreesOfFreedom ?? null,
+    t?.design?.designEffects.mean ?? null,
+    weightingWords(report),
   ];
 }
 
@@ -100,6 +106,11 @@ export function renderWavesMarkdown(report: WavesReport): string {
   out.push('');
   out.push(md(setupWords(report)));
   out.push('');
+  const weighting = weightingWords(report);
+  if (weighting) {
+    out.push(md(weighting));
+    out.push('');
+  }
   out.push(`**Since the wave before.** ${md(latestHeadline(report))}.`);
   out.push('');
   out.push(`**Over all waves.** ${md(patternHeadline(report))}.`);
@@ -125,7 +136,7 @@ export function renderWavesMarkdown(report: WavesReport): string {
   out.push('');
   out.push('| test across waves | statistic | df | p | adjusted p |');
   out.push('|---|--:|--:|--:|--:|');
-  for (const t of acrossTests(report)) out.push(`| ${t.decides ? '► ' : ''}${md(t.name)} | ${formatStatistic(t.statistic)} | ${t.df} | ${formatP(t.pValue)} | ${t.adjustedPValue === null ? '' : formatP(t.adjustedPValue)} |`);
+  for (const t of acrossTests(report)) out.push(`| ${t.decides ? '► ' : ''}${md(t.name)} | ${formatStatistic(t.statistic)} | ${t.denDf === null ? t.df : `${t.df} and ${formatStatistic(t.denDf, 0)}`} | ${formatP(t.pValue)} | ${t.adjustedPValue === null ? '' : formatP(t.adjustedPValue)} |`);
   const slope = slopeWords(report);
   if (slope) {
     out.push('');

@@ -4,7 +4,7 @@ import { shiftWords } from './compareText.js';
 import { e, notes, page } from './html.js';
 import { testName } from './words.js';
 import { marginChart, oddsRatioChart, vSeriesChart } from './wavesSvg.js';
-import { acrossTests, latestHeadline, patternHeadline, setupWords, slopeWords, wavesStatementWords } from './wavesWords.js';
+import { acrossTests, latestHeadline, patternHeadline, setupWords, slopeWords, wavesStatementWords, weightingWords } from './wavesWords.js';
 
 /** The waves report as one self-contained page: the two answers, the charts, the series, the tests across waves. */
 export function renderWavesHtml(report: WavesReport): string {
@@ -20,7 +20,7 @@ export function renderWavesHtml(report: WavesReport): string {
     .map((s) => `<li${s.kind === 'many-looks' ? ' class="dim"' : ''}>${e(wavesStatementWords(report, s))}</li>`)
     .join('');
   const overBox = `<h2>Over all waves</h2><div class="answer${report.verdict.moved ? '' : ' fails'}"><p class="lead">${e(patternHeadline(report))}</p><ul>${statements}</ul>${
-    report.weighted ? '<p>Counts are sums of sampling weights; each wave is tested on its table rescaled to its effective sample size.</p>' : ''
+    weightingWords(report) ? `<p>${e(weightingWords(report) as string)}</p>` : ''
   }</div>`;
   const odds = oddsRatioChart(report);
   const figures = `<div class="figures">${vSeriesChart(report)}${odds ?? ''}</div>`;
@@ -38,7 +38,7 @@ export function renderWavesHtml(report: WavesReport): string {
     })
     .join('');
   const tests = acrossTests(report)
-    .map((t) => `<tr${t.decides ? ' class="lead"' : ''}><td>${t.decides ? '► ' : ''}${e(t.name)}</td><td>${formatStatistic(t.statistic)}</td><td>${t.df}</td><td>${formatP(t.pValue)}</td><td>${t.adjustedPValue === null ? '' : formatP(t.adjustedPValue)}</td></tr>`)
+    .map((t) => `<tr${t.decides ? ' class="lead"' : ''}><td>${t.decides ? '► ' : ''}${e(t.name)}</td><td>${formatStatistic(t.statistic)}</td><td>${t.denDf === null ? t.df : `${t.df} and ${formatStatistic(t.denDf, 0)}`}</td><td>${formatP(t.pValue)}</td><td>${t.adjustedPValue === null ? '' : formatP(t.adjustedPValue)}</td></tr>`)
     .join('');
   const slope = slopeWords(report);
   const margins = [marginChart(report, 'rows'), marginChart(report, 'cols')].filter((c) => c !== null).join('');

@@ -2,6 +2,7 @@ import type { WaveRecord, WavesReport } from '../analysis/waves.js';
 import { formatMeasure, formatP, formatPercent, formatRatio } from '../readableNumbers.js';
 import { keyFor, shownLabel } from './layout.js';
 import { escapeXml, FONT, textWidth } from './svg.js';
+import { driftTestName } from './wavesWords.js';
 
 /**
  * The pictures of a waves report as SVG strings: the series of V with its
@@ -203,7 +204,7 @@ export function oddsRatioChart(report: WavesReport): string | null {
   const legend = [
     `dots and bars: the odds ratio of each wave with its ${confidence} interval (log scale; 1 = no association)`,
     ...(common !== null ? [`dashed: the common odds ratio of all waves (Mantel–Haenszel), ${formatRatio(common)}`] : []),
-    ...(fitted ? ['solid grey: the trend fitted to the log odds ratios (Woolf-weighted regression)'] : []),
+    ...(fitted ? [`solid grey: the trend fitted to the log odds ratios (${report.designed ? 'GLS on their design-based variances' : 'Woolf-weighted regression'})`] : []),
     ...((report.departures ?? []).some((d) => d.standsOut) ? ['ringed in orange: waves that stand out from the common odds ratio (Holm-adjusted)'] : []),
   ];
   const height = HEIGHT - BOTTOM + 42 + legend.length * 13;
@@ -243,7 +244,7 @@ export function marginChart(report: WavesReport, side: 'rows' | 'cols'): string 
   const left = levels.length - shown.length;
   const legend = [
     `share of each level of ${name} in each wave (percent of the wave)`,
-    `${drift.drifted ? 'its distribution drifted over the waves' : 'no evidence its distribution drifted'} (chi-square of ${name} by wave, p ${formatP(drift.pearson.pValue)})`,
+    `${drift.drifted ? 'its distribution drifted over the waves' : 'no evidence its distribution drifted'} (${driftTestName(drift.test, name)}, p ${formatP(drift.pValue)})`,
     ...(left > 0 ? [`the ${left} smaller ${left === 1 ? 'level is' : 'levels are'} not drawn (see --format csv or json)`] : []),
   ];
   const labelX = LEFT + plotWidth() + 10;

@@ -5,7 +5,7 @@ import { shiftWords } from './compareText.js';
 import { displayWidth, glued, padEnd, padStart, shownLabel, wrapText } from './layout.js';
 import { cautionLines, heading } from './pairText.js';
 import { strengthBar } from './scanTable.js';
-import { acrossTests, latestHeadline, patternHeadline, setupWords, slopeWords, wavesStatementWords } from './wavesWords.js';
+import { acrossTests, dfWords, latestHeadline, patternHeadline, setupWords, slopeWords, wavesStatementWords, weightingWords } from './wavesWords.js';
 
 const BAR = 10;
 /** A wave key longer than this is shown by its number, with a key below the series. */
@@ -57,7 +57,7 @@ function waveColumns(report: WavesReport, paint: ChalkInstance, keyed: boolean):
     {
       title: 'leading p',
       align: 'right',
-      cells: report.waves.map((w) => value(w, (x) => `${formatP(x.verdict.pValue)}${x.verdict.test === 'pearson' ? ' ' : '*'} ${x.verdict.passes ? '■' : '□'}`)),
+      cells: report.waves.map((w) => value(w, (x) => `${formatP(x.verdict.pValue)}${x.verdict.test === 'pearson' || x.verdict.test === 'designF' ? ' ' : '*'} ${x.verdict.passes ? '■' : '□'}`)),
     },
     {
       title: 'bias-corrected V',
@@ -88,8 +88,9 @@ function seriesLines(report: WavesReport, paint: ChalkInstance, width: number): 
   const { lines, dropped } = columnsWithin(waveColumns(report, paint, keyed), width, paint);
   out.push(...lines);
   const confidence = report.settings.confidence;
-  const exact = report.waves.some((w) => w.testable && w.verdict.test !== 'pearson');
+  const exact = report.waves.some((w) => w.testable && w.verdict.test !== 'pearson' && w.verdict.test !== 'designF');
   const notes = [
+    ...(report.designed ? ["leading p: each wave's design-based F test (Rao–Scott, second order) under its own design"] : []),
     ...(exact ? ['* exact or simulated p-value: the expected counts of that wave are too small for the chi-square approximation'] : []),
     `■ associated in that wave on its own at ${glued('α', String(report.verdict.alpha))} (□ not shown to be); V interval: ${Math.round(confidence * 1000) / 10}% interval of the population V`,
     ...(dropped.length > 0 ? [`Left out for the page width: ${dropped.join(', ')} (see --format csv).`] : []),
@@ -103,7 +104,7 @@ function acrossLines(report: WavesReport, paint: ChalkInstance, width: number): 
   const out = heading(paint, 'Tests across waves', width, '► the two that decide, Holm-adjusted together');
   const tests = acrossTests(report);
   if (tests.length === 0) return [...out, '  none can be computed for these tables'];
-  const numbers = tests.map((t) => [formatStatistic(t.statistic), String(t.df), formatP(t.pValue), t.adjustedPValue === null ? '' : formatP(t.adjustedPValue)]);
+  const numbers = tests.map((t) => [formatStatistic(t.statistic), t.denDf === null ? String(t.df) : `${t.df}, ${formatStatistic(t.denDf, 0)}`, formatP(t.pValue), t.adjustedPValue === null ? '' : formatP(t.adjustedPValue)]);
   const titles = ['statistic', 'df', 'p', 'adjusted p'];
   const widths = titles.map((t, k) => Math.max(displayWidth(t), ...numbers.map((r) => displayWidth(r[k]))));
   const numbersWidth = widths.reduce((sum, w) => sum + w + 2, 0);
@@ -124,7 +125,7 @@ function departureLines(report: WavesReport, paint: ChalkInstance, width: number
   if (standing.length === 0) return [];
   const out = heading(paint, 'Waves that stand out', width, 'Holm-adjusted over the waves');
   for (const d of standing) {
-    const z = d.z === null ? `${glued('G²', formatStatistic(d.statistic))} ${glued('df', String(d.df))}` : glued('z', formatSigned(d.z, 2));
+    const z = d.z !== null ? glued('z', formatSigned(d.z, 2)) : report.designed ? `${glued('F', formatStatistic(d.statistic))} ${dfWords(d.df, d.denDf)}` : `${glued('G²', formatStatistic(d.statistic))} ${glued('df', String(d.df))}`;
     out.push(...wrapText(`${shownLabel(d.key)}: ${z}, ${glued('p', formatP(d.pValue))}, ${glued('adjusted', 'p', formatP(d.adjustedPValue))}${d.direction ? `, ${d.direction} than the common odds ratio` : ''}`, width, '  ', '    '));
   }
   return out;
@@ -136,7 +137,8 @@ export function renderWavesText(report: WavesReport, paint: ChalkInstance, optio
   const K = report.waves.length;
   out.push(...wrapText(`${report.rows.name} × ${report.cols.name}: ${K} waves, ${report.waves[0].key} to ${report.waves[K - 1].key}`, width).map((l) => paint.bold(l)));
   out.push(...wrapText(setupWords(report), width).map((l) => paint.dim(l)));
-  if (report.weighted) out.push(...wrapText('Counts are sums of sampling weights; each wave is tested on its table rescaled to its effective sample size.', width).map((l) => paint.dim(l)));
+  const weighting = weightingWords(report);
+  if (weighting) out.push(...wrapText(weighting, width).map((l) => paint.dim(l)));
 
   out.push(...heading(paint, 'Since the wave before', width));
   const changed = report.latest.verdict?.changed === true;

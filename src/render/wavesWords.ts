@@ -11,12 +11,45 @@ import { alphaPhrase, comparison, evidenceWords } from './words.js';
 
 const KEY_NAMES: Record<string, string> = { date: 'date', week: 'ISO week', month: 'month', year: 'year', number: 'number' };
 
-export function sameTestName(test: 'breslow-day-tarone' | 'no-three-way-interaction'): string {
+export function sameTestName(test: 'breslow-day-tarone' | 'no-three-way-interaction' | 'design-wald'): string {
+  if (test === 'design-wald') return 'design-based Wald test of equal log odds ratios in every wave';
   return test === 'breslow-day-tarone' ? 'Breslow–Day test of equal odds ratios with Tarone’s correction' : 'G² test of no three-way interaction';
 }
 
-export function trendTestName(method: 'odds-ratio' | 'layer-effect'): string {
+export function trendTestName(method: 'odds-ratio' | 'layer-effect', designed = false): string {
+  if (designed) return method === 'odds-ratio' ? 'design-based Wald test of a linear trend in the log odds ratio' : 'design-based Wald test of a trend in the layer-effect model (Xie 1992, fitted by GLS)';
   return method === 'odds-ratio' ? 'score test for a trend in the odds ratio (Breslow & Day)' : 'likelihood-ratio test of a trend in the layer-effect model (Xie 1992)';
+}
+
+/** The margin's drift test in a few words. */
+export function driftTestName(test: 'pearson' | 'design-wald', name: string): string {
+  return test === 'design-wald' ? `design-based Wald test of equal shares of ${name} in every wave` : `chi-square of ${name} by wave`;
+}
+
+/** "df 3" or, for the F form of a design-based Wald test, "df 3 and 14". */
+export function dfWords(df: number, denDf: number | null | undefined): string {
+  return denDf === null || denDf === undefined ? glued('df', String(df)) : glued('df', String(df), 'and', String(denDf));
+}
+
+/**
+ * How the waves were weighted, in one sentence: the survey design (each wave its own sample), or, with
+ * sampling weights alone, that clustering and stratification are not accounted for; null without weights.
+ */
+export function weightingWords(report: WavesReport): string | null {
+  const d = report.design;
+  if (report.designed && d) {
+    const given =
+      d.kind === 'replicate'
+        ? `--replicate-method ${d.method}${d.rho !== null ? `, ${glued('ρ', String(d.rho))}` : ''}${d.centre === 'full-sample' ? ', centred at the full-sample estimate' : ''}`
+        : [d.columns.strata !== null ? `--strata ${d.columns.strata}` : '', d.columns.cluster !== null ? `--cluster ${d.columns.cluster}` : 'each row its own PSU', d.columns.fpc !== null ? `--fpc ${d.columns.fpc}` : ''].filter((x) => x !== '').join(', ');
+    const dfs = d.waves.flatMap((w) => (w.degreesOfFreedom === null ? [] : [w.degreesOfFreedom]));
+    const low = Math.min(...dfs);
+    const high = Math.max(...dfs);
+    const each = dfs.length === 0 ? 'no wave has a design-based estimate' : `${glued(String(low === high ? low : `${low} to ${high}`), 'design', 'df')} a wave, ${glued(String(d.degreesOfFreedom), 'together')}`;
+    return `Survey design (${given}): each wave is its own sample with its own ${d.kind === 'replicate' ? 'replicate weights' : 'strata and PSUs'} (${each}); each wave's leading test is the design-based F test (Rao–Scott), and the tests across waves are design-based Wald tests for independent samples.`;
+  }
+  if (report.weighted) return "Counts are sums of sampling weights; each wave is tested on its table rescaled to Kish's effective sample size, which does not account for clustering or stratification.";
+  return null;
 }
 
 /** "a wave" / "a year". */
@@ -135,7 +168,7 @@ export function wavesStatementWords(report: WavesReport, s: WavesStatement): str
       const step = s.perAverageWave;
       const perWave = step === null ? '' : `; that is ${factorWords(step.factor, 'wave')} at the waves' average spacing of ${spacingWords(step.spacing)}`;
       const size = `${what} changes by ${factorWords(s.factor, s.unit)}, ${intervalOfFactor(s.factorLower, s.factorUpper, s.confidence)}${perWave}`;
-      const test = `${trendTestName(s.method)}, ${glued('p', formatP(s.pValue))}, ${comparison(s.adjustedPValue, alpha, s.passes, true)}`;
+      const test = `${trendTestName(s.method, report.designed)}, ${glued('p', formatP(s.pValue))}, ${comparison(s.adjustedPValue, alpha, s.passes, true)}`;
       const direction = s.direction === null ? 'moves' : s.direction;
       if (s.passes) return `It ${direction}: ${size} (${test}).`;
       return `In this sample ${size}, but the data do not show a trend beyond chance (${test}).`;
@@ -153,7 +186,7 @@ export function wavesStatementWords(report: WavesReport, s: WavesStatement): str
     case 'more-stand-out':
       return `And ${s.count} more ${s.count === 1 ? 'wave stands' : 'waves stand'} out (all are in --format json).`;
     case 'margin': {
-      return `${s.name}: ${s.drifted ? 'its distribution drifted over the waves' : 'no evidence its distribution drifted over the waves'} (${comparison(s.pValue, alpha, s.drifted)}, chi-square of ${s.name} by wave).`;
+      return `${s.name}: ${s.drifted ? 'its distribution drifted over the waves' : 'no evidence its distribution drifted over the waves'} (${comparison(s.pValue, alpha, s.drifted)}, ${driftTestName(s.test, s.name)}).`;
     }
     case 'many-looks':
       return `${s.waves} waves are ${s.waves} looks at the data: a change from one wave to the next "significant at ${alphaPhrase(alpha)}" turns up by chance in about one comparison in ${Math.round(1 / alpha)} even when nothing moves, so weigh the tests across all waves above any single change.`;
@@ -172,6 +205,8 @@ export interface AcrossTest {
   name: string;
   statistic: number;
   df: number;
+  /** The F form's denominator df (design-based Wald tests), else null. */
+  denDf: number | null;
   pValue: number;
   adjustedPValue: number | null;
   decides: boolean;
@@ -183,16 +218,24 @@ export function acrossTests(report: WavesReport): AcrossTest[] {
   const same = report.sameAssociation;
   const trend = report.trend;
   const v = report.verdict;
-  const add = (id: string, name: string, t: { statistic: number; df: number; pValue: number }, adjustedPValue: number | null = null, decides = false) =>
-    out.push({ id, name, statistic: t.statistic, df: t.df, pValue: t.pValue, adjustedPValue, decides });
+  const add = (id: string, name: string, t: { statistic: number; df: number; pValue: number; denDf?: number | null }, adjustedPValue: number | null = null, decides = false) =>
+    out.push({ id, name, statistic: t.statistic, df: t.df, denDf: t.denDf ?? null, pValue: t.pValue, adjustedPValue, decides });
+  if (report.designed) {
+    if (trend?.design) add(trend.method === 'odds-ratio' ? 'trend_odds_ratio_design' : 'trend_layer_effect_design', trend.method === 'odds-ratio' ? 'trend in the log odds ratio (design-based Wald F)' : 'trend in strength (layer-effect, design-based Wald F)', trend.design.test, v.trend?.adjustedPValue ?? null, true);
+    if (same?.design) add('same_association_design', 'same log odds ratios in every wave (design-based Wald F)', same.design, v.sameAssociation?.adjustedPValue ?? null, true);
+    if (trend?.design?.scatter) add('scatter_about_trend', trend.method === 'odds-ratio' ? 'waves about the trend line (Q)' : 'waves about the trend (Q)', trend.design.scatter);
+    if (report.marginDrift.rows) add('drift_rows', `drift of ${report.rows.name} (design-based Wald F)`, report.marginDrift.rows.design ?? report.marginDrift.rows);
+    if (report.marginDrift.cols) add('drift_cols', `drift of ${report.cols.name} (design-based Wald F)`, report.marginDrift.cols.design ?? report.marginDrift.cols);
+    return out;
+  }
   if (trend) add(trend.method === 'odds-ratio' ? 'trend_odds_ratio_score' : 'trend_layer_effect', trend.method === 'odds-ratio' ? 'trend in the odds ratio (score test)' : 'trend in strength (layer-effect model)', trend, v.trend?.adjustedPValue ?? null, true);
   if (same) add(same.test === 'breslow-day-tarone' ? 'same_odds_ratio' : 'same_association', same.test === 'breslow-day-tarone' ? 'same odds ratio in every wave (Breslow–Day–Tarone)' : 'same association in every wave (G²)', same, v.sameAssociation?.adjustedPValue ?? null, true);
   if (same?.equalOdds && same.interaction) add('no_three_way_interaction', 'no three-way interaction (G²)', same.interaction);
   if (trend?.woolf) add('trend_woolf', 'trend, Woolf-weighted regression (Wald)', trend.woolf.test);
   if (trend?.woolf?.residualHeterogeneity) add('scatter_about_trend', 'waves about the trend line (Q)', trend.woolf.residualHeterogeneity);
   if (trend?.layerEffect?.fit) add('scatter_about_trend', 'waves about the trend (G²)', trend.layerEffect.fit);
-  if (report.marginDrift.rows) add('drift_rows', `drift of ${report.rows.name} (chi-square)`, report.marginDrift.rows.pearson);
-  if (report.marginDrift.cols) add('drift_cols', `drift of ${report.cols.name} (chi-square)`, report.marginDrift.cols.pearson);
+  if (report.marginDrift.rows) add('drift_rows', `drift of ${report.rows.name} (chi-square)`, report.marginDrift.rows);
+  if (report.marginDrift.cols) add('drift_cols', `drift of ${report.cols.name} (chi-square)`, report.marginDrift.cols);
   return out;
 }
 
@@ -200,7 +243,7 @@ export function acrossTests(report: WavesReport): AcrossTest[] {
 export function slopeWords(report: WavesReport): string | null {
   const t = report.trend;
   if (!t) return null;
-  const what = t.method === 'odds-ratio' ? 'in the log odds ratio (Woolf)' : 'in the log strength (β)';
+  const what = t.method === 'odds-ratio' ? (t.design ? 'in the log odds ratio (GLS on the design-based variances)' : 'in the log odds ratio (Woolf)') : 'in the log strength (β)';
   const end = (x: number | null) => (x === null ? 'beyond the search range' : formatSigned(x, 4));
   return `slope ${formatSigned(t.slope, 4)} ${what} per ${t.unit}, ${Math.round(t.confidence * 1000) / 10}% interval ${end(t.lower)} to ${end(t.upper)}`;
 }

@@ -65,7 +65,7 @@ function bilinear(covariance: CellCovariance, g: Float64Array, h: Float64Array):
 }
 
 /** G V G' for the gradient rows G. */
-function gradientCovariance(covariance: CellCovariance, gradients: Float64Array[]): number[][] {
+export function gradientCovariance(covariance: CellCovariance, gradients: Float64Array[]): number[][] {
   return gradients.map((g) => gradients.map((h) => bilinear(covariance, g, h)));
 }
 
