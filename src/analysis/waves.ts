@@ -504,9 +504,16 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
   if (partialWords.length > 0) {
     warnings.push({ code: 'level-in-some-waves', message: `levels that occur in some waves only are counted as zero in the others: ${partialWords.join('; ')}` });
   }
-  const untestable = waves.filter((w) => !w.testable).map((w) => w.key);
+  const untestable = waves.filter((w) => !w.testable);
   if (untestable.length > 0) {
-    warnings.push({ code: 'wave-not-testable', message: `${untestable.length === 1 ? `wave ${untestable[0]} has` : `waves ${untestable.join(', ')} have`} fewer than two levels on a side and no test of their own; they still count in the tests across waves` });
+    const who = untestable.length === 1 ? `wave ${untestable[0].key} has` : `waves ${untestable.map((w) => w.key).join(', ')} have`;
+    if (designed) {
+      // Under a design a wave can also lack a test because its design gives no variance (the reason says which).
+      const reasons = [...new Set(untestable.map((w) => (w.testable ? '' : w.reason)))];
+      warnings.push({ code: 'wave-not-testable', message: `${who} no test of their own: ${reasons.join('; ')}` });
+    } else {
+      warnings.push({ code: 'wave-not-testable', message: `${who} fewer than two levels on a side and no test of their own; they still count in the tests across waves` });
+    }
   }
   const sparse = waves.filter((w) => w.testable && !w.expectedCountRule.passes).map((w) => w.key);
   if (sparse.length > 0) {

@@ -297,8 +297,8 @@ export interface LayerEffectWald {
  * Q = Σ_k (θ_k − φ_k ψ)' A_k (θ_k − φ_k ψ); Grizzle, Starmer & Koch 1969,
  * with design-based covariances as in Koch, Freeman & Freeman 1975). For a
  * given β the best ψ is (Σ φ_k² A_k)⁻¹ Σ φ_k A_k θ_k and Q(β) is the
- * profile; β̂ minimizes it (a grid of 161 points over ±8/(score range), then
- * golden-section search to 1e-12 of the range). The test is Q(0) − Q(β̂),
+ * profile; β̂ minimizes it (a grid of 161 points over ±8/(score range),
+ * golden-section search, then bisection on the profile's derivative). The test is Q(0) − Q(β̂),
  * Q(0) the GLS homogeneity statistic; SE from the Gauss–Newton information
  * of (ψ, β); the interval is {β : Q(β) − Q(β̂) ≤ F_{1,ν}(confidence)}, the
  * one the test inverts. null for fewer than two samples, a singular
@@ -362,7 +362,31 @@ export function layerEffectWald(samples: readonly SampleEstimate[], scores: read
       q2 = Qat(c2);
     }
   }
-  const slope = (lo + hi) / 2;
+  // the minimum to full precision: the root of the profile's derivative, which by the envelope theorem is
+  // dQ/dβ = −2 Σ_k x_k φ_k ψ′A_k(θ_k − φ_k ψ) at the best ψ for β, by bisection where it changes sign
+  const derivative = (beta: number): number => {
+    const at = profile(beta);
+    if (at === null) return Number.NaN;
+    let g = 0;
+    samples.forEach((smp, k) => {
+      const phi = Math.exp(beta * x[k]);
+      const residual = smp.values.map((v, a) => v - phi * at.psi[a]);
+      g += -2 * x[k] * phi * dotOf(at.psi, matVec(A[k], residual));
+    });
+    return g;
+  };
+  let slope = (lo + hi) / 2;
+  let below = Math.max(-bound, slope - step);
+  let above = Math.min(bound, slope + step);
+  if (derivative(below) < 0 && derivative(above) > 0) {
+    for (let it = 0; it < 200 && above - below > 0; it++) {
+      const mid = (below + above) / 2;
+      if (mid === below || mid === above) break;
+      if (derivative(mid) < 0) below = mid;
+      else above = mid;
+    }
+    slope = (below + above) / 2;
+  }
   const fitted = profile(slope);
   const homogeneous = profile(0);
   if (fitted === null || homogeneous === null) return null;

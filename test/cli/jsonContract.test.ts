@@ -112,12 +112,15 @@ describe('docs/json.md documents every field the JSON output has, by its whole p
     expectDocumented(await runJson(['banner', api, '--break', 'stype,size_band', '--questions', 'sch_wide', '--means', 'api00', '--multi-split', 'programmes:;', '--weight', 'pupil_weight', '--codebook', book, '--mark-levels', '95,90']), 'banner');
   });
 
-  it('with a survey design: pair, scan (--full) and compare (NHANES extract of the survey package for R, its strata and PSUs)', async () => {
+  it('with a survey design: pair, scan (--full), compare and waves (NHANES extract of the survey package for R, its strata and PSUs)', async () => {
     const nhanes = join(ROOT, 'fixtures', 'reference', 'survey-data', 'nhanes.csv');
     const design = ['--weight', 'WTMEC2YR', '--strata', 'SDMVSTRA', '--cluster', 'SDMVPSU'];
     expectDocumented(await runJson(['pair', nhanes, '--rows', 'agecat', '--cols', 'race', ...design]), 'pair');
     expectDocumented(await runJson(['scan', nhanes, '--columns', 'agecat,race,HI_CHOL', '--full', ...design]), 'scan');
     expectDocumented(await runJson(['compare', nhanes, '--period', 'RIAGENDR', '--rows', 'agecat', '--cols', 'race', ...design]), 'compare');
+    // waves: each level of race its own sample; r×c (layer-effect trend, departures) and 2×2 (linear trend)
+    expectDocumented(await runJson(['waves', nhanes, '--period', 'race', '--rows', 'agecat', '--cols', 'RIAGENDR', ...design]), 'waves');
+    expectDocumented(await runJson(['waves', nhanes, '--period', 'race', '--rows', 'HI_CHOL', '--cols', 'RIAGENDR', ...design]), 'waves');
   });
 
   it('scan (with a layer and --full) and compare', async () => {
