@@ -17,11 +17,18 @@ import type { TwoWayTable } from '../table/twoWayTable.js';
 import type { Weighting } from '../table/weighting.js';
 import { AnalysisOptions, analyzeTable, Evidence, evidenceOf, Verdict, Warning } from './analyzeTable.js';
 import type { InputSummary } from './report.js';
-import type { SkippedColumn } from './scan.js';
+import type { ScanDesign, SkippedColumn } from './scan.js';
 import { TOOL_VERSION } from '../version.js';
+import { formatCount } from '../readableNumbers.js';
+import { TabsightError } from '../errors.js';
+import type { DesignEstimate } from '../stats/designCovariance.js';
+import { domainDifferenceTest, DomainRatio, domainRatios } from '../stats/designDomainRatios.js';
+import { countDesignCells, DesignBreak } from '../table/bannerCounts.js';
+import type { DesignCells, RowDesign } from '../table/surveyDesign.js';
+import { designEstimate } from './design.js';
 
-/** What a banner cell shows in the human-facing formats (JSON, CSV/TSV and the spreadsheet's data carry all). */
-export type BannerCellPart = 'col' | 'row' | 'count';
+/** What a banner cell shows in the human-facing formats (JSON, CSV/TSV and the spreadsheet's data carry all); 'se' the design-based standard error of the column %. */
+export type BannerCellPart = 'col' | 'row' | 'count' | 'se';
 
 export type ColumnAdjustment = 'none' | 'bonferroni' | 'holm';
 export type MultipleResponseReferral = 'first-order' | 'second-order';
@@ -61,8 +68,20 @@ export interface BannerBase {
   unweighted: number;
   /** Σw over them (equal to `unweighted` without weights). */
   weighted: number;
-  /** Kish's effective base (Σw)²/Σw² with sampling weights; the weighted base otherwise. */
+  /**
+   * Kish's effective base (Σw)²/Σw² with sampling weights; the weighted base
+   * otherwise; with a survey design, unweighted / designEffect (the size of a
+   * simple random sample as precise) where the design effect is defined.
+   */
   effective: number;
+  /**
+   * With a survey design: the column's design effect, the mean over the
+   * question's levels (answers) of each column share's design effect
+   * (its design variance over p(1 − p)/base); for a question shown by its
+   * mean only, the mean's (its design variance over SD²/base). null without
+   * a design or where no share lies strictly between 0 and 1.
+   */
+  designEffect: number | null;
   /** Below the minimum base: shown, not tested. */
   small: boolean;
 }
@@ -85,6 +104,8 @@ export interface BannerCell {
   columnPercent: number | null;
   /** Share of the row across its break variable's columns (the Total: of all respondents in the row), 0–100. */
   rowPercent: number | null;
+  /** With a survey design: the design-based standard error of columnPercent, in percentage points; null otherwise. */
+  standardError: number | null;
   /** Columns of the same break variable this cell is significantly higher than. */
   higherThan: BannerMark[];
   /** The marks as shown, joined: e.g. "BDe". */
@@ -95,9 +116,13 @@ export interface BannerCell {
 export interface BannerComparison {
   first: number;
   second: number;
-  /** z of the pooled two-proportion test, or Welch's t (first minus second); null when not computable. */
+  /**
+   * First minus second: z of the pooled two-proportion test, or Welch's t;
+   * with a survey design the design-based t of the difference of the two
+   * domain estimates. null when not computable.
+   */
   statistic: number | null;
-  /** Welch's df (means only); null for proportions. */
+  /** Welch's df (means), the design's df (with a design); null for the pooled z. */
   df: number | null;
   pValue: number | null;
   /** After --column-adjust over the row's comparisons within the break variable (equal to pValue without one). */
@@ -123,6 +148,8 @@ export interface BannerMeanCell {
   unweighted: number;
   weighted: number;
   effective: number;
+  /** With a survey design: the design-based standard error of the mean; null otherwise. */
+  standardError: number | null;
   higherThan: BannerMark[];
   marks: string;
 }
@@ -134,9 +161,15 @@ export interface BannerAssociation {
   pValue: number;
   passes: boolean;
   evidence: Evidence;
-  /** Pearson's X² (pair) or the summed X²_S (multiple-response), its nominal df. */
+  /**
+   * Pearson's X² (pair) or the summed X²_S (multiple-response), its nominal
+   * df; with a survey design the design-based F (Rao–Scott, second order)
+   * that leads, on df and denominatorDf.
+   */
   statistic: number;
   df: number;
+  /** The design-based F's denominator df; null without a design. */
+  denominatorDf: number | null;
   /** pair: the record's verdict as `tabsight pair --format json` gives it. */
   verdict: Verdict | null;
   biasCorrectedV: number | null;
@@ -184,14 +217,23 @@ export interface BannerReport {
   /** Rows counted (past --where and usable weights). */
   respondents: number;
   weighting: Weighting['kind'];
+  /** The survey design every test and standard error accounts for, or null. */
+  design: BannerDesign | null;
+  /**
+   * What the design is, in one sentence every format shows: the design
+   * and what is design-based; with sampling weights and no design, that the
+   * tests do not account for clustering or stratification; null otherwise.
+   */
+  designNote: string | null;
   settings: {
     cells: BannerCellPart[];
     confidenceLevels: number[];
     adjustment: ColumnAdjustment;
     minimumBase: number;
     alpha: number;
-    columnTest: 'pooled-z';
-    meanTest: 'welch';
+    /** 'design-t' with a survey design: the design-based t of the difference of two domain shares. */
+    columnTest: 'pooled-z' | 'design-t';
+    meanTest: 'welch' | 'design-t';
     multipleResponseReferral: MultipleResponseReferral;
     /** With sampling weights the column tests use Kish's effective bases. */
     effectiveBases: boolean;
@@ -205,6 +247,9 @@ export interface BannerReport {
   skipped: SkippedColumn[];
   warnings: Warning[];
 }
+
+/** The survey design of a banner (each question's own design effects are on its bases). */
+export type BannerDesign = ScanDesign;
 
 /** A break variable ready to count: ordered labels, codes per row. */
 export interface BreakInput {
@@ -248,6 +293,8 @@ export interface BannerInputs {
   input: InputSummary;
   respondents: number;
   weights?: { values: Float64Array; kind: 'weight' | 'freq' };
+  /** The survey design as read (each kept row's unit or replicate weights), or null. */
+  design?: RowDesign | null;
   breaks: BreakInput[];
   questions: QuestionInput[];
   skipped: SkippedColumn[];
@@ -298,12 +345,16 @@ export function bannerReport(inputs: BannerInputs, settings: BannerSettings): Ba
   const { columns, layout } = bannerColumns(inputs.breaks);
   const breakCodes: BreakCodes[] = inputs.breaks.map((b) => ({ codes: b.codes, levels: b.labels.length }));
   const levels = [...settings.confidenceLevels].sort((a, b) => b - a);
-  const context: Context = { settings: { ...settings, confidenceLevels: levels }, kind, columns, layout, breaks: inputs.breaks };
-  const questions = inputs.questions.map((q) =>
-    q.kind === 'single'
-      ? singleQuestion(q, countSingle(q.codes, q.labels.length, breakCodes, weights), context)
-      : multipleQuestion(q, countPatterns(q.pattern, [...q.answers.map((_a, j) => 2 ** j), ...q.nets.map((n) => n.members.reduce((m, j) => m | (2 ** j), 0))], breakCodes, weights), context),
-  );
+  const design = inputs.design ?? null;
+  const designBreaks: DesignBreak[] = [...inputs.breaks.map((b) => ({ codes: b.codes, labels: b.labels })), { codes: null, labels: ['Total'] }];
+  // With a design the tests are design-based; the overall tests need no percentages of their own (the banner gives the column shares).
+  const analysis = design ? { ...settings.analysis, designPercentages: false } : settings.analysis;
+  const context: Context = { settings: { ...settings, confidenceLevels: levels, analysis }, kind, columns, layout, breaks: inputs.breaks, design, designBreaks, weights, designSummary: null };
+  const questions = inputs.questions.map((q) => {
+    if (q.kind === 'single') return singleQuestion(q, countSingle(q.codes, q.labels.length, breakCodes, weights), context);
+    const masks = [...q.answers.map((_a, j) => 2 ** j), ...q.nets.map((n) => n.members.reduce((m, j) => m | (2 ** j), 0))];
+    return multipleQuestion(q, countPatterns(q.pattern, masks, breakCodes, weights), masks, context);
+  });
   const a = settings.analysis;
   return {
     tool: { name: 'tabsight', version: TOOL_VERSION },
@@ -311,16 +362,18 @@ export function bannerReport(inputs: BannerInputs, settings: BannerSettings): Ba
     input: inputs.input,
     respondents: inputs.respondents,
     weighting: kind,
+    design: context.designSummary,
+    designNote: designNoteOf(context.designSummary, kind),
     settings: {
       cells: settings.cells,
       confidenceLevels: levels,
       adjustment: settings.adjustment,
       minimumBase: settings.minimumBase,
       alpha: a.alpha,
-      columnTest: 'pooled-z',
-      meanTest: 'welch',
+      columnTest: design ? 'design-t' : 'pooled-z',
+      meanTest: design ? 'design-t' : 'welch',
       multipleResponseReferral: settings.multipleResponseReferral,
-      effectiveBases: kind === 'weight',
+      effectiveBases: kind === 'weight' && !design,
       exact: a.exact,
       simulations: a.simulations,
       seed: a.seed,
@@ -339,6 +392,154 @@ interface Context {
   columns: BannerColumn[];
   layout: BannerBreak[];
   breaks: readonly BreakInput[];
+  design: RowDesign | null;
+  /** The break variables, then the Total, as the design counting takes them. */
+  designBreaks: DesignBreak[];
+  weights: Float64Array | undefined;
+  /** The design as the report gives it, from the first design estimate made. */
+  designSummary: BannerDesign | null;
+}
+
+/**
+ * The design side of one row variable of a question (its levels, or an
+ * answer chosen or not): the design totals and estimate of the row variable
+ * against each break and the Total (last), and which rows make the ratio
+ * (designDomainRatios.ts): a share num = [row in the set], den = 1; a mean
+ * num = score, den = [scored].
+ */
+interface DesignSide {
+  cells: DesignCells[];
+  /** null where the table has no weight (no estimate). */
+  estimates: (DesignEstimate | null)[];
+  rows: number;
+}
+
+/** Counts and estimates the design tables of a row variable in one pass over the rows. */
+function designSide(rowOf: (r: number) => number, rowLabels: readonly string[], context: Context): DesignSide {
+  const design = context.design as RowDesign;
+  const cells = countDesignCells(rowOf, rowLabels, context.designBreaks, design, context.weights);
+  const estimates = cells.map((c, x) => {
+    try {
+      return designEstimate({ cells: c, other: null }, { rowLevels: [...rowLabels], colLevels: [...context.designBreaks[x].labels] });
+    } catch (error) {
+      if (error instanceof TabsightError && /sum to zero/.test(error.message)) return null;
+      throw error;
+    }
+  });
+  if (context.designSummary === null) {
+    const first = estimates.find((e) => e !== null);
+    if (first) context.designSummary = designSummaryOf(first, cells[0]);
+  }
+  return { cells, estimates, rows: rowLabels.length };
+}
+
+/** BannerReport.designNote. */
+export function designNoteOf(d: BannerDesign | null, kind: Weighting['kind']): string | null {
+  if (d === null) return kind === 'weight' ? "Counts are sums of sampling weights; the tests use each column's effective base, which does not account for clustering or stratification." : null;
+  const count = (n: number, one: string, many: string) => `${formatCount(n)} ${n === 1 ? one : many}`;
+  const df = count(d.degreesOfFreedom, 'degree of freedom', 'degrees of freedom');
+  const weight = d.columns.weight !== null ? `--weight ${d.columns.weight}` : 'equal weights';
+  const what =
+    d.kind === 'replicate'
+      ? `${count(d.replicates ?? 0, 'replicate weight', 'replicate weights')}, ${df} (--replicate-method ${d.method}${d.rho !== null ? `, ρ ${d.rho}` : ''}${d.centre === 'full-sample' ? ', centred at the full-sample estimate' : ''}, ${weight})`
+      : `${count(d.strata ?? 1, 'stratum', 'strata')}, ${count(d.clusters ?? 0, 'PSU', 'PSUs')}, ${df} (${[d.columns.strata !== null ? `--strata ${d.columns.strata}` : '', d.columns.cluster !== null ? `--cluster ${d.columns.cluster}` : 'each row its own PSU', d.columns.fpc !== null ? `--fpc ${d.columns.fpc}` : '', weight].filter((x) => x !== '').join(', ')})`;
+  return `Survey design: ${what}; standard errors, design effects and the tests between columns are design-based (t on ${formatCount(d.degreesOfFreedom)} df), the overall test of each question and break variable is the design-based F (Rao–Scott, second order).`;
+}
+
+function designSummaryOf(e: DesignEstimate, cells: DesignCells): BannerDesign {
+  const d = cells.design;
+  return {
+    kind: e.kind,
+    strata: e.strata,
+    clusters: e.psus,
+    degreesOfFreedom: e.degreesOfFreedom,
+    replicates: e.replicates,
+    method: e.method,
+    lonelyPsu: e.lonelyPsu,
+    columns: {
+      strata: d.kind === 'taylor' ? d.strata : null,
+      cluster: d.kind === 'taylor' ? d.cluster : null,
+      fpc: d.kind === 'taylor' ? d.fpc : null,
+      weight: cells.weightColumn,
+      replicates: cells.replicateColumns,
+    },
+    rho: d.kind === 'replicate' && d.method === 'fay' ? d.rho : null,
+    centre: e.centre,
+    lonelyStrata: e.lonelyStrata,
+  };
+}
+
+/** The ratios (shares or means) of every column of a break (x), or of the Total (the last), from a design side. */
+function sideRatios(side: DesignSide, x: number, num: ArrayLike<number>, den: ArrayLike<number>): DomainRatio[] | null {
+  const estimate = side.estimates[x];
+  if (!estimate) return null;
+  return domainRatios(estimate, side.rows, side.cells[x].cellCount / side.rows, num, den);
+}
+
+/**
+ * The pairwise tests of one break's columns and the marks they give: every
+ * pair of tested columns, the p-values adjusted over the row's comparisons,
+ * a column marked higher than another at the highest confidence level met.
+ */
+function marksFromTests(tests: { a: number; b: number; statistic: number; df: number | null; p: number }[], cells: { higherThan: BannerMark[]; marks: string }[], b: BannerBreak, context: Context): BannerComparison[] {
+  const levels = context.settings.confidenceLevels;
+  const adjusted = adjustPValues(tests.map((t) => t.p), context.settings.adjustment);
+  const comparisons: BannerComparison[] = [];
+  tests.forEach((pair, k) => {
+    comparisons.push({ first: b.first + pair.a, second: b.first + pair.b, statistic: pair.statistic, df: pair.df, pValue: pair.p, adjustedPValue: adjusted[k] });
+    const level = levels.find((l) => adjusted[k] < 1 - l);
+    if (level === undefined || pair.statistic === 0) return;
+    const [high, low] = pair.statistic > 0 ? [pair.a, pair.b] : [pair.b, pair.a];
+    const key = context.columns[b.first + low].key as string;
+    cells[high].higherThan.push({ column: b.first + low, key, confidence: level, shown: shownKey(key, level, levels) });
+  });
+  for (const cell of cells) {
+    cell.higherThan.sort((m, n) => m.column - n.column);
+    cell.marks = joinMarks(cell.higherThan);
+  }
+  return comparisons;
+}
+
+/** The design-based t tests between the tested columns of a break (designDomainRatios.ts). */
+function designTests(estimate: DesignEstimate, ratios: DomainRatio[], tested: boolean[]): { a: number; b: number; statistic: number; df: number; p: number }[] {
+  const out: { a: number; b: number; statistic: number; df: number; p: number }[] = [];
+  for (let a = 0; a < ratios.length; a++)
+    for (let c = a + 1; c < ratios.length; c++) {
+      if (!tested[a] || !tested[c]) continue;
+      const test = domainDifferenceTest(estimate, ratios[a], ratios[c]);
+      if (test) out.push({ a, b: c, statistic: test.statistic, df: test.df, p: test.pValue });
+    }
+  return out;
+}
+
+/** Whether each column of a break is tested: a base at or above the minimum, with weight. */
+function testedColumns(bases: BannerBase[], b: BannerBreak, context: Context): boolean[] {
+  return bases.slice(b.first, b.first + b.count).map((base) => !base.small && base.weighted > 0);
+}
+
+/**
+ * The design effect of each column's base (BannerBase.designEffect) from
+ * the shares of the question's level (or answer) rows, or from the mean
+ * when the question is shown by its mean only; the effective base follows.
+ */
+function fillDesignEffects(bases: BannerBase[], rows: BannerRow[], means: BannerMeanCell[] | null): void {
+  bases.forEach((base, j) => {
+    const effects: number[] = [];
+    for (const row of rows) {
+      if (row.kind === 'net') continue;
+      const cell = row.cells[j];
+      if (cell.standardError === null || cell.columnPercent === null) continue;
+      const P = cell.columnPercent / 100;
+      if (P > 0 && P < 1 && base.unweighted > 0) effects.push(((cell.standardError / 100) ** 2 * base.unweighted) / (P * (1 - P)));
+    }
+    if (effects.length === 0 && means) {
+      const m = means[j];
+      if (m.standardError !== null && m.sd !== null && m.sd > 0 && m.unweighted > 0) effects.push((m.standardError ** 2 * m.unweighted) / (m.sd * m.sd));
+    }
+    if (effects.length === 0) return;
+    base.designEffect = effects.reduce((x, y) => x + y, 0) / effects.length;
+    if (base.designEffect > 0) base.effective = base.unweighted / base.designEffect;
+  });
 }
 
 /** Bases per report column from each cross's column totals over `rows` rows (or its base row). */
@@ -354,7 +555,7 @@ function basesOf(counts: QuestionCounts, rowsOf: (cross: CrossCounts) => number[
       unweighted += cell.unweighted;
       squares += cell.squares;
     }
-    return { unweighted, weighted, effective: effectiveBase(weighted, squares, context.kind), small: unweighted < context.settings.minimumBase };
+    return { unweighted, weighted, effective: effectiveBase(weighted, squares, context.kind), designEffect: null, small: unweighted < context.settings.minimumBase };
   };
   const out = [base(crosses[crosses.length - 1], 1)];
   context.layout.forEach((b, x) => {
@@ -382,18 +583,46 @@ const joinMarks = (marks: readonly BannerMark[]) => marks.map((m) => m.shown).jo
  * within each break variable. `value(cross, column)` gives the row's count in
  * a cross's column.
  */
-function rowCells(counts: QuestionCounts, value: (cross: CrossCounts, column: number) => { weighted: number; unweighted: number }, bases: BannerBase[], context: Context): { cells: BannerCell[]; comparisons: BannerComparison[] } {
+function rowCells(
+  counts: QuestionCounts,
+  value: (cross: CrossCounts, column: number) => { weighted: number; unweighted: number },
+  bases: BannerBase[],
+  context: Context,
+  design: { side: DesignSide; num: ArrayLike<number>; den: ArrayLike<number> } | null = null,
+): { cells: BannerCell[]; comparisons: BannerComparison[] } {
   const crosses = counts.crosses;
   const total = value(crosses[crosses.length - 1], 1);
   const comparisons: BannerComparison[] = [];
+  const standardError = (ratios: DomainRatio[] | null, k: number) => {
+    const v = ratios?.[k]?.variance;
+    return v === null || v === undefined ? null : 100 * Math.sqrt(v);
+  };
+  const totalRatios = design ? sideRatios(design.side, context.layout.length, design.num, design.den) : null;
   const cells: BannerCell[] = [
-    { count: total.weighted, unweighted: total.unweighted, columnPercent: share(total.weighted, bases[0].weighted), rowPercent: total.weighted > 0 ? 100 : null, higherThan: [], marks: '' },
+    { count: total.weighted, unweighted: total.unweighted, columnPercent: share(total.weighted, bases[0].weighted), rowPercent: total.weighted > 0 ? 100 : null, standardError: standardError(totalRatios, 0), higherThan: [], marks: '' },
   ];
   context.layout.forEach((b, x) => {
     const cross = crosses[x];
     const within: { weighted: number; unweighted: number }[] = [];
     for (let j = 1; j <= b.count; j++) within.push(value(cross, j));
     const rowTotal = within.reduce((s, c) => s + c.weighted, 0);
+    if (design) {
+      // The design-based t of the difference of two domain shares, with their covariance (designDomainRatios.ts).
+      const ratios = sideRatios(design.side, x, design.num, design.den);
+      const own: BannerCell[] = within.map((c, k) => ({
+        count: c.weighted,
+        unweighted: c.unweighted,
+        columnPercent: share(c.weighted, bases[b.first + k].weighted),
+        rowPercent: share(c.weighted, rowTotal),
+        standardError: standardError(ratios, k),
+        higherThan: [],
+        marks: '',
+      }));
+      const tests = ratios ? designTests(design.side.estimates[x] as DesignEstimate, ratios, testedColumns(bases, b, context)) : [];
+      comparisons.push(...marksFromTests(tests, own, b, context));
+      cells.push(...own);
+      return;
+    }
     const columnsOfTest: ProportionColumn[] = within.map((c, k) => {
       const base = bases[b.first + k];
       return { count: c.weighted, base: base.weighted, effectiveBase: base.effective, unweightedBase: base.unweighted };
@@ -407,6 +636,7 @@ function rowCells(counts: QuestionCounts, value: (cross: CrossCounts, column: nu
         unweighted: c.unweighted,
         columnPercent: share(c.weighted, bases[b.first + k].weighted),
         rowPercent: share(c.weighted, rowTotal),
+        standardError: null,
         higherThan: marks[k],
         marks: joinMarks(marks[k]),
       }),
@@ -430,8 +660,13 @@ function singleQuestion(q: Extract<QuestionInput, { kind: 'single' }>, counts: Q
   const levelRows = q.labels.map((_l, i) => i);
   const bases = basesOf(counts, () => levelRows, context);
   const rows: BannerRow[] = [];
+  const codes = q.codes;
+  const side = context.design ? designSide((r) => codes[r] - 1, q.labels, context) : null;
+  const ones = q.labels.map(() => 1);
+  const setOf = (members: number[]) => q.labels.map((_l, i) => (members.includes(i) ? 1 : 0));
+  const shareOf = (members: number[]) => (side ? { side, num: setOf(members), den: ones } : null);
   if (q.showLevels) {
-    q.labels.forEach((label, i) => rows.push({ label, kind: 'level', members: null, ...rowCells(counts, (cross, j) => crossColumn(cross, i, j), bases, context) }));
+    q.labels.forEach((label, i) => rows.push({ label, kind: 'level', members: null, ...rowCells(counts, (cross, j) => crossColumn(cross, i, j), bases, context, shareOf([i])) }));
     for (const net of q.nets) {
       // Levels are disjoint: a respondent holds one level, so the net's count is the sum over its levels and counts each respondent once.
       const value = (cross: CrossCounts, j: number) => {
@@ -444,16 +679,17 @@ function singleQuestion(q: Extract<QuestionInput, { kind: 'single' }>, counts: Q
         }
         return { weighted, unweighted };
       };
-      rows.push({ label: net.name, kind: 'net', members: net.members.map((i) => q.labels[i]), ...rowCells(counts, value, bases, context) });
+      rows.push({ label: net.name, kind: 'net', members: net.members.map((i) => q.labels[i]), ...rowCells(counts, value, bases, context, shareOf(net.members)) });
     }
   }
-  const summary = q.scores ? meanCells(q.scores, counts, context) : null;
+  const summary = q.scores ? meanCells(q.scores, counts, bases, context, side) : null;
   const tests = context.layout.map((b, x): BannerBreakTests => {
     const info = testsInfo(bases, context, b);
-    if (!q.showLevels) return { break: b.name, association: null, reason: 'a numeric question shown by its mean: the Welch tests compare the columns', ...info };
-    const overall = pairAssociation(q.name, q.labels, b, counts.crosses[x], context);
+    if (!q.showLevels) return { break: b.name, association: null, reason: `a numeric question shown by its mean: the ${side ? 'design-based t tests' : 'Welch tests'} compare the columns`, ...info };
+    const overall = pairAssociation(q.name, q.labels, b, counts.crosses[x], context, side?.cells[x] ?? null);
     return { break: b.name, ...overall, ...info };
   });
+  if (side) fillDesignEffects(bases, rows, summary?.cells ?? null);
   return { name: q.name, title: q.title, kind: q.scores ? 'numeric' : 'single', source: null, bases, rows, means: summary?.cells ?? null, meanComparisons: summary?.comparisons ?? [], tests };
 }
 
@@ -462,7 +698,7 @@ function singleQuestion(q: Extract<QuestionInput, { kind: 'single' }>, counts: Q
  * (empty rows and columns dropped, respondents missing either left out)
  * analysed exactly as `tabsight pair` analyses it, its verdict kept.
  */
-function pairAssociation(name: string, labels: readonly string[], b: BannerBreak, cross: CrossCounts, context: Context): { association: BannerAssociation | null; reason: string | null } {
+function pairAssociation(name: string, labels: readonly string[], b: BannerBreak, cross: CrossCounts, context: Context, designCells: DesignCells | null): { association: BannerAssociation | null; reason: string | null } {
   const rowsKept = labels.map((_l, i) => i).filter((i) => [...Array(b.count).keys()].some((k) => cross.unweighted[i * cross.width + k + 1] > 0));
   const colsKept = [...Array(b.count).keys()].filter((k) => rowsKept.some((i) => cross.unweighted[i * cross.width + k + 1] > 0));
   if (rowsKept.length < 2 || colsKept.length < 2) {
@@ -485,7 +721,15 @@ function pairAssociation(name: string, labels: readonly string[], b: BannerBreak
   const breakLabels = context.breaks.find((x) => x.name === b.name)!.labels;
   const table: TwoWayTable = { rowName: name, colName: b.name, rowLevels: rowsKept.map((i) => labels[i]), colLevels: colsKept.map((k) => breakLabels[k]), counts };
   const weighting: Weighting = { kind: context.kind, sumWeights: sumWeights.value, sumSquaredWeights: context.kind === 'none' ? sumWeights.value : sumSquares.value, unweightedN };
-  const record = analyzeTable(table, excluded, context.settings.analysis, weighting);
+  let record;
+  try {
+    // With a design: the same totals per PSU (or replicate) pair counts, so the same design-based F leads.
+    record = analyzeTable(table, excluded, context.settings.analysis, weighting, designCells ? { cells: designCells, other: null } : null);
+  } catch (error) {
+    // A design that gives this table no variance or no degrees of freedom: the table is reported, not the banner stopped (as in scan).
+    if (!(designCells && error instanceof TabsightError)) throw error;
+    return { association: null, reason: error.message.replace(/^the table of .*? by .*?: /, '') };
+  }
   const v = record.verdict;
   return {
     association: {
@@ -493,8 +737,9 @@ function pairAssociation(name: string, labels: readonly string[], b: BannerBreak
       pValue: v.pValue,
       passes: v.passes,
       evidence: v.evidence,
-      statistic: record.tests.pearson.statistic,
-      df: record.tests.pearson.df,
+      statistic: record.tests.designF ? record.tests.designF.statistic : record.tests.pearson.statistic,
+      df: record.tests.designF ? record.tests.designF.numDf : record.tests.pearson.df,
+      denominatorDf: record.tests.designF ? record.tests.designF.denDf : null,
       verdict: v,
       biasCorrectedV: record.measures.biasCorrectedV,
       multipleResponse: null,
@@ -509,7 +754,7 @@ function pairAssociation(name: string, labels: readonly string[], b: BannerBreak
  * the usual n − 1 SD) and Welch t tests between the columns of each break
  * variable, adjusted within the break as the proportions are.
  */
-function meanCells(scores: readonly (number | null)[], counts: QuestionCounts, context: Context): { cells: BannerMeanCell[]; comparisons: BannerComparison[] } {
+function meanCells(scores: readonly (number | null)[], counts: QuestionCounts, bases: BannerBase[], context: Context, side: DesignSide | null): { cells: BannerMeanCell[]; comparisons: BannerComparison[] } {
   const summary = (cross: CrossCounts, column: number) => {
     let weighted = 0;
     let unweighted = 0;
@@ -533,15 +778,34 @@ function meanCells(scores: readonly (number | null)[], counts: QuestionCounts, c
       });
       sd = Math.sqrt((deviation / weighted) * (effective / (effective - 1)));
     }
-    return { mean, sd, unweighted, weighted, effective, higherThan: [] as BannerMark[], marks: '' };
+    return { mean, sd, unweighted, weighted, effective, standardError: null as number | null, higherThan: [] as BannerMark[], marks: '' };
   };
   const crosses = counts.crosses;
-  const out: BannerMeanCell[] = [summary(crosses[crosses.length - 1], 1)];
+  // With a design: the domain mean of the scores as a ratio of the cell proportions (num = score, den = [scored]).
+  const num = scores.map((x) => x ?? 0);
+  const den = scores.map((x) => (x === null ? 0 : 1));
+  const errorOf = (ratios: DomainRatio[] | null, k: number) => {
+    const v = ratios?.[k]?.variance;
+    return v === null || v === undefined ? null : Math.sqrt(v);
+  };
+  const totalCell = summary(crosses[crosses.length - 1], 1);
+  if (side) totalCell.standardError = errorOf(sideRatios(side, context.layout.length, num, den), 0);
+  const out: BannerMeanCell[] = [totalCell];
   const comparisons: BannerComparison[] = [];
   const levels = context.settings.confidenceLevels;
   context.layout.forEach((b, x) => {
     const cells: BannerMeanCell[] = [];
     for (let j = 1; j <= b.count; j++) cells.push(summary(crosses[x], j));
+    if (side) {
+      // The design-based t of the difference of two domain means, with their covariance (designDomainRatios.ts).
+      const ratios = sideRatios(side, x, num, den);
+      cells.forEach((cell, k) => (cell.standardError = errorOf(ratios, k)));
+      const tested = cells.map((c) => c.unweighted >= context.settings.minimumBase && c.mean !== null);
+      const tests = ratios ? designTests(side.estimates[x] as DesignEstimate, ratios, tested) : [];
+      comparisons.push(...marksFromTests(tests, cells, b, context));
+      out.push(...cells);
+      return;
+    }
     const tested = cells.map((c) => c.unweighted >= context.settings.minimumBase && c.sd !== null);
     const pairs: { a: number; b: number; t: number; df: number; p: number }[] = [];
     for (let a = 0; a < cells.length; a++)
@@ -568,14 +832,22 @@ function meanCells(scores: readonly (number | null)[], counts: QuestionCounts, c
   return { cells: out, comparisons };
 }
 
-function multipleQuestion(q: Extract<QuestionInput, { kind: 'multiple' }>, counts: PatternCounts, context: Context): BannerQuestion {
+function multipleQuestion(q: Extract<QuestionInput, { kind: 'multiple' }>, counts: PatternCounts, masks: readonly number[], context: Context): BannerQuestion {
   const bases = basesOf(counts, () => [0], context);
   const rows: BannerRow[] = [];
-  q.answers.forEach((label, j) => rows.push({ label, kind: 'answer', members: null, ...rowCells(counts, (cross, c) => crossColumn(cross, j + 1, c), bases, context) }));
+  // With a design, each answer (and net) is its own row variable, chosen or not among the respondents in the base.
+  const pattern = q.pattern;
+  const chosenOf = (k: number) => {
+    if (!context.design) return null;
+    const mask = masks[k];
+    return { side: designSide((r) => (pattern[r] < 0 ? -1 : (pattern[r] & mask) !== 0 ? 0 : 1), ['chosen', 'not chosen'], context), num: [1, 0], den: [1, 1] };
+  };
+  q.answers.forEach((label, j) => rows.push({ label, kind: 'answer', members: null, ...rowCells(counts, (cross, c) => crossColumn(cross, j + 1, c), bases, context, chosenOf(j)) }));
   q.nets.forEach((net, k) => {
     const row = q.answers.length + k + 1;
-    rows.push({ label: net.name, kind: 'net', members: net.members.map((j) => q.answers[j]), ...rowCells(counts, (cross, c) => crossColumn(cross, row, c), bases, context) });
+    rows.push({ label: net.name, kind: 'net', members: net.members.map((j) => q.answers[j]), ...rowCells(counts, (cross, c) => crossColumn(cross, row, c), bases, context, chosenOf(q.answers.length + k)) });
   });
+  if (context.design) fillDesignEffects(bases, rows, null);
   const tests = context.layout.map((b, x): BannerBreakTests => {
     const info = testsInfo(bases, context, b);
     return { break: b.name, ...multipleAssociation(q, b, counts, x, context), ...info };
@@ -591,6 +863,7 @@ function multipleQuestion(q: Extract<QuestionInput, { kind: 'multiple' }>, count
  * weighted table); the chosen Rao–Scott-type referral leads.
  */
 function multipleAssociation(q: Extract<QuestionInput, { kind: 'multiple' }>, b: BannerBreak, counts: PatternCounts, x: number, context: Context): { association: BannerAssociation | null; reason: string | null } {
+  if (context.design) return { association: null, reason: 'no design-based test of multiple marginal independence: with a survey design only the column tests of each answer (design-based) are made' };
   const cross = counts.crosses[x];
   let sumWeights = 0;
   let sumSquares = 0;
@@ -621,6 +894,7 @@ function multipleAssociation(q: Extract<QuestionInput, { kind: 'multiple' }>, b:
       evidence: evidenceOf(lead.pValue, alpha),
       statistic: test.statistic,
       df: test.df,
+      denominatorDf: null,
       verdict: null,
       biasCorrectedV: null,
       multipleResponse: {

@@ -27,6 +27,8 @@ export interface BannerSelection {
   multiple: MultipleSpec[];
   /** Columns never taken as questions (the weight). */
   reserved: string[];
+  /** The survey design's columns (strata, cluster, fpc): not questions by default, but a break or a named question may be one. */
+  sampleColumns?: string[];
 }
 
 /** Most answers a multiple-response question may have (patterns are 31-bit masks). */
@@ -68,7 +70,7 @@ export function bannerColumnsOf(selection: BannerSelection, header: readonly str
   }
   const inSets = new Set([...sets.values()].flat());
   const means = selection.means.flatMap((m) => matchColumns(m, header, '--means', label));
-  const reserved = new Set([...breaks, ...selection.reserved]);
+  const reserved = new Set([...breaks, ...selection.reserved, ...(selection.sampleColumns ?? [])]);
   const questions = selection.questions
     ? selection.questions.flatMap((q) => matchColumns(q, header, '--questions', label))
     : header.filter((h) => !reserved.has(h) && !inSets.has(h));
@@ -164,7 +166,7 @@ export function prepareBanner(columns: EncodedColumn[], rows: number, options: P
     if (ready.labels.length === 0) throw dataError(`--break "${name}": every value is missing in the rows counted`);
     return { name, title: ready.title, labels: ready.labels, codes: ready.codes };
   });
-  const reserved = new Set([...breakNames, ...selection.reserved]);
+  const reserved = new Set([...breakNames, ...selection.reserved, ...(selection.sampleColumns ?? [])]);
   const sets = options.sets;
   const inSets = new Set([...sets.values()].flat());
   const splitColumns = new Map(selection.multiple.flatMap((s) => (s.kind === 'split' ? [[s.column, s.separator] as const] : [])));

@@ -11,7 +11,9 @@ import { encodeRows } from '../io/counting.js';
 import { recodesByColumn } from '../io/rowRules.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { BANNER_RENDERERS, BannerFormat } from '../render/renderers.js';
-import { addRawCellsOption, addReaderOptions, addSurveyOptions, analysisPlan, inputSummary, positiveInteger, probability, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerFor, readerPlan, splitList, SurveyPlan, surveyPlan } from './options.js';
+import { addDesignOptions, addRawCellsOption, addReaderOptions, addSurveyOptions, analysisPlan, inputSummary, positiveInteger, probability, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerFor, readerPlan, splitList, SurveyPlan, surveyPlan } from './options.js';
+import { checkDesign } from '../analysis/design.js';
+import { designColumns } from '../table/surveyDesign.js';
 import { CliIo, emit, emitBytes, noteWriter, outputGuard, pageWidth, painter } from './output.js';
 import type { Outcome } from './outcome.js';
 
@@ -57,11 +59,11 @@ export interface BannerPlan {
   rawCells: boolean;
 }
 
-const CELL_PARTS: BannerCellPart[] = ['col', 'row', 'count'];
+const CELL_PARTS: BannerCellPart[] = ['col', 'row', 'count', 'se'];
 
 function parseCells(value: string): BannerCellPart[] {
   const parts = splitList(value) ?? [];
-  const aliases: Record<string, BannerCellPart> = { col: 'col', column: 'col', row: 'row', count: 'count', counts: 'count' };
+  const aliases: Record<string, BannerCellPart> = { col: 'col', column: 'col', row: 'row', count: 'count', counts: 'count', se: 'se' };
   const out: BannerCellPart[] = [];
   for (const p of parts) {
     const part = aliases[p.toLowerCase()];
@@ -110,7 +112,15 @@ export function bannerPlan(file: string | undefined, raw: RawBannerOptions): Ban
     input: file ?? '-',
     reader,
     survey,
-    selection: { breaks, questions: splitList(raw.questions) ?? null, means: splitList(raw.means) ?? [], multiple, reserved: survey.weight ? [survey.weight.column] : [] },
+    selection: {
+      breaks,
+      questions: splitList(raw.questions) ?? null,
+      means: splitList(raw.means) ?? [],
+      multiple,
+      // The weight describes the sample: never a question; the design's columns are not questions unless named (a stratum may well be a break).
+      reserved: survey.weight ? [survey.weight.column] : [],
+      sampleColumns: survey.design ? designColumns(survey.design).map((c) => c.column) : [],
+    },
     settings: {
       cells: parseCells(raw.cells),
       confidenceLevels: parseMarkLevels(raw.markLevels),
@@ -137,7 +147,7 @@ export function bannerCommand(accept: (plan: BannerPlan) => void): Command {
     .option('--means <columns>', 'numeric questions shown by their mean, SD and base per column (Welch t tests)')
     .option('--multi <name:columns>', "a multiple-response question from 0/1 or yes/no columns, e.g. 'services:svc_*' (repeatable)", collect)
     .option('--multi-split <column:separator>', "a multiple-response question from one column of delimited answers, e.g. 'services:;' (repeatable)", collect)
-    .option('--cells <parts>', 'what each cell shows: col (column %), row (row %), count; comma-separated', 'col')
+    .option('--cells <parts>', 'what each cell shows: col (column %), row (row %), count, se (standard error of the column %, with a survey design); comma-separated', 'col')
     .option('--mark-levels <levels>', 'confidence levels of the column marks: one, or two (upper-case keys at the higher, lower-case at the lower)', '0.95')
     .addOption(new Option('--column-adjust <method>', "adjustment of the column tests over each row's comparisons").choices(['none', 'bonferroni', 'holm']).default('none'))
     .option('--min-base <n>', 'columns with fewer respondents than this (unweighted) are shown but not tested', '30')
@@ -152,6 +162,7 @@ export function bannerCommand(accept: (plan: BannerPlan) => void): Command {
     .option('--no-color', 'plain text without colour');
   addReaderOptions(command);
   addSurveyOptions(command, false);
+  addDesignOptions(command);
   addRawCellsOption(command);
   command.addHelpText(
     'after',
@@ -160,6 +171,7 @@ Examples:
   tabsight banner survey.csv --break age_band,region,membership
   tabsight banner survey.csv --break age_band,region --codebook book.json --output week-23.xlsx
   tabsight banner survey.csv --break region --multi 'services:svc_*' --mark-levels 0.95,0.90 --weight w
+  tabsight banner survey.csv --break age_band,region --weight w --strata stratum --cluster psu
 
 Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no association at --alpha (only with --exit-status).`,
   );
@@ -195,6 +207,8 @@ export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
     recodes: relabelled,
     codebook,
     weight: survey.weight ? { ...survey.weight, decimalComma: survey.decimalComma } : undefined,
+    design: survey.design,
+    decimalComma: survey.decimalComma,
     select: (header) => {
       const chosen = bannerColumnsOf(plan.selection, header, source.label);
       sets = chosen.sets;
@@ -204,11 +218,12 @@ export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
     wide,
   };
   const report = await encodeRows(source, reader, request, async (encoded) => {
+    if (encoded.design?.index && survey.design?.kind === 'taylor') checkDesign(encoded.design.index, survey.design.lonelyPsu);
     const declared = new Set([...reader.missing.map((m) => m.trim()), ...(codebook?.columns.flatMap((c) => c.missing.map((m) => m.code)) ?? [])]);
     for (const note of missingTokenNotes(detectMissingTokens(encoded.columns.map(encodedValues), declared))) noteWriter(io)(note);
     const prepared = prepareBanner(encoded.columns, encoded.rows, { selection: plan.selection, sets, rules: (name) => columnRules(table, name, recodes), maxLevels: reader.maxLevels, codebook, label: source.label });
     if (prepared.questions.length === 0) throw usageError(`no question to tabulate in ${source.label}: ${prepared.skipped.length ? `left out ${prepared.skipped.map((s) => `${s.column} (${s.reason})`).join('; ')}` : 'name some with --questions'}`);
-    return bannerReport({ input: inputSummary(source.label, encoded), respondents: encoded.rows, weights: encoded.weights, ...prepared }, plan.settings);
+    return bannerReport({ input: inputSummary(source.label, encoded), respondents: encoded.rows, weights: encoded.weights, design: encoded.design, ...prepared }, plan.settings);
   });
   if (plan.format === 'xlsx') {
     // The spreadsheet library is loaded only when a spreadsheet is asked for.

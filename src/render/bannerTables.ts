@@ -5,7 +5,7 @@
  */
 import type { BannerQuestion, BannerReport } from '../analysis/banner.js';
 import { formatCount } from '../readableNumbers.js';
-import { associationShort, associationTest, associationWords, bannerInputLine, cellPart, meanText, methodNotes, questionHeading, SMALL_BASE_MARK } from './bannerWords.js';
+import { associationShort, associationTest, associationWords, bannerInputLine, cellPart, designEffectText, meanText, methodNotes, questionHeading, showsWeightedBase, SMALL_BASE_MARK } from './bannerWords.js';
 import { md } from './pairDelimited.js';
 import { spreadsheetField } from '../escape/spreadsheet.js';
 import { exactNumber } from './scanTable.js';
@@ -39,6 +39,10 @@ export const BANNER_COLUMNS = [
   'df',
   'p_value',
   'passes',
+  'standard_error',
+  'design_effect',
+  'denominator_df',
+  'note',
 ] as const;
 
 type Value = string | number | boolean | null;
@@ -46,6 +50,8 @@ type Value = string | number | boolean | null;
 /** Every line of the long table, as values under BANNER_COLUMNS. */
 export function bannerLines(report: BannerReport): Value[][] {
   const lines: Value[][] = [];
+  // The design (or the weights-only caution) in one line of its own, before the questions.
+  if (report.designNote) lines.push(['', '', '', '', 'design', '', '', '', null, null, null, null, null, null, null, null, '', '', null, null, '', null, null, null, null, null, null, null, report.designNote]);
   for (const q of report.questions) {
     const column = (j: number) => report.columns[j];
     const base = (j: number) => [q.bases[j].unweighted, q.bases[j].weighted, q.bases[j].effective, q.bases[j].small];
@@ -56,6 +62,7 @@ export function bannerLines(report: BannerReport): Value[][] {
           q.name, q.title ?? '', q.kind, row.label, row.kind, c.break ?? '', c.level, c.key ?? '',
           cell.count, cell.unweighted, cell.columnPercent, cell.rowPercent, ...base(j),
           cell.higherThan.map((m) => m.key).join(' '), cell.marks, null, null, '', null, null, null, null,
+          cell.standardError, q.bases[j].designEffect, null, '',
         ]);
       });
     }
@@ -65,6 +72,7 @@ export function bannerLines(report: BannerReport): Value[][] {
         q.name, q.title ?? '', q.kind, 'mean', 'mean', c.break ?? '', c.level, c.key ?? '',
         null, m.unweighted, null, null, m.unweighted, m.weighted, m.effective, q.bases[j].small,
         m.higherThan.map((h) => h.key).join(' '), m.marks, m.mean, m.sd, '', null, null, null, null,
+        m.standardError, q.bases[j].designEffect, null, '',
       ]);
     });
     for (const t of q.tests) {
@@ -73,6 +81,7 @@ export function bannerLines(report: BannerReport): Value[][] {
         q.name, q.title ?? '', q.kind, '', 'test', t.break, '', '', null, null, null, null, null, null, null, null, '', '', null, null,
         a ? (a.kind === 'pair' ? a.verdict!.test : `multiple-response-${a.multipleResponse!.referral}`) : t.reason ?? '',
         a ? a.statistic : null, a ? a.df : null, a ? a.pValue : null, a ? a.passes : null,
+        null, null, a ? a.denominatorDf : null, '',
       ]);
     }
   }
@@ -101,9 +110,11 @@ function shownRows(q: BannerQuestion, report: BannerReport): { label: string; ki
   if (q.means) {
     out.push({ label: 'mean', kind: 'mean', cells: q.means.map((m) => ({ value: meanText(m, 'mean'), marks: m.marks })) });
     out.push({ label: 'standard deviation', kind: 'mean', cells: q.means.map((m) => ({ value: meanText(m, 'sd'), marks: '' })) });
+    if (report.design) out.push({ label: 'standard error of the mean', kind: 'mean', cells: q.means.map((m) => ({ value: meanText(m, 'se'), marks: '' })) });
   }
   out.push({ label: q.kind === 'multiple' ? 'base (respondents)' : 'base', kind: 'base', cells: q.bases.map((b) => ({ value: formatCount(b.unweighted), marks: b.small ? SMALL_BASE_MARK : '' })) });
-  if (report.weighting === 'weight') out.push({ label: 'weighted base', kind: 'base', cells: q.bases.map((b) => ({ value: formatCount(Math.round(b.weighted * 10) / 10), marks: '' })) });
+  if (showsWeightedBase(report)) out.push({ label: 'weighted base', kind: 'base', cells: q.bases.map((b) => ({ value: formatCount(Math.round(b.weighted * 10) / 10), marks: '' })) });
+  if (report.design) out.push({ label: 'design effect', kind: 'base', cells: q.bases.map((b) => ({ value: designEffectText(b.designEffect), marks: '' })) });
   return out;
 }
 
@@ -117,6 +128,10 @@ export function renderBannerMarkdown(report: BannerReport): string {
   out.push(`## Banner of ${md(report.input.file)}`);
   out.push('');
   out.push(md(bannerInputLine(report)));
+  if (report.designNote) {
+    out.push('');
+    out.push(md(report.designNote));
+  }
   for (const q of report.questions) {
     out.push('');
     out.push(`### ${md(questionHeading(q))}${q.kind === 'multiple' ? ' (multiple response: % of respondents)' : ''}`);
@@ -198,7 +213,7 @@ export function renderBannerHtml(report: BannerReport): string {
   const skipped = report.skipped.map((s) => `<li>${e(s.column)}: ${e(s.reason)}</li>`).join('');
   const warnings = report.warnings.map((w) => `<li>${e(w.message)}</li>`).join('');
   const body = `<h1>Banner of ${e(report.input.file)}</h1>
-<p class="meta">${e(bannerInputLine(report))}; break variables: ${e(report.breaks.map((b) => b.name).join(', '))}</p>
+<p class="meta">${e(bannerInputLine(report))}; break variables: ${e(report.breaks.map((b) => b.name).join(', '))}</p>${report.designNote ? `\n<p class="meta">${e(report.designNote)}</p>` : ''}
 <nav><h2>Questions</h2><ol>${toc}</ol></nav>
 ${report.questions.map((q, i) => questionTable(q, report, i)).join('\n')}
 ${skipped ? `<h2>Left out</h2><ul>${skipped}</ul>` : ''}${warnings ? `<h2>Check</h2><ul>${warnings}</ul>` : ''}

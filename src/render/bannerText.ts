@@ -7,7 +7,7 @@
 import type { ChalkInstance } from 'chalk';
 import type { BannerCellPart, BannerQuestion, BannerReport } from '../analysis/banner.js';
 import { formatCount } from '../readableNumbers.js';
-import { associationWords, bannerInputLine, cellPart, meanText, methodNotes, questionHeading, SMALL_BASE_MARK } from './bannerWords.js';
+import { associationWords, bannerInputLine, cellPart, designEffectText, meanText, methodNotes, questionHeading, showsWeightedBase, SMALL_BASE_MARK } from './bannerWords.js';
 import { displayWidth, foldLabel, padEnd, padStart, shownLabel, wrapText } from './layout.js';
 import { CAUTION } from './words.js';
 
@@ -35,10 +35,12 @@ function gridLines(q: BannerQuestion, report: BannerReport, parts: readonly Bann
   if (q.means) {
     lines.push({ label: 'mean', values: q.means.map((m) => meanText(m, 'mean')), marks: q.means.map((m) => m.marks), strong: true });
     lines.push({ label: 'standard deviation', values: q.means.map((m) => meanText(m, 'sd')), marks: new Array(n).fill('') });
+    if (report.design) lines.push({ label: 'standard error of the mean', values: q.means.map((m) => meanText(m, 'se')), marks: new Array(n).fill('') });
   }
   const small = (i: number) => (q.bases[i].small ? SMALL_BASE_MARK : '');
   lines.push({ label: q.kind === 'multiple' ? 'base (respondents)' : 'base', values: q.bases.map((b) => formatCount(b.unweighted)), marks: q.bases.map((_b, i) => small(i)) });
-  if (report.weighting === 'weight') lines.push({ label: 'weighted base', values: q.bases.map((b) => formatCount(Math.round(b.weighted * 10) / 10)), marks: new Array(n).fill('') });
+  if (showsWeightedBase(report)) lines.push({ label: 'weighted base', values: q.bases.map((b) => formatCount(Math.round(b.weighted * 10) / 10)), marks: new Array(n).fill('') });
+  if (report.design) lines.push({ label: 'design effect', values: q.bases.map((b) => designEffectText(b.designEffect)), marks: new Array(n).fill('') });
   return lines;
 }
 
@@ -48,6 +50,7 @@ export function renderBannerText(report: BannerReport, paint: ChalkInstance, opt
   const out: string[] = [];
   out.push(paint.bold(`Banner: ${report.questions.length} question${report.questions.length === 1 ? '' : 's'} by ${report.breaks.map((b) => b.name).join(', ')}`));
   out.push(...wrapText(bannerInputLine(report), page));
+  if (report.designNote) out.push(...wrapText(report.designNote, page));
   for (const q of report.questions) {
     out.push('');
     out.push(...questionBlock(q, report, paint, page));

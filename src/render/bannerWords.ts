@@ -5,7 +5,7 @@
  * weighting).
  */
 import type { BannerAssociation, BannerBreakTests, BannerCell, BannerCellPart, BannerMeanCell, BannerReport } from '../analysis/banner.js';
-import { formatConfidence, formatCount, formatP, formatPercent, formatStatistic, UNDEFINED } from '../readableNumbers.js';
+import { formatConfidence, formatCount, formatP, formatPercent, formatRatio, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { ADJUSTMENT_NAMES, evidenceWords, testName } from './words.js';
 
 /** Marks a base below the minimum in the human-facing formats. */
@@ -15,13 +15,24 @@ export const SMALL_BASE_MARK = '!';
 export function cellPart(cell: BannerCell, part: BannerCellPart): string {
   if (part === 'col') return cell.columnPercent === null ? UNDEFINED : formatPercent(cell.columnPercent, 0);
   if (part === 'row') return cell.rowPercent === null ? UNDEFINED : formatPercent(cell.rowPercent, 0);
+  if (part === 'se') return cell.standardError === null ? UNDEFINED : `±${formatPercent(cell.standardError, 1)}`;
   return formatCount(cell.count === Math.round(cell.count) ? cell.count : Math.round(cell.count * 10) / 10);
 }
 
 /** A mean as shown: two decimals (or the em dash). */
-export function meanText(cell: BannerMeanCell, which: 'mean' | 'sd'): string {
-  const x = which === 'mean' ? cell.mean : cell.sd;
+export function meanText(cell: BannerMeanCell, which: 'mean' | 'sd' | 'se'): string {
+  const x = which === 'mean' ? cell.mean : which === 'sd' ? cell.sd : cell.standardError;
   return x === null ? UNDEFINED : formatStatistic(x, 2);
+}
+
+/** The design effect of a base as shown (or the em dash). */
+export function designEffectText(value: number | null): string {
+  return value === null ? UNDEFINED : formatRatio(value);
+}
+
+/** Whether the weighted base is shown: with sampling weights, or with a survey design. */
+export function showsWeightedBase(report: BannerReport): boolean {
+  return report.weighting === 'weight' || report.design !== null;
 }
 
 /** The overall test of one question × break variable in a phrase. */
@@ -33,7 +44,8 @@ export function associationWords(tests: BannerBreakTests, alpha: number): string
 
 function trimDf(a: BannerAssociation): string {
   const df = a.multipleResponse ? (a.multipleResponse.referral === 'first-order' ? a.multipleResponse.firstOrder.df : a.multipleResponse.secondOrder.df) : a.df;
-  return Number.isInteger(df) ? String(df) : df.toFixed(2);
+  const shown = (x: number) => (Number.isInteger(x) ? String(x) : x.toFixed(2));
+  return a.denominatorDf === null ? shown(df) : `${shown(df)} and ${shown(a.denominatorDf)}`;
 }
 
 /** The name of the test that leads an association. */
@@ -61,12 +73,20 @@ export function methodNotes(report: BannerReport): string[] {
   const s = report.settings;
   const notes: string[] = [];
   notes.push(markLegendWords(report));
-  notes.push(
-    `Percentages: pooled two-proportion z-test between the columns of each break variable${s.effectiveBases ? ", on Kish's effective bases (weights ignore any clustering or strata of the design)" : ''}; means: Welch's t-test${s.effectiveBases ? ' (weighted means and SDs, effective bases)' : ''}.`,
-  );
+  if (report.design) {
+    notes.push(
+      `Percentages: design-based t-test of the difference between two columns' shares of each break variable, its variance from the design covariance of the two domain shares (the covariance included: columns share PSUs), on ${formatCount(report.design.degreesOfFreedom)} df (Korn & Graubard 1999, §5.2); means: the same test on the domain means. The letters come from these tests.`,
+    );
+    notes.push('Design effect (base line): the mean over the question\'s levels of each column share\'s design variance over p(1 − p)/base (of the mean\'s over SD²/base for a question shown by its mean); the effective base is the base over it.');
+  } else {
+    notes.push(
+      `Percentages: pooled two-proportion z-test between the columns of each break variable${s.effectiveBases ? ", on Kish's effective bases (weights ignore any clustering or strata of the design)" : ''}; means: Welch's t-test${s.effectiveBases ? ' (weighted means and SDs, effective bases)' : ''}.`,
+    );
+  }
   notes.push(`Multiple comparisons: ${s.adjustment === 'none' ? 'no adjustment (common practice: every pair of columns is tested at the level shown)' : `${ADJUSTMENT_NAMES[s.adjustment]} over the comparisons within each row of a break variable`}.`);
   notes.push(`Bases: respondents who answered the question; columns with fewer than ${s.minimumBase} (unweighted) are marked ${SMALL_BASE_MARK}, shown and not tested. The Total is not tested against its own columns.`);
-  notes.push(`Overall test per question and break variable: the record of tabsight pair (chi-square, or an exact or simulated test for small counts) at α ${s.alpha}; for multiple-response questions Bilder & Loughin's test of multiple marginal independence with the ${s.multipleResponseReferral} Rao–Scott-type referral.`);
+  if (report.design) notes.push(`Overall test per question and break variable: the record of tabsight pair with the same design (the design-based F, Rao–Scott second order) at α ${s.alpha}; multiple-response questions have no design-based overall test, only the design-based column tests of each answer.`);
+  else notes.push(`Overall test per question and break variable: the record of tabsight pair (chi-square, or an exact or simulated test for small counts) at α ${s.alpha}; for multiple-response questions Bilder & Loughin's test of multiple marginal independence with the ${s.multipleResponseReferral} Rao–Scott-type referral.`);
   if (report.weighting === 'weight') notes.push('Counts and percentages are weighted (sums of the sampling weights); bases are shown unweighted and weighted.');
   if (report.weighting === 'freq') notes.push('Rows are weighted by their frequencies.');
   notes.push('Multiple-response questions: percentages of respondents (the base), so answers may add to more than 100%; a net counts each respondent once.');

@@ -17,7 +17,7 @@
 import ExcelJS from 'exceljs';
 import { neutraliseFormula } from '../escape/spreadsheet.js';
 import type { BannerQuestion, BannerReport } from '../analysis/banner.js';
-import { associationWords, bannerInputLine, methodNotes, questionHeading } from './bannerWords.js';
+import { associationWords, bannerInputLine, methodNotes, questionHeading, showsWeightedBase } from './bannerWords.js';
 import { CAUTION } from './words.js';
 
 /** Rows of the Banner sheet above the data (frozen). */
@@ -27,6 +27,8 @@ const PERCENT = '0%';
 const COUNT = '#,##0';
 const WEIGHTED = '#,##0.0';
 const MEAN = '0.00';
+const STANDARD_ERROR = '0.0%';
+const RATIO = '0.00';
 
 /**
  * Text from the data, as a cell value: always a string cell (exceljs writes
@@ -99,6 +101,9 @@ function questionRows(sheet: ExcelJS.Worksheet, q: BannerQuestion, report: Banne
         if (part === 'count') {
           value.value = cell.count;
           value.numFmt = Number.isInteger(cell.count) ? COUNT : WEIGHTED;
+        } else if (part === 'se') {
+          value.value = cell.standardError === null ? null : cell.standardError / 100;
+          value.numFmt = STANDARD_ERROR;
         } else {
           const percent = part === 'col' ? cell.columnPercent : cell.rowPercent;
           value.value = percent === null ? null : percent / 100;
@@ -120,6 +125,11 @@ function questionRows(sheet: ExcelJS.Worksheet, q: BannerQuestion, report: Banne
       if (m.marks !== '') mean.getCell(at(j) + 1).value = m.marks;
     });
     mean.font = { bold: true };
+    if (report.design) {
+      const se = sheet.getRow(row++);
+      se.getCell(1).value = 'standard error of the mean';
+      q.means.forEach((m, j) => Object.assign(se.getCell(at(j)), { value: m.standardError, numFmt: MEAN }));
+    }
   }
   const base = sheet.getRow(row++);
   base.getCell(1).value = q.kind === 'multiple' ? 'base (respondents)' : 'base';
@@ -128,10 +138,15 @@ function questionRows(sheet: ExcelJS.Worksheet, q: BannerQuestion, report: Banne
     if (b.small) base.getCell(at(j) + 1).value = 'small base';
   });
   base.font = { color: { argb: 'FF555555' } };
-  if (report.weighting === 'weight') {
+  if (showsWeightedBase(report)) {
     const weighted = sheet.getRow(row++);
     weighted.getCell(1).value = 'weighted base';
     q.bases.forEach((b, j) => Object.assign(weighted.getCell(at(j)), { value: b.weighted, numFmt: WEIGHTED }));
+  }
+  if (report.design) {
+    const effect = sheet.getRow(row++);
+    effect.getCell(1).value = 'design effect';
+    q.bases.forEach((b, j) => Object.assign(effect.getCell(at(j)), { value: b.designEffect, numFmt: RATIO }));
   }
   for (const t of q.tests) sheet.getRow(row++).getCell(1).value = text(associationWords(t, report.settings.alpha));
   return row;
@@ -149,9 +164,10 @@ function notesSheet(workbook: ExcelJS.Workbook, report: BannerReport, options: W
     ['made', options.created.toISOString()],
     ['tool', `tabsight ${report.tool.version}`],
     ['break variables', text(report.breaks.map((b) => b.name).join(', '))],
-    ['weighting', report.weighting === 'weight' ? "sampling weights (column tests on Kish's effective bases)" : report.weighting === 'freq' ? 'frequency weights' : 'none'],
-    ['column test', 'pooled two-proportion z-test within each break variable'],
-    ['mean test', "Welch's t-test within each break variable"],
+    ['weighting', report.design ? 'sampling weights of the survey design' : report.weighting === 'weight' ? "sampling weights (column tests on Kish's effective bases)" : report.weighting === 'freq' ? 'frequency weights' : 'none'],
+    ['design', report.designNote ?? 'none'],
+    ['column test', report.design ? 'design-based t-test of the difference of two domain shares within each break variable (with their covariance)' : 'pooled two-proportion z-test within each break variable'],
+    ['mean test', report.design ? 'design-based t-test of the difference of two domain means within each break variable (with their covariance)' : "Welch's t-test within each break variable"],
     ['confidence levels', s.confidenceLevels.map((l) => `${Number((l * 100).toPrecision(6))}%`).join(' (upper-case letters), ') + (s.confidenceLevels.length > 1 ? ' (lower-case letters)' : '')],
     ['multiple comparisons', s.adjustment === 'none' ? 'none' : `${s.adjustment} within each row of a break variable`],
     ['minimum base', s.minimumBase],

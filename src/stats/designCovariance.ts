@@ -78,6 +78,8 @@ export interface DesignEstimate {
   centre: 'replicate-mean' | 'full-sample' | null;
   /** replicates left out because their weights sum to zero over the complete rows */
   droppedReplicates: number;
+  /** Replicate weights: the centre the factors are measured from, so that replicate r's proportions are centre + factors[r]. */
+  replicateCentre?: Float64Array;
 }
 
 /** Where each of the caller's cell numbers goes in the table (−1: outside the table, a domain row). */
@@ -369,6 +371,7 @@ export function replicateCovariance(
     method,
     centre: centreKind,
     droppedReplicates: dropped,
+    replicateCentre: centre,
   };
 }
 

@@ -1,5 +1,7 @@
 import type { Codes } from './encodedColumn.js';
 import { addCompensated } from '../numerics/compensatedSum.js';
+import { PsuCellTotals, ReplicateCellTotals, SampleDesignIndex } from '../stats/designTally.js';
+import type { DesignCells, RowDesign } from './surveyDesign.js';
 
 /**
  * Counting a banner: one question (a code per respondent, or an answer
@@ -154,4 +156,77 @@ export function countPatterns(pattern: Int32Array, masks: readonly number[], bre
     }
   }
   return { crosses, rowMasks: [...masks], patterns };
+}
+
+/** A column of the banner for design counting: a break's codes (1-based, 0 missing) and labels, or the Total (codes null). */
+export interface DesignBreak {
+  codes: Codes | null;
+  labels: readonly string[];
+}
+
+/**
+ * The design totals of one table row variable against every break (and the
+ * Total), in one pass over the rows: per break a DesignCells of
+ * rows × break levels (cells row-major, (i)·c + (j − 1)), per PSU (Taylor)
+ * or per replicate. `rowOf(r)` is the row's level (0-based), or −1 for a
+ * respondent outside the question's base, who stays in the design through
+ * the design index (domain estimation) and adds nothing here. Memory:
+ * units (PSUs, or strata when every row is its own PSU) × cells, or
+ * (replicates + 1) × cells; the rows are read, not kept.
+ */
+export function countDesignCells(rowOf: (r: number) => number, rowLabels: readonly string[], breaks: readonly DesignBreak[], design: RowDesign, weights?: Float64Array): DesignCells[] {
+  const n = design.units?.length ?? (design.replicateWeights ? design.replicateWeights.length / Math.max(1, design.replicateColumns.length) : 0);
+  const R = design.replicateColumns.length;
+  const taylor = design.index !== null && design.units !== null;
+  const totals = breaks.map(() => (taylor ? new PsuCellTotals(design.index as SampleDesignIndex) : new ReplicateCellTotals(R)));
+  const widths = breaks.map((b) => b.labels.length);
+  const units = design.units;
+  const replicateWeights = design.replicateWeights;
+  for (let r = 0; r < n; r++) {
+    const i = rowOf(r);
+    if (i < 0) continue;
+    const w = weights ? weights[r] : 1;
+    const own = taylor ? null : (replicateWeights as Float64Array).subarray(r * R, (r + 1) * R);
+    for (let b = 0; b < breaks.length; b++) {
+      const codes = breaks[b].codes;
+      const code = codes === null ? 1 : codes[r];
+      if (code === 0) continue;
+      const cell = i * widths[b] + code - 1;
+      const t = totals[b];
+      if (taylor) (t as PsuCellTotals).add((units as Int32Array)[r], cell, w);
+      else (t as ReplicateCellTotals).add(cell, w, own as Float64Array);
+    }
+  }
+  return breaks.map((b, k) => {
+    const width = widths[k];
+    const cells = rowLabels.length * width;
+    const t = totals[k];
+    // Every cell of the table has a place, seen or not, so that its layout is the identity.
+    if (t instanceof PsuCellTotals) {
+      if (t.cellCapacity < cells) {
+        const counts = new Float64Array(cells);
+        counts.set(t.counts.subarray(0, Math.min(t.counts.length, cells)));
+        t.counts = counts;
+        t.cellCapacity = cells;
+      }
+    } else if (t.cellCapacity < cells) {
+      t.totals = t.totals.map((row) => {
+        const grown = new Float64Array(cells);
+        grown.set(row.subarray(0, Math.min(row.length, cells)));
+        return grown;
+      });
+      const counts = new Float64Array(cells);
+      counts.set(t.counts.subarray(0, Math.min(t.counts.length, cells)));
+      t.counts = counts;
+      t.cellCapacity = cells;
+    }
+    return {
+      design: design.design,
+      weightColumn: design.weightColumn,
+      replicateColumns: design.replicateColumns,
+      totals: t,
+      cellLabels: (cell: number) => (cell < cells ? ([rowLabels[Math.floor(cell / width)], b.labels[cell % width]] as [string, string]) : null),
+      cellCount: cells,
+    };
+  });
 }

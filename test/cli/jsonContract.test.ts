@@ -121,6 +121,7 @@ describe('docs/json.md documents every field the JSON output has, by its whole p
     // waves: each level of race its own sample; r×c (layer-effect trend, departures) and 2×2 (linear trend)
     expectDocumented(await runJson(['waves', nhanes, '--period', 'race', '--rows', 'agecat', '--cols', 'RIAGENDR', ...design]), 'waves');
     expectDocumented(await runJson(['waves', nhanes, '--period', 'race', '--rows', 'HI_CHOL', '--cols', 'RIAGENDR', ...design]), 'waves');
+    expectDocumented(await runJson(['banner', nhanes, '--break', 'race,RIAGENDR', '--questions', 'agecat,HI_CHOL', ...design, '--format', 'json']), 'banner');
   });
 
   it('scan (with a layer and --full) and compare', async () => {
