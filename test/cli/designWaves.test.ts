@@ -10,6 +10,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { expectClose, expectCloseLabelled as close, readReferenceFixture, ROOT } from '../helpers.js';
+import { survey } from '../stats/surveyFixtures.js';
 import { run, runJson, tempFile } from './cliHelpers.js';
 
 const LIBRARY = 'survey for R (r-cran-survey)';
@@ -281,5 +282,31 @@ describe('waves says in every format how the waves were weighted', () => {
     expect(result.status).toBe(2);
     expect(result.stderr.trim().split('\n')).toHaveLength(1);
     expect(result.stderr).toMatch(/--strata "SDMVSTRATA": no such column/);
+  });
+});
+
+describe('waves with replicate weights: each wave its own replicate estimate, and K = 2 is compare with the same replicates', () => {
+  it('BRR, 16 replicates of the NHANES extract (survey for R as.svrepdesign multipliers, recorded): waves --period RIAGENDR against compare --period RIAGENDR', async () => {
+    const fixture = survey.replicates.find((r) => r.method === 'brr')!;
+    const dataLines = readFileSync(join(DATA, fixture.data), 'utf8').trim().split('\n');
+    const names = Array.from({ length: fixture.replicates }, (_v, r) => `repw${r + 1}`);
+    const weightAt = dataLines[0].split(',').indexOf(fixture.weight);
+    const out = [[dataLines[0], ...names].join(',')];
+    dataLines.slice(1).forEach((line, i) => {
+      const w = Number(line.split(',')[weightAt]);
+      out.push([line, ...fixture.multipliers[fixture.psuOfRow[i] - 1].map((m) => String(w * m))].join(','));
+    });
+    const file = tempFile('waves-brr.csv', out.join('\n') + '\n');
+    const args = ['--period', 'RIAGENDR', '--rows', 'agecat', '--cols', 'HI_CHOL', '--weight', fixture.weight, '--replicate-weights', 'repw*', '--replicate-method', 'brr'];
+    const waves = await runJson(['waves', file, ...args]);
+    const compare = await runJson(['compare', file, ...args]);
+    expect(waves.design.kind).toBe('replicate');
+    expect(waves.design.method).toBe('brr');
+    expect(waves.design.waves.map((w: any) => w.degreesOfFreedom)).toEqual([15, 15]);
+    expect(waves.waves[0].verdict.test).toBe('designF');
+    expect(waves.latest).toEqual(compare);
+    expectClose(waves.sameAssociation.design.wald, compare.change.wald, 1e-10);
+    expectClose(waves.sameAssociation.pValue, compare.change.pValue, 1e-10);
+    expectClose(waves.marginDrift.rows.design.wald, compare.rowShift.wald, 1e-10);
   });
 });
