@@ -231,9 +231,9 @@ export function comparePeriods(before: PeriodInput, after: PeriodInput, options:
   };
 }
 
-/** The comparison of two periods as `compare` reports it, with the note on --row-order levels that never occur. */
-export function compareReport(before: PeriodInput, after: PeriodInput, options: AnalysisOptions, order: { rows?: string[]; cols?: string[] } = {}): CompareReport {
+/** The comparison of two periods as `compare` reports it, with the note on --row-order levels that never occur (and the reading's own warnings first: filter values no row holds). */
+export function compareReport(before: PeriodInput, after: PeriodInput, options: AnalysisOptions, order: { rows?: string[]; cols?: string[] } = {}, extraWarnings: Warning[] = []): CompareReport {
   const report = comparePeriods(before, after, options, order);
-  report.warnings.unshift(...unknownOrderWarnings('--row-order', (order.rows ?? []).filter((l) => !report.rows.levels.includes(l))));
+  report.warnings.unshift(...extraWarnings, ...unknownOrderWarnings('--row-order', (order.rows ?? []).filter((l) => !report.rows.levels.includes(l))));
   return report;
 }

@@ -8,6 +8,7 @@ import { TwoWayTable } from '../table/twoWayTable.js';
 import type { Weighting } from '../table/weighting.js';
 import { analyzeStrata, StratifiedSummary, StratumInput, StratumRecord } from './stratify.js';
 import type { DesignInput } from './design.js';
+import { UnmatchedValue, unmatchedValueWords } from '../io/rowRules.js';
 
 import { TOOL_VERSION } from '../version.js';
 
@@ -72,6 +73,16 @@ export function pairReport(
     settings: { ordinal: options.ordinal, confidence: options.confidence, alpha: options.alpha, exact: options.exact, simulations: options.simulations, seed: options.seed },
     ...(layered ? { strata: layered.strata, stratified: layered.stratified } : {}),
   };
+}
+
+/**
+ * A --where value or --recode rule that no row of its column holds, one
+ * warning each (a typo filters everything or nothing); a value unmatched in
+ * several inputs (compare's periods, the waves) is said once.
+ */
+export function unmatchedValueWarnings(unmatched: readonly UnmatchedValue[]): Warning[] {
+  const messages = [...new Set(unmatched.map(unmatchedValueWords))];
+  return messages.map((message) => ({ code: 'unmatched-value', message }));
 }
 
 export function unknownOrderWarnings(option: string, unknown: readonly string[]): Warning[] {

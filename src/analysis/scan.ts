@@ -12,7 +12,7 @@ import { derivation } from '../table/derived.js';
 import { binnedColumn, OrderedColumn, orderColumn } from '../table/orderedColumn.js';
 import { relabelTable } from '../table/twoWayTable.js';
 import { analyzeStrata, StratifiedSummary, StratumRecord } from './stratify.js';
-import { AnalysisOptions, AnalysisRecord, analyzeTable, decide, isLargeSample } from './analyzeTable.js';
+import { AnalysisOptions, AnalysisRecord, analyzeTable, decide, isLargeSample, Warning } from './analyzeTable.js';
 import { simulateSequentially } from './simulate.js';
 import { decideHeldFixed } from './report.js';
 import type { InputSummary } from './report.js';
@@ -107,6 +107,8 @@ export interface ScanReport {
   weighting: 'none' | 'weight' | 'freq';
   /** The survey design every pair's leading test accounts for, or null. */
   design: ScanDesign | null;
+  /** What to check about the whole scan (a --where value or --recode rule no row holds); each pair has its own. */
+  warnings: Warning[];
 }
 
 const IDENTIFIER_SHARE = 0.9;
@@ -205,7 +207,7 @@ export function prepareColumns(columns: EncodedColumn[], layer: EncodedColumn | 
  * single pair, adjusts the Pearson p-values for the number of pairs tested,
  * and ranks the pairs by bias-corrected V (ties by p-value).
  */
-export function scorePairs(prepared: PreparedColumns, rows: number, input: InputSummary, options: ScanOptions, countPair: CountPair): ScanReport {
+export function scorePairs(prepared: PreparedColumns, rows: number, input: InputSummary, options: ScanOptions, countPair: CountPair, warnings: Warning[] = []): ScanReport {
   const { ordered, skipped, layer } = prepared;
   // A pair's rows left out: those of its two columns and of the layer, in that order.
   const excludedOf = (rowName: string, colName: string) => [rowName, colName, ...(layer ? [layer.name] : [])].flatMap((name) => prepared.excludedBy.filter((e) => e.column === name));
@@ -296,6 +298,7 @@ export function scorePairs(prepared: PreparedColumns, rows: number, input: Input
     by: layer ? layer.name : null,
     weighting: records[0]?.weighting ?? 'none',
     design: scanDesign(records[0]?.design ?? null),
+    warnings,
   };
 }
 

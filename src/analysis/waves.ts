@@ -441,7 +441,7 @@ function verdictOf(trend: WavesTrend | null, same: SameAssociation | null, alpha
  * wave counts zero there and is listed. Tests across waves use each wave's
  * table rescaled to its effective sample size under sampling weights.
  */
-export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, options: AnalysisOptions, order: { rows?: string[]; cols?: string[] } = {}, spacing: 'auto' | 'even' = 'auto'): WavesReport {
+export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, options: AnalysisOptions, order: { rows?: string[]; cols?: string[] } = {}, spacing: 'auto' | 'even' = 'auto', extraWarnings: Warning[] = []): WavesReport {
   const K = inputs.length;
   if (K < 2) throw dataError(`waves needs at least two waves; found ${K}`);
   if (setup.scores.values.length !== K) throw new Error(`analyzeWaves: ${K} waves but ${setup.scores.values.length} scores`);
@@ -494,6 +494,7 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
   const verdict = verdictOf(trend, same, alpha);
 
   const warnings: Warning[] = [
+    ...extraWarnings,
     ...unknownOrderWarnings('--row-order', (order.rows ?? []).filter((l) => !rowLevels.includes(l))),
     ...unknownOrderWarnings('--col-order', (order.cols ?? []).filter((l) => !colLevels.includes(l))),
     ...(across?.warnings ?? []),

@@ -8,7 +8,8 @@ import { columnRules, TableRequest } from '../io/countTable.js';
 import { detectMissingTokens, encodedValues, missingTokenNotes } from '../io/missingTokens.js';
 import type { ColumnsRequest } from '../io/columns.js';
 import { encodeRows } from '../io/counting.js';
-import { recodesByColumn } from '../io/rowRules.js';
+import { recodesByColumn, unmatchedOfEncoded } from '../io/rowRules.js';
+import { unmatchedValueWarnings } from '../analysis/report.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { BANNER_RENDERERS, BannerFormat } from '../render/renderers.js';
 import { addDesignOptions, addRawCellsOption, addReaderOptions, addSurveyOptions, analysisPlan, inputSummary, positiveInteger, probability, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerFor, readerPlan, splitList, SurveyPlan, surveyPlan } from './options.js';
@@ -223,7 +224,10 @@ export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
     for (const note of missingTokenNotes(detectMissingTokens(encoded.columns.map(encodedValues), declared))) noteWriter(io)(note);
     const prepared = prepareBanner(encoded.columns, encoded.rows, { selection: plan.selection, sets, rules: (name) => columnRules(table, name, recodes), maxLevels: reader.maxLevels, codebook, label: source.label });
     if (prepared.questions.length === 0) throw usageError(`no question to tabulate in ${source.label}: ${prepared.skipped.length ? `left out ${prepared.skipped.map((s) => `${s.column} (${s.reason})`).join('; ')}` : 'name some with --questions'}`);
-    return bannerReport({ input: inputSummary(source.label, encoded), respondents: encoded.rows, weights: encoded.weights, design: encoded.design, ...prepared }, plan.settings);
+    const unmatched = unmatchedValueWarnings(unmatchedOfEncoded(survey.where, survey.recodes, encoded, (column) => recodes.get(column), (name) => columnRules(table, name, recodes), reader.missing));
+    // CSV and TSV are one line per cell, with no place for notes: said on standard error.
+    if (plan.format === 'csv' || plan.format === 'tsv') for (const w of unmatched) noteWriter(io)(w.message);
+    return bannerReport({ input: inputSummary(source.label, encoded), respondents: encoded.rows, weights: encoded.weights, design: encoded.design, ...prepared, warnings: [...unmatched, ...prepared.warnings] }, plan.settings);
   });
   if (plan.format === 'xlsx') {
     // The spreadsheet library is loaded only when a spreadsheet is asked for.

@@ -32,6 +32,8 @@ import type { CellView } from '../render/pairText.js';
 import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { OutputGuard } from '../output/guard.js';
 import type { Outcome } from './outcome.js';
+import { UnmatchedValue, unmatchedInEvery } from '../io/rowRules.js';
+import { unmatchedValueWarnings } from '../analysis/report.js';
 
 export interface ComparePlan {
   /** Two files (before, after), or one file whose --period column tells the periods apart. */
@@ -106,7 +108,7 @@ function period(label: string, counted: Pick<CountedInput, 'table' | 'weighting'
 }
 
 /** The two periods of one file, told apart by a column: its two levels, or the two named by --levels. */
-async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: string, levels: [string, string] | undefined, io: CliIo, guard: OutputGuard): Promise<[PeriodInput, PeriodInput]> {
+async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: string, levels: [string, string] | undefined, io: CliIo, guard: OutputGuard): Promise<[PeriodInput, PeriodInput, UnmatchedValue[]]> {
   const counted = await countTable(source, readerFor(plan.reader, io, guard), { ...plan.table, by: column });
   const strata = counted.strata ?? [];
   const available = strata.map((s) => s.level);
@@ -124,6 +126,7 @@ async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: s
   return [
     period(`${column} ${b.level}`, { table: b.table, weighting: b.weighting, excluded: b.excluded ?? 0, excludedBy: b.excludedBy ?? [], design: b.design }, input, plan),
     period(`${column} ${a.level}`, { table: a.table, weighting: a.weighting, excluded: a.excluded ?? 0, excludedBy: a.excludedBy ?? [], design: a.design }, input, plan),
+    counted.unmatched,
   ];
 }
 
@@ -139,18 +142,20 @@ export function sideOrder(request: TableRequest, name: string, periods: PeriodIn
 export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome> {
   let before: PeriodInput;
   let after: PeriodInput;
+  let unmatched: UnmatchedValue[];
   const guard = outputGuard(io, plan.report);
   guard.checkInputs([...(plan.periods.kind === 'column' ? [plan.periods.input] : [plan.periods.before, plan.periods.after]), ...(plan.table.codebook ? [plan.table.codebook.file] : [])]);
   if (plan.periods.kind === 'column') {
     const source = inputSource(plan.periods.input, io.stdin);
     checkReadable(source);
-    [before, after] = await periodsOfColumn(source, plan, plan.periods.column, plan.periods.levels, io, guard);
+    [before, after, unmatched] = await periodsOfColumn(source, plan, plan.periods.column, plan.periods.levels, io, guard);
   } else {
     const sources = [inputSource(plan.periods.before, io.stdin), inputSource(plan.periods.after, io.stdin)];
     const counted: CountedInput[] = [];
     for (const source of sources) counted.push(await countTable(source, readerFor(plan.reader, io, guard), plan.table));
     // A note said once when both files give it.
     for (const note of new Set(counted.flatMap((c) => c.missingTokenNotes))) noteWriter(io)(note);
+    unmatched = unmatchedInEvery(counted.map((c) => c.unmatched));
     before = period(sources[0].label, counted[0], inputSummary(sources[0].label, counted[0]), plan);
     after = period(sources[1].label, counted[1], inputSummary(sources[1].label, counted[1]), plan);
   }
@@ -159,7 +164,7 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
     rows: plan.order.rows ?? sideOrder(plan.table, plan.table.rows, [before, after], 'rowLevels'),
     cols: plan.order.cols ?? sideOrder(plan.table, plan.table.cols, [before, after], 'colLevels'),
   };
-  const report = compareReport(before, after, plan.analysis, order);
+  const report = compareReport(before, after, plan.analysis, order, unmatchedValueWarnings(unmatched));
   const toFile = plan.report.output !== undefined;
   const text = COMPARE_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: plan.cells });
   if (plan.report.plot !== undefined) {

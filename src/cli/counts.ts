@@ -4,7 +4,7 @@ import { dataError, usageError } from '../errors.js';
 import { countTable, TableRequest } from '../io/counting.js';
 import { resolveColumn } from '../io/columns.js';
 import { readRecords } from '../io/readRecords.js';
-import { parseExactCount } from '../io/rowRules.js';
+import { parseExactCount, unmatchedValueWords } from '../io/rowRules.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { compareNatural } from '../table/naturalOrder.js';
 import { delimitedField, looksLikeFormula } from '../escape/spreadsheet.js';
@@ -96,6 +96,8 @@ export async function runCount(plan: CountPlan, io: CliIo): Promise<Outcome> {
   guard.checkInputs([plan.input]);
   checkReadable(source);
   const counted = await countTable(source, readerFor(plan.reader, io, guard), plan.table);
+  // A count file has no place for notes: a filter or recode value no row holds is said on standard error.
+  for (const u of counted.unmatched) noteWriter(io)(unmatchedValueWords(u));
   const lines: [string[], number][] = [];
   const add = (prefix: string[], t: typeof counted.table) =>
     t.rowLevels.forEach((rl, i) => t.colLevels.forEach((cl, j) => t.counts[i][j] > 0 && lines.push([[...prefix, rl, cl], t.counts[i][j]])));

@@ -2,7 +2,7 @@
 import { Command } from 'commander';
 import { usageError } from '../errors.js';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
-import { pairReport, unknownOrderWarnings } from '../analysis/report.js';
+import { pairReport, unknownOrderWarnings, unmatchedValueWarnings } from '../analysis/report.js';
 import { countTable, TableRequest } from '../io/counting.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { PAIR_RENDERERS, PairFormat } from '../render/renderers.js';
@@ -115,7 +115,7 @@ export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
     counted.excluded,
     inputSummary(source.label, counted),
     sides.ordered && !plan.analysis.ordinal ? { ...plan.analysis, ordinal: true } : plan.analysis,
-    [...unknownOrderWarnings('--row-order', counted.unknownRowLevels), ...unknownOrderWarnings('--col-order', counted.unknownColLevels), ...sides.warnings],
+    [...unmatchedValueWarnings(counted.unmatched), ...unknownOrderWarnings('--row-order', counted.unknownRowLevels), ...unknownOrderWarnings('--col-order', counted.unknownColLevels), ...sides.warnings],
     counted.weighting,
     counted.strata && counted.by ? { by: counted.by, strata: counted.strata } : undefined,
     { rows: plan.table.rowOrder || sides.rows?.ordered ? 'given' : 'natural', cols: plan.table.colOrder || sides.cols?.ordered ? 'given' : 'natural' },

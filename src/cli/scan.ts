@@ -10,7 +10,8 @@ import { SCAN_RENDERERS, ScanFormat } from '../render/renderers.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
 import { checkDesign } from '../analysis/design.js';
 import { addAnalysisOptions, addDesignOptions, addReaderOptions, addRawCellsOption, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary, readerFor } from './options.js';
-import { recodesByColumn } from '../io/rowRules.js';
+import { recodesByColumn, unmatchedOfEncoded } from '../io/rowRules.js';
+import { unmatchedValueWarnings } from '../analysis/report.js';
 import { columnRules, TableRequest } from '../io/countTable.js';
 import { codebookColumn } from '../table/codebook.js';
 import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
@@ -197,7 +198,10 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
       prepared.layer ? prepared.layer.labels.length : 1,
     );
     const countPair = await encoded.countPairs(prepared.ordered, prepared.layer);
-    return scorePairs(prepared, encoded.rows, inputSummary(source.label, encoded), options, countPair);
+    const unmatched = unmatchedValueWarnings(unmatchedOfEncoded(survey.where, survey.recodes, encoded, (column) => recodes.get(column), (name) => columnRules(table, name, recodes), reader.missing));
+    // CSV and TSV are one line per pair, with no place for notes: said on standard error.
+    if (plan.format === 'csv' || plan.format === 'tsv') for (const w of unmatched) noteWriter(io)(w.message);
+    return scorePairs(prepared, encoded.rows, inputSummary(source.label, encoded), options, countPair, unmatched);
   });
   const toFile = plan.report.output !== undefined;
   const text = SCAN_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: 'compact', rawCells: plan.report.rawCells });

@@ -31,10 +31,12 @@ import {
   tablePlan,
   refuseBinsPerFile,
 } from './options.js';
-import { CliIo, emit, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
+import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { OutputGuard } from '../output/guard.js';
 import { sideOrder } from './compare.js';
 import type { Outcome } from './outcome.js';
+import { UnmatchedValue, unmatchedInEvery } from '../io/rowRules.js';
+import { unmatchedValueWarnings } from '../analysis/report.js';
 
 export interface WavesPlan {
   /** Several files or patterns (one wave per file), or one file whose --period column tells the waves apart. */
@@ -127,7 +129,7 @@ function fileKey(path: string, key: WaveKey | null): string {
   return key !== null && key.kind !== 'number' ? key.text : baseName(path);
 }
 
-async function wavesOfFiles(plan: WavesPlan, inputs: string[], mode: WaveOrderMode, io: CliIo, guard: OutputGuard): Promise<{ waves: WaveInput[]; setup: WaveSetup }> {
+async function wavesOfFiles(plan: WavesPlan, inputs: string[], mode: WaveOrderMode, io: CliIo, guard: OutputGuard): Promise<{ waves: WaveInput[]; setup: WaveSetup; unmatched: UnmatchedValue[] }> {
   const patterns: string[] = [];
   for (const input of inputs) refuseRemote(input);
   for (const input of inputs) if (await isPattern(input)) patterns.push(input);
@@ -151,10 +153,10 @@ async function wavesOfFiles(plan: WavesPlan, inputs: string[], mode: WaveOrderMo
     scores: waveScores(keys, ordered.kind, plan.spacing),
     withoutWave: 0,
   };
-  return { waves, setup };
+  return { waves, setup, unmatched: unmatchedInEvery(counted.map((c) => c.unmatched)) };
 }
 
-async function wavesOfColumn(plan: WavesPlan, input: string, column: string, listed: string[] | undefined, io: CliIo, guard: OutputGuard): Promise<{ waves: WaveInput[]; setup: WaveSetup }> {
+async function wavesOfColumn(plan: WavesPlan, input: string, column: string, listed: string[] | undefined, io: CliIo, guard: OutputGuard): Promise<{ waves: WaveInput[]; setup: WaveSetup; unmatched: UnmatchedValue[] }> {
   const source = inputSource(input, io.stdin);
   checkReadable(source);
   guard.checkInputs([input]);
@@ -182,14 +184,14 @@ async function wavesOfColumn(plan: WavesPlan, input: string, column: string, lis
     scores: waveScores(ordered.keys, ordered.kind, plan.spacing),
     withoutWave: counted.excluded - inWaves,
   };
-  return { waves, setup };
+  return { waves, setup, unmatched: counted.unmatched };
 }
 
 /** Counts every wave, analyses the series, writes the report; found = the association moved over the waves at --alpha. */
 export async function runWaves(plan: WavesPlan, io: CliIo): Promise<Outcome> {
   const guard = outputGuard(io, plan.report);
   if (plan.table.codebook) guard.checkInputs([plan.table.codebook.file]);
-  const { waves, setup } =
+  const { waves, setup, unmatched } =
     plan.waves.kind === 'column'
       ? await wavesOfColumn(plan, plan.waves.input, plan.waves.column, plan.waves.levels, io, guard)
       : await wavesOfFiles(plan, plan.waves.inputs, plan.waves.order, io, guard);
@@ -198,7 +200,9 @@ export async function runWaves(plan: WavesPlan, io: CliIo): Promise<Outcome> {
     rows: plan.order.rows ?? sideOrder(plan.table, plan.table.rows, waves, 'rowLevels'),
     cols: plan.order.cols ?? sideOrder(plan.table, plan.table.cols, waves, 'colLevels'),
   };
-  const report = analyzeWaves(waves, setup, plan.analysis, order, plan.spacing);
+  const report = analyzeWaves(waves, setup, plan.analysis, order, plan.spacing, unmatchedValueWarnings(unmatched));
+  // CSV and TSV are one line per wave, with no place for notes: said on standard error.
+  if (plan.format === 'csv' || plan.format === 'tsv') for (const w of unmatchedValueWarnings(unmatched)) noteWriter(io)(w.message);
   const toFile = plan.report.output !== undefined;
   const text = WAVES_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: 'compact', rawCells: plan.report.rawCells });
   if (plan.report.plot !== undefined) await writeSideFile(io, plan.report.plot, stackSvg(wavesCharts(report)));

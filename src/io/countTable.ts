@@ -23,12 +23,12 @@ import type { Engine } from './engine/module.js';
 import type { EngineGroup } from './engine/groups.js';
 import { DEFAULT_DISTINCT_LIMIT, readRecords, ReaderOptions, ReadSummary } from './readRecords.js';
 import { FieldInterner, MISSING_ID } from './fieldInterner.js';
-import { ColumnLevels, parseWeightValue, Recode, recodesByColumn, RowGate, weightError, WhereClause } from './rowRules.js';
+import { ColumnLevels, ColumnValues, parseWeightValue, Recode, recodesByColumn, RowGate, UnmatchedValue, unmatchedValueWords, unmatchedWhereValues, unusedRecodeRules, weightError, WhereClause } from './rowRules.js';
 import { checkCodebookColumns } from './codebookFile.js';
 import { detectMissingTokens, missingTokenNotes } from './missingTokens.js';
 import { checkReplicateCount, DesignRowRule, resolveReplicateColumns } from './designRows.js';
 import { Codebook, codebookColumn } from '../table/codebook.js';
-import { binsOf, levelOrder, LevelRules, missingLevelLabels, missingReasonOrder } from '../table/levelRules.js';
+import { binsOf, indexCodebook, levelOrder, levelOutcome, LevelRules, missingLevelLabels, missingReasonOrder } from '../table/levelRules.js';
 import { isMissingLooking } from '../table/missingLooking.js';
 import { EngineFallback } from './engine/query.js';
 import { IdTally } from './idTally.js';
@@ -519,6 +519,7 @@ function finishTables(
   kind: Weighting['kind'],
   orderOf: (slot: number, levels: readonly string[]) => string[],
   reasonOrder: (slot: number) => readonly string[],
+  unmatched: readonly UnmatchedValue[],
 ): { counted: CountedTable; unknownRowLevels: string[]; unknownColLevels: string[] } {
   const rowLabel = (id: number) => label(slots.row, id);
   const colLabel = (id: number) => label(slots.col, id);
@@ -569,13 +570,15 @@ function finishTables(
       if (levels.length > request.maxLevels) throw dataError(`column "${name}" has ${levels.length.toLocaleString('en-US')} levels after --other ${request.other.k}, more than --max-levels ${request.maxLevels}; lower --other or raise --max-levels`);
     }
   }
-  checkTestable(request, table, counter.excluded, filtered);
+  checkTestable(request, table, counter.excluded, filtered, unmatched);
   const design = request.design && slots.by < 0 ? { design: designCells(counter.pooledDesign) } : {};
   return { counted: { table, weighting: counter.pooled.weighting(kind), strata, excluded: counter.excluded, ...design }, unknownRowLevels: finished.unknownRowLevels, unknownColLevels: finished.unknownColLevels };
 }
 
-function checkTestable(request: TableRequest, table: TwoWayTable, excluded: number, filtered: number): void {
+function checkTestable(request: TableRequest, table: TwoWayTable, excluded: number, filtered: number, unmatched: readonly UnmatchedValue[]): void {
   if (request.allowDegenerate) return;
+  // A filter or recode that matched nothing is the likely cause: said in the same line.
+  const hint = unmatched.length > 0 ? `; ${unmatchedValueWords(unmatched[0])}` : '';
   const leftOut = [excluded > 0 ? `${excluded.toLocaleString('en-US')} left out for a missing value` : '', filtered > 0 ? `${filtered.toLocaleString('en-US')} filtered out by --where` : '']
     .filter((s) => s !== '')
     .join(', ');
@@ -583,9 +586,37 @@ function checkTestable(request: TableRequest, table: TwoWayTable, excluded: numb
     [request.rows, table.rowLevels],
     [request.cols, table.colLevels],
   ] as const) {
-    if (levels.length === 0) throw dataError(`column "${name}" has no value in the counted rows${leftOut ? ` (${leftOut})` : ''}`);
-    if (levels.length === 1) throw dataError(`column "${name}" has a single level ("${levels[0]}") in the counted rows; an association needs at least two`);
+    if (levels.length === 0) throw dataError(`column "${name}" has no value in the counted rows${leftOut ? ` (${leftOut})` : ''}${hint}`);
+    if (levels.length === 1) throw dataError(`column "${name}" has a single level ("${levels[0]}") in the counted rows; an association needs at least two${hint}`);
   }
+}
+
+/**
+ * The --where values and --recode rules that no value of their column takes
+ * (rowRules.ts), from the values each column read (every row, filtered ones
+ * too); a column past the reader's distinct-value limit is not judged.
+ */
+function unmatchedValues(request: TableRequest, slots: Slots, labels: readonly ColumnLevels[], labelsOf: (readonly string[])[], missing: readonly string[]): UnmatchedValue[] {
+  const values: ColumnValues = (column, stage) => {
+    const slot = slots.names.indexOf(column);
+    if (slot < 0) return null;
+    const raw = labelsOf[slot] ?? [];
+    if (raw.length >= DEFAULT_DISTINCT_LIMIT) return null;
+    if (stage === 'filter') {
+      const byRaw = new Map(raw.map((r, i) => [r, labels[slot].of(i + 1)]));
+      return { raw, labelOf: (r) => byRaw.get(r) ?? r };
+    }
+    const rules: LevelRules = { ...labels[slot].rules, recode: null };
+    const index = indexCodebook(rules.codebook);
+    return {
+      raw,
+      labelOf: (r) => {
+        const outcome = levelOutcome(rules, r, index);
+        return outcome.kind === 'level' ? outcome.label : r;
+      },
+    };
+  };
+  return [...unmatchedWhereValues(request.where, values, missing), ...unusedRecodeRules(request.recodes, values)];
 }
 
 /**
@@ -629,6 +660,8 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
       ? await countRows(source, reader, request, slots, gate, counter, onLabels, ruleOfRows)
       : await countGroups(engine, engine.input, source, reader, request, slots, gate, counter, onLabels);
   if (summary.records === 0) throw dataError(`${source.label}: the header has no data rows under it`);
+  // Filter and recode values no row holds (before bins relabel a side).
+  const unmatched = unmatchedValues(request, slots, labels, labelsOf, reader.missing);
   // The bins of a numeric side: from its levels as counting sees them (missing values have no rows here), the rule of scan --bins (table/bins.ts).
   const binOrder = new Map<number, string[]>();
   if (counter.marginals) {
@@ -655,7 +688,7 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
   };
   const kind: Weighting['kind'] = request.summedWeights ? 'weight' : request.weight ? request.weight.kind : 'none';
   const reasonOrder = (slot: number) => missingReasonOrder(labels[slot].rules);
-  const { counted, unknownRowLevels, unknownColLevels } = finishTables(request, counter, label, slots, gate.filtered, kind, orderOf, reasonOrder);
+  const { counted, unknownRowLevels, unknownColLevels } = finishTables(request, counter, label, slots, gate.filtered, kind, orderOf, reasonOrder, unmatched);
   // Values that commonly mean missing but are counted as levels: one note per column (io/missingTokens.ts).
   const declared = new Set([...reader.missing.map((m) => m.trim()), ...[slots.row, slots.col].flatMap((slot) => labels[slot].rules.codebook?.missing.map((m) => m.code) ?? [])]);
   const findings = detectMissingTokens(
@@ -664,7 +697,7 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
   );
   const binnedNames = new Set([...binOrder.keys()].map((slot) => slots.names[slot]));
   const notes = missingTokenNotes(findings, (column) => (binnedNames.has(column) ? 'binned' : 'level'));
-  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, badDesign: (designRule as DesignRowRule | null)?.skipped ?? 0, excludedBy: counter.reasons.list(slots.names, reasonOrder), missingTokenNotes: notes, excludedCells: counter.excludedCells ? [...counter.excludedCells].map(([key, rows]) => [JSON.parse(key) as string[], rows]) : [] };
+  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, badDesign: (designRule as DesignRowRule | null)?.skipped ?? 0, excludedBy: counter.reasons.list(slots.names, reasonOrder), missingTokenNotes: notes, unmatched, excludedCells: counter.excludedCells ? [...counter.excludedCells].map(([key, rows]) => [JSON.parse(key) as string[], rows]) : [] };
 }
 
 /** The engine, and (one file of several counted in one pass) the groups it counted for that file with what it read of it. */

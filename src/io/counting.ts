@@ -13,6 +13,7 @@ import type { EncodedColumn } from '../table/encodedColumn.js';
 import type { OrderedColumn } from '../table/orderedColumn.js';
 import type { RowDesign } from '../table/surveyDesign.js';
 import type { ColumnsRequest } from './columns.js';
+import type { UnmatchedValue } from './rowRules.js';
 import { countFilesWith, countTableWith, TableRequest } from './countTable.js';
 import { encodeWithReader } from './encodeColumns.js';
 import { engineInput, EngineInput, isParquetPath, isPattern } from './engine/files.js';
@@ -39,6 +40,8 @@ export interface CountedInput extends CountedTable {
   excludedBy: ExcludedBy[];
   /** One line per column of the table holding a value that commonly means missing, counted as a level. */
   missingTokenNotes: string[];
+  /** --where values and --recode rules that no value of their column takes (a typo filters everything or nothing). */
+  unmatched: UnmatchedValue[];
   /** With keepExcludedCells: the rows left out, by their values as written ([layer,] row, col), and how many. */
   excludedCells: [string[], number][];
 }
@@ -59,6 +62,8 @@ export interface EncodedInput {
   /** The survey design as read (each kept row's unit or replicate weights), or null. */
   design: RowDesign | null;
   summary: ReadSummary;
+  /** Per --where clause: the distinct values of its column in every row read (filtered ones too), or null when not tracked in full. */
+  whereValues: (readonly string[] | null)[];
   /**
    * Prepares the counts of every pair of these columns (in report order,
    * with the layer): each pair is counted from the per-row codes in memory,

@@ -139,6 +139,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
   let weightSlot = -1;
   let gate: RowGate | null = null;
   let internerLabels: (readonly string[])[] = [];
+  let whereSlotsRead: number[] = [];
   const textSlots = new Set<number>();
   const weights = request.weight ? new GrowingWeights() : null;
   // A survey design: every row of the sample is registered with the index
@@ -182,6 +183,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
       }
       if (selection.weight !== null) weightSlot = slotOf(selection.weight);
       const whereSlots = selection.where.map((index) => slotOf(index));
+      whereSlotsRead = whereSlots;
       gate = new RowGate(
         (request.where ?? []).map((clause, k) => ({
           clause,
@@ -293,6 +295,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
     layer = { name: layerState.name, labels, codes: layerState.codes.take(rows), missing: layerState.missing, distinct: labels.length, distinctCapped: false, numeric: false, integer: false, missingLooking: [] };
   }
   const rowWeights = weights ? { values: weights.take(rows), kind: request.weight!.kind } : undefined;
+  const whereValues = whereSlotsRead.map((slot) => (summary.interners[slot].overflowed > 0 ? null : summary.interners[slot].labels));
   const { interners: _interners, ...read } = summary;
   const rowDesign: RowDesign | null =
     design === null
@@ -314,6 +317,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
     badDesign: designSkipped,
     design: rowDesign,
     summary: read,
+    whereValues,
     weights: rowWeights,
     countPairs: async () => (a, b, layerColumn) => countPair(a, b, { weights: rowWeights, strata: layerColumn ?? undefined, design: rowDesign ?? undefined }),
   };

@@ -6,6 +6,8 @@ import { dataError, usageError } from '../errors.js';
 import { isNumericLabel } from '../table/naturalOrder.js';
 import { parseRangeRecode, RangeRecode, RecodeMap } from '../table/rangeRecode.js';
 import { indexCodebook, LevelOutcome, levelOutcome, LevelRules } from '../table/levelRules.js';
+import { rangeContains } from '../table/rangeLabel.js';
+import { editDistance } from './columns.js';
 
 /** `--where 'column=v1,v2'` keeps rows whose value is one of the values; `'column!=v'` drops them. */
 export interface WhereClause {
@@ -264,4 +266,165 @@ export class ColumnLevels {
     const outcome = this.outcome(id);
     return outcome.kind === 'missing' ? outcome.reason : null;
   }
+}
+
+/**
+ * A value named by --where or --recode that no row of its column holds: a
+ * typo filters everything or nothing, or renames nothing, so the report
+ * says so (analysis/report.ts: unmatchedValueWarnings).
+ */
+export interface UnmatchedValue {
+  option: '--where' | '--recode';
+  /** The option as given (the --where clause; for --recode, the rule `from=to`). */
+  spec: string;
+  column: string;
+  value: string;
+  /** Why it matches nothing: no row holds it; it is read as missing; it occurs only before the column's recode or codebook labels. */
+  why: 'absent' | 'missing' | 'before-recode';
+  /** The closest value the column holds (a typo's likely meaning), or null. */
+  closest: string | null;
+}
+
+/**
+ * A column's values as read (each distinct value once, missing ones apart)
+ * and the label each becomes: for 'filter', the label --where sees (after
+ * the codebook, cut points and recode); for 'recode', the label before the
+ * recode. Null when the column was not read or not tracked in full (then
+ * nothing is said of it).
+ */
+export type ColumnValues = (column: string, stage: 'filter' | 'recode') => { raw: readonly string[]; labelOf: (raw: string) => string } | null;
+
+/** Columns with more distinct values than this get no "did you mean" (the search is quadratic in the value's length). */
+const CLOSEST_SEARCH_LIMIT = 10_000;
+
+/** The closest of `present` to `value` by edit distance, ignoring case (a typo's likely meaning): at most one edit in three characters, else null. */
+function closestValue(value: string, present: readonly string[]): string | null {
+  // Short values (a code such as "9") are a step from any other: no guess for them.
+  if (present.length > CLOSEST_SEARCH_LIMIT || value.length < 3 || value.length > 200) return null;
+  let best: string | null = null;
+  let bestDistance = Math.max(1, Math.floor(value.length / 3)) + 1;
+  for (const candidate of present) {
+    if (Math.abs(candidate.length - value.length) >= bestDistance) continue;
+    const d = editDistance(value.toLowerCase(), candidate.toLowerCase());
+    if (d < bestDistance) {
+      best = candidate;
+      bestDistance = d;
+    }
+  }
+  return best;
+}
+
+/**
+ * The --where values that match no row: those of every clause that no
+ * value of its column takes after the column's rules (recode, codebook
+ * labels), each with the reason and the closest value the column holds.
+ * `columnValues` gives each column's values.
+ */
+export function unmatchedWhereValues(
+  where: readonly WhereClause[],
+  columnValues: ColumnValues,
+  missing: readonly string[],
+): UnmatchedValue[] {
+  const out: UnmatchedValue[] = [];
+  const missingTokens = new Set(missing.map((m) => m.trim()));
+  for (const clause of where) {
+    const values = columnValues(clause.column, 'filter');
+    if (values === null) continue;
+    const labels = new Set(values.raw.map(values.labelOf));
+    const raws = new Set(values.raw);
+    for (const value of clause.values) {
+      if (labels.has(value)) continue;
+      const why = missingTokens.has(value) ? 'missing' : raws.has(value) ? 'before-recode' : 'absent';
+      out.push({ option: '--where', spec: clause.text, column: clause.column, value, why, closest: why === 'absent' ? closestValue(value, [...labels]) : null });
+    }
+  }
+  return out;
+}
+
+/**
+ * The --recode rules that rename nothing: a level rule whose `from` no
+ * value of its column takes (as read, or as the codebook or cut points
+ * label it before the recode), and a rule of a single number that no value
+ * equals. A rule of a range that takes no value is listed only when the
+ * column holds no number at all (an age band with no one in it is no typo).
+ */
+export function unusedRecodeRules(
+  recodes: readonly Recode[],
+  columnValues: ColumnValues,
+): UnmatchedValue[] {
+  const out: UnmatchedValue[] = [];
+  for (const recode of recodes) {
+    const values = columnValues(recode.column, 'recode');
+    if (values === null) continue;
+    // A rule names the label before the recode (a codebook's or a cut's) or, failing that, the raw value (table/levelRules.ts).
+    const taken = new Set([...values.raw, ...values.raw.map(values.labelOf)]);
+    const numbers = values.raw.filter(isNumericLabel).map(Number);
+    for (const [from, to] of recode.rules.levels) {
+      if (taken.has(from)) continue;
+      const range = recode.rules.ranges.find((r) => r.from === from)?.range;
+      // A range with no one in it is no typo, where the column holds numbers at all.
+      if (range && numbers.length > 0 && !(range.lower === range.upper && range.lowerClosed && range.upperClosed)) continue;
+      if (range && numbers.some((x) => rangeContains(range, x))) continue;
+      out.push({ option: '--recode', spec: `${recode.column}:${from}=${to}`, column: recode.column, value: from, why: 'absent', closest: closestValue(from, [...taken]) });
+    }
+  }
+  return out;
+}
+
+/** An unmatched value in one sentence, the same in every format and in the error of a table left with too few levels. */
+export function unmatchedValueWords(u: UnmatchedValue): string {
+  const option = `${u.option} "${u.spec}"`;
+  const guess = u.closest !== null ? ` (did you mean "${u.closest}"?)` : '';
+  if (u.option === '--recode') return `${option}: "${u.value}" never occurs in ${u.column}${guess}; the rule renames nothing`;
+  const clause = parseWhere(u.spec);
+  const effect = clause.negate ? 'it drops no row' : 'it matches no row';
+  if (u.why === 'missing') return `${option}: "${u.value}" is read as a missing value, and a row with a missing value passes no filter; ${effect}`;
+  if (u.why === 'before-recode') return `${option}: "${u.value}" occurs in ${u.column} only before its recode or codebook labels, which --where reads; ${effect}`;
+  return `${option}: "${u.value}" never occurs in ${u.column}${guess}; ${effect}`;
+}
+
+/** The unmatched values of several inputs (compare's periods, the waves) that none of them holds: a value some input holds is no typo. */
+export function unmatchedInEvery(lists: readonly (readonly UnmatchedValue[])[]): UnmatchedValue[] {
+  if (lists.length === 0) return [];
+  const key = (u: UnmatchedValue) => JSON.stringify([u.option, u.spec, u.value]);
+  const everywhere = lists.slice(1).reduce((keys, list) => new Set(list.map(key).filter((k) => keys.has(k))), new Set(lists[0].map(key)));
+  return lists[0].filter((u) => everywhere.has(key(u)));
+}
+
+/**
+ * The unmatched --where values and --recode rules of a scan or banner: the
+ * filter columns' values as read (every row), and each recoded column's
+ * values among the rows scanned (its labels before the recode, by its
+ * codebook and cut points); a column dropped for its many values is not
+ * judged.
+ */
+export function unmatchedOfEncoded(
+  where: readonly WhereClause[],
+  recodes: readonly Recode[],
+  encoded: { whereValues: readonly (readonly string[] | null)[]; columns: readonly { name: string; labels: readonly string[]; codes: unknown }[]; layer: { name: string; labels: readonly string[] } | null },
+  filterLookup: (column: string) => { get(value: string): string | undefined } | undefined,
+  rulesOf: (column: string) => LevelRules,
+  missing: readonly string[],
+): UnmatchedValue[] {
+  const values: ColumnValues = (column, stage) => {
+    if (stage === 'filter') {
+      const k = where.findIndex((w) => w.column === column);
+      const raw = k >= 0 ? encoded.whereValues[k] : null;
+      if (raw === null || raw === undefined) return null;
+      const lookup = filterLookup(column);
+      return { raw, labelOf: (r) => lookup?.get(r) ?? r };
+    }
+    const read = [...encoded.columns, ...(encoded.layer ? [encoded.layer] : [])].find((c) => c.name === column && ('codes' in c ? c.codes !== null : true));
+    if (read === undefined) return null;
+    const rules: LevelRules = { ...rulesOf(column), recode: null };
+    const index = indexCodebook(rules.codebook);
+    return {
+      raw: read.labels,
+      labelOf: (r) => {
+        const outcome = levelOutcome(rules, r, index);
+        return outcome.kind === 'level' ? outcome.label : r;
+      },
+    };
+  };
+  return [...unmatchedWhereValues(where, values, missing), ...unusedRecodeRules(recodes, values)];
 }

@@ -241,7 +241,8 @@ export function renderScanHtml(report: ScanReport): string {
 <h2>Pairs, strongest first</h2><table><tr><th>#</th><th>passes</th><th>pair</th><th>bias-corrected V</th><th>Cramér's V</th><th>leading p</th><th>test</th><th>adjusted p</th><th>notes</th></tr>${rows}</table>
 ${used.length ? `<p class="dim">${e(used.map((f) => `${f} = ${FLAG_LEGEND[f]}`).join('; '))}</p>` : ''}
 ${report.pairs.length < report.pairsTested ? `<p class="dim">${report.pairsTested - report.pairs.length} weaker pairs not shown (--top); ${report.pairsPassing} of all ${report.pairsTested} pairs pass.</p>` : ''}
-${skipped ? `<h2>Columns left out</h2><ul>${skipped}</ul>` : ''}${untestable ? `<h2>Pairs that could not be tested</h2><ul>${untestable}</ul>` : ''}${derived ? `<h2>One column a recoding of the other (not ranked)</h2><ul>${derived}</ul>` : ''}${leftOut ? `<h2>${e(SCAN_LEFT_OUT_HEADING)}</h2><p class="dim">${e(SCAN_LEFT_OUT_NOTE)}</p><ul>${leftOut}</ul>` : ''}`;
+${skipped ? `<h2>Columns left out</h2><ul>${skipped}</ul>` : ''}${untestable ? `<h2>Pairs that could not be tested</h2><ul>${untestable}</ul>` : ''}${derived ? `<h2>One column a recoding of the other (not ranked)</h2><ul>${derived}</ul>` : ''}${leftOut ? `<h2>${e(SCAN_LEFT_OUT_HEADING)}</h2><p class="dim">${e(SCAN_LEFT_OUT_NOTE)}</p><ul>${leftOut}</ul>` : ''}
+${notes(report.warnings ?? [])}`;
   return page(`Pairs of ${report.input.file}`, body);
 }
 

@@ -322,7 +322,8 @@ export function heldFixedLines(report: PairReport, paint: ChalkInstance, width: 
   return out;
 }
 
-function checkLines(warnings: readonly { message: string }[], paint: ChalkInstance, width: number): string[] {
+/** The warnings of a record under their heading, one "!" line each (pair, scan). */
+export function checkLines(warnings: readonly { message: string }[], paint: ChalkInstance, width: number): string[] {
   if (warnings.length === 0) return [];
   const out = heading(paint, 'Check before relying on it', width);
   for (const w of warnings) out.push(...wrapText(`! ${w.message}`, width, '  ', '    ').map((l) => paint.yellow(l)));

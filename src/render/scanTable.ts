@@ -6,7 +6,7 @@ import type { ChalkInstance } from 'chalk';
 import type { ScanPair, ScanReport } from '../analysis/scan.js';
 import { formatCount, formatMeasure, formatP } from '../readableNumbers.js';
 import { displayWidth, foldLabel, glued, padEnd, padStart, wrapText } from './layout.js';
-import { cautionLines, heading } from './pairText.js';
+import { cautionLines, checkLines, heading } from './pairText.js';
 import { ADJUSTMENT_NAMES, alphaPhrase, CAUTION, designWords, excludedByWords, testName } from './words.js';
 import type { DesignSummary } from '../analysis/design.js';
 import { md } from './pairDelimited.js';
@@ -126,6 +126,7 @@ export function renderScanText(report: ScanReport, paint: ChalkInstance, options
     out.push(...wrapText(SCAN_LEFT_OUT_NOTE, width, '  ', '  ').map((l) => paint.dim(l)));
     for (const words of excludedByWords(report.excludedBy)) out.push(...wrapText(words, width, '  ', '    '));
   }
+  out.push(...checkLines(report.warnings ?? [], paint, width));
   out.push(...cautionLines(paint, width));
   return out.join('\n') + '\n';
 }
@@ -280,6 +281,12 @@ export function renderScanMarkdown(report: ScanReport): string {
   if ((report.excludedBy ?? []).length > 0) {
     out.push('');
     out.push(`${SCAN_LEFT_OUT_HEADING}: ${excludedByWords(report.excludedBy).map(md).join('; ')}. ${SCAN_LEFT_OUT_NOTE}`);
+  }
+  if ((report.warnings ?? []).length > 0) {
+    out.push('');
+    out.push('Check before relying on it:');
+    out.push('');
+    for (const w of report.warnings) out.push(`- ${md(w.message)}`);
   }
   out.push('');
   out.push(`_${md(CAUTION)}_`);

@@ -11,6 +11,7 @@ import { addStreamCases } from './streams.mjs';
 import { addEscapingCases } from './escaping.mjs';
 import { addEngineReachCases } from './engineReach.mjs';
 import { addLimitCases } from './limits.mjs';
+import { addVerdictCases } from './verdicts.mjs';
 
 const DEMO = fileURLToPath(new URL('../../fixtures/demo/patron-survey.csv', import.meta.url));
 
@@ -131,6 +132,7 @@ export function makeCorpus(dir, which = 'all') {
     addStreamCases({ dir, add });
     addEscapingCases({ dir, add });
     addEngineReachCases({ dir, add, demo: DEMO });
+    addVerdictCases({ dir, add });
   }
   return cases;
 }

@@ -47,10 +47,11 @@ interface ScanKey {
   cap: number;
 }
 
-/** Filters: the engine lists each filter column's values, the tool's rule decides which pass; the SQL of the rows that pass. */
-async function filterPredicate(engine: Engine, input: EngineInput, rel: EngineRelation, request: ColumnsRequest, where: number[], missing: ReadonlySet<string>): Promise<string> {
+/** Filters: the engine lists each filter column's values, the tool's rule decides which pass; the SQL of the rows that pass, and each filter column's values (as the built-in reader reads them). */
+async function filterPredicate(engine: Engine, input: EngineInput, rel: EngineRelation, request: ColumnsRequest, where: number[], missing: ReadonlySet<string>): Promise<{ sql: string; values: string[][] }> {
   const text = (index: number) => `CAST(${rel.names[index]} AS VARCHAR)`;
   const filters: string[] = [];
+  const read: string[][] = [];
   for (const [k, index] of where.entries()) {
     const clause = request.where![k];
     const mapping = request.recodes?.get(rel.header[index]);
@@ -65,8 +66,9 @@ async function filterPredicate(engine: Engine, input: EngineInput, rel: EngineRe
         return clause.values.has(mapping?.get(label) ?? label) !== clause.negate;
       });
     filters.push(passing.length === 0 ? 'false' : `(${text(index)} IN (${passing.map((p) => sqlLiteral(p as string)).join(', ')}))`);
+    read.push(interner.labels);
   }
-  return filters.length === 0 ? 'true' : filters.join(' AND ');
+  return { sql: filters.length === 0 ? 'true' : filters.join(' AND '), values: read };
 }
 
 /** Rows read, filtered out, and with an unusable weight (judged by the tool's own rule). */
@@ -228,7 +230,7 @@ export async function encodeWithEngine(engine: Engine, input: EngineInput, reade
   if (selection.layer !== null) scanKeys.push({ name: rel.header[selection.layer], sql: 'vl', cap: RECODED_READING_CAP });
   const columnsSql = scanKeys.map((key, k) => `${text(k < selection.candidates.length ? selection.candidates[k] : (selection.layer as number))} AS ${key.sql}`);
 
-  const pass = await filterPredicate(engine, input, rel, request, selection.where, missingTokens);
+  const { sql: pass, values: whereValues } = await filterPredicate(engine, input, rel, request, selection.where, missingTokens);
   const weight = request.weight;
   const rowsSql =
     weight && selection.weight !== null
@@ -263,6 +265,7 @@ export async function encodeWithEngine(engine: Engine, input: EngineInput, reade
     badDesign: 0,
     design: null,
     summary: { header: rel.header, delimiter: rel.delimiter, records, blankLines: await blank, badRows: 0, engine: 'duckdb', format: input.format, files: input.files.length },
+    whereValues,
     weights,
     countPairs: async () => (a, b, layerColumn) => countPair(a, b, { weights, strata: layerColumn ?? undefined }),
   };
