@@ -68,10 +68,33 @@ export interface CompareReport {
   weighted: boolean;
   /** With a survey design: each period is its own sample, and the change and shift tests are design-based Wald tests. */
   designed: boolean;
+  /**
+   * The columns of the pair whose levels the two periods do not share at
+   * all: then no comparison is possible (no change test, no shift test of
+   * that side, no verdict), and every format says so rather than "no
+   * change". Empty when the periods can be compared.
+   */
+  noSharedLevel: string[];
   /** Levels seen in one period only. */
   onlyBefore: { rows: string[]; cols: string[] };
   onlyAfter: { rows: string[]; cols: string[] };
   warnings: Warning[];
+}
+
+/** The fact that two periods share no level of some columns, in words (every format, and the line of --exit-status). */
+export function noSharedLevelWords(before: string, after: string, columns: readonly string[]): string {
+  return `${before} and ${after} share no level of ${columns.join(' or of ')}, so no comparison of the periods is possible`;
+}
+
+/**
+ * What --exit-status cannot answer from a comparison: the periods share no
+ * level of a column, or the change test is not defined for the tables; null
+ * when the verdict decides.
+ */
+export function undecidedComparison(report: Pick<CompareReport, 'verdict' | 'noSharedLevel' | 'before' | 'after'>): string | null {
+  if (report.noSharedLevel.length > 0) return noSharedLevelWords(report.before.label, report.after.label, report.noSharedLevel);
+  if (report.verdict === null) return 'whether the association changed cannot be tested for these tables';
+  return null;
 }
 
 /** The levels of several periods together: those named by `requested` first, the rest in natural order. */
@@ -180,15 +203,25 @@ export function comparePeriods(before: PeriodInput, after: PeriodInput, options:
   };
   describe(onlyBefore, before.label);
   describe(onlyAfter, after.label);
+  // A side whose levels the periods do not share at all leaves nothing to compare: no test of a change, none of that side's shift.
+  const shares = (a: readonly string[], b: readonly string[]) => a.some((l) => b.includes(l));
+  const rowsShared = shares(present[0].rowLevels, present[1].rowLevels);
+  const colsShared = shares(present[0].colLevels, present[1].colLevels);
+  const noSharedLevel = [...(rowsShared ? [] : [before.table.rowName]), ...(colsShared ? [] : [before.table.colName])];
+  if (noSharedLevel.length > 0) {
+    warnings.unshift({ code: 'no-shared-level', message: `${noSharedLevelWords(before.label, after.label, noSharedLevel)}; check that both hold the same question with the same labels, or map the levels onto each other with --recode` });
+  }
+  const comparable = noSharedLevel.length === 0;
 
   const beforeRecord = periodRecord(before, options);
   const afterRecord = periodRecord(after, options);
   const designed = Boolean(before.design && after.design);
-  const interactionFit = designed ? null : noThreeWayInteraction(aligned);
+  const interactionFit = designed || !comparable ? null : noThreeWayInteraction(aligned);
   const interaction = interactionFit ? { statistic: interactionFit.statistic, df: interactionFit.df, pValue: interactionFit.pValue, iterations: interactionFit.iterations } : null;
   let change: ChangeTest | null = null;
-  const designTests = designed ? designChange(before, after, rowLevels, colLevels, warnings) : null;
-  if (designTests) change = designTests.change;
+  const designTests = designed && comparable ? designChange(before, after, rowLevels, colLevels, warnings) : null;
+  if (!comparable) change = null;
+  else if (designTests) change = designTests.change;
   else if (rowLevels.length === 2 && colLevels.length === 2) {
     const common = mantelHaenszelOddsRatio(aligned, options.confidence);
     const bd = common ? breslowDay(aligned, common.estimate) : null;
@@ -206,8 +239,8 @@ export function comparePeriods(before: PeriodInput, after: PeriodInput, options:
   if (verdict?.changed) {
     warnings.push({ code: 'association-changed', message: `the association between ${before.table.rowName} and ${before.table.colName} changed between ${before.label} and ${after.label} (p ${formatP(verdict.pValue)}, at most α ${alpha})` });
   }
-  const rowShift = designTests ? designTests.rowShift : homogeneity(rowMargins);
-  const colShift = designTests ? designTests.colShift : homogeneity(colMargins);
+  const rowShift = !rowsShared ? null : designed ? (designTests?.rowShift ?? null) : homogeneity(rowMargins);
+  const colShift = !colsShared ? null : designed ? (designTests?.colShift ?? null) : homogeneity(colMargins);
   return {
     tool: { name: 'tabsight', version: TOOL_VERSION },
     command: 'compare',
@@ -225,6 +258,7 @@ export function comparePeriods(before: PeriodInput, after: PeriodInput, options:
     colShifted: colShift ? colShift.pValue <= alpha : null,
     weighted: before.weighting.kind === 'weight' || after.weighting.kind === 'weight',
     designed,
+    noSharedLevel,
     onlyBefore,
     onlyAfter,
     warnings,

@@ -172,7 +172,7 @@ export interface WavesVerdict {
 
 /** Sentence facts, in reading order; renderers put them into words. */
 export type WavesStatement =
-  | { kind: 'latest'; from: string; to: string; changed: boolean | null; pValue: number | null; test: ChangeTest['method'] | null; deltaBiasCorrectedV: number | null }
+  | { kind: 'latest'; from: string; to: string; changed: boolean | null; pValue: number | null; test: ChangeTest['method'] | null; deltaBiasCorrectedV: number | null; noSharedLevel: string[] }
   | { kind: 'pattern'; pattern: WavesVerdict['pattern']; waves: number; first: string; last: string; test: SameAssociation['test'] | null; pValue: number | null; adjustedPValue: number | null; passes: boolean | null }
   | { kind: 'trend'; method: WavesTrend['method']; direction: WavesTrend['direction']; passes: boolean; factor: number; factorLower: number | null; factorUpper: number | null; confidence: number; unit: WavesTrend['unit']; perAverageWave: WavesTrend['perAverageWave']; pValue: number; adjustedPValue: number }
   | { kind: 'stands-out'; key: string; direction: WaveDeparture['direction']; z: number | null; adjustedPValue: number }
@@ -196,6 +196,13 @@ export interface WavesReport {
   marginDrift: { rows: WaveDrift | null; cols: WaveDrift | null };
   /** Levels that occur in some waves only. */
   partialLevels: { rows: PartialLevel[]; cols: PartialLevel[] };
+  /**
+   * Waves that share no level of a side with any other wave: their
+   * association can be compared with none of the others', so the tests
+   * across waves (same association, trend, departures) leave them out; with
+   * fewer than two waves left, no comparison is possible ('untestable').
+   */
+  isolatedWaves: string[];
   verdict: WavesVerdict;
   statements: WavesStatement[];
   /** Sampling weights: every test across waves uses each wave's table rescaled to its effective sample size (without a design). */
@@ -208,6 +215,13 @@ export interface WavesReport {
 }
 
 const MAX_NAMED_DEPARTURES = 3;
+
+/** What --exit-status cannot answer from the waves: no test across them could be computed (why, in words); null when the verdict decides. */
+export function undecidedWaves(report: Pick<WavesReport, 'verdict' | 'isolatedWaves' | 'waves'>): string | null {
+  if (report.verdict.pattern !== 'untestable') return null;
+  if (report.isolatedWaves.length > 0) return `fewer than two of the ${report.waves.length} waves share levels of both sides with another wave, so no comparison over the waves is possible`;
+  return `whether the association moved over the ${report.waves.length} waves cannot be tested for these tables`;
+}
 
 function partial(levels: readonly string[], present: readonly (readonly string[])[], keys: readonly string[]): PartialLevel[] {
   const out: PartialLevel[] = [];
@@ -465,6 +479,15 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
   const waves: WaveRecord[] = aligned.map((w, k) => ({ ...periodRecord(w, options), key: w.key, score: setup.scores.values[k] }));
   const stack = aligned.map((w) => rescaleToEffectiveSize(w.table.counts, w.weighting));
   const latest = compareReport(inputs[K - 2], inputs[K - 1], options, order);
+
+  // A wave that shares no level of a side with the others has an association comparable with none of theirs: left out of the tests across waves.
+  const shares = (levels: readonly string[], others: readonly (readonly string[])[]) => levels.some((l) => others.some((o) => o.includes(l)));
+  const isolated = present.map((t, w) => {
+    const others = present.filter((_t, k) => k !== w);
+    return !shares(t.rowLevels, others.map((o) => o.rowLevels)) || !shares(t.colLevels, others.map((o) => o.colLevels));
+  });
+  const kept = keys.map((_k, w) => w).filter((w) => !isolated[w]);
+  const compared = kept.length >= 2;
   const shownRowMargins = aligned.map((w) => w.table.counts.map((row) => row.reduce((s, v) => s + v, 0)));
   const shownColMargins = aligned.map((w) => colLevels.map((_l, j) => w.table.counts.reduce((s, row) => s + row[j], 0)));
   const designed = inputs.every((w) => w.design);
@@ -483,12 +506,19 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
     departures = designDeparturesOf(across, keys, alpha);
     marginDriftRecord = { rows: designDriftOf(across.drift.rows, shownRowMargins, alpha), cols: designDriftOf(across.drift.cols, shownColMargins, alpha) };
   } else {
-    same = sameAssociation(stack, twoByTwo, options.confidence);
-    const common = same?.equalOdds?.commonOddsRatio.estimate ?? (twoByTwo ? (mantelHaenszelOddsRatio(stack, options.confidence)?.estimate ?? null) : null);
-    trend = trendOf(stack, setup.scores, twoByTwo, options.confidence, common === null ? null : Math.log(common));
-    departures = departuresOf(stack, keys, twoByTwo, alpha, common);
+    const keptStack = kept.map((w) => stack[w]);
+    same = compared ? sameAssociation(keptStack, twoByTwo, options.confidence) : null;
+    const common = same?.equalOdds?.commonOddsRatio.estimate ?? (twoByTwo && compared ? (mantelHaenszelOddsRatio(keptStack, options.confidence)?.estimate ?? null) : null);
+    trend = compared ? trendOf(keptStack, { ...setup.scores, values: kept.map((w) => setup.scores.values[w]) }, twoByTwo, options.confidence, common === null ? null : Math.log(common)) : null;
+    departures = compared ? (departuresOf(keptStack, kept.map((w) => keys[w]), twoByTwo, alpha, common)?.map((d) => ({ ...d, wave: kept[d.wave] })) ?? null) : null;
     const drift = marginDrift(stack);
     marginDriftRecord = { rows: driftOf(drift.rows, shownRowMargins, alpha), cols: driftOf(drift.columns, shownColMargins, alpha) };
+  }
+  if (!compared) {
+    // Fewer than two waves share levels with another: nothing across waves can be compared, under a design or not.
+    same = null;
+    trend = null;
+    departures = null;
   }
   const partialLevels = { rows: partial(rowLevels, present.map((t) => t.rowLevels), keys), cols: partial(colLevels, present.map((t) => t.colLevels), keys) };
   const verdict = verdictOf(trend, same, alpha);
@@ -504,6 +534,15 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
   const partialWords = [...describe(rowName, partialLevels.rows), ...describe(colName, partialLevels.cols)];
   if (partialWords.length > 0) {
     warnings.push({ code: 'level-in-some-waves', message: `levels that occur in some waves only are counted as zero in the others: ${partialWords.join('; ')}` });
+  }
+  const isolatedWaves = keys.filter((_k, w) => isolated[w]);
+  if (isolatedWaves.length > 0) {
+    warnings.unshift({
+      code: 'wave-shares-no-level',
+      message: compared
+        ? `${isolatedWaves.length === 1 ? `wave ${isolatedWaves[0]} shares` : `waves ${isolatedWaves.slice(0, 5).join(', ')}${isolatedWaves.length > 5 ? ', …' : ''} share`} no level of ${rowName} or of ${colName} with the other waves, so ${isolatedWaves.length === 1 ? 'its' : 'their'} association can be compared with none of theirs${designed ? '' : ': left out of the tests across waves'}; check the labels, or map the levels onto each other with --recode`
+        : `fewer than two waves share levels of both ${rowName} and ${colName} with another wave, so no comparison over the waves is possible; check the labels, or map the levels onto each other with --recode`,
+    });
   }
   const untestable = waves.filter((w) => !w.testable);
   if (untestable.length > 0) {
@@ -530,7 +569,7 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
     warnings.push({ code: 'fit-not-converged', message: 'the fit of the trend model did not settle within its sweep bound; the trend and its interval are provisional' });
   }
   const span = Math.max(...setup.scores.values) - Math.min(...setup.scores.values);
-  if (trend === null && span > 0) {
+  if (trend === null && span > 0 && compared) {
     warnings.push({
       code: 'trend-not-fitted',
       message: designed
@@ -553,13 +592,15 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
     pValue: latest.verdict?.pValue ?? null,
     test: latest.change?.method ?? null,
     deltaBiasCorrectedV: latest.deltaBiasCorrectedV,
+    noSharedLevel: latest.noSharedLevel,
   });
   statements.push({
     kind: 'pattern',
     pattern: verdict.pattern,
-    waves: K,
-    first: keys[0],
-    last: keys[K - 1],
+    // The waves the tests across waves compared (those sharing levels with the others).
+    waves: compared ? kept.length : K,
+    first: keys[compared ? kept[0] : 0],
+    last: keys[compared ? kept[kept.length - 1] : K - 1],
     test: same?.test ?? null,
     pValue: same?.pValue ?? null,
     adjustedPValue: verdict.sameAssociation?.adjustedPValue ?? null,
@@ -601,6 +642,7 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
     departures,
     marginDrift: marginDriftRecord,
     partialLevels,
+    isolatedWaves,
     verdict,
     statements,
     weighted: inputs.some((w) => w.weighting.kind === 'weight'),

@@ -12,7 +12,7 @@ import { recodesByColumn, unmatchedOfEncoded } from '../io/rowRules.js';
 import { unmatchedValueWarnings } from '../analysis/report.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { BANNER_RENDERERS, BannerFormat } from '../render/renderers.js';
-import { addDesignOptions, addRawCellsOption, addReaderOptions, addSurveyOptions, analysisPlan, inputSummary, positiveInteger, probability, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerFor, readerPlan, splitList, SurveyPlan, surveyPlan } from './options.js';
+import { addDesignOptions, addRawCellsOption, addReaderOptions, addSurveyOptions, analysisPlan, inputSummary, positiveInteger, probability, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerFor, readerPlan, splitList, SurveyPlan, surveyPlan, sideInputFiles } from './options.js';
 import { checkDesign } from '../analysis/design.js';
 import { designColumns } from '../table/surveyDesign.js';
 import { CliIo, emit, emitBytes, noteWriter, outputGuard, pageWidth, painter } from './output.js';
@@ -186,7 +186,7 @@ export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
   if (plan.format === 'xlsx' && plan.output === undefined && io.stdout.isTTY === true) throw usageError('--format xlsx writes a binary file: give --output week.xlsx (or redirect standard output to a file)');
   const source = inputSource(plan.input, io.stdin);
   const guard = outputGuard(io, { output: plan.output });
-  guard.checkInputs([plan.input]);
+  guard.checkInputs([plan.input, ...sideInputFiles(plan.survey)]);
   const reader = readerFor(plan.reader, io, guard);
   checkReadable(source);
   const survey = plan.survey;

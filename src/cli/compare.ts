@@ -1,12 +1,12 @@
 /** `tabsight compare`: its options, parsed once into a ComparePlan, and runCompare, which counts two periods and compares them. */
 import { Command } from 'commander';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
-import { compareReport, PeriodInput } from '../analysis/compare.js';
+import { compareReport, PeriodInput, undecidedComparison } from '../analysis/compare.js';
 import { columnRules } from '../io/countTable.js';
 import { levelOrder } from '../table/levelRules.js';
 import { usageError } from '../errors.js';
 import { CountedInput, countTable, TableRequest } from '../io/counting.js';
-import { checkReadable, InputSource, inputSource } from '../io/source.js';
+import { checkReadable, InputSource, inputSource, refuseStdinTwice } from '../io/source.js';
 import { COMPARE_RENDERERS, CompareFormat } from '../render/renderers.js';
 import { residualHeatMap, stackSvg } from '../render/svg.js';
 import {
@@ -27,6 +27,7 @@ import {
   readerFor,
   tablePlan,
   refuseBinsPerFile,
+  sideInputFiles,
 } from './options.js';
 import type { CellView } from '../render/pairText.js';
 import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
@@ -96,7 +97,8 @@ Examples:
   tabsight compare 2023.csv 2025.csv --rows smoker --cols region --weight wt --strata stratum --cluster psu
 
 Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,
-3 the association did not change at --alpha (only with --exit-status).`,
+3 the association did not change at --alpha (only with --exit-status; when
+the periods share no level or the change cannot be tested: 1, saying why).`,
   );
   command.action((beforeFile: string, afterFile: string | undefined, raw: RawCompareOptions) => accept(comparePlan(beforeFile, afterFile, raw)));
   return command;
@@ -144,12 +146,13 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
   let after: PeriodInput;
   let unmatched: UnmatchedValue[];
   const guard = outputGuard(io, plan.report);
-  guard.checkInputs([...(plan.periods.kind === 'column' ? [plan.periods.input] : [plan.periods.before, plan.periods.after]), ...(plan.table.codebook ? [plan.table.codebook.file] : [])]);
+  guard.checkInputs([...(plan.periods.kind === 'column' ? [plan.periods.input] : [plan.periods.before, plan.periods.after]), ...sideInputFiles(plan.table)]);
   if (plan.periods.kind === 'column') {
     const source = inputSource(plan.periods.input, io.stdin);
     checkReadable(source);
     [before, after, unmatched] = await periodsOfColumn(source, plan, plan.periods.column, plan.periods.levels, io, guard);
   } else {
+    refuseStdinTwice([plan.periods.before, plan.periods.after]);
     const sources = [inputSource(plan.periods.before, io.stdin), inputSource(plan.periods.after, io.stdin)];
     const counted: CountedInput[] = [];
     for (const source of sources) counted.push(await countTable(source, readerFor(plan.reader, io, guard), plan.table));
@@ -172,5 +175,5 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
     await writeSideFile(io, plan.report.plot, stackSvg(pictures));
   }
   await emit(io, text, plan.report.output);
-  return { found: report.verdict?.changed === true, exitStatusWanted: plan.report.exitStatus };
+  return { found: report.verdict?.changed === true, exitStatusWanted: plan.report.exitStatus, undecided: undecidedComparison(report) };
 }

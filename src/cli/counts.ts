@@ -5,10 +5,10 @@ import { countTable, TableRequest } from '../io/counting.js';
 import { resolveColumn } from '../io/columns.js';
 import { readRecords } from '../io/readRecords.js';
 import { parseExactCount, unmatchedValueWords } from '../io/rowRules.js';
-import { checkReadable, inputSource } from '../io/source.js';
+import { checkReadable, inputSource, refuseStdinTwice } from '../io/source.js';
 import { compareNatural } from '../table/naturalOrder.js';
 import { delimitedField, looksLikeFormula } from '../escape/spreadsheet.js';
-import { addReaderOptions, addSurveyOptions, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerPlan, surveyPlan, readerFor } from './options.js';
+import { addReaderOptions, addSurveyOptions, RawReaderOptions, RawSurveyOptions, ReaderPlan, readerPlan, surveyPlan, readerFor, sideInputFiles } from './options.js';
 import { CliIo, emit, noteWriter, outputGuard } from './output.js';
 import { DONE, Outcome } from './outcome.js';
 
@@ -93,7 +93,7 @@ Examples:
 export async function runCount(plan: CountPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
   const guard = outputGuard(io, { output: plan.output });
-  guard.checkInputs([plan.input]);
+  guard.checkInputs([plan.input, ...sideInputFiles(plan.table)]);
   checkReadable(source);
   const counted = await countTable(source, readerFor(plan.reader, io, guard), plan.table);
   // A count file has no place for notes: a filter or recode value no row holds is said on standard error.
@@ -127,6 +127,7 @@ export function mergeCommand(accept: (plan: MergePlan) => void): Command {
 /** Adds the counts of files with the same columns, line by line of the same key. */
 export async function runMerge(plan: MergePlan, io: CliIo): Promise<Outcome> {
   const files = plan.files;
+  refuseStdinTwice(files);
   let header: string[] | null = null;
   const totals = new Map<string, [string[], bigint]>();
   outputGuard(io, { output: plan.output }).checkInputs(files);

@@ -95,6 +95,15 @@ export function positiveInteger(value: string, option: string, min = 1): number 
   return n;
 }
 
+/** Threads a run may be asked for: each is a worker with its own memory, so the number is bounded (README, Limits). */
+export const MAX_THREADS = 32;
+
+function threadCount(value: string): number {
+  const n = positiveInteger(value, '--threads', 1);
+  if (n > MAX_THREADS) throw usageError(`--threads "${value}": at most ${MAX_THREADS} (each thread is a worker with its own memory; auto takes every core up to 8)`);
+  return n;
+}
+
 export function probability(value: string, option: string): number {
   const x = Number(value);
   if (value.trim() === '' || !(x > 0 && x < 1)) throw usageError(`${option} "${value}": expected a number between 0 and 1 (exclusive)`);
@@ -142,7 +151,7 @@ export function readerPlan(raw: RawReaderOptions): ReaderPlan {
     header: raw.header !== false,
     maxLevels: positiveInteger(raw.maxLevels, '--max-levels', 2),
     engine: raw.engine ?? 'builtin',
-    threads: raw.threads === undefined || raw.threads === 'auto' ? 'auto' : positiveInteger(raw.threads, '--threads', 1),
+    threads: raw.threads === undefined || raw.threads === 'auto' ? 'auto' : threadCount(raw.threads),
   };
 }
 
@@ -276,8 +285,10 @@ export function addDesignOptions(command: Command): Command {
 }
 
 /** Numbers of a --replicate-scales value: a comma list, or a file holding them (commas, spaces or line breaks between). */
+const isScaleList = (value: string) => /^[\s\d.eE+,-]+$/.test(value);
+
 function replicateScales(value: string): number[] {
-  const isList = /^[\s\d.eE+,-]+$/.test(value);
+  const isList = isScaleList(value);
   let text = value;
   let source = '--replicate-scales';
   if (!isList) {
@@ -297,6 +308,15 @@ function replicateScales(value: string): number[] {
     }
     return x;
   });
+}
+
+/**
+ * The files a run reads besides its data (--codebook, a --replicate-scales
+ * file): inputs too, which no --output or --plot may overwrite.
+ */
+export function sideInputFiles(survey: { codebook?: Codebook | null; design?: SurveyDesign }): string[] {
+  const design = survey.design;
+  return [...(survey.codebook ? [survey.codebook.file] : []), ...(design?.kind === 'replicate' && design.scalesFile ? [design.scalesFile] : [])];
 }
 
 /** The survey design of the options, checked for clashes (usage errors, exit status 2). */
@@ -332,7 +352,8 @@ export function designPlan(raw: RawSurveyOptions): SurveyDesign | undefined {
     if (spec === '') throw usageError('--replicate-weights: give a pattern or a list of columns');
     const columns: ReplicateColumns = /[*?]/.test(spec) ? { kind: 'pattern', pattern: spec } : { kind: 'list', columns: splitList(spec) ?? [] };
     if (columns.kind === 'list' && new Set(columns.columns).size !== columns.columns.length) throw usageError(`--replicate-weights "${spec}" names a column twice`);
-    return { kind: 'replicate', replicateColumns: columns, method, rho, scales: raw.replicateScales !== undefined ? replicateScales(raw.replicateScales) : null, centre: raw.replicateCentre ?? 'replicate-mean' };
+    const scalesFile = raw.replicateScales !== undefined && !isScaleList(raw.replicateScales) ? raw.replicateScales : null;
+    return { kind: 'replicate', replicateColumns: columns, method, rho, scales: raw.replicateScales !== undefined ? replicateScales(raw.replicateScales) : null, scalesFile, centre: raw.replicateCentre ?? 'replicate-mean' };
   }
   if (replicateOnly.length > 0) throw usageError(`${replicateOnly.map(([o]) => o).join(' and ')} ${replicateOnly.length === 1 ? 'needs' : 'need'} --replicate-weights`);
   if (taylor.length === 0) {

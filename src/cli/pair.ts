@@ -7,7 +7,7 @@ import { countTable, TableRequest } from '../io/counting.js';
 import { checkReadable, inputSource } from '../io/source.js';
 import { PAIR_RENDERERS, PairFormat } from '../render/renderers.js';
 import { mosaicPlot, residualHeatMap, stackSvg } from '../render/svg.js';
-import { addAnalysisOptions, addDesignOptions, addReaderOptions, addRawCellsOption, addReportOptions, addSummedWeightsOption, addSurveyOptions, addTableOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan, readerFor } from './options.js';
+import { addAnalysisOptions, addDesignOptions, addReaderOptions, addRawCellsOption, addReportOptions, addSummedWeightsOption, addSurveyOptions, addTableOptions, inputSummary, RawReportOptions, RawTableOptions, ReaderPlan, ReportPlan, reportPlan, tablePlan, readerFor, sideInputFiles } from './options.js';
 import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { CellView } from '../render/pairText.js';
 import type { Outcome } from './outcome.js';
@@ -105,7 +105,7 @@ export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
   if (plan.multiple) return runBanner(plan.multiple, io);
   const source = inputSource(plan.input, io.stdin);
   const guard = outputGuard(io, plan.report);
-  guard.checkInputs([plan.input, ...(plan.table.codebook ? [plan.table.codebook.file] : [])]);
+  guard.checkInputs([plan.input, ...sideInputFiles(plan.table)]);
   checkReadable(source);
   const counted = await countTable(source, readerFor(plan.reader, io, guard), plan.table);
   const sides = codebookSides(plan.table, counted.table);

@@ -9,7 +9,7 @@ import { checkReadable, inputSource } from '../io/source.js';
 import { SCAN_RENDERERS, ScanFormat } from '../render/renderers.js';
 import type { Adjustment } from '../stats/multipleTesting.js';
 import { checkDesign } from '../analysis/design.js';
-import { addAnalysisOptions, addDesignOptions, addReaderOptions, addRawCellsOption, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary, readerFor } from './options.js';
+import { addAnalysisOptions, addDesignOptions, addReaderOptions, addRawCellsOption, addReportOptions, addSurveyOptions, analysisPlan, positiveInteger, probability, RawAnalysisOptions, RawReaderOptions, RawReportOptions, RawSurveyOptions, ReaderPlan, readerPlan, ReportPlan, reportPlan, splitList, SurveyPlan, surveyPlan, inputSummary, readerFor, sideInputFiles } from './options.js';
 import { recodesByColumn, unmatchedOfEncoded } from '../io/rowRules.js';
 import { unmatchedValueWarnings } from '../analysis/report.js';
 import { columnRules, TableRequest } from '../io/countTable.js';
@@ -125,7 +125,7 @@ Examples:
   tabsight scan survey.csv --exclude respondent_id --bins 5 --top 20
   tabsight scan survey.csv --format csv > weekly-pairs.csv
 
-Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no pair passes at --alpha (only with --exit-status).`,
+Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no pair passes at --alpha (only with --exit-status; when no pair could be\ntested: 1, saying why).`,
   );
   command.action((file: string | undefined, raw: RawScanOptions) => accept(scanPlan(file, raw)));
   return command;
@@ -135,7 +135,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no p
 export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
   const source = inputSource(plan.input, io.stdin);
   const guard = outputGuard(io, plan.report);
-  guard.checkInputs([plan.input, ...(plan.survey.codebook ? [plan.survey.codebook.file] : [])]);
+  guard.checkInputs([plan.input, ...sideInputFiles(plan.survey)]);
   const reader = readerFor(plan.reader, io, guard);
   const survey = plan.survey;
   const recodes = recodesByColumn(survey.recodes);
@@ -207,5 +207,7 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
   const text = SCAN_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: 'compact', rawCells: plan.report.rawCells });
   if (plan.report.plot !== undefined) await writeSideFile(io, plan.report.plot, stackSvg([strengthChart(report)]));
   await emit(io, text, plan.report.output);
-  return { found: report.pairsPassing > 0, exitStatusWanted: plan.report.exitStatus };
+  // No pair tested (each untestable, or a recoding of the other): nothing was found, and nothing ruled out either.
+  const undecided = report.pairsTested === 0 ? `no pair could be tested (${[report.untestable.length > 0 ? `${report.untestable.length} untestable` : '', report.derived.length > 0 ? `${report.derived.length} a recoding of the other` : ''].filter((w) => w !== '').join(', ') || 'none scored'}), so none was found or ruled out` : null;
+  return { found: report.pairsPassing > 0, exitStatusWanted: plan.report.exitStatus, undecided };
 }

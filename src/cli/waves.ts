@@ -1,7 +1,7 @@
 /** `tabsight waves`: its options, parsed once into a WavesPlan, and runWaves, which counts every wave and reports the series. */
 import { Command, Option } from 'commander';
 import type { AnalysisOptions } from '../analysis/analyzeTable.js';
-import { analyzeWaves, WaveInput, WaveSetup } from '../analysis/waves.js';
+import { analyzeWaves, undecidedWaves, WaveInput, WaveSetup } from '../analysis/waves.js';
 import { dataError, usageError } from '../errors.js';
 import { CountedInput, countFiles, countTable, TableRequest } from '../io/counting.js';
 import { isPattern } from '../io/engine/files.js';
@@ -30,6 +30,7 @@ import {
   splitList,
   tablePlan,
   refuseBinsPerFile,
+  sideInputFiles,
 } from './options.js';
 import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { OutputGuard } from '../output/guard.js';
@@ -112,7 +113,8 @@ Files are sorted by the date (2026-01-05, 20260105), ISO week (2026-W05),
 month (2026-01) or, failing those, the last number in their names.
 
 Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,
-3 the association did not move over the waves at --alpha (only with --exit-status).`,
+3 the association did not move over the waves at --alpha (only with
+--exit-status; when no test across the waves can be made: 1, saying why).`,
   );
   command.action((inputs: string[], raw: RawWavesOptions) => accept(wavesPlan(inputs, raw)));
   return command;
@@ -190,7 +192,7 @@ async function wavesOfColumn(plan: WavesPlan, input: string, column: string, lis
 /** Counts every wave, analyses the series, writes the report; found = the association moved over the waves at --alpha. */
 export async function runWaves(plan: WavesPlan, io: CliIo): Promise<Outcome> {
   const guard = outputGuard(io, plan.report);
-  if (plan.table.codebook) guard.checkInputs([plan.table.codebook.file]);
+  guard.checkInputs(sideInputFiles(plan.table));
   const { waves, setup, unmatched } =
     plan.waves.kind === 'column'
       ? await wavesOfColumn(plan, plan.waves.input, plan.waves.column, plan.waves.levels, io, guard)
@@ -207,5 +209,5 @@ export async function runWaves(plan: WavesPlan, io: CliIo): Promise<Outcome> {
   const text = WAVES_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: 'compact', rawCells: plan.report.rawCells });
   if (plan.report.plot !== undefined) await writeSideFile(io, plan.report.plot, stackSvg(wavesCharts(report)));
   await emit(io, text, plan.report.output);
-  return { found: report.verdict.moved, exitStatusWanted: plan.report.exitStatus };
+  return { found: report.verdict.moved, exitStatusWanted: plan.report.exitStatus, undecided: undecidedWaves(report) };
 }

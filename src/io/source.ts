@@ -39,6 +39,15 @@ export function refuseRemote(path: string): void {
   throw usageError(`${path}: a remote address (${scheme}:); tabsight reads local files and standard input only (fetch the data first, then give its local path)`);
 }
 
+/**
+ * Standard input is a stream, read once: naming it ('-' or /dev/stdin) for
+ * two inputs of one run would read the second as empty. A usage error.
+ */
+export function refuseStdinTwice(paths: readonly string[]): void {
+  const named = paths.filter((p) => p === '-' || p === '/dev/stdin' || p === '/proc/self/fd/0' || p === '/dev/fd/0');
+  if (named.length > 1) throw usageError(`standard input is named ${named.length} times (${named.join(', ')}); it is read once, so give it for one input only and the others as files`);
+}
+
 export function describeOpenError(source: InputSource, error: NodeJS.ErrnoException): Error {
   switch (error.code) {
     case 'ENOENT':

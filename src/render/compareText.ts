@@ -1,6 +1,6 @@
 /** The compare report as text for people. */
 import type { ChalkInstance } from 'chalk';
-import type { CompareReport, PeriodRecord } from '../analysis/compare.js';
+import { noSharedLevelWords, type CompareReport, type PeriodRecord } from '../analysis/compare.js';
 import { formatCount, formatMeasure, formatP, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { renderGrid } from './grid.js';
 import { glued, wrapText } from './layout.js';
@@ -27,9 +27,9 @@ export function compareWeightingWords(report: CompareReport): string | null {
 }
 
 /** The decision of a comparison in words: did the association change, and did either margin shift? */
-export function compareHeadline(report: CompareReport): string {
+export function compareHeadline(report: Pick<CompareReport, 'verdict' | 'noSharedLevel' | 'before' | 'after'>): string {
   const v = report.verdict;
-  if (!v) return 'Whether the association changed cannot be tested for these tables';
+  if (!v) return report.noSharedLevel.length > 0 ? `No comparison is possible: ${noSharedLevelWords(report.before.label, report.after.label, report.noSharedLevel).replace(/, so no comparison of the periods is possible$/, '')}` : 'Whether the association changed cannot be tested for these tables';
   return v.changed
     ? `The association changed between the periods (${evidenceWords(v.evidence)}): ${comparison(v.pValue, v.alpha, true)}, ${changeTestName(v.test)}`
     : `No evidence that the association changed: ${comparison(v.pValue, v.alpha, false)}, ${changeTestName(v.test)}`;

@@ -91,6 +91,7 @@ export function patternHeadline(report: WavesReport): string {
     case 'stable':
       return `No evidence that the association moved over the ${K} waves${rest}`;
     case 'untestable':
+      if (report.isolatedWaves.length > 0) return `No comparison over the ${K} waves is possible: fewer than two waves share levels with another on both sides`;
       return `Whether the association moved over the ${K} waves cannot be tested for these tables`;
   }
 }
@@ -101,6 +102,7 @@ export function latestHeadline(report: WavesReport): string {
   const K = report.waves.length;
   const from = report.waves[K - 2].key;
   const to = report.waves[K - 1].key;
+  if (!v && report.latest.noSharedLevel.length > 0) return `No comparison is possible from ${from} to ${to}: the two waves share no level of ${report.latest.noSharedLevel.join(' or of ')}`;
   if (!v) return `Whether the association changed from ${from} to ${to} cannot be tested for these tables`;
   return v.changed
     ? `The association changed from ${from} to ${to} (${evidenceWords(v.evidence)}): ${comparison(v.pValue, v.alpha, true)}, ${changeTestName(v.test)}`
@@ -137,6 +139,7 @@ export function wavesStatementWords(report: WavesReport, s: WavesStatement): str
   switch (s.kind) {
     case 'latest': {
       const delta = s.deltaBiasCorrectedV === null ? '' : `; bias-corrected V ${glued(formatSigned(s.deltaBiasCorrectedV))}`;
+      if ((s.noSharedLevel ?? []).length > 0) return `From ${s.from} to ${s.to}: no comparison is possible, the two waves share no level of ${s.noSharedLevel.join(' or of ')}.`;
       if (s.changed === null || s.pValue === null || s.test === null) return `From ${s.from} to ${s.to}: whether the association changed cannot be tested${delta}.`;
       return `From ${s.from} to ${s.to}: ${s.changed ? 'the association changed' : 'no evidence that the association changed'} (${comparison(s.pValue, alpha, s.changed)}, ${changeTestName(s.test)})${delta}.`;
     }

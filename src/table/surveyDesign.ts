@@ -30,6 +30,8 @@ export type SurveyDesign =
       rho: number | null;
       /** jkn's per-replicate scale factors, in the order of the replicate columns. */
       scales: number[] | null;
+      /** The file the scale factors were read from (an input no output may overwrite), or null for a list. */
+      scalesFile?: string | null;
       centre: 'replicate-mean' | 'full-sample';
     };
 
