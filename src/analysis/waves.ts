@@ -219,7 +219,7 @@ const MAX_NAMED_DEPARTURES = 3;
 /** What --exit-status cannot answer from the waves: no test across them could be computed (why, in words); null when the verdict decides. */
 export function undecidedWaves(report: Pick<WavesReport, 'verdict' | 'isolatedWaves' | 'waves'>): string | null {
   if (report.verdict.pattern !== 'untestable') return null;
-  if (report.isolatedWaves.length > 0) return `fewer than two of the ${report.waves.length} waves share levels of both sides with another wave, so no comparison over the waves is possible`;
+  if (report.waves.length - report.isolatedWaves.length < 2) return `fewer than two of the ${report.waves.length} waves share levels of both sides with another wave, so no comparison over the waves is possible`;
   return `whether the association moved over the ${report.waves.length} waves cannot be tested for these tables`;
 }
 

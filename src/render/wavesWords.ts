@@ -91,7 +91,7 @@ export function patternHeadline(report: WavesReport): string {
     case 'stable':
       return `No evidence that the association moved over the ${K} waves${rest}`;
     case 'untestable':
-      if (report.isolatedWaves.length > 0) return `No comparison over the ${K} waves is possible: fewer than two waves share levels with another on both sides`;
+      if (report.waves.length - report.isolatedWaves.length < 2) return `No comparison over the ${K} waves is possible: fewer than two waves share levels with another on both sides`;
       return `Whether the association moved over the ${K} waves cannot be tested for these tables`;
   }
 }
