@@ -25,7 +25,12 @@ It writes two files:
                   weighted means and SDs sqrt(sum w(x-m)^2/sum w * ne/(ne-1)) and ne as n
     multiple      Bilder, Loughin & Nettleton (2000) multiple marginal independence:
                   numpy evaluation of Appendix A (Sigma = H B H', eigenvalues of D^-1 Sigma),
-                  first- and second-order Rao-Scott-type referrals with scipy.stats.chi2.sf
+                  first- and second-order Rao-Scott-type referrals with scipy.stats.chi2.sf;
+                  unweighted, and with the pupil weight by the rule tabsight states (each
+                  respondent counts w x n_eff / sum w, Kish's effective size of the break's
+                  respondents; shares and answer covariances weighted, numpy.average and
+                  numpy.cov(aweights=...)): an independent evaluation of that rule, which is
+                  common practice (as pair rescales a weighted table), not a published test
     bases         unweighted, weighted and effective bases per column (numpy)
 """
 import io
@@ -123,22 +128,27 @@ def welch(brk, weight=None):
     return {"break": brk, "weight": weight, "groups": groups, "pairs": pairs}
 
 
-def mmi(brk):
+def mmi(brk, weight=None):
     """Appendix A of Bilder, Loughin & Nettleton (2000): the covariance of the group shares is
     H B H' with B the block diagonal of each group's answer covariance over its share of n;
-    the referrals use the sum and the sum of squares of the eigenvalues of D^-1 Sigma."""
+    the referrals use the sum and the sum of squares of the eigenvalues of D^-1 Sigma.
+    With a weight, each respondent counts w * n_eff / sum(w) (n the Kish effective size)."""
     levels = natural(frame[brk].unique())
     answers = np.column_stack([(frame[i] == "Yes").to_numpy(float) for i in ITEMS])
-    n, c = answers.shape
+    c = answers.shape[1]
+    w = np.ones(len(frame)) if weight is None else frame[weight].to_numpy(float)
+    if weight is not None:
+        w = w * kish(w) / w.sum()
+    n = w.sum()
     r = len(levels)
     members = [(frame[brk] == g).to_numpy() for g in levels]
-    share = np.array([m.sum() / n for m in members])
-    within = [answers[m].mean(axis=0) for m in members]
-    overall = answers.mean(axis=0)
+    share = np.array([w[m].sum() / n for m in members])
+    within = [np.average(answers[m], axis=0, weights=w[m]) for m in members]
+    overall = np.average(answers, axis=0, weights=w)
     statistic = 0.0
     for g in range(r):
         statistic += float(n * share[g] * (((within[g] - overall) ** 2) / (overall * (1 - overall))).sum())
-    blocks = [np.cov(answers[m].T, bias=True) / share[g] for g, m in enumerate(members)]
+    blocks = [np.cov(answers[m].T, aweights=w[m], bias=True) / share[g] for g, m in enumerate(members)]
     B = scipy.linalg.block_diag(*blocks)
     centring = np.eye(r) - np.outer(np.ones(r), share)
     H = np.kron(centring, np.eye(c))
@@ -148,7 +158,7 @@ def mmi(brk):
     m = (r - 1) * c
     s1, s2 = float(eigenvalues.sum()), float((eigenvalues ** 2).sum())
     first, second = statistic * m / s1, statistic * m / s2
-    return {"break": brk, "statistic": statistic, "df": m,
+    return {"break": brk, "weight": weight, "statistic": statistic, "df": m,
             "firstOrder": {"statistic": first, "df": m, "pValue": float(stats.chi2.sf(first, m))},
             "secondOrder": {"statistic": second, "df": m * m / s2, "pValue": float(stats.chi2.sf(second, m * m / s2))}}
 
@@ -168,7 +178,7 @@ reference = {
     "columnTests": [column_tests(q, "Yes", brk, w) for q in ["sch_wide", "awards"] for brk in ["stype", "size_band"] for w in [None, "pupil_weight"]],
     "chiSquare": [chi_square(q, brk) for q in ["sch_wide", "awards"] for brk in ["stype", "size_band"]],
     "welch": [welch("stype", w) for w in [None, "pupil_weight"]],
-    "multiple": [mmi(brk) for brk in ["stype", "size_band"]],
+    "multiple": [mmi(brk, w) for brk in ["stype", "size_band"] for w in [None, "pupil_weight"]],
     "bases": {"stype": bases("stype", "pupil_weight"), "size_band": bases("size_band", "pupil_weight")},
 }
 OUT.write_text(json.dumps(reference, indent=1) + "\n")

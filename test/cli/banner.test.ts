@@ -148,8 +148,11 @@ describe("banner means: Welch's t against scipy ttest_ind_from_stats(equal_var=F
 
 describe('banner multiple-response questions: Bilder, Loughin & Nettleton (2000) against a numpy evaluation of Appendix A (recorded)', () => {
   for (const item of reference.multiple) {
-    it(`four yes/no programmes by ${item.break}: the set of columns and the ';'-separated column give the recorded X²_S and both referrals`, async () => {
-      const report = await runJson(['banner', API, '--break', item.break, '--multi', 'programmes_set:sch_wide,comp_imp,awards,yr_rnd', '--multi-split', 'programmes:;', '--questions', 'programmes']);
+    // With the pupil weight: the rule tabsight states (each respondent counts w·n_eff/Σw), evaluated by numpy's
+    // weighted average and covariance; the rule is common practice, not a published test (README, banner).
+    const weight = item.weight ? ['--weight', item.weight] : [];
+    it(`four yes/no programmes by ${item.break}${item.weight ? `, weighted by ${item.weight}` : ''}: the set of columns and the ';'-separated column give the recorded X²_S and both referrals`, async () => {
+      const report = await runJson(['banner', API, '--break', item.break, '--multi', 'programmes_set:sch_wide,comp_imp,awards,yr_rnd', '--multi-split', 'programmes:;', '--questions', 'programmes', ...weight]);
       for (const name of ['programmes_set', 'programmes']) {
         const q = question(report, name);
         expect(q.kind).toBe('multiple');
@@ -166,7 +169,7 @@ describe('banner multiple-response questions: Bilder, Loughin & Nettleton (2000)
         expect(a.multipleResponse.referral).toBe('second-order');
         expect(a.pValue).toBe(a.multipleResponse.secondOrder.pValue);
       }
-      const first = await runJson(['banner', API, '--break', item.break, '--multi-split', 'programmes:;', '--questions', 'programmes', '--multi-test', 'first-order']);
+      const first = await runJson(['banner', API, '--break', item.break, '--multi-split', 'programmes:;', '--questions', 'programmes', '--multi-test', 'first-order', ...weight]);
       expectClose(question(first, 'programmes').tests[0].association.pValue, item.firstOrder.pValue, 1e-9);
     });
   }

@@ -5,10 +5,11 @@
 // route: svyby(..., svymean, covmat = TRUE) for a column's share or mean
 // and its standard error, svycontrast for the difference of two columns
 // (p from Student's t on tabsight's design df), svychisq for the overall F.
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { expectCloseLabelled as close, readReferenceFixture, ROOT } from '../helpers.js';
-import { run, runJson } from './cliHelpers.js';
+import { run, runJson, tempFile } from './cliHelpers.js';
 
 const DATA = join(ROOT, 'fixtures', 'reference', 'survey-data');
 
@@ -196,6 +197,28 @@ describe('banner with a survey design: the overall test is the pair record', () 
       expect(weightsOnly.stdout.replace(/\s+/g, ' '), format).toMatch(/which does not account for clustering or stratification/);
       expect(weightsOnly.stdout, format).not.toMatch(/Survey design:/);
     }
+  });
+
+  it('a multiple-response answer is the domain share of a 0/1 question: the same shares, standard errors and t tests (NHANES, HI_CHOL as a one-column set)', async () => {
+    // Each answer of a set is a row variable of its own, chosen or not among the respondents in the base; a set
+    // of the one column HI_CHOL has the base of HI_CHOL and its answer is HI_CHOL = 1.
+    const lines = readFileSync(nhanes, 'utf8').trimEnd().split('\n');
+    const header = lines[0].split(',');
+    const at = header.indexOf('HI_CHOL');
+    const file = tempFile('nhanes-multi.csv', [...lines.map((l, k) => `${l},${k === 0 ? 'chol' : l.split(',')[at]}`)].join('\n') + '\n');
+    const single = await runJson(['banner', file, '--break', 'race', '--questions', 'HI_CHOL', ...design, '--format', 'json']);
+    const multiple = await runJson(['banner', file, '--break', 'race', '--questions', 'HI_CHOL', '--multi', 'set:chol', ...design, '--format', 'json']);
+    const level = single.questions[0].rows.find((r: any) => r.label === '1');
+    const answer = multiple.questions.find((q: any) => q.name === 'set').rows[0];
+    answer.cells.forEach((cell: any, j: number) => {
+      close(`share of column ${j}`, cell.columnPercent, level.cells[j].columnPercent, 1e-12);
+      close(`standard error of column ${j}`, cell.standardError, level.cells[j].standardError, 1e-10);
+    });
+    expect(answer.comparisons.length).toBe(level.comparisons.length);
+    answer.comparisons.forEach((c: any, k: number) => close(`t of comparison ${k}`, c.statistic, level.comparisons[k].statistic, 1e-10));
+    const set = multiple.questions.find((q: any) => q.name === 'set');
+    expect(set.tests[0].association).toBeNull();
+    expect(set.tests[0].reason).toMatch(/no design-based test of multiple marginal independence/);
   });
 
   it('a stratum with a single PSU stops the banner with the one-line message (exit 1), as pair does', async () => {
