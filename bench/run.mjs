@@ -146,7 +146,8 @@ async function benchBanner() {
  * 1,000,000 rows of 50 strata x 2 PSUs: the design registers every row's PSU
  * and counts per-PSU totals beside each table (pair), and beside every
  * pair's table in the same pass (scan, 30 columns, 435 pairs); waves with
- * the levels of one column as independent waves.
+ * the levels of one column as independent waves; banner of 25 questions by
+ * 5 break variables.
  */
 async function benchDesign() {
   const file = await designFile();
@@ -165,6 +166,12 @@ survey design: 1,000,000 rows in 50 strata x 2 PSUs (${(statSync(file).size / 1e
   const wavesDesign = (...extra) => tabsight('waves', file, '--period', 'q08', '--rows', 'q02', '--cols', 'q05', '--format', 'json', '--engine', 'builtin', ...extra);
   const wv = versus(wavesDesign(...design), wavesDesign('--weight', 'weight'));
   report(`${'waves, 9 waves of q02 x q05 (--period q08)'.padEnd(50)} ${s(wv.mine).padStart(8)} ${s(wv.reference).padStart(8)} ${wv.ratio.toFixed(3).padStart(7)}   (none)`);
+  // banner: 25 questions (q06-q30) by 5 break variables (q01-q05) in one read; with the design each question
+  // also counts its totals per PSU against every break, and every column share gets its design-based t tests (no goal set)
+  const questions = Array.from({ length: 25 }, (_v, k) => `q${String(k + 6).padStart(2, '0')}`).join(',');
+  const bannerDesign = (...extra) => tabsight('banner', file, '--break', 'q01,q02,q03,q04,q05', '--questions', questions, '--output', join(DATA, 'banner-design-out.txt'), ...extra);
+  const bn = versus(bannerDesign(...design), bannerDesign('--weight', 'weight'));
+  report(`${'banner, 25 questions x 5 break variables'.padEnd(50)} ${s(bn.mine).padStart(8)} ${s(bn.reference).padStart(8)} ${bn.ratio.toFixed(3).padStart(7)}   (none)`);
 }
 
 if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'design') {
