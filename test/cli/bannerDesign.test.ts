@@ -7,6 +7,7 @@
 // (p from Student's t on tabsight's design df), svychisq for the overall F.
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import ExcelJS from 'exceljs';
 import { describe, expect, it } from 'vitest';
 import { expectCloseLabelled as close, readReferenceFixture, ROOT } from '../helpers.js';
 import { run, runJson, tempFile } from './cliHelpers.js';
@@ -219,6 +220,37 @@ describe('banner with a survey design: the overall test is the pair record', () 
     const set = multiple.questions.find((q: any) => q.name === 'set');
     expect(set.tests[0].association).toBeNull();
     expect(set.tests[0].reason).toMatch(/no design-based test of multiple marginal independence/);
+  });
+
+  it('the spreadsheet: the standard errors (--cells col,se), the base lines with the design effect, the mean\'s standard error, and the design on the Notes sheet, as the JSON gives them', async () => {
+    const apistrat = join(DATA, 'apistrat-banner.csv');
+    const args = ['banner', apistrat, '--break', 'awards', '--questions', 'meals3', '--means', 'api00', '--weight', 'pw', '--strata', 'stype', '--fpc', 'fpc', '--cells', 'col,se'];
+    const file = tempFile('design.xlsx', '');
+    expect((await run([...args, '--output', file])).status).toBe(0);
+    const report = await runJson([...args, '--format', 'json']);
+    const workbook = new ExcelJS.Workbook();
+    await workbook.xlsx.readFile(file);
+    const sheet = workbook.getWorksheet('Banner')!;
+    const rowOf = (label: string, after = 1) => {
+      for (let k = after; k <= sheet.rowCount; k++) if (sheet.getRow(k).getCell(1).value === label) return sheet.getRow(k);
+      throw new Error(`no row "${label}"`);
+    };
+    const meals = report.questions.find((q: any) => q.name === 'meals3');
+    const low = rowOf('low');
+    const lowSe = sheet.getRow(Number(low.number) + 1);
+    meals.rows.find((r: any) => r.label === 'low').cells.forEach((cell: any, j: number) => {
+      expect(lowSe.getCell(2 + 2 * j).value).toBe(cell.standardError / 100);
+      expect(lowSe.getCell(2 + 2 * j).numFmt).toBe('0.0%');
+    });
+    const effect = rowOf('design effect');
+    meals.bases.forEach((b: any, j: number) => expect(effect.getCell(2 + 2 * j).value).toBe(b.designEffect));
+    const api = report.questions.find((q: any) => q.name === 'api00');
+    const se = rowOf('standard error of the mean');
+    api.means.forEach((m: any, j: number) => expect(se.getCell(2 + 2 * j).value).toBe(m.standardError));
+    const notes = workbook.getWorksheet('Notes')!;
+    const design = notes.getRows(1, notes.rowCount)!.find((r) => r.getCell(1).value === 'design')!;
+    expect(design.getCell(2).value).toBe(report.designNote);
+    expect(report.designNote).toMatch(/^Survey design: 3 strata, 200 PSUs, 197 degrees of freedom/);
   });
 
   it('a stratum with a single PSU stops the banner with the one-line message (exit 1), as pair does', async () => {
