@@ -1,22 +1,78 @@
 #!/usr/bin/env node
-import { statSync } from 'node:fs';
+'use strict';
+// The command. A CommonJS script (bin/package.json), so that Node.js starts
+// it without its ES module loader: it loads the bundled program
+// (dist/bundle/*.cjs, scripts/bundle.mjs) with the code cache written beside
+// it at build time, or, when the build made no bundle from the current
+// modules, the modules in dist/ as tsc wrote them (also after a tsc run that
+// left an older bundle behind, which must not run). Node.js 20 has no
+// compile cache of its own (module.enableCompileCache came with 22): the
+// bundle's parts are compiled here through vm.Script with their cached code
+// (V8 checks that it fits this Node.js and these exact sources, and compiles
+// afresh when it does not), which was most of the start-up of a run on a
+// small file (README, Speed).
+const { readFileSync, statSync } = require('node:fs');
+const { join } = require('node:path');
 
-// The bundled program when the build made one from the current modules
-// (scripts/bundle.mjs: one file starts faster), else the modules in dist/ as
-// tsc wrote them (also after a tsc run that left an older bundle behind).
-const bundled = new URL('../dist/bundle/tabsight.js', import.meta.url);
-const modules = new URL('../dist/cli/main.js', import.meta.url);
-const bundleTime = statSync(bundled, { throwIfNoEntry: false })?.mtimeMs ?? -1;
-const { main } = await import(bundleTime >= (statSync(modules, { throwIfNoEntry: false })?.mtimeMs ?? 0) ? bundled.href : modules.href);
+const dist = join(__dirname, '..', 'dist');
+const bundle = join(dist, 'bundle');
 
-main(process.argv).then(
-  (status) => {
-    process.exitCode = status;
-  },
-  (error) => {
-    // Not a user-facing failure: a bug. Say so in one line, keep the detail for reports.
-    process.stderr.write(`tabsight: internal error: ${error && error.message ? error.message : String(error)} (please report it; set TABSIGHT_DEBUG=1 for details)\n`);
-    if (process.env.TABSIGHT_DEBUG) process.stderr.write(String(error && error.stack) + '\n');
-    process.exitCode = 70;
-  },
-);
+/** Loads the bundle's entry; `scripts` collects each part's compiled script (scripts/code-cache.cjs writes their cache). */
+function loadBundle(scripts) {
+  const vm = require('node:vm');
+  const { createRequire, wrap } = require('node:module');
+  const cacheDir = join(bundle, 'cache');
+  const outside = createRequire(join(bundle, 'tabsight.cjs'));
+  const loaded = new Map();
+  const load = (name) => {
+    const known = loaded.get(name);
+    if (known) return known.exports;
+    const file = join(bundle, name);
+    const module = { exports: {}, id: file, filename: file, loaded: false };
+    loaded.set(name, module);
+    let cachedData;
+    try {
+      cachedData = readFileSync(join(cacheDir, `${name}.cache`));
+    } catch {
+      // no cache for this part: compiled afresh
+    }
+    const script = new vm.Script(wrap(readFileSync(file, 'utf8')), { filename: file, cachedData, importModuleDynamically: vm.constants.USE_MAIN_CONTEXT_DEFAULT_LOADER });
+    if (scripts) scripts.set(name, script);
+    const required = (specifier) => (specifier.startsWith('./') ? load(specifier.slice(2)) : outside(specifier));
+    required.resolve = outside.resolve;
+    required.main = require.main;
+    required.cache = require.cache;
+    module.require = required;
+    script.runInThisContext()(module.exports, required, module, file, bundle);
+    module.loaded = true;
+    return module.exports;
+  };
+  return load('tabsight.cjs');
+}
+
+/** The program: the bundle when it was built from the current modules, else dist/ as tsc wrote it. */
+async function program() {
+  const time = (path) => statSync(path, { throwIfNoEntry: false })?.mtimeMs;
+  const bundled = time(join(bundle, 'tabsight.cjs'));
+  if (bundled !== undefined && bundled >= (time(join(dist, 'cli', 'main.js')) ?? 0)) return loadBundle(null);
+  const { pathToFileURL } = require('node:url');
+  return import(pathToFileURL(join(dist, 'cli', 'main.js')).href);
+}
+
+if (require.main === module) {
+  program()
+    .then(({ main }) => main(process.argv))
+    .then(
+      (status) => {
+        process.exitCode = status;
+      },
+      (error) => {
+        // Not a user-facing failure: a bug. Say so in one line, keep the detail for reports.
+        process.stderr.write(`tabsight: internal error: ${error && error.message ? error.message : String(error)} (please report it; set TABSIGHT_DEBUG=1 for details)\n`);
+        if (process.env.TABSIGHT_DEBUG) process.stderr.write(String(error && error.stack) + '\n');
+        process.exitCode = 70;
+      },
+    );
+}
+
+module.exports = { loadBundle };

@@ -23,7 +23,10 @@ function readPackageJson(): PackageJson {
   throw new Error('the package.json of tabsight was not found beside the program');
 }
 
-const packageJson = readPackageJson();
+/** The package.json's fields, written into the bundle at build (scripts/bundle.mjs), so that a run need not read and parse the file. */
+declare const TABSIGHT_PACKAGE_JSON: string | undefined;
+
+const packageJson: PackageJson = typeof TABSIGHT_PACKAGE_JSON === 'string' ? (JSON.parse(TABSIGHT_PACKAGE_JSON) as PackageJson) : readPackageJson();
 
 export const TOOL_VERSION: string = packageJson.version;
 

@@ -19,7 +19,6 @@
  */
 import { promises as fs } from 'node:fs';
 import { availableParallelism } from 'node:os';
-import { Worker } from 'node:worker_threads';
 import { DEFAULT_DISTINCT_LIMIT, HeaderEnd, ReaderOptions, ReadSummary, readRecords, ColumnSelector } from './readRecords.js';
 import { FieldInterner } from './fieldInterner.js';
 import type { RangeJob, RangeTally } from './rangeCount.js';
@@ -196,11 +195,15 @@ async function startsWithUtf8Mark(path: string): Promise<boolean> {
 /** The worker script beside this module (from the sources under test, the built one). */
 export function workerUrl(): URL {
   const here = import.meta.url;
-  return here.endsWith('.ts') ? new URL('../../dist/io/rangeWorker.js', here) : new URL('./rangeWorker.js', here);
+  if (here.endsWith('.ts')) return new URL('../../dist/io/rangeWorker.js', here);
+  // The bundle's worker has the bundle's extension (.js, or .cjs: scripts/bundle.mjs).
+  return new URL(here.endsWith('.cjs') ? './rangeWorker.cjs' : './rangeWorker.js', here);
 }
 
 /** Counts a range in a worker thread. */
-function inWorker(job: RangeJob): Promise<RangeTally> {
+async function inWorker(job: RangeJob): Promise<RangeTally> {
+  // Loaded only when a file is counted in ranges.
+  const { Worker } = await import('node:worker_threads');
   return new Promise((resolve, reject) => {
     const worker = new Worker(workerUrl(), { workerData: job });
     worker.once('message', (tally: RangeTally) => resolve(tally));

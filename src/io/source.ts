@@ -3,8 +3,6 @@
  * its decoding to UTF-8, with one-line errors naming the byte and line.
  */
 import { createReadStream, existsSync, promises as fs, Stats } from 'node:fs';
-import { createGunzip } from 'node:zlib';
-import { pipeline, Readable } from 'node:stream';
 import { isUtf8 } from 'node:buffer';
 import { TextDecoder } from 'node:util';
 import { dataError, usageError } from '../errors.js';
@@ -194,6 +192,8 @@ async function* inflatedWhenCompressed(iterator: AsyncIterator<Buffer>): AsyncGe
     for await (const chunk of all()) yield Buffer.from(chunk);
   }
   const source = copies();
+  // Loaded only for gzip: a plain file does not pay for the modules' start-up.
+  const [{ createGunzip }, { pipeline, Readable }] = await Promise.all([import('node:zlib'), import('node:stream')]);
   const inflated = pipeline(Readable.from(source), createGunzip({ chunkSize: 1 << 20 }), () => undefined);
   try {
     for await (const chunk of inflated) yield chunk as Buffer;

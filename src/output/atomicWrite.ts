@@ -15,7 +15,6 @@
  *   and SIGHUP (temporaries.ts);
  * - every failure is one line naming the option and the file.
  */
-import { randomBytes } from 'node:crypto';
 import { constants, promises as fs, Stats } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import { dataError } from '../errors.js';
@@ -89,7 +88,7 @@ async function writeInPlace(target: OutputTarget, path: string, bytes: Buffer, h
 
 /** The name of a temporary file beside `path`: hidden, random, and short enough for any file system. */
 function temporaryName(path: string): string {
-  return join(dirname(path), `.${basename(path).slice(0, 180)}.${randomBytes(8).toString('hex')}.tmp`);
+  return join(dirname(path), `.${basename(path).slice(0, 180)}.${Buffer.from(globalThis.crypto.getRandomValues(new Uint8Array(8))).toString('hex')}.tmp`);
 }
 
 async function writeAtomically(target: OutputTarget, path: string, existing: Stats | null, bytes: Buffer, hooks: WriteHooks): Promise<void> {

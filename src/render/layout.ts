@@ -20,12 +20,25 @@ export function glued(...words: string[]): string {
   return words.join(GLUE);
 }
 
-/** Printable ASCII only: one column per character (no escape codes, no wide or combining characters). */
-const PLAIN_ASCII = /^[\x20-\x7e]*$/;
+/**
+ * Characters of one column each that are each a grapheme of their own:
+ * printable ASCII, and the Latin, Greek, punctuation, sub- and superscript,
+ * currency, arrow, mathematical, box and block characters the reports use
+ * (no escape codes, no wide, combining, invisible or emoji characters).
+ * test/render/layout.test.ts checks every one of them against string-width
+ * and the grapheme segmenter. A text of these alone is measured by its
+ * length and wrapped without the segmenter, whose start-up (and that of the
+ * emoji pattern) was a visible part of a run on a small file.
+ */
+export const SIMPLE_CHARACTERS =
+  '\\x20-\\x7e\\u00a0-\\u00a8\\u00aa-\\u00ac\\u00af-\\u02ff\\u0370-\\u0377\\u037a-\\u037f\\u0384-\\u038a\\u038c\\u038e-\\u03a1\\u03a3-\\u03ff' +
+  '\\u2010-\\u2027\\u2030-\\u203b\\u203d-\\u2048\\u204a-\\u205e\\u2070\\u2071\\u2074-\\u208e\\u2090-\\u209c\\u20a0-\\u20c0' +
+  '\\u2190-\\u2193\\u21d0-\\u21d4\\u2200-\\u22ff\\u2308-\\u230b\\u2500-\\u259f\\u25a0-\\u25a9\\u25ac-\\u25b5\\u25b7-\\u25bf\\u25c1-\\u25f7\\u2713';
+const SIMPLE_TEXT = new RegExp(`^[${SIMPLE_CHARACTERS}]*$`);
 
 export function displayWidth(text: string): number {
-  // Most cells of a table are plain ASCII numbers: their width is their length.
-  return PLAIN_ASCII.test(text) ? text.length : stringWidth(text);
+  // Most cells of a table are plain ASCII numbers, and most words of a report simple characters: their width is their length.
+  return SIMPLE_TEXT.test(text) ? text.length : stringWidth(text);
 }
 
 export function padEnd(text: string, width: number): string {
@@ -51,10 +64,11 @@ export function cutToWidth(text: string, width: number): string {
   return out;
 }
 
-const segmenter = new Intl.Segmenter('en', { granularity: 'grapheme' });
+let segmenter: Intl.Segmenter | undefined;
 
 function graphemes(text: string): Iterable<{ segment: string }> {
-  return segmenter.segment(text);
+  // Made when first needed: its start-up is paid only by a text that needs it.
+  return (segmenter ??= new Intl.Segmenter('en', { granularity: 'grapheme' })).segment(text);
 }
 
 /**
@@ -67,8 +81,40 @@ export function wrapText(text: string, width: number, indent = '', hanging = ind
   const first = displayWidth(indent);
   const rest = displayWidth(hanging);
   const room = Math.max(8, width - Math.max(first, rest));
-  const lines = wrapAnsi(text.replace(/[ \t\n]+/g, ' ').trim(), room, { hard: true, trim: true, wordWrap: true }).split('\n');
+  const lines = wrapPlain(text.replace(/[ \t\n]+/g, ' ').trim(), room).split('\n');
   return lines.filter((l) => l !== '').map((line, k) => (k === 0 ? indent : hanging) + line.replace(/\u00a0/g, ' '));
+}
+
+/**
+ * wrap-ansi (hard, trimmed, by words) on a text of single spaces. A text of
+ * simple characters is wrapped as the same text with every character other
+ * than a space written as one ASCII letter, which wrap-ansi measures without
+ * the segmenter: every simple character takes one column and is a grapheme
+ * of its own, so the breaks fall at the same places. The wrapped letters
+ * are then given back their characters in order (wrapping only removes
+ * spaces and adds line breaks; a row that would start with a no-break
+ * space, which wrap-ansi trims, is left to wrap-ansi itself).
+ */
+function wrapPlain(text: string, room: number): string {
+  const options = { hard: true, trim: true, wordWrap: true };
+  // (wrap-ansi gives its text in normal form C; so does this.)
+  const normal = text.normalize('NFC');
+  if (!SIMPLE_TEXT.test(normal)) return wrapAnsi(text, room, options);
+  // A no-break space (the glue) stays apart: wrap-ansi trims one that starts a row, as it trims spaces, and that case is left to it.
+  const wrapped = wrapAnsi(normal.replace(/[^ \u00a0]/g, 'x').replace(/\u00a0/g, 'y'), room, options);
+  if (/(^|\n)y/.test(wrapped)) return wrapAnsi(text, room, options);
+  let out = '';
+  let from = 0;
+  for (let k = 0; k < wrapped.length; k++) {
+    const c = wrapped[k];
+    if (c === ' ' || c === '\n') {
+      out += c;
+      continue;
+    }
+    while (normal[from] === ' ') from++;
+    out += normal[from++];
+  }
+  return out;
 }
 
 /**

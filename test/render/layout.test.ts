@@ -3,7 +3,8 @@ import fc from 'fast-check';
 import stringWidth from 'string-width';
 import { describe, expect, it } from 'vitest';
 import { renderGrid } from '../../src/render/grid.js';
-import { displayWidth, foldLabel, glued, shownLabel, wrapText } from '../../src/render/layout.js';
+import wrapAnsi from 'wrap-ansi';
+import { displayWidth, foldLabel, GLUE, glued, shownLabel, SIMPLE_CHARACTERS, wrapText } from '../../src/render/layout.js';
 import { formatCount, formatExpected, formatP, formatSigned } from '../../src/readableNumbers.js';
 
 // Display widths as the Unicode East Asian Width property (UAX #11) and the
@@ -111,5 +112,38 @@ describe('one rule for numbers (docs: src/readableNumbers.ts)', () => {
     expect(formatSigned(-0.25)).toBe('−0.250');
     expect(formatSigned(0.25)).toBe('+0.250');
     expect(formatSigned(0)).toBe('0.000');
+  });
+});
+
+describe('simple characters: measured by their length and wrapped without the segmenter (src/render/layout.ts)', () => {
+  const simple = new RegExp(`^[${SIMPLE_CHARACTERS}]$`);
+  const characters: string[] = [];
+  for (let code = 0; code <= 0xffff; code++) if (simple.test(String.fromCharCode(code))) characters.push(String.fromCharCode(code));
+  const graphemes = new Intl.Segmenter('en', { granularity: 'grapheme' });
+
+  it('each takes one column by string-width (UAX #11 with ambiguous characters narrow) and is a grapheme of its own (UAX #29)', () => {
+    expect(characters.length).toBeGreaterThan(1000);
+    for (const c of characters) {
+      expect([c, stringWidth(c)]).toEqual([c, 1]);
+      expect([c, [...graphemes.segment(`a${c}b${c}${c}`)].length]).toEqual([c, 5]);
+    }
+  });
+
+  it('a text of them wraps exactly as wrap-ansi wraps it (property)', () => {
+    // The glue (a no-break space) is drawn often: wrap-ansi trims one that starts a row.
+    const word = fc.array(fc.constantFrom(GLUE, GLUE, GLUE, ...characters.filter((c) => c !== ' ')), { minLength: 1, maxLength: 14 }).map((cs) => cs.join(''));
+    fc.assert(
+      fc.property(fc.array(word, { minLength: 1, maxLength: 30 }), fc.integer({ min: 8, max: 60 }), (words, width) => {
+        const text = words.join(' ');
+        // wrapText wraps the text trimmed (of the glue too).
+        const expected = wrapAnsi(text.trim(), width, { hard: true, trim: true, wordWrap: true })
+          .split('\n')
+          .filter((l) => l !== '')
+          .map((l) => l.replace(/\u00a0/g, ' '));
+        expect(wrapText(text, width)).toEqual(expected);
+        expect(displayWidth(text)).toBe(stringWidth(text));
+      }),
+      { numRuns: 1000 },
+    );
   });
 });
