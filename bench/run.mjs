@@ -13,7 +13,8 @@
 // ends (bench/floor.mjs).
 //
 // Options: --runs N (default 5), --quick (3 runs; no 10-million-row files),
-// --only waves, --only banner or --only design (that scenario alone).
+// --only waves, --only banner, --only design or --only startup (a 10-row
+// file against node -e 0): that scenario alone.
 import { spawnSync } from 'node:child_process';
 import { existsSync, statSync, writeFileSync, readFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
@@ -174,6 +175,28 @@ survey design: 1,000,000 rows in 50 strata x 2 PSUs (${(statSync(file).size / 1e
   report(`${'banner, 25 questions x 5 break variables'.padEnd(50)} ${s(bn.mine).padStart(8)} ${s(bn.reference).padStart(8)} ${bn.ratio.toFixed(3).padStart(7)}   (none)`);
 }
 
+/** A 10-row file against node -e 0: the start-up of pair and scan. */
+async function benchStartup() {
+  const tiny = join(DATA, 'scan-10.csv');
+  writeFileSync(tiny, readFileSync(await scanFile(), 'utf8').split('\n').slice(0, 11).join('\n') + '\n');
+  const bare = [node, ['-e', '0']];
+  report(`\na 10-row file against node -e 0 (start-up), ${cores} cores`);
+  const small = [
+    ['pair q01 x q02', tabsight('pair', tiny, '--rows', 'q01', '--cols', 'q02')],
+    ['scan, 5 columns (10 pairs)', tabsight('scan', tiny, '--columns', 'q01,q02,q03,q04,q05')],
+    ['scan, all 30 columns (435 exact tests)', tabsight('scan', tiny)],
+  ];
+  for (const [name, command] of small) {
+    const r = versus(command, bare, Math.max(runs, 7));
+    report(`  ${name.padEnd(40)} ${s(r.mine)} vs ${s(r.reference)}: ${r.ratio.toFixed(2)}x (goal <= 1.5) ${verdict(r.ratio <= 1.5)}`);
+  }
+}
+
+if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'startup') {
+  report(`npm run bench --only startup on ${cores} cores (${new Date().toISOString().slice(0, 10)}); whole-process wall time, median of ${Math.max(runs, 7)} alternating runs`);
+  await benchStartup();
+  process.exit(0);
+}
 if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'design') {
   report(`npm run bench --only design on ${cores} cores (${new Date().toISOString().slice(0, 10)}); whole-process wall time, median of ${runs} alternating runs`);
   await benchDesign();
@@ -187,7 +210,6 @@ if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'banner') {
 if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'waves') {
   report(`npm run bench --only waves on ${cores} cores (${new Date().toISOString().slice(0, 10)}); whole-process wall time, median of ${runs} alternating runs`);
   await benchWaves();
-await benchBanner();
   process.exit(0);
 }
 const polars = polarsPython();
@@ -270,19 +292,7 @@ report(`\nscan --exact auto vs --exact never, 4,642 x 28: ${s(exact.mine)} vs ${
 report(spawnSync(node, [join(here, 'exact2x2.mjs')], { encoding: 'utf8' }).stdout.trim());
 
 // --- small files --------------------------------------------------------------
-const tiny = join(DATA, 'scan-10.csv');
-writeFileSync(tiny, readFileSync(scan200, 'utf8').split('\n').slice(0, 11).join('\n') + '\n');
-const bare = [node, ['-e', '0']];
-report(`\na 10-row file against node -e 0 (start-up), ${cores} cores`);
-const small = [
-  ['pair q01 x q02', tabsight('pair', tiny, '--rows', 'q01', '--cols', 'q02')],
-  ['scan, 5 columns (10 pairs)', tabsight('scan', tiny, '--columns', 'q01,q02,q03,q04,q05')],
-  ['scan, all 30 columns (435 exact tests)', tabsight('scan', tiny)],
-];
-for (const [name, command] of small) {
-  const r = versus(command, bare, Math.max(runs, 7));
-  report(`  ${name.padEnd(40)} ${s(r.mine)} vs ${s(r.reference)}: ${r.ratio.toFixed(2)}x (goal <= 1.5) ${verdict(r.ratio <= 1.5)}`);
-}
+await benchStartup();
 
 // --- waves ----------------------------------------------------------------------
 await benchWaves();
