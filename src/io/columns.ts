@@ -43,6 +43,21 @@ function listNames(names: readonly string[]): string {
   return names.length > 30 ? `${shown}, … (${names.length} in all)` : shown;
 }
 
+/**
+ * Header names as the analyst types them. Some exports write every heading
+ * inside single quotes (`'PID'<tab>'age'`: a program's printed names, not
+ * CSV quoting, whose quote is `"`); when every name of the header is so
+ * wrapped, the quotes are dropped, so that `--rows PID`, a codebook's
+ * `"name": "PID"` and the reports all use the bare name. A header where only
+ * some names are wrapped is taken as written (a name may begin and end with
+ * an apostrophe on purpose), and so is a name that would become empty.
+ */
+export function bareHeaderNames(names: readonly string[]): string[] {
+  const wrapped = (name: string) => name.length > 2 && name.startsWith("'") && name.endsWith("'") && name.slice(1, -1).trim() !== '';
+  if (names.length === 0 || !names.every(wrapped)) return [...names];
+  return names.map((name) => name.slice(1, -1).trim());
+}
+
 /** Checks header names: none empty, none repeated. */
 export function validateHeader(names: readonly string[], label: string, line: number): void {
   const seen = new Map<string, number>();

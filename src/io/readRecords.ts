@@ -4,7 +4,7 @@
  * what was read.
  */
 import { dataError, usageError } from '../errors.js';
-import { validateHeader } from './columns.js';
+import { bareHeaderNames, validateHeader } from './columns.js';
 import { CsvTokenizer, detectDelimiter } from './csvTokenizer.js';
 import { InputSource, utf8Chunks } from './source.js';
 import { FieldInterner } from './fieldInterner.js';
@@ -150,7 +150,7 @@ export async function readRecords(
       {
         header: (fields, line) => {
           if (options.header) {
-            header = fields.map((f) => f.trim());
+            header = bareHeaderNames(fields.map((f) => f.trim()));
             validateHeader(header, source.label, line);
           } else {
             header = fields.map((_f, i) => String(i + 1));

@@ -26,7 +26,7 @@ const text = (name: string, content: string) => tempFile(name, content);
 
 describe('profile of the 1996 ANES extract (statsmodels anes96; counts checked against pandas value_counts in fixtures/anes96/reference.json)', async () => {
   const { report, starter } = await profile(join(ANES, 'anes96.csv'), { top: 3 });
-  const byName = (name: string) => report.columns.find((c) => c.name === `'${name}'`)!;
+  const byName = (name: string) => report.columns.find((c) => c.name === name)!;
   it('distinct values, most frequent values and numeric summaries agree with pandas', () => {
     expect(report.rows).toBe(reference.rows);
     for (const [name, ref] of Object.entries(reference.columns)) {
@@ -63,9 +63,9 @@ describe('profile of the 1996 ANES extract (statsmodels anes96; counts checked a
       return NaN;
     };
     const edges = [1, 2, 3, 4].map((i) => roundCut(at(Math.ceil((i * n) / 5) + 1)));
-    const ageEntry = starter.columns.find((c) => c.name === "'age'")!;
+    const ageEntry = starter.columns.find((c) => c.name === "age")!;
     expect(ageEntry.cuts).toEqual([...new Set(edges)]);
-    const pid = starter.columns.find((c) => c.name === "'PID'")!;
+    const pid = starter.columns.find((c) => c.name === "PID")!;
     expect(pid.ordered).toBe(true);
     expect(pid.values.map((v) => v.code)).toEqual(['0', '1', '2', '3', '4', '5', '6']);
     const json = codebookToJson(starter);
@@ -77,13 +77,13 @@ describe('profile of the 1996 ANES extract (statsmodels anes96; counts checked a
   it('with the codebook from the published labels: labels in the profile, and a starter that keeps every published entry and adds cuts where the codebook has none', async () => {
     const published = readCodebook(join(ANES, 'codebook.json'));
     const labelled = await profile(join(ANES, 'anes96.csv'), { codebook: published, top: 2 });
-    const pid = labelled.report.columns.find((c) => c.name === "'PID'")!;
+    const pid = labelled.report.columns.find((c) => c.name === "PID")!;
     expect(pid.question).toBe('Party identification of respondent.');
     expect(pid.top).toEqual([
       { value: '0', label: 'Strong Democrat', rows: reference.columns.PID.counts['0'] },
       { value: '1', label: 'Weak Democrat', rows: reference.columns.PID.counts['1'] },
     ]);
-    expect(pid.order).toEqual(published.columns.find((c) => c.name === "'PID'")!.values.map((v) => v.label));
+    expect(pid.order).toEqual(published.columns.find((c) => c.name === "PID")!.values.map((v) => v.label));
     expect(labelled.report.warnings).toEqual([]);
     for (const entry of published.columns) {
       const kept = labelled.starter.columns.find((c) => c.name === entry.name)!;
@@ -91,9 +91,9 @@ describe('profile of the 1996 ANES extract (statsmodels anes96; counts checked a
       expect([kept.question, kept.ordered || !entry.ordered]).toEqual([entry.question, true]);
     }
     // TVnews, described by its question only, gets its codes 0–7, marked ordered (a run of whole numbers).
-    const tv = labelled.starter.columns.find((c) => c.name === "'TVnews'")!;
+    const tv = labelled.starter.columns.find((c) => c.name === "TVnews")!;
     expect([tv.ordered, tv.values.map((v) => v.code)]).toEqual([true, ['0', '1', '2', '3', '4', '5', '6', '7']]);
-    expect(labelled.starter.columns.find((c) => c.name === "'age'")!.cuts).toEqual(starter.columns.find((c) => c.name === "'age'")!.cuts);
+    expect(labelled.starter.columns.find((c) => c.name === "age")!.cuts).toEqual(starter.columns.find((c) => c.name === "age")!.cuts);
   });
 });
 

@@ -11,7 +11,6 @@ const PUBLISHED = join(ANES, 'codebook.json');
 const reference = JSON.parse(readFileSync(join(ANES, 'reference.json'), 'utf8')) as {
   tables: { rows: string; cols: string; rowLevels: string[]; colLevels: string[]; counts: number[][]; pearson: { statistic: number; df: number; pValue: number } }[];
 };
-const q = (name: string) => `'${name}'`;
 
 describe('a real coded export, the 1996 ANES extract (statsmodels anes96), with a codebook made by profile from the published labels', async () => {
   // profile → codebook, with no hand editing of the data file or of the codebook
@@ -23,7 +22,7 @@ describe('a real coded export, the 1996 ANES extract (statsmodels anes96), with 
   });
   it('pair: labelled, ordered tables equal to pandas crosstab of the published labels, Pearson chi-square as scipy (fixtures/anes96/reference.json)', async () => {
     for (const table of reference.tables) {
-      const out = await runJson(['pair', DATA, '--rows', q(table.rows), '--cols', q(table.cols), '--codebook', codebook]);
+      const out = await runJson(['pair', DATA, '--rows', table.rows, '--cols', table.cols, '--codebook', codebook]);
       expect(out.rows.levels).toEqual(table.rowLevels);
       expect(out.cols.levels).toEqual(table.colLevels);
       expect(out.counts).toEqual(table.counts);
@@ -33,31 +32,31 @@ describe('a real coded export, the 1996 ANES extract (statsmodels anes96), with 
     }
   });
   it('pair keeps question, codes and order in JSON, and two ordered columns get the ordinal measures without --ordinal', async () => {
-    const out = await runJson(['pair', DATA, '--rows', q('PID'), '--cols', q('educ'), '--codebook', codebook]);
+    const out = await runJson(['pair', DATA, '--rows', 'PID', '--cols', 'educ', '--codebook', codebook]);
     expect(out.rows.question).toBe('Party identification of respondent.');
     expect(out.rows.ordered).toBe(true);
     expect(out.rows.codes).toEqual([['0'], ['1'], ['2'], ['3'], ['4'], ['5'], ['6']]);
     expect(out.settings.ordinal).toBe(true);
     expect(out.ordinal.gamma.estimate).not.toBeNull();
-    const text = await run(['pair', DATA, '--rows', q('PID'), '--cols', q('vote'), '--codebook', codebook]);
-    expect(text.stdout).toContain("'PID': Party identification of respondent.");
+    const text = await run(['pair', DATA, '--rows', 'PID', '--cols', 'vote', '--codebook', codebook]);
+    expect(text.stdout).toContain('PID: Party identification of respondent.');
     expect(text.stdout).toContain('Strong Democrat');
   });
   it('pair cuts age at the cut points profile chose (rounded quintile edges), labels in natural order', async () => {
-    const out = await runJson(['pair', DATA, '--rows', q('age'), '--cols', q('vote'), '--codebook', codebook]);
-    const cuts = JSON.parse(made.stdout).columns.find((c: { name: string }) => c.name === q('age')).cuts as number[];
+    const out = await runJson(['pair', DATA, '--rows', 'age', '--cols', 'vote', '--codebook', codebook]);
+    const cuts = JSON.parse(made.stdout).columns.find((c: { name: string }) => c.name === 'age').cuts as number[];
     expect(out.rows.levels).toEqual([`<${cuts[0]}`, ...cuts.slice(1).map((c, k) => `${cuts[k]}–${c - 1}`), `${cuts[cuts.length - 1]}+`]);
     expect(out.n).toBe(944);
   });
   it('scan scores every column (none skipped), labelled and in codebook order', async () => {
     const out = await runJson(['scan', DATA, '--codebook', codebook]);
     expect(out.skipped).toEqual([]);
-    const pid = out.pairs.find((p: { rows: { name: string }; cols: { name: string } }) => p.rows.name === q('PID') && p.cols.name === q('vote'));
+    const pid = out.pairs.find((p: { rows: { name: string }; cols: { name: string } }) => p.rows.name === 'PID' && p.cols.name === 'vote');
     expect(pid.rows.levels).toEqual(reference.tables[0].rowLevels);
     expect(pid.tests.pearson.statistic).toBeCloseTo(reference.tables[0].pearson.statistic, 9);
   });
   it('compare, the two expected votes as periods, labelled', async () => {
-    const out = await runJson(['compare', DATA, '--period', q('vote'), '--rows', q('PID'), '--cols', q('educ'), '--codebook', codebook]);
+    const out = await runJson(['compare', DATA, '--period', 'vote', '--rows', 'PID', '--cols', 'educ', '--codebook', codebook]);
     expect(out.before.label).toContain('Clinton');
     expect(out.after.label).toContain('Dole');
     expect(out.rows.levels[0]).toBe('Strong Democrat');
@@ -67,15 +66,15 @@ describe('a real coded export, the 1996 ANES extract (statsmodels anes96), with 
 describe('codebook round trip: profile → codebook → pair equals a manual recode (rule of docs/codebook.md)', () => {
   it('the starter codebook labels each code by itself, so pair with it equals pair on the raw file', async () => {
     const starter = tempFile('starter.json', (await run(['profile', DATA, '--format', 'codebook'])).stdout);
-    const withBook = await runJson(['pair', DATA, '--rows', q('PID'), '--cols', q('educ'), '--codebook', starter, '--ordinal']);
-    const raw = await runJson(['pair', DATA, '--rows', q('PID'), '--cols', q('educ'), '--ordinal']);
+    const withBook = await runJson(['pair', DATA, '--rows', 'PID', '--cols', 'educ', '--codebook', starter, '--ordinal']);
+    const raw = await runJson(['pair', DATA, '--rows', 'PID', '--cols', 'educ', '--ordinal']);
     expect(withBook.counts).toEqual(raw.counts);
     expect(withBook.rows.levels).toEqual(raw.rows.levels);
   });
   it('a label edited into the codebook gives the output of the same recode', async () => {
-    const book = tempFile('vote.json', JSON.stringify({ codebook: 1, columns: [{ name: q('vote'), values: [{ code: 0, label: 'Clinton' }, { code: 1, label: 'Dole' }] }] }));
-    const labelled = await runJson(['pair', DATA, '--rows', q('PID'), '--cols', q('vote'), '--codebook', book]);
-    const recoded = await runJson(['pair', DATA, '--rows', q('PID'), '--cols', q('vote'), '--recode', `${q('vote')}:0=Clinton,1=Dole`]);
+    const book = tempFile('vote.json', JSON.stringify({ codebook: 1, columns: [{ name: 'vote', values: [{ code: 0, label: 'Clinton' }, { code: 1, label: 'Dole' }] }] }));
+    const labelled = await runJson(['pair', DATA, '--rows', 'PID', '--cols', 'vote', '--codebook', book]);
+    const recoded = await runJson(['pair', DATA, '--rows', 'PID', '--cols', 'vote', '--recode', `vote:0=Clinton,1=Dole`]);
     expect(labelled.counts).toEqual(recoded.counts);
     expect(labelled.cols.levels).toEqual(recoded.cols.levels);
     expect(labelled.cols.codes).toEqual([['0'], ['1']]);
@@ -209,23 +208,23 @@ describe('the missing-token note (list and sources in src/io/missingTokens.ts)',
 describe('scan: derived pairs and --bins', () => {
   // The ANES extract with one more column, a grouping of educ (1–2 no diploma, 3 high school, 4–7 college).
   const lines = readFileSync(DATA, 'utf8').trimEnd().split('\n');
-  const educAt = lines[0].split('\t').indexOf(q('educ'));
+  const educAt = lines[0].split('\t').indexOf("'educ'");
   const group = (code: string) => (Number(code) <= 2 ? 'no diploma' : Number(code) === 3 ? 'high school' : 'college');
-  const withGroup = tempFile('anes-grouped.tsv', [lines[0] + '\teducGroup', ...lines.slice(1).map((l) => `${l}\t${group(l.split('\t')[educAt])}`)].join('\n') + '\n');
+  const withGroup = tempFile('anes-grouped.tsv', [lines[0] + "\t'educGroup'", ...lines.slice(1).map((l) => `${l}\t${group(l.split('\t')[educAt])}`)].join('\n') + '\n');
   it('a column that is a recoding of another is listed apart, out of the ranking and the family (Cramér 1946: V = 1 by construction)', async () => {
-    const out = await runJson(['scan', withGroup, '--columns', `${q('educ')},educGroup,${q('vote')}`]);
-    expect(out.derived).toEqual([{ rows: q('educ'), cols: 'educGroup', reason: `each level of "${q('educ')}" occurs with one level of "educGroup"`, rowLevels: 7, colLevels: 3 }]);
+    const out = await runJson(['scan', withGroup, '--columns', `educ,educGroup,vote`]);
+    expect(out.derived).toEqual([{ rows: 'educ', cols: 'educGroup', reason: `each level of "educ" occurs with one level of "educGroup"`, rowLevels: 7, colLevels: 3 }]);
     expect(out.pairsTested).toBe(2);
-    expect(out.pairs.map((p: { cols: { name: string } }) => p.cols.name)).toEqual([q('vote'), q('vote')]);
-    const kept = await runJson(['scan', withGroup, '--columns', `${q('educ')},educGroup,${q('vote')}`, '--keep-derived']);
+    expect(out.pairs.map((p: { cols: { name: string } }) => p.cols.name)).toEqual(['vote', 'vote']);
+    const kept = await runJson(['scan', withGroup, '--columns', `educ,educGroup,vote`, '--keep-derived']);
     expect(kept.pairsTested).toBe(3);
     expect(kept.pairs[0].measures.cramersV).toBeCloseTo(1, 12);
   });
   it('pair --bins gives the same equal-frequency bins and counts as scan --bins', async () => {
-    for (const [column, k] of [[q('TVnews'), 5], [q('age'), 4], [q('popul'), 6], [q('income'), 3]] as const) {
-      const scan = await runJson(['scan', DATA, '--bins', String(k), '--columns', `${column},${q('vote')}`, '--full']);
+    for (const [column, k] of [['TVnews', 5], ['age', 4], ['popul', 6], ['income', 3]] as const) {
+      const scan = await runJson(['scan', DATA, '--bins', String(k), '--columns', `${column},vote`, '--full']);
       expect(scan.skipped).toEqual([]);
-      const pair = await runJson(['pair', DATA, '--rows', column, '--cols', q('vote'), '--bins', String(k)]);
+      const pair = await runJson(['pair', DATA, '--rows', column, '--cols', 'vote', '--bins', String(k)]);
       expect(pair.rows.levels).toEqual(scan.pairs[0].rows.levels);
       expect(pair.counts).toEqual(scan.pairs[0].counts);
     }
@@ -233,7 +232,7 @@ describe('scan: derived pairs and --bins', () => {
   it('scan --bins k cuts every numeric column with more than k values, within --max-levels or not (distinct values: pandas nunique, fixtures/anes96/reference.json)', async () => {
     const distinct = JSON.parse(readFileSync(join(ANES, 'reference.json'), 'utf8')).columns as Record<string, { distinct: number }>;
     const plain = await runJson(['scan', DATA]);
-    const tv = plain.pairs.find((p: { rows: { name: string } }) => p.rows.name === q('TVnews'));
+    const tv = plain.pairs.find((p: { rows: { name: string } }) => p.rows.name === 'TVnews');
     // Without --bins, the 8 answers of TVnews are 8 nominal levels.
     expect(tv.rows.levels).toHaveLength(distinct.TVnews.distinct);
     const out = await runJson(['scan', DATA, '--bins', '5']);
@@ -241,7 +240,7 @@ describe('scan: derived pairs and --bins', () => {
     const levelsOf = new Map<string, string[]>();
     for (const p of out.pairs) for (const side of [p.rows, p.cols]) levelsOf.set(side.name, side.levels);
     for (const [name, { distinct: n }] of Object.entries(distinct)) {
-      const levels = levelsOf.get(q(name)) as string[];
+      const levels = levelsOf.get(name) as string[];
       if (n > 5) {
         expect(levels.length, name).toBeLessThanOrEqual(5);
         expect(levels.every((l) => /^-?[\d.]+(–-?[\d.]+)?$/.test(l)), name).toBe(true);
@@ -249,16 +248,16 @@ describe('scan: derived pairs and --bins', () => {
     }
   });
   it('a codebook\'s bins cut a column in pair, scan and compare as --bins does, without --bins (docs/codebook.md)', async () => {
-    const book = tempFile('age-bins.json', JSON.stringify({ codebook: 1, columns: [{ name: q('age'), bins: 4 }] }));
-    const byOption = await runJson(['pair', DATA, '--rows', q('age'), '--cols', q('vote'), '--bins', '4']);
-    const byBook = await runJson(['pair', DATA, '--rows', q('age'), '--cols', q('vote'), '--codebook', book]);
+    const book = tempFile('age-bins.json', JSON.stringify({ codebook: 1, columns: [{ name: 'age', bins: 4 }] }));
+    const byOption = await runJson(['pair', DATA, '--rows', 'age', '--cols', 'vote', '--bins', '4']);
+    const byBook = await runJson(['pair', DATA, '--rows', 'age', '--cols', 'vote', '--codebook', book]);
     expect(byBook.rows.levels).toEqual(byOption.rows.levels);
     expect(byBook.counts).toEqual(byOption.counts);
     expect(byBook.rows.ordered).toBe(true);
-    const scan = await runJson(['scan', DATA, '--columns', `${q('age')},${q('vote')}`, '--codebook', book, '--full']);
+    const scan = await runJson(['scan', DATA, '--columns', `age,vote`, '--codebook', book, '--full']);
     expect(scan.pairs[0].rows.levels).toEqual(byOption.rows.levels);
     expect(scan.pairs[0].counts).toEqual(byOption.counts);
-    const compare = await runJson(['compare', DATA, '--period', q('vote'), '--rows', q('age'), '--cols', q('PID'), '--codebook', book]);
+    const compare = await runJson(['compare', DATA, '--period', 'vote', '--rows', 'age', '--cols', 'PID', '--codebook', book]);
     expect(compare.rows.levels).toEqual(byOption.rows.levels);
   });
 });
@@ -332,10 +331,10 @@ describe('--other is applied before the level cap (issue rule), counts checked a
     const ages = JSON.parse(readFileSync(join(ANES, 'reference.json'), 'utf8')).columns.age.counts as Record<string, number>;
     const ranked = Object.entries(ages).sort((x, y) => y[1] - x[1] || Number(x[0]) - Number(y[0]));
     const kept = ranked.slice(0, 8).map(([age]) => age).sort((x, y) => Number(x) - Number(y));
-    const out = await runJson(['pair', DATA, '--rows', q('age'), '--cols', q('vote'), '--other', '8']);
+    const out = await runJson(['pair', DATA, '--rows', 'age', '--cols', 'vote', '--other', '8']);
     expect(out.rows.levels).toEqual([...kept, 'other']);
     expect(out.rowTotals).toEqual([...kept.map((age) => ages[age]), ranked.slice(8).reduce((s, [, c]) => s + c, 0)]);
-    const refused = await run(['pair', DATA, '--rows', q('age'), '--cols', q('vote')]);
+    const refused = await run(['pair', DATA, '--rows', 'age', '--cols', 'vote']);
     expect(refused.status).toBe(1);
     expect(refused.stderr).toContain('--other k');
   });
@@ -343,16 +342,16 @@ describe('--other is applied before the level cap (issue rule), counts checked a
     const ages = JSON.parse(readFileSync(join(ANES, 'reference.json'), 'utf8')).columns.age.counts as Record<string, number>;
     const ranked = Object.entries(ages).sort((x, y) => y[1] - x[1] || Number(x[0]) - Number(y[0]));
     const kept = ranked.slice(0, 8).map(([age]) => age).sort((x, y) => Number(x) - Number(y));
-    const without = await runJson(['scan', DATA, '--columns', `${q('age')},${q('vote')},${q('educ')}`]);
-    expect(without.skipped.map((s: { column: string }) => s.column)).toEqual([q('age')]);
-    const out = await runJson(['scan', DATA, '--columns', `${q('age')},${q('vote')},${q('educ')}`, '--other', '8', '--full']);
+    const without = await runJson(['scan', DATA, '--columns', `age,vote,educ`]);
+    expect(without.skipped.map((s: { column: string }) => s.column)).toEqual(['age']);
+    const out = await runJson(['scan', DATA, '--columns', `age,vote,educ`, '--other', '8', '--full']);
     expect(out.skipped).toEqual([]);
-    const pair = out.pairs.find((p: { rows: { name: string }; cols: { name: string } }) => p.rows.name === q('age') && p.cols.name === q('vote'));
+    const pair = out.pairs.find((p: { rows: { name: string }; cols: { name: string } }) => p.rows.name === 'age' && p.cols.name === 'vote');
     expect(pair.rows.levels).toEqual([...kept, 'other']);
     expect(pair.rowTotals).toEqual([...kept.map((age) => ages[age]), ranked.slice(8).reduce((s, [, c]) => s + c, 0)]);
     // --other 60 would keep 61 levels, more than --max-levels 50: the column stays out, and the reason says why.
-    const tooMany = await runJson(['scan', DATA, '--columns', `${q('age')},${q('vote')},${q('educ')}`, '--other', '60', '--recode', `${q('age')}:19=nineteen`]);
-    expect(tooMany.skipped).toEqual([{ column: q('age'), code: 'too-many-levels', reason: '71 distinct values, more than --max-levels 50, and --other 60 keeps 61' }]);
+    const tooMany = await runJson(['scan', DATA, '--columns', `age,vote,educ`, '--other', '60', '--recode', `age:19=nineteen`]);
+    expect(tooMany.skipped).toEqual([{ column: 'age', code: 'too-many-levels', reason: '71 distinct values, more than --max-levels 50, and --other 60 keeps 61' }]);
   });
 });
 
@@ -361,14 +360,14 @@ describe('bins over several files (compare with two files, waves): each file wou
   const first = tempFile('anes-first.tsv', [lines[0], ...lines.slice(1, 400)].join('\n') + '\n');
   const second = tempFile('anes-second.tsv', [lines[0], ...lines.slice(400)].join('\n') + '\n');
   it('--bins, or a codebook\'s bins, is a usage error naming --cuts and --period; one file with --period bins both periods alike', async () => {
-    const byOption = await run(['compare', first, second, '--rows', q('age'), '--cols', q('vote'), '--bins', '4']);
+    const byOption = await run(['compare', first, second, '--rows', 'age', '--cols', 'vote', '--bins', '4']);
     expect(byOption.status).toBe(2);
     expect(byOption.stderr).toMatch(/^tabsight: --bins 4 would cut the two files each at its own quantiles, .*--cuts .*--period\n$/);
-    const book = tempFile('age-bins-waves.json', JSON.stringify({ codebook: 1, columns: [{ name: q('age'), bins: 4 }] }));
-    const byBook = await run(['waves', first, second, '--rows', q('age'), '--cols', q('vote'), '--codebook', book]);
+    const book = tempFile('age-bins-waves.json', JSON.stringify({ codebook: 1, columns: [{ name: 'age', bins: 4 }] }));
+    const byBook = await run(['waves', first, second, '--rows', 'age', '--cols', 'vote', '--codebook', book]);
     expect(byBook.status).toBe(2);
-    expect(byBook.stderr).toContain(`the codebook's bins for "${q('age')}" would cut the wave files`);
-    const together = await runJson(['compare', DATA, '--period', q('vote'), '--rows', q('age'), '--cols', q('PID'), '--bins', '4']);
+    expect(byBook.stderr).toContain(`the codebook's bins for "age" would cut the wave files`);
+    const together = await runJson(['compare', DATA, '--period', 'vote', '--rows', 'age', '--cols', 'PID', '--bins', '4']);
     expect(together.rows.levels).toHaveLength(4);
   });
 });

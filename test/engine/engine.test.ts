@@ -66,7 +66,7 @@ describeEngine('engine and built-in reader give the same report on the demo file
 describeEngine('the engine bins, merges and notes as the built-in reader does on a real coded export (ANES 1996, statsmodels)', () => {
   const anes = join(ROOT, 'fixtures', 'anes96', 'anes96.csv');
   it('scan --bins 5: every numeric column with more than 5 values binned alike', () => sameBothWays(['scan', anes, '--bins', '5', '--full']));
-  it('scan --other 8 rescues the columns past --max-levels alike', () => sameBothWays(['scan', anes, '--other', '8', '--columns', "'age','popul','vote'", '--full']));
+  it('scan --other 8 rescues the columns past --max-levels alike', () => sameBothWays(['scan', anes, '--other', '8', '--columns', 'age,popul,vote', '--full']));
   it('a numeric column with "NA": the same bins, the same note', async () => {
     const csv = 'age,g\n' + Array.from({ length: 80 }, (_v, i) => `${i % 7 === 0 ? 'NA' : i % 11 === 0 ? '.' : 20 + ((i * 13) % 57)},${i % 3 ? 'x' : 'y'}`).join('\n') + '\n';
     const data = tempFile('engine-ages-na.csv', csv);

@@ -6,6 +6,7 @@ import { checkCodebookColumns, parseCodebook, readCodebook } from '../../src/io/
 import { codebookToCsv, codebookToJson } from '../../src/render/codebookFormat.js';
 import type { Codebook } from '../../src/table/codebook.js';
 import { TabsightError } from '../../src/errors.js';
+import { bareHeaderNames } from '../../src/io/columns.js';
 import { ROOT } from '../helpers.js';
 
 const DOC = readFileSync(join(ROOT, 'docs', 'codebook.md'), 'utf8');
@@ -43,7 +44,7 @@ describe('the codebook of the 1996 ANES extract (fixtures/anes96, labels from th
   const published = readFileSync(join(ANES, 'published.txt'), 'utf8');
   it('is valid under the JSON Schema and reads into ten columns', () => {
     expect(validate(JSON.parse(readFileSync(join(ANES, 'codebook.json'), 'utf8')))).toBe(true);
-    expect(codebook.columns.map((c) => c.name)).toEqual(["'popul'", "'TVnews'", "'selfLR'", "'ClinLR'", "'DoleLR'", "'PID'", "'age'", "'educ'", "'income'", "'vote'"]);
+    expect(codebook.columns.map((c) => c.name)).toEqual(["popul", "TVnews", "selfLR", "ClinLR", "DoleLR", "PID", "age", "educ", "income", "vote"]);
   });
   it('every code and label is the published "code - label" line, and every question is the published text', () => {
     const lines = published.split('\n').map((l) => l.trim().replace(/\s+/g, ' '));
@@ -54,8 +55,10 @@ describe('the codebook of the 1996 ANES extract (fixtures/anes96, labels from th
     }
   });
   it('matches the columns of the shipped data file', () => {
-    const header = readFileSync(join(ANES, 'anes96.csv'), 'utf8').split('\n')[0].split('\t');
-    expect(() => checkCodebookColumns(codebook, header, 'anes96.csv')).not.toThrow();
+    // The file writes its headings in single quotes ('PID'); the reader drops them (src/io/columns.ts).
+    const raw = readFileSync(join(ANES, 'anes96.csv'), 'utf8').split('\n')[0].split('\t');
+    expect(raw[5]).toBe("'PID'");
+    expect(() => checkCodebookColumns(codebook, bareHeaderNames(raw), 'anes96.csv')).not.toThrow();
   });
 });
 

@@ -24,9 +24,9 @@ describe('profile renderers', () => {
   it('text: one block per column with the question, the labelled most frequent values and the suggestions', async () => {
     const report = await profileOf(join(ROOT, 'fixtures', 'anes96', 'anes96.csv'), join(ROOT, 'fixtures', 'anes96', 'codebook.json'));
     const text = renderProfileText(report, plain);
-    expect(text).toContain(`'PID'  ordered — labelled by the codebook, ordered\n  question Party identification of respondent.`);
+    expect(text).toContain(`PID  ordered — labelled by the codebook, ordered\n  question Party identification of respondent.`);
     expect(text).toContain(`0 "Strong Democrat" 200`);
-    expect(text).toMatch(/'age'  numeric — 71 different numbers from 19 to 91\n/);
+    expect(text).toMatch(/age  numeric — 71 different numbers from 19 to 91\n/);
   });
   it('text escapes control characters from the data; Markdown escapes its table syntax (escape at the edge)', async () => {
     const report = await profileOf(tempFile('hostile.csv', 'a|b,c\n"x\u001b[31m",1\n"y|*z*",2\n"x\u001b[31m",3\n'));
