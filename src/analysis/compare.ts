@@ -9,7 +9,7 @@ import { compareNatural } from '../table/naturalOrder.js';
 import type { ExcludedBy } from '../table/countedTable.js';
 import { dropEmptyLevels, relabelTable, TwoWayTable } from '../table/twoWayTable.js';
 import { rescaleToEffectiveSize, Weighting } from '../table/weighting.js';
-import { AnalysisOptions, AnalysisRecord, analyzeTable, Evidence, evidenceOf, Warning } from './analyzeTable.js';
+import { AnalysisOptions, AnalysisRecord, analyzeTable, Evidence, evidenceOf, NamedVariable, Warning } from './analyzeTable.js';
 import { formatP } from '../readableNumbers.js';
 import { InputSummary, unknownOrderWarnings } from './report.js';
 import { TOOL_VERSION } from '../version.js';
@@ -47,8 +47,9 @@ export type ShiftTest = TestResult & { method?: 'design-wald'; denDf?: number | 
 export interface CompareReport {
   tool: { name: 'tabsight'; version: string };
   command: 'compare';
-  rows: { name: string; levels: string[] };
-  cols: { name: string; levels: string[] };
+  /** With --codebook describing the column: its question, ordered flag and the codes of each level, as in pair. */
+  rows: NamedVariable;
+  cols: NamedVariable;
   before: PeriodRecord;
   after: PeriodRecord;
   /** Did the association itself change? Breslow–Day for 2×2, the no-three-way-interaction G² otherwise. */

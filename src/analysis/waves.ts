@@ -19,7 +19,7 @@ import { dropEmptyLevels, relabelTable } from '../table/twoWayTable.js';
 import type { WaveKeyKind, WaveScores } from '../table/waveKeys.js';
 import { rescaleToEffectiveSize } from '../table/weighting.js';
 import { TOOL_VERSION } from '../version.js';
-import { AnalysisOptions, Evidence, evidenceOf, Warning } from './analyzeTable.js';
+import { AnalysisOptions, Evidence, evidenceOf, NamedVariable, Warning } from './analyzeTable.js';
 import { unknownOrderWarnings } from './report.js';
 import { ChangeTest, compareReport, CompareReport, PeriodInput, PeriodRecord, periodRecord, unionOfLevels } from './compare.js';
 import { DesignAcross, designAcrossWaves, waveWald as waveWaldOf, WavesDesign, WaveWald } from './wavesDesign.js';
@@ -38,8 +38,8 @@ export interface WaveSetup {
   period: string | null;
   /** The patterns (with *, ?, [...]) the files came from, as given. */
   patterns: string[];
-  /** 'names': by the keys in the file names; 'given': as given; 'natural': period levels in natural order; 'listed': as listed by --levels. */
-  orderedBy: 'names' | 'given' | 'natural' | 'listed';
+  /** 'names': by the keys in the file names; 'given': as given; 'natural': period levels in natural order; 'codebook': period levels in the order of the column's codebook (and recodes); 'listed': as listed by --levels. */
+  orderedBy: 'names' | 'given' | 'natural' | 'codebook' | 'listed';
   /** The kind of key every wave carries, or null. */
   keyKind: WaveKeyKind | null;
   scores: WaveScores;
@@ -183,8 +183,9 @@ export type WavesStatement =
 export interface WavesReport {
   tool: { name: 'tabsight'; version: string };
   command: 'waves';
-  rows: { name: string; levels: string[] };
-  cols: { name: string; levels: string[] };
+  /** With --codebook describing the column: its question, ordered flag and the codes of each level, as in pair. */
+  rows: NamedVariable;
+  cols: NamedVariable;
   setup: WaveSetup;
   waves: WaveRecord[];
   /** The last two waves compared, field for field as `compare` reports them: the weekly question. */

@@ -1,5 +1,5 @@
 /**
- * What --codebook adds to a one-table report (pair, compare): the question,
+ * What --codebook adds to a one-table report (pair, compare, waves): the question,
  * the ordered flag and the codes of each level, the rows left out by
  * reason, the warnings of codes the week's data do not use, and whether the
  * pair gets the ordinal measures (both columns ordered in the codebook).
@@ -9,9 +9,8 @@ import type { NamedVariable } from '../analysis/analyzeTable.js';
 import { columnRules, TableRequest } from '../io/countTable.js';
 import type { ExcludedBy } from '../table/countedTable.js';
 import { recodesByColumn } from '../io/rowRules.js';
-import { codebookColumn } from '../table/codebook.js';
+import { codebookColumn, labelColumn, labellingWarnings } from '../table/codebook.js';
 import { codebookFacts, LevelRules } from '../table/levelRules.js';
-import type { TwoWayTable } from '../table/twoWayTable.js';
 
 export interface CodebookSides {
   rows: ReturnType<typeof codebookFacts>;
@@ -25,24 +24,37 @@ function rulesOf(request: TableRequest, name: string): LevelRules {
   return columnRules(request, name, recodesByColumn(request.recodes));
 }
 
-export function codebookSides(request: TableRequest, table: TwoWayTable): CodebookSides {
+/**
+ * The codebook's facts about both sides of a table with these levels, and
+ * its warnings against the values the columns hold (`raw`: codes listed that
+ * no row holds, values the codebook does not label; docs/codebook.md).
+ */
+export function codebookSides(request: TableRequest, levels: { rowLevels: readonly string[]; colLevels: readonly string[] }, raw: RawValues | null = null): CodebookSides {
   if (!request.codebook) return { rows: null, cols: null, ordered: false, warnings: [] };
-  const rows = codebookFacts(rulesOf(request, request.rows), table.rowLevels);
-  const cols = codebookFacts(rulesOf(request, request.cols), table.colLevels);
+  const rows = codebookFacts(rulesOf(request, request.rows), levels.rowLevels);
+  const cols = codebookFacts(rulesOf(request, request.cols), levels.colLevels);
   const warnings: Warning[] = [];
-  for (const [name, facts] of [
-    [request.rows, rows],
-    [request.cols, cols],
-  ] as const) {
-    const column = codebookColumn(request.codebook, name);
-    if (!facts || !column) continue;
-    const used = new Set(facts.codes.flat());
-    const unseen = column.values.map((v) => v.code).filter((c) => !used.has(c));
-    if (unseen.length > 0) {
-      warnings.push({ code: 'code-not-seen', message: `${request.codebook.file}: code${unseen.length === 1 ? '' : 's'} ${unseen.map((c) => `"${c}"`).join(', ')} of "${name}" ${unseen.length === 1 ? 'does' : 'do'} not occur in the counted rows` });
+  if (raw !== null) {
+    for (const [name, values] of [
+      [request.rows, raw.rows],
+      [request.cols, raw.cols],
+    ] as const) {
+      const column = codebookColumn(request.codebook, name);
+      if (!column) continue;
+      for (const w of labellingWarnings(column, labelColumn(column, values), request.codebook.file)) warnings.push({ code: w.code, message: w.message });
     }
   }
   return { rows, cols, ordered: rows?.ordered === true && cols?.ordered === true, warnings };
+}
+
+/** The distinct values of the two columns as read, over every input of a report (the union for compare and waves). */
+export interface RawValues {
+  rows: readonly string[];
+  cols: readonly string[];
+}
+
+export function unionOfRawValues(inputs: readonly { rawValues: RawValues }[]): RawValues {
+  return { rows: [...new Set(inputs.flatMap((i) => i.rawValues.rows))], cols: [...new Set(inputs.flatMap((i) => i.rawValues.cols))] };
 }
 
 /** Adds the codebook's facts to the report's sides, and the rows left out by reason. */

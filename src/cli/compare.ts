@@ -35,6 +35,7 @@ import type { OutputGuard } from '../output/guard.js';
 import type { Outcome } from './outcome.js';
 import { UnmatchedValue, unmatchedInEvery } from '../io/rowRules.js';
 import { unmatchedValueWarnings } from '../analysis/report.js';
+import { codebookSides, RawValues, unionOfRawValues } from './codebookSides.js';
 
 export interface ComparePlan {
   /** Two files (before, after), or one file whose --period column tells the periods apart. */
@@ -110,7 +111,7 @@ function period(label: string, counted: Pick<CountedInput, 'table' | 'weighting'
 }
 
 /** The two periods of one file, told apart by a column: its two levels, or the two named by --levels. */
-async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: string, levels: [string, string] | undefined, io: CliIo, guard: OutputGuard): Promise<[PeriodInput, PeriodInput, UnmatchedValue[]]> {
+async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: string, levels: [string, string] | undefined, io: CliIo, guard: OutputGuard): Promise<[PeriodInput, PeriodInput, UnmatchedValue[], RawValues]> {
   const counted = await countTable(source, readerFor(plan.reader, io, guard), { ...plan.table, by: column });
   const strata = counted.strata ?? [];
   const available = strata.map((s) => s.level);
@@ -129,6 +130,7 @@ async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: s
     period(`${column} ${b.level}`, { table: b.table, weighting: b.weighting, excluded: b.excluded ?? 0, excludedBy: b.excludedBy ?? [], design: b.design }, input, plan),
     period(`${column} ${a.level}`, { table: a.table, weighting: a.weighting, excluded: a.excluded ?? 0, excludedBy: a.excludedBy ?? [], design: a.design }, input, plan),
     counted.unmatched,
+    counted.rawValues,
   ];
 }
 
@@ -145,12 +147,13 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
   let before: PeriodInput;
   let after: PeriodInput;
   let unmatched: UnmatchedValue[];
+  let raw: RawValues;
   const guard = outputGuard(io, plan.report);
   guard.checkInputs([...(plan.periods.kind === 'column' ? [plan.periods.input] : [plan.periods.before, plan.periods.after]), ...sideInputFiles(plan.table)]);
   if (plan.periods.kind === 'column') {
     const source = inputSource(plan.periods.input, io.stdin);
     checkReadable(source);
-    [before, after, unmatched] = await periodsOfColumn(source, plan, plan.periods.column, plan.periods.levels, io, guard);
+    [before, after, unmatched, raw] = await periodsOfColumn(source, plan, plan.periods.column, plan.periods.levels, io, guard);
   } else {
     refuseStdinTwice([plan.periods.before, plan.periods.after]);
     const sources = [inputSource(plan.periods.before, io.stdin), inputSource(plan.periods.after, io.stdin)];
@@ -161,13 +164,20 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
     unmatched = unmatchedInEvery(counted.map((c) => c.unmatched));
     before = period(sources[0].label, counted[0], inputSummary(sources[0].label, counted[0]), plan);
     after = period(sources[1].label, counted[1], inputSummary(sources[1].label, counted[1]), plan);
+    raw = unionOfRawValues(counted);
   }
   // Without an order option, both periods' levels follow the codebook and recodes (natural order otherwise).
   const order = {
     rows: plan.order.rows ?? sideOrder(plan.table, plan.table.rows, [before, after], 'rowLevels'),
     cols: plan.order.cols ?? sideOrder(plan.table, plan.table.cols, [before, after], 'colLevels'),
   };
-  const report = compareReport(before, after, plan.analysis, order, unmatchedValueWarnings(unmatched));
+  // A codebook that marks both columns ordered gives each period the ordinal measures without --ordinal, as in pair.
+  const ordered = codebookSides(plan.table, { rowLevels: [], colLevels: [] }).ordered;
+  const report = compareReport(before, after, ordered && !plan.analysis.ordinal ? { ...plan.analysis, ordinal: true } : plan.analysis, order, unmatchedValueWarnings(unmatched));
+  const sides = codebookSides(plan.table, { rowLevels: report.rows.levels, colLevels: report.cols.levels }, raw);
+  if (sides.rows) Object.assign(report.rows, sides.rows);
+  if (sides.cols) Object.assign(report.cols, sides.cols);
+  report.warnings.push(...sides.warnings);
   const toFile = plan.report.output !== undefined;
   const text = COMPARE_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: plan.cells });
   if (plan.report.plot !== undefined) {

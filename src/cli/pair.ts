@@ -108,7 +108,7 @@ export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
   guard.checkInputs([plan.input, ...sideInputFiles(plan.table)]);
   checkReadable(source);
   const counted = await countTable(source, readerFor(plan.reader, io, guard), plan.table);
-  const sides = codebookSides(plan.table, counted.table);
+  const sides = codebookSides(plan.table, counted.table, counted.rawValues);
   for (const note of counted.missingTokenNotes) noteWriter(io)(note);
   const report = pairReport(
     counted.table,

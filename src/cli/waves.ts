@@ -4,6 +4,7 @@ import type { AnalysisOptions } from '../analysis/analyzeTable.js';
 import { analyzeWaves, undecidedWaves, WaveInput, WaveSetup } from '../analysis/waves.js';
 import { dataError, usageError } from '../errors.js';
 import { CountedInput, countFiles, countTable, TableRequest } from '../io/counting.js';
+import { columnRules } from '../io/countTable.js';
 import { isPattern } from '../io/engine/files.js';
 import { filesOfPattern } from '../io/fileList.js';
 import { checkReadable, InputSource, inputSource, refuseRemote } from '../io/source.js';
@@ -35,6 +36,7 @@ import {
 import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import type { OutputGuard } from '../output/guard.js';
 import { sideOrder } from './compare.js';
+import { codebookSides, RawValues, unionOfRawValues } from './codebookSides.js';
 import type { Outcome } from './outcome.js';
 import { UnmatchedValue, unmatchedInEvery } from '../io/rowRules.js';
 import { unmatchedValueWarnings } from '../analysis/report.js';
@@ -131,7 +133,7 @@ function fileKey(path: string, key: WaveKey | null): string {
   return key !== null && key.kind !== 'number' ? key.text : baseName(path);
 }
 
-async function wavesOfFiles(plan: WavesPlan, inputs: string[], mode: WaveOrderMode, io: CliIo, guard: OutputGuard): Promise<{ waves: WaveInput[]; setup: WaveSetup; unmatched: UnmatchedValue[] }> {
+async function wavesOfFiles(plan: WavesPlan, inputs: string[], mode: WaveOrderMode, io: CliIo, guard: OutputGuard): Promise<{ waves: WaveInput[]; setup: WaveSetup; unmatched: UnmatchedValue[]; raw: RawValues }> {
   const patterns: string[] = [];
   for (const input of inputs) refuseRemote(input);
   for (const input of inputs) if (await isPattern(input)) patterns.push(input);
@@ -155,10 +157,10 @@ async function wavesOfFiles(plan: WavesPlan, inputs: string[], mode: WaveOrderMo
     scores: waveScores(keys, ordered.kind, plan.spacing),
     withoutWave: 0,
   };
-  return { waves, setup, unmatched: unmatchedInEvery(counted.map((c) => c.unmatched)) };
+  return { waves, setup, unmatched: unmatchedInEvery(counted.map((c) => c.unmatched)), raw: unionOfRawValues(counted) };
 }
 
-async function wavesOfColumn(plan: WavesPlan, input: string, column: string, listed: string[] | undefined, io: CliIo, guard: OutputGuard): Promise<{ waves: WaveInput[]; setup: WaveSetup; unmatched: UnmatchedValue[] }> {
+async function wavesOfColumn(plan: WavesPlan, input: string, column: string, listed: string[] | undefined, io: CliIo, guard: OutputGuard): Promise<{ waves: WaveInput[]; setup: WaveSetup; unmatched: UnmatchedValue[]; raw: RawValues }> {
   const source = inputSource(input, io.stdin);
   checkReadable(source);
   guard.checkInputs([input]);
@@ -170,7 +172,9 @@ async function wavesOfColumn(plan: WavesPlan, input: string, column: string, lis
   } else if (available.length < 2) {
     throw dataError(`${column} has ${available.length === 0 ? 'no level' : `a single level ("${available[0]}")`} in the counted rows; waves needs at least two`);
   }
-  const ordered = orderOfLevels(available, listed);
+  // The layers come in the order of the period column's codebook entry and recodes (io/countTable.ts); natural order is the rule without them.
+  const rules = columnRules(plan.table, column);
+  const ordered = orderOfLevels(available, listed, (rules.codebook?.values.length ?? 0) > 0 || rules.recode !== null || (rules.cuts ?? null) !== null);
   const summary = inputSummary(source.label, counted);
   const waves = ordered.levels.map((level) => {
     const s = strata.find((x) => x.level === level)!;
@@ -186,14 +190,14 @@ async function wavesOfColumn(plan: WavesPlan, input: string, column: string, lis
     scores: waveScores(ordered.keys, ordered.kind, plan.spacing),
     withoutWave: counted.excluded - inWaves,
   };
-  return { waves, setup, unmatched: counted.unmatched };
+  return { waves, setup, unmatched: counted.unmatched, raw: counted.rawValues };
 }
 
 /** Counts every wave, analyses the series, writes the report; found = the association moved over the waves at --alpha. */
 export async function runWaves(plan: WavesPlan, io: CliIo): Promise<Outcome> {
   const guard = outputGuard(io, plan.report);
   guard.checkInputs(sideInputFiles(plan.table));
-  const { waves, setup, unmatched } =
+  const { waves, setup, unmatched, raw } =
     plan.waves.kind === 'column'
       ? await wavesOfColumn(plan, plan.waves.input, plan.waves.column, plan.waves.levels, io, guard)
       : await wavesOfFiles(plan, plan.waves.inputs, plan.waves.order, io, guard);
@@ -202,7 +206,13 @@ export async function runWaves(plan: WavesPlan, io: CliIo): Promise<Outcome> {
     rows: plan.order.rows ?? sideOrder(plan.table, plan.table.rows, waves, 'rowLevels'),
     cols: plan.order.cols ?? sideOrder(plan.table, plan.table.cols, waves, 'colLevels'),
   };
-  const report = analyzeWaves(waves, setup, plan.analysis, order, plan.spacing, unmatchedValueWarnings(unmatched));
+  // A codebook that marks both columns ordered gives each wave the ordinal measures without --ordinal, as in pair and compare.
+  const ordered = codebookSides(plan.table, { rowLevels: [], colLevels: [] }).ordered;
+  const report = analyzeWaves(waves, setup, ordered && !plan.analysis.ordinal ? { ...plan.analysis, ordinal: true } : plan.analysis, order, plan.spacing, unmatchedValueWarnings(unmatched));
+  const sides = codebookSides(plan.table, { rowLevels: report.rows.levels, colLevels: report.cols.levels }, raw);
+  if (sides.rows) Object.assign(report.rows, sides.rows);
+  if (sides.cols) Object.assign(report.cols, sides.cols);
+  report.warnings.push(...sides.warnings);
   // CSV and TSV are one line per wave, with no place for notes: said on standard error.
   if (plan.format === 'csv' || plan.format === 'tsv') for (const w of unmatchedValueWarnings(unmatched)) noteWriter(io)(w.message);
   const toFile = plan.report.output !== undefined;

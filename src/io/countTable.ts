@@ -547,10 +547,13 @@ function finishTables(
     if (!request.design) return null;
     return (design ?? new DesignCounter(request.design, slots.replicates.length)).finish(request.weight?.column ?? null, slots.replicateNames(), rowLabel, colLabel);
   };
+  // Layers in the order of their column's codebook and recodes (natural order otherwise), as the sides.
+  const layerRank = new Map((slots.by >= 0 ? orderOf(slots.by, [...counter.strata.keys()]) : []).map((level, k) => [level, k]));
+  const rankOf = (level: string) => layerRank.get(level) ?? Infinity;
   const own: Stratum[] | null =
     slots.by >= 0
       ? [...counter.strata.entries()]
-          .sort((x, y) => compareNatural(x[0], y[0]))
+          .sort((x, y) => rankOf(x[0]) - rankOf(y[0]) || compareNatural(x[0], y[0]))
           .map(([level, layer]) => ({
             level,
             table: layer.finish(rowLabel, colLabel).table,
@@ -697,7 +700,7 @@ export async function countTableWith(source: InputSource, reader: ReaderOptions,
   );
   const binnedNames = new Set([...binOrder.keys()].map((slot) => slots.names[slot]));
   const notes = missingTokenNotes(findings, (column) => (binnedNames.has(column) ? 'binned' : 'level'));
-  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, badDesign: (designRule as DesignRowRule | null)?.skipped ?? 0, excludedBy: counter.reasons.list(slots.names, reasonOrder), missingTokenNotes: notes, unmatched, excludedCells: counter.excludedCells ? [...counter.excludedCells].map(([key, rows]) => [JSON.parse(key) as string[], rows]) : [] };
+  return { ...counted, by: request.by ?? null, filtered: gate.filtered, badWeights: gate.badWeights, summary, unknownRowLevels, unknownColLevels, badDesign: (designRule as DesignRowRule | null)?.skipped ?? 0, excludedBy: counter.reasons.list(slots.names, reasonOrder), missingTokenNotes: notes, unmatched, rawValues: { rows: labelsOf[slots.row] ?? [], cols: labelsOf[slots.col] ?? [] }, excludedCells: counter.excludedCells ? [...counter.excludedCells].map(([key, rows]) => [JSON.parse(key) as string[], rows]) : [] };
 }
 
 /** The engine, and (one file of several counted in one pass) the groups it counted for that file with what it read of it. */

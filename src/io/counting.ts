@@ -44,6 +44,8 @@ export interface CountedInput extends CountedTable {
   unmatched: UnmatchedValue[];
   /** With keepExcludedCells: the rows left out, by their values as written ([layer,] row, col), and how many. */
   excludedCells: [string[], number][];
+  /** The distinct values of the row and column variables as read (trimmed, before labels and recodes; --missing values not among them): what a codebook's codes are checked against. */
+  rawValues: { rows: readonly string[]; cols: readonly string[] };
 }
 
 /** The columns of a scan, read once, and the way to count their pairs. */

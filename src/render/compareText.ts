@@ -50,6 +50,7 @@ export function renderCompareText(report: CompareReport, paint: ChalkInstance, o
   const out: string[] = [];
   const { before, after } = report;
   out.push(...wrapText(`${report.rows.name} × ${report.cols.name}: ${before.label} against ${after.label}`, width).map((l) => paint.bold(l)));
+  for (const side of [report.rows, report.cols]) if (side.question) out.push(...wrapText(`${side.name}: ${side.question}`, width));
   const weighting = compareWeightingWords(report);
   if (weighting) out.push(...wrapText(weighting, width).map((l) => paint.dim(l)));
   out.push('');
@@ -68,6 +69,13 @@ export function renderCompareText(report: CompareReport, paint: ChalkInstance, o
       : ([['chi-square', (r) => value(r, (x) => formatStatistic(x.tests.pearson.statistic)), '']] as [string, (r: PeriodRecord) => string, string][])),
     ['bias-corrected V', (r) => value(r, (x) => formatMeasure(x.measures.biasCorrectedV)), formatSigned(report.deltaBiasCorrectedV)],
     ["Cramér's V", (r) => value(r, (x) => formatMeasure(x.measures.cramersV)), ''],
+    // Ordered sides (--ordinal, or a codebook marking both ordered): the direction too.
+    ...([before, after].some((r) => r.testable && r.ordinal !== null)
+      ? ([
+          ['gamma', (r) => value(r, (x) => (x.ordinal ? formatSigned(x.ordinal.gamma.estimate) : UNDEFINED)), ''],
+          ["Kendall's tau-b", (r) => value(r, (x) => (x.ordinal ? formatSigned(x.ordinal.kendallTauB.estimate) : UNDEFINED)), ''],
+        ] as [string, (r: PeriodRecord) => string, string][])
+      : []),
     ['left out (missing)', (r) => value(r, (x) => formatCount(x.excluded)), ''],
   ];
   // The rows left out by column and reason, side by side, where they were counted so.

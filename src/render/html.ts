@@ -249,14 +249,15 @@ ${notes(report.warnings ?? [])}`;
 export function renderCompareHtml(report: CompareReport): string {
   const side = (r: CompareReport['before']) =>
     r.testable
-      ? `<div><h2>${e(r.label)}</h2><div class="answer${r.verdict.passes ? '' : ' fails'}"><p class="lead">${e(`${headline(r.verdict)}: ${comparison(r.verdict.pValue, r.verdict.alpha, r.verdict.passes)}, ${testName(r.verdict.test, r)}`)}</p><p>n ${formatCount(r.n)}; bias-corrected V ${formatMeasure(r.measures.biasCorrectedV)}; ${e(vIntervalWords(r))}</p>${r.excluded > 0 ? `<p class="meta">${e(leftOutWords(r.excluded, r.excludedBy))}</p>` : ''}</div>
+      ? `<div><h2>${e(r.label)}</h2><div class="answer${r.verdict.passes ? '' : ' fails'}"><p class="lead">${e(`${headline(r.verdict)}: ${comparison(r.verdict.pValue, r.verdict.alpha, r.verdict.passes)}, ${testName(r.verdict.test, r)}`)}</p><p>n ${formatCount(r.n)}; bias-corrected V ${formatMeasure(r.measures.biasCorrectedV)}; ${e(vIntervalWords(r))}${r.ordinal ? `; gamma ${formatSigned(r.ordinal.gamma.estimate)}, Kendall&#39;s tau-b ${formatSigned(r.ordinal.kendallTauB.estimate)}` : ''}</p>${r.excluded > 0 ? `<p class="meta">${e(leftOutWords(r.excluded, r.excludedBy))}</p>` : ''}</div>
 <p class="dim">Each cell: the count and its share of the row.</p>${gridTable(r, (i, j) => `${formatCount(r.counts[i][j])}<span class="share">${formatPercent(r.percentages.row[i][j], 0)}</span>`, true)}
 <div class="figures">${residualHeatMap(r, `Adjusted residuals, ${r.label}`)}</div></div>`
       : `<div><h2>${e(r.label)}</h2><p class="note">${e(r.reason)}</p></div>`;
   const change = report.change
     ? `${changeTestName(report.change.method)}: ${formatStatistic(report.change.statistic)}, df ${report.change.df}${report.change.denDf ? ` and ${formatStatistic(report.change.denDf, 0)}` : ''}, p ${formatP(report.change.pValue)}`
     : 'not computable';
-  const body = `<h1>${e(report.rows.name)} × ${e(report.cols.name)}: ${e(report.before.label)} against ${e(report.after.label)}</h1>
+  const questions = [report.rows, report.cols].filter((s) => s.question).map((s) => `<p class="meta">${e(s.name)}: ${e(s.question as string)}</p>`).join('');
+  const body = `<h1>${e(report.rows.name)} × ${e(report.cols.name)}: ${e(report.before.label)} against ${e(report.after.label)}</h1>${questions}
 <div class="answer${report.verdict?.changed ? '' : ' fails'}"><p class="lead">${e(compareHeadline(report))}</p><p>${e(change)}. Change in bias-corrected V: ${formatSigned(report.deltaBiasCorrectedV)}.</p>
 <p>${e(shiftWords(report, 'rows'))}</p><p>${e(shiftWords(report, 'cols'))}</p>${compareWeightingWords(report) ? `<p>${e(compareWeightingWords(report) as string)}</p>` : ''}</div>
 ${side(report.before)}${side(report.after)}

@@ -103,6 +103,7 @@ export function renderWavesMarkdown(report: WavesReport): string {
   const K = report.waves.length;
   const twoByTwo = report.rows.levels.length === 2 && report.cols.levels.length === 2;
   out.push(`### ${md(report.rows.name)} × ${md(report.cols.name)}: ${K} waves, ${md(report.waves[0].key)} to ${md(report.waves[K - 1].key)}`);
+  for (const side of [report.rows, report.cols]) if (side.question) out.push('', `${md(side.name)}: ${md(side.question)}`);
   out.push('');
   out.push(md(setupWords(report)));
   out.push('');

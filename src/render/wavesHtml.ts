@@ -42,7 +42,8 @@ export function renderWavesHtml(report: WavesReport): string {
     .join('');
   const slope = slopeWords(report);
   const margins = [marginChart(report, 'rows'), marginChart(report, 'cols')].filter((c) => c !== null).join('');
-  const body = `<h1>${e(title)}</h1>
+  const questions = [report.rows, report.cols].filter((s) => s.question).map((s) => `<p class="meta">${e(s.name)}: ${e(s.question as string)}</p>`).join('');
+  const body = `<h1>${e(title)}</h1>${questions}
 <p class="meta">${e(setupWords(report))}</p>
 ${latestBox}
 ${overBox}

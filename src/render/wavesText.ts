@@ -136,6 +136,7 @@ export function renderWavesText(report: WavesReport, paint: ChalkInstance, optio
   const out: string[] = [];
   const K = report.waves.length;
   out.push(...wrapText(`${report.rows.name} × ${report.cols.name}: ${K} waves, ${report.waves[0].key} to ${report.waves[K - 1].key}`, width).map((l) => paint.bold(l)));
+  for (const side of [report.rows, report.cols]) if (side.question) out.push(...wrapText(`${side.name}: ${side.question}`, width));
   out.push(...wrapText(setupWords(report), width).map((l) => paint.dim(l)));
   const weighting = weightingWords(report);
   if (weighting) out.push(...wrapText(weighting, width).map((l) => paint.dim(l)));

@@ -68,7 +68,9 @@ export function setupWords(report: WavesReport): string {
         ? 'Waves in the order the files were given'
         : s.orderedBy === 'listed'
           ? `Waves are the levels of ${s.period} listed by --levels, in that order`
-          : `Waves are the levels of ${s.period}, in natural order`;
+          : s.orderedBy === 'codebook'
+            ? `Waves are the levels of ${s.period}, in the order of its codebook entry and recodes`
+            : `Waves are the levels of ${s.period}, in natural order`;
   const spacing = s.scores.unit === 'year' ? `the trend is measured per year, each wave placed at its ${kind}` : 'the trend is measured per wave, the waves evenly spaced';
   return `${order}; ${spacing}.`;
 }

@@ -200,12 +200,12 @@ export function orderOfFiles(paths: readonly string[], mode: WaveOrderMode): Wav
 }
 
 /** Period levels in natural order, or in the order listed. */
-export function orderOfLevels(levels: readonly string[], listed?: readonly string[]): { levels: string[]; by: 'natural' | 'listed'; kind: WaveKeyKind | null; keys: (WaveKey | null)[] } {
-  const ordered = listed ? [...listed] : [...levels].sort(compareNatural);
+export function orderOfLevels(levels: readonly string[], listed?: readonly string[], codebookOrder = false): { levels: string[]; by: 'natural' | 'listed' | 'codebook'; kind: WaveKeyKind | null; keys: (WaveKey | null)[] } {
+  const ordered = listed ? [...listed] : codebookOrder ? [...levels] : [...levels].sort(compareNatural);
   const keys = readYears(ordered.map(keyOfLevel));
   const kinds = new Set(keys.map((k) => k?.kind ?? null));
   const kind = kinds.size === 1 && !kinds.has(null) ? ([...kinds][0] as WaveKeyKind) : null;
-  return { levels: ordered, by: listed ? 'listed' : 'natural', kind, keys };
+  return { levels: ordered, by: listed ? 'listed' : codebookOrder ? 'codebook' : 'natural', kind, keys };
 }
 
 export type Spacing = 'auto' | 'even';
