@@ -179,3 +179,32 @@ describe('issue 15 walk on the 1996 ANES extract: profile → codebook (CSV form
     expect(failed.stderr).toMatch(new RegExp(`^tabsight: .*anes-walk-wrong\\.csv, line ${line}: column "votes" is not in .*anes96\\.csv; did you mean "vote"\\?\\n$`));
   });
 });
+
+describe('a numeric column with "NA" in it, through profile\'s starter codebook (issue 15: still numeric, the token left out and counted by reason)', async () => {
+  // The ANES extract with the ages of the PhD respondents (educ 7) written as "NA", as an export that lost them would.
+  const lines = readFileSync(DATA, 'utf8').trimEnd().split('\n');
+  const head = lines[0].split('\t');
+  const [ageAt, educAt] = [head.indexOf("'age'"), head.indexOf("'educ'")];
+  const withNa = tempFile('anes-age-na.tsv', [lines[0], ...lines.slice(1).map((l) => l.split('\t').map((v, k) => (k === ageAt && l.split('\t')[educAt] === '7' ? 'NA' : v)).join('\t'))].join('\n') + '\n');
+  const lost = reference.columns.educ.counts['7'];
+  const made = await run(['profile', withNa, '--format', 'codebook']);
+  const starter = tempFile('anes-age-na.json', made.stdout);
+  it('profile calls the column numeric and its starter lists "NA" as a missing code beside the cut points', async () => {
+    const profile = await runJson(['profile', withNa]);
+    expect(profile.columns.find((c: { name: string }) => c.name === 'age').kind).toBe('numeric');
+    const age = JSON.parse(made.stdout).columns.find((c: { name: string }) => c.name === 'age');
+    expect(age.values).toEqual([{ code: 'NA', missing: 'written as "NA"' }]);
+    expect(age.cuts.length).toBeGreaterThan(1);
+  });
+  it('pair and scan cut the numbers and leave the "NA" rows out, counted by reason (pandas value_counts: 127 PhD respondents)', async () => {
+    const pair = await runJson(['pair', withNa, '--rows', 'age', '--cols', 'vote', '--codebook', starter]);
+    expect(pair.excluded).toBe(lost);
+    expect(pair.excludedBy).toEqual([{ column: 'age', reason: 'written as "NA"', rows: lost }]);
+    expect(pair.rows.levels.every((l: string) => /^(<\d+|\d+–\d+|\d+\+)$/.test(l))).toBe(true);
+    expect(pair.n).toBe(944 - lost);
+    const scan = await runJson(['scan', withNa, '--columns', 'age,vote', '--codebook', starter, '--full']);
+    expect(scan.pairs[0].rows.levels).toEqual(pair.rows.levels);
+    expect(scan.pairs[0].counts).toEqual(pair.counts);
+    expect(scan.excludedBy).toEqual(pair.excludedBy);
+  });
+});
