@@ -13,7 +13,7 @@ import { addAnalysisOptions, addDesignOptions, addReaderOptions, addRawCellsOpti
 import { recodesByColumn, unmatchedOfEncoded } from '../io/rowRules.js';
 import { unmatchedValueWarnings } from '../analysis/report.js';
 import { columnRules, TableRequest } from '../io/countTable.js';
-import { codebookColumn } from '../table/codebook.js';
+import { codebookColumn, labelColumn, labellingWarnings } from '../table/codebook.js';
 import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter, writeSideFile } from './output.js';
 import { detectMissingTokens, encodedValues, missingTokenNotes } from '../io/missingTokens.js';
 import type { Outcome } from './outcome.js';
@@ -199,9 +199,20 @@ export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
     );
     const countPair = await encoded.countPairs(prepared.ordered, prepared.layer);
     const unmatched = unmatchedValueWarnings(unmatchedOfEncoded(survey.where, survey.recodes, encoded, (column) => recodes.get(column), (name) => columnRules(table, name, recodes), reader.missing));
+    // The codebook against the values each column holds, as pair checks it (docs/codebook.md); a column whose values were not all kept is not judged.
+    const codebook = survey.codebook;
+    const codebookWarnings: { code: string; message: string }[] = [];
+    if (codebook) {
+      for (const column of encoded.columns) {
+        const entry = codebookColumn(codebook, column.name);
+        if (!entry || column.codes === null || column.distinctCapped) continue;
+        for (const w of labellingWarnings(entry, labelColumn(entry, column.labels), codebook.file)) codebookWarnings.push({ code: w.code, message: w.message });
+      }
+    }
+    const warnings = [...unmatched, ...codebookWarnings];
     // CSV and TSV are one line per pair, with no place for notes: said on standard error.
-    if (plan.format === 'csv' || plan.format === 'tsv') for (const w of unmatched) noteWriter(io)(w.message);
-    return scorePairs(prepared, encoded.rows, inputSummary(source.label, encoded), options, countPair, unmatched);
+    if (plan.format === 'csv' || plan.format === 'tsv') for (const w of warnings) noteWriter(io)(w.message);
+    return scorePairs(prepared, encoded.rows, inputSummary(source.label, encoded), options, countPair, warnings);
   });
   const toFile = plan.report.output !== undefined;
   const text = SCAN_RENDERERS[plan.format](report, { paint: painter(io, plan.report.color, toFile), width: pageWidth(io, toFile), cells: 'compact', rawCells: plan.report.rawCells });

@@ -154,7 +154,7 @@ describe('issue 15 walk on the 1996 ANES extract: profile → codebook (CSV form
     expect(net('Democrat').cells[0].columnPercent).toBeCloseTo((100 * (counts['0'] + counts['1'])) / 944, 10);
   });
 
-  it('a code the codebook lists that no row holds is a warning naming the file and code, in pair, compare and waves', async () => {
+  it('a code the codebook lists that no row holds is a warning naming the file and code, in pair, compare, waves and scan', async () => {
     const withRefused = tempFile('anes-walk-refused.csv', readFileSync(codebook, 'utf8') + 'vote,9,,refused,,,,,,\r\n');
     const pair = await runJson(['pair', DATA, '--rows', 'PID', '--cols', 'vote', '--codebook', withRefused]);
     const message = 'anes-walk-refused.csv: code "9" of "vote" does not occur in the data (no row gave that answer)';
@@ -163,6 +163,11 @@ describe('issue 15 walk on the 1996 ANES extract: profile → codebook (CSV form
     expect(compare.warnings.find((w: { code: string }) => w.code === 'code-not-seen').message).toContain(message);
     const waves = await runJson(['waves', DATA, '--period', 'educ', '--rows', 'PID', '--cols', 'vote', '--codebook', withRefused]);
     expect(waves.warnings.find((w: { code: string }) => w.code === 'code-not-seen').message).toContain(message);
+    const scan = await runJson(['scan', DATA, '--columns', 'PID,vote,educ', '--codebook', withRefused]);
+    expect(scan.warnings).toEqual([{ code: 'code-not-seen', message: expect.stringContaining(message) }]);
+    const scanText = await run(['scan', DATA, '--columns', 'PID,vote,educ', '--codebook', withRefused]);
+    expect(scanText.stdout).toContain('Check before relying on it');
+    expect(scanText.stdout).toMatch(/code\s+"9"\s+of\s+"vote"\s+does\s+not\s+occur\s+in\s+the\s+data/);
   });
 
   it('a value the codebook does not label stays a level under its code, with a warning; an unknown column is a one-line error naming the file and line', async () => {
