@@ -41,7 +41,7 @@ const MEASURE_NAMES: [keyof AnalysisRecord['measures'], string, string][] = [
 ];
 
 /** The lines of one table's record (the whole table, or one level of the --by variable). */
-function recordLines(record: AnalysisRecord, level: string): Line[] {
+function recordLines(record: AnalysisRecord, level: string, by?: string): Line[] {
   const lines: Line[] = [];
   const line = (section: string, name: string, value: number | null, df: number | null = null, p: number | null = null, row = '', col = '', text = ''): void => {
     lines.push([section, name, row, col, value, df, p, level, text]);
@@ -52,6 +52,9 @@ function recordLines(record: AnalysisRecord, level: string): Line[] {
   line('verdict', 'alpha', v.alpha);
   line('verdict', 'passes', v.passes ? 1 : 0, null, null, '', '', String(v.passes));
   line('verdict', 'strength', record.measures.biasCorrectedV, null, null, '', '', v.strength ?? '');
+  // What the human formats say in words, one line each: why the test leads, then the record's sentences in order.
+  line('sentence', 'why_this_test', null, null, null, '', '', plainSpaces(reasonSentence(record, by)));
+  for (const s of record.findings.statements) line('sentence', s.kind.replace(/-/g, '_'), null, null, null, '', '', plainSpaces(statementWords(record, s)));
   const cells = (section: string, matrix: readonly (readonly (number | null)[])[]) =>
     record.rows.levels.forEach((rl, i) => record.cols.levels.forEach((cl, j) => line(section, section, matrix[i][j], null, null, rl, cl)));
   cells('count', record.counts);
@@ -139,6 +142,11 @@ function recordLines(record: AnalysisRecord, level: string): Line[] {
   return lines;
 }
 
+/** Words for a spreadsheet cell: the glue that keeps numbers with their labels on a line becomes a plain space. */
+function plainSpaces(text: string): string {
+  return text.replace(/\u00a0/g, ' ');
+}
+
 /** The rows left out by column and reason: `excluded_by_rows`, `excluded_by_cols`, `excluded_by_layer` (the --by variable), the reason in `text`. */
 function excludedByLines(report: PairReport): Line[] {
   const side = (column: string) => (column === report.rows.name ? 'rows' : column === report.cols.name ? 'cols' : 'layer');
@@ -146,7 +154,7 @@ function excludedByLines(report: PairReport): Line[] {
 }
 
 export function pairLines(report: PairReport): Line[] {
-  const lines = [...recordLines(report, ''), ...excludedByLines(report)];
+  const lines = [...recordLines(report, '', report.stratified?.by), ...excludedByLines(report)];
   const { stratified, strata } = report;
   if (stratified && strata) {
     const held = (name: string, value: number | null, df: number | null = null, p: number | null = null) => lines.push(['held_fixed', name, '', '', value, df, p, '', stratified.by]);

@@ -1,0 +1,112 @@
+// One decision per analysis, shown the same in every format (issue 13):
+// each case renders one record in text, JSON, CSV, Markdown and HTML
+// (test/cli/sameDecision.ts) and checks that every format carries the
+// record's leading p-value, test, alpha, pass or fail, strength, sentences,
+// warnings and levels, and that --exit-status follows the same decision.
+// Data: the American National Election Study 1996 extract shipped by
+// statsmodels (fixtures/anes96, public domain), published tables recorded in
+// fixtures/reference/reference.json (each case names its source), and the
+// California Academic Performance Index and NHANES survey extracts of
+// fixtures/reference/survey-data (as recorded with the survey package for R).
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { reference, ROOT } from '../helpers.js';
+import { expandTable, tempFile } from './cliHelpers.js';
+import { expectSamePairDecision } from './sameDecision.js';
+
+const ANES = join(ROOT, 'fixtures', 'anes96', 'anes96.csv');
+const CODEBOOK = join(ROOT, 'fixtures', 'anes96', 'codebook.json');
+const SURVEY = join(ROOT, 'fixtures', 'reference', 'survey-data');
+const anes = (...args: string[]) => ['pair', ANES, '--codebook', CODEBOOK, ...args];
+
+/** A published table of the reference fixture, one row per observation. */
+function published(name: string, rowLevels: string[], colLevels: string[]): string {
+  const table = reference.tables.find((t) => t.name.startsWith(name))!;
+  return tempFile(`${name.replace(/\W+/g, '-')}.csv`, expandTable('a', 'b', rowLevels, colLevels, table.counts));
+}
+
+describe('pair: one decision in text, JSON, CSV, Markdown, HTML and --exit-status', () => {
+  it('large counts, the chi-square test leads (ANES 1996: party identification × vote)', async () => {
+    const r = await expectSamePairDecision(anes('--rows', "'PID'", '--cols', "'vote'"));
+    expect(r.json.verdict).toMatchObject({ test: 'pearson', passes: true });
+  });
+
+  it('a p-value between 0.01 and 0.10 judged at α 0.10 and 0.01 (ANES 1996: education × vote, Pearson p 0.080)', async () => {
+    const at10 = await expectSamePairDecision(anes('--rows', "'educ'", '--cols', "'vote'", '--alpha', '0.10'));
+    expect(at10.json.verdict).toMatchObject({ alpha: 0.1, passes: true });
+    const at01 = await expectSamePairDecision(anes('--rows', "'educ'", '--cols', "'vote'", '--alpha', '0.01'));
+    expect(at01.json.verdict).toMatchObject({ alpha: 0.01, passes: false });
+  });
+
+  it('the expected-count rule fails and a simulated p-value leads (ANES 1996: self-placement × income)', async () => {
+    const r = await expectSamePairDecision(anes('--rows', "'selfLR'", '--cols', "'DoleLR'", '--alpha', '0.01'));
+    expect(r.json.verdict.test).toBe('monteCarlo');
+  });
+
+  it('sparse cells, the exact p-value leads, ordinal measures (Agresti: job satisfaction by income)', async () => {
+    const file = published('job satisfaction by income', ['<5000', '5000-15000', '15000-25000', '>25000'], ['very dissatisfied', 'a little dissatisfied', 'moderately satisfied', 'very satisfied']);
+    const r = await expectSamePairDecision(['pair', file, '--rows', 'a', '--cols', 'b', '--row-order', '<5000,5000-15000,15000-25000,>25000', '--col-order', 'very dissatisfied,a little dissatisfied,moderately satisfied,very satisfied', '--ordinal']);
+    expect(r.json.verdict.test).toBe('fisher');
+    expect(r.json.ordinal).not.toBeNull();
+  });
+
+  it('an ordinal pair in alphabetical order warns in every format (ANES 1996: education × vote, levels by code)', async () => {
+    await expectSamePairDecision(['pair', ANES, '--rows', "'educ'", '--cols', "'vote'", '--ordinal']);
+  });
+
+  it('2×2 with the odds ratio and relative risk (Physicians\' Health Study: aspirin and myocardial infarction)', async () => {
+    const file = published('aspirin', ['placebo', 'aspirin'], ['infarction', 'none']);
+    const r = await expectSamePairDecision(['pair', file, '--rows', 'a', '--cols', 'b', '--row-order', 'placebo,aspirin']);
+    expect(r.json.measures.oddsRatio).not.toBeNull();
+  });
+
+  it('2×2 with a zero cell: Fisher leads, half added for the odds ratio, α 0.01 (reference fixture: sparse 2×2)', async () => {
+    const file = published('sparse 2x2', ['x', 'y'], ['u', 'v']);
+    const r = await expectSamePairDecision(['pair', file, '--rows', 'a', '--cols', 'b', '--alpha', '0.01']);
+    expect(r.json.measures.zeroCellCorrection).toBe(true);
+  });
+
+  it('Fisher\'s tea tasting at α 0.10: the exact p-value decides (Fisher 1935)', async () => {
+    const file = published('tea tasting', ['milk first', 'tea first'], ['milk first', 'tea first']);
+    const r = await expectSamePairDecision(['pair', file, '--rows', 'a', '--cols', 'b', '--alpha', '0.10']);
+    expect(r.json.verdict).toMatchObject({ test: 'fisher', passes: false });
+  });
+
+  it('a huge sample with a trivial effect carries the large-sample caution (reference fixture: huge n, trivial effect)', async () => {
+    const table = reference.tables.find((t) => t.name.startsWith('huge n'))!;
+    const lines = ['a,b,n'];
+    table.counts.forEach((row, i) => row.forEach((n, j) => lines.push(`r${i},c${j},${n}`)));
+    const r = await expectSamePairDecision(['pair', tempFile('huge.csv', lines.join('\n')), '--rows', 'a', '--cols', 'b', '--freq', 'n']);
+    expect(r.json.warnings.map((w: any) => w.code)).toContain('large-sample');
+  });
+
+  it('--by: the layered test decides (Bickel, Hammel & O\'Connell 1975: admissions by department)', async () => {
+    const departments = ['A', 'B', 'C', 'D', 'E', 'F'];
+    const lines = ['gender,decision,department,n'];
+    reference.stratified2x2.strata.forEach((t, k) => {
+      lines.push(`male,admitted,${departments[k]},${t[0][0]}`, `male,rejected,${departments[k]},${t[0][1]}`, `female,admitted,${departments[k]},${t[1][0]}`, `female,rejected,${departments[k]},${t[1][1]}`);
+    });
+    const file = tempFile('admissions-same-decision.csv', lines.join('\n'));
+    const r = await expectSamePairDecision(['pair', file, '--rows', 'gender', '--cols', 'decision', '--row-order', 'male,female', '--by', 'department', '--freq', 'n']);
+    expect(r.json.verdict.test).toBe('cmh');
+  });
+
+  it('--by on survey answers (ANES 1996: party identification × vote within education)', async () => {
+    await expectSamePairDecision(anes('--rows', "'selfLR'", '--cols', "'vote'", '--by', "'educ'"));
+  });
+
+  it('sampling weights without a design (California API, stratified sample: school type × awards, weight pw)', async () => {
+    const r = await expectSamePairDecision(['pair', join(SURVEY, 'apistrat.csv'), '--rows', 'stype', '--cols', 'awards', '--weight', 'pw']);
+    expect(r.json.weighted).toBe(true);
+  });
+
+  it('a survey design with strata and clusters (NHANES: high cholesterol × race, SDMVSTRA/SDMVPSU)', async () => {
+    const r = await expectSamePairDecision(['pair', join(SURVEY, 'nhanes.csv'), '--rows', 'race', '--cols', 'HI_CHOL', '--weight', 'WTMEC2YR', '--strata', 'SDMVSTRA', '--cluster', 'SDMVPSU']);
+    expect(r.json.verdict.test).toBe('designF');
+  });
+
+  it('a stratified design with its fpc (California API, stratified sample: school-wide target × awards)', async () => {
+    const r = await expectSamePairDecision(['pair', join(SURVEY, 'apistrat.csv'), '--rows', 'sch.wide', '--cols', 'awards', '--weight', 'pw', '--strata', 'stype', '--fpc', 'fpc', '--alpha', '0.01']);
+    expect(r.json.verdict.test).toBe('designF');
+  });
+});
