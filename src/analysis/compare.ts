@@ -230,6 +230,12 @@ export function comparePeriods(before: PeriodInput, after: PeriodInput, options:
   } else if (interaction) {
     change = { statistic: interaction.statistic, df: interaction.df, pValue: interaction.pValue, method: 'no-three-way-interaction' };
   }
+  if (!change && !designTests) {
+    warnings.push({
+      code: 'change-untestable',
+      message: `whether the association changed cannot be tested: with the empty cells of these tables ${rowLevels.length === 2 && colLevels.length === 2 ? 'the common odds ratio and the Breslow–Day test are' : 'the model of one association in both periods is'} not defined; merge sparse levels (--recode, --other) or compare each period's own result with care`,
+    });
+  }
   const rowMargins = aligned.map((t) => t.map((row) => row.reduce((s, v) => s + v, 0)));
   const colMargins = aligned.map((t) => t[0].map((_v, j) => t.reduce((s, row) => s + row[j], 0)));
   const v = (r: PeriodRecord) => (r.testable ? r.measures.biasCorrectedV : null);

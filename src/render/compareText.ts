@@ -5,7 +5,7 @@ import { formatCount, formatMeasure, formatP, formatRatio, formatSigned, formatS
 import { renderGrid } from './grid.js';
 import { glued, wrapText } from './layout.js';
 import { cautionLines, DEFAULT_TEXT, heading, tableView, TextOptions } from './pairText.js';
-import { comparison, designOptionWords, evidenceWords, testName } from './words.js';
+import { alphaPhrase, comparison, designOptionWords, evidenceWords, testName } from './words.js';
 import type { ExcludedBy } from '../table/countedTable.js';
 
 type Testable = Extract<PeriodRecord, { testable: true }>;
@@ -45,25 +45,20 @@ export function shiftWords(report: CompareReport, side: 'rows' | 'cols'): string
   return `${name}: ${shifted ? 'its distribution shifted' : 'no evidence its distribution shifted'} (${alpha === undefined ? glued('p', formatP(test.pValue)) : comparison(test.pValue, alpha, shifted)}, ${how})`;
 }
 
-export function renderCompareText(report: CompareReport, paint: ChalkInstance, options: TextOptions = DEFAULT_TEXT): string {
-  const width = options.width;
-  const out: string[] = [];
+/**
+ * The two periods side by side, one row per figure: the label, the figure in
+ * each period and the change (where there is one). Each period's decision is
+ * its own record's, at the report's alpha.
+ */
+export function sideBySide(report: CompareReport): [string, string, string, string][] {
   const { before, after } = report;
-  out.push(...wrapText(`${report.rows.name} × ${report.cols.name}: ${before.label} against ${after.label}`, width).map((l) => paint.bold(l)));
-  for (const side of [report.rows, report.cols]) if (side.question) out.push(...wrapText(`${side.name}: ${side.question}`, width));
-  const weighting = compareWeightingWords(report);
-  if (weighting) out.push(...wrapText(weighting, width).map((l) => paint.dim(l)));
-  out.push('');
-  out.push(...wrapText(`${report.verdict?.changed ? '■' : '□'} ${compareHeadline(report)}`, width, '', '  ').map((l) => paint.bold(l)));
-  out.push(...wrapText(shiftWords(report, 'rows'), width, '  ', '    '));
-  out.push(...wrapText(shiftWords(report, 'cols'), width, '  ', '    '));
-
-  out.push(...heading(paint, 'Side by side', width));
   const value = (r: PeriodRecord, f: (x: Testable) => string) => (r.testable ? f(r) : UNDEFINED);
+  const alpha = before.testable ? before.verdict.alpha : after.testable ? after.verdict.alpha : report.verdict?.alpha;
   const figures: [string, (r: PeriodRecord) => string, string][] = [
     ['n', (r) => formatCount(r.n), ''],
     ['leading p', (r) => value(r, (x) => formatP(x.verdict.pValue)), ''],
-    ['test leading', (r) => value(r, (x) => testName(x.verdict.test, x).replace(/ test.*$/, '')), ''],
+    ['leading test', (r) => value(r, (x) => testName(x.verdict.test, x).replace(/ test.*$/, '')), ''],
+    [alpha === undefined ? 'associated' : `associated at ${alphaPhrase(alpha)}`, (r) => value(r, (x) => (x.verdict.passes ? 'yes' : 'no')), ''],
     ...(report.designed
       ? ([['mean design effect', (r) => value(r, (x) => formatRatio(x.design?.designEffects.mean)), '']] as [string, (r: PeriodRecord) => string, string][])
       : ([['chi-square', (r) => value(r, (x) => formatStatistic(x.tests.pearson.statistic)), '']] as [string, (r: PeriodRecord) => string, string][])),
@@ -85,6 +80,39 @@ export function renderCompareText(report: CompareReport, paint: ChalkInstance, o
     const rows = (r: PeriodRecord) => (r.excludedBy ? formatCount(r.excludedBy.find((e) => e.column === column && e.reason === reason)?.rows ?? 0) : UNDEFINED);
     figures.push([`  ${column}: ${reason}`, rows, '']);
   }
+  return figures.map(([label, f, change]) => [label, f(before), f(after), change]);
+}
+
+/** The comparison's warnings, then each period's own (sparse cells, a large sample…), named by its period. */
+export function compareWarnings(report: CompareReport): string[] {
+  const own = (r: PeriodRecord) => (r.testable ? r.warnings.map((w) => `${r.label}: ${w.message}`) : []);
+  return [...report.warnings.map((w) => w.message), ...own(report.before), ...own(report.after)];
+}
+
+/** The change test in a line: "Breslow–Day test of equal odds ratios: 2.74, df 1, p 0.0981; change in bias-corrected V −0.132" (null without a change test: the headline and a warning say why). */
+export function changeLine(report: CompareReport): string | null {
+  const c = report.change;
+  if (!c) return null;
+  return `${changeTestName(c.method)}: ${formatStatistic(c.statistic)}, ${glued('df', String(c.df))}${c.denDf ? ` and ${formatStatistic(c.denDf, 0)}` : ''}, ${glued('p', formatP(c.pValue))}; change in bias-corrected V ${glued(formatSigned(report.deltaBiasCorrectedV))}`;
+}
+
+export function renderCompareText(report: CompareReport, paint: ChalkInstance, options: TextOptions = DEFAULT_TEXT): string {
+  const width = options.width;
+  const out: string[] = [];
+  const { before, after } = report;
+  out.push(...wrapText(`${report.rows.name} × ${report.cols.name}: ${before.label} against ${after.label}`, width).map((l) => paint.bold(l)));
+  for (const side of [report.rows, report.cols]) if (side.question) out.push(...wrapText(`${side.name}: ${side.question}`, width));
+  const weighting = compareWeightingWords(report);
+  if (weighting) out.push(...wrapText(weighting, width).map((l) => paint.dim(l)));
+  out.push('');
+  out.push(...wrapText(`${report.verdict?.changed ? '■' : '□'} ${compareHeadline(report)}`, width, '', '  ').map((l) => paint.bold(l)));
+  const change = changeLine(report);
+  if (change) out.push(...wrapText(change, width, '  ', '    '));
+  out.push(...wrapText(shiftWords(report, 'rows'), width, '  ', '    '));
+  out.push(...wrapText(shiftWords(report, 'cols'), width, '  ', '    '));
+
+  out.push(...heading(paint, 'Side by side', width));
+  const figures = sideBySide(report);
   out.push(
     ...renderGrid(
       {
@@ -92,7 +120,7 @@ export function renderCompareText(report: CompareReport, paint: ChalkInstance, o
         colTitle: '',
         rowLabels: figures.map(([label]) => label),
         colLabels: [before.label, after.label, 'change'],
-        cells: figures.map(([, f, change]) => [f(before), f(after), change]),
+        cells: figures.map(([, a, b, change]) => [a, b, change]),
         strong: (s) => paint.bold(s),
         faint: (s) => paint.dim(s),
       },
@@ -106,9 +134,10 @@ export function renderCompareText(report: CompareReport, paint: ChalkInstance, o
     }
     out.push(...tableView(r, paint, options, `${r.label}: `));
   }
-  if (report.warnings.length > 0) {
+  const warnings = compareWarnings(report);
+  if (warnings.length > 0) {
     out.push(...heading(paint, 'Check before relying on it', width));
-    for (const w of report.warnings) out.push(...wrapText(`! ${w.message}`, width, '  ', '    ').map((l) => paint.yellow(l)));
+    for (const w of warnings) out.push(...wrapText(`! ${w}`, width, '  ', '    ').map((l) => paint.yellow(l)));
   }
   out.push(...cautionLines(paint, width));
   return out.join('\n') + '\n';

@@ -51,9 +51,10 @@ export function renderGrid(given: GridSpec, page: number): string[] {
   const widest = Math.max(cellWidth, Math.min(16, Math.max(cellWidth, Math.floor(room / Math.max(1, columns)) - GAP)));
   let labelWidth = cellWidth;
   let folded: string[][] | null = null;
-  // Whole words first; words broken by display width only when no width up to the limit keeps them whole.
-  for (const breakWords of [false, true]) {
-    for (let w = cellWidth; w <= widest && folded === null; w++) {
+  // Whole words first, in a column that fits the page; then whole words in a column up to 16 wide (the
+  // table then splits into blocks of columns); words broken by display width only when neither keeps them whole.
+  for (const [breakWords, limit] of [[false, widest], [false, Math.max(widest, 16)], [true, widest]] as const) {
+    for (let w = cellWidth; w <= limit && folded === null; w++) {
       const attempt = spec.colLabels.map((l) => foldLabel(l, w, HEADER_LINES, breakWords));
       if (attempt.every((x) => x !== null)) {
         folded = attempt as string[][];

@@ -7,7 +7,7 @@ import type { CompareReport } from '../analysis/compare.js';
 import type { PairReport } from '../analysis/report.js';
 import type { ScanReport } from '../analysis/scan.js';
 import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
-import { changeTestName, compareHeadline, compareWeightingWords, shiftWords } from './compareText.js';
+import { changeLine, compareHeadline, compareWarnings, compareWeightingWords, shiftWords, sideBySide } from './compareText.js';
 import { inputLine } from './pairText.js';
 import { pairFlags, scanSummary, FLAG_LEGEND, SCAN_LEFT_OUT_HEADING, SCAN_LEFT_OUT_NOTE } from './scanTable.js';
 import { escapeXml, mosaicPlot, residualHeatMap, strengthChart } from './svg.js';
@@ -253,14 +253,16 @@ export function renderCompareHtml(report: CompareReport): string {
 <p class="dim">Each cell: the count and its share of the row.</p>${gridTable(r, (i, j) => `${formatCount(r.counts[i][j])}<span class="share">${formatPercent(r.percentages.row[i][j], 0)}</span>`, true)}
 <div class="figures">${residualHeatMap(r, `Adjusted residuals, ${r.label}`)}</div></div>`
       : `<div><h2>${e(r.label)}</h2><p class="note">${e(r.reason)}</p></div>`;
-  const change = report.change
-    ? `${changeTestName(report.change.method)}: ${formatStatistic(report.change.statistic)}, df ${report.change.df}${report.change.denDf ? ` and ${formatStatistic(report.change.denDf, 0)}` : ''}, p ${formatP(report.change.pValue)}`
-    : 'not computable';
+  const figures = sideBySide(report)
+    .map(([label, a, b, change]) => `<tr><th>${e(label.trim())}</th><td>${e(a)}</td><td>${e(b)}</td><td>${e(change)}</td></tr>`)
+    .join('');
+  const table = `<h2>Side by side</h2><table><tr><th></th><th>${e(report.before.label)}</th><th>${e(report.after.label)}</th><th>change</th></tr>${figures}</table>`;
   const questions = [report.rows, report.cols].filter((s) => s.question).map((s) => `<p class="meta">${e(s.name)}: ${e(s.question as string)}</p>`).join('');
   const body = `<h1>${e(report.rows.name)} × ${e(report.cols.name)}: ${e(report.before.label)} against ${e(report.after.label)}</h1>${questions}
-<div class="answer${report.verdict?.changed ? '' : ' fails'}"><p class="lead">${e(compareHeadline(report))}</p><p>${e(change)}. Change in bias-corrected V: ${formatSigned(report.deltaBiasCorrectedV)}.</p>
+<div class="answer${report.verdict?.changed ? '' : ' fails'}"><p class="lead">${e(compareHeadline(report))}</p>${changeLine(report) ? `<p>${e(changeLine(report) as string)}.</p>` : ''}
 <p>${e(shiftWords(report, 'rows'))}</p><p>${e(shiftWords(report, 'cols'))}</p>${compareWeightingWords(report) ? `<p>${e(compareWeightingWords(report) as string)}</p>` : ''}</div>
+${table}
 ${side(report.before)}${side(report.after)}
-${notes(report.warnings)}`;
+${notes(compareWarnings(report).map((message) => ({ message })))}`;
   return page(`${report.rows.name} × ${report.cols.name}: ${report.before.label} against ${report.after.label}`, body);
 }

@@ -19,7 +19,7 @@ import type { DesignShare } from '../analysis/design.js';
  */
 export const PAIR_COLUMNS = ['section', 'name', 'row', 'col', 'value', 'df', 'p_value', 'level', 'text'] as const;
 
-type Line = [string, string, string, string, number | null, number | null, number | null, string, string];
+export type Line = [string, string, string, string, number | null, number | null, number | null, string, string];
 
 const MEASURE_NAMES: [keyof AnalysisRecord['measures'], string, string][] = [
   ['phi', 'phi', 'phi'],
@@ -41,7 +41,7 @@ const MEASURE_NAMES: [keyof AnalysisRecord['measures'], string, string][] = [
 ];
 
 /** The lines of one table's record (the whole table, or one level of the --by variable). */
-function recordLines(record: AnalysisRecord, level: string, by?: string): Line[] {
+export function recordLines(record: AnalysisRecord, level: string, by?: string): Line[] {
   const lines: Line[] = [];
   const line = (section: string, name: string, value: number | null, df: number | null = null, p: number | null = null, row = '', col = '', text = ''): void => {
     lines.push([section, name, row, col, value, df, p, level, text]);
@@ -143,7 +143,7 @@ function recordLines(record: AnalysisRecord, level: string, by?: string): Line[]
 }
 
 /** Words for a spreadsheet cell: the glue that keeps numbers with their labels on a line becomes a plain space. */
-function plainSpaces(text: string): string {
+export function plainSpaces(text: string): string {
   return text.replace(/\u00a0/g, ' ');
 }
 
@@ -196,7 +196,7 @@ function markdownGrid(record: AnalysisRecord, cell: (i: number, j: number) => st
   return out;
 }
 
-function markdownRecord(record: AnalysisRecord, by?: string): string[] {
+export function markdownRecord(record: AnalysisRecord, by?: string): string[] {
   const out: string[] = [];
   const v = record.verdict;
   const m = record.measures;

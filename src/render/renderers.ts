@@ -11,6 +11,7 @@ import type { ScanReport } from '../analysis/scan.js';
 import type { WavesReport } from '../analysis/waves.js';
 import { renderBannerDelimited, renderBannerHtml, renderBannerMarkdown } from './bannerTables.js';
 import { renderBannerText } from './bannerText.js';
+import { renderCompareDelimited, renderCompareMarkdown } from './compareDelimited.js';
 import { renderCompareText } from './compareText.js';
 import { renderCompareHtml, renderPairHtml, renderScanHtml } from './html.js';
 import { toJson } from './json.js';
@@ -62,6 +63,9 @@ export const SCAN_RENDERERS = {
 export const COMPARE_RENDERERS = {
   text: (report, { paint, width, cells }) => renderCompareText(terminalSafeRecord(report), paint, { width, cells }),
   json: (report) => toJson(report),
+  csv: (report, { rawCells }) => renderCompareDelimited(report, ',', rawCells),
+  tsv: (report, { rawCells }) => renderCompareDelimited(report, '\t', rawCells),
+  markdown: (report) => renderCompareMarkdown(report),
   html: (report) => renderCompareHtml(report),
 } satisfies Renderers<CompareReport>;
 

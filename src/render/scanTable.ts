@@ -15,7 +15,8 @@ import { md } from './pairDelimited.js';
 export function pairFlags(pair: ScanPair): string[] {
   const flags: string[] = [];
   if (!pair.expectedCountRule.passes) flags.push('sparse');
-  if (pair.findings.primaryTest.test === 'fisher' || pair.findings.primaryTest.test === 'monteCarlo') flags.push('exact-p');
+  if (pair.findings.primaryTest.test === 'fisher') flags.push('exact-p');
+  if (pair.findings.primaryTest.test === 'monteCarlo') flags.push('simulated-p');
   if (pair.weighting === 'weight' && pair.design === null) flags.push('weights-only');
   if (pair.warnings.some((w) => w.code === 'large-sample')) flags.push('large-n');
   if (pair.warnings.some((w) => w.code === 'reversal')) flags.push('reversal');
@@ -57,7 +58,8 @@ export const SCAN_LEFT_OUT_NOTE = 'Each column below leaves these rows out of ev
 
 export const FLAG_LEGEND: Record<string, string> = {
   sparse: 'fails the expected-count rule',
-  'exact-p': 'the leading p-value is exact or simulated',
+  'exact-p': 'the leading p-value is exact',
+  'simulated-p': 'the leading p-value is simulated (an exact test by random tables)',
   'large-n': 'significant but negligible in strength',
   reversal: 'holding the --by variable fixed reverses the association',
   'by-changes': 'holding the --by variable fixed changes whether it passes',
@@ -71,13 +73,18 @@ export function renderScanText(report: ScanReport, paint: ChalkInstance, options
   out.push(...wrapText(scanSummary(report), width).map((l) => paint.dim(l)));
   out.push('');
   const flagText = (p: ScanPair) => pairFlags(p).join(' ');
-  // # · passes · pair · bar and V · adjusted p · notes; the pair column takes the room the page leaves,
-  // and a pair's notes go on a line of their own when they do not fit beside it.
-  const fixed = 4 + 2 + 8 + 16 + 11 + 2;
+  // # · passes · pair · bar and V · leading p · adjusted p · notes (which say where the leading p-value is
+  // exact or simulated); the pair column takes the room the page leaves, and a pair's notes go on a line
+  // of their own when they do not fit beside it.
+  const fixed = 4 + 2 + 8 + 12 + 11 + 11 + 2;
   const longest = Math.max(4, ...report.pairs.map((p) => displayWidth(`${p.rows.name} × ${p.cols.name}`)));
   const pairWidth = Math.max(16, Math.min(longest + 2, width - fixed - 5));
   const notesRoom = width - fixed - pairWidth;
-  out.push(paint.bold((padStart('#', 4) + '  ' + padEnd('passes', 8) + padEnd('pair', pairWidth) + padEnd('bias-corrected V', 16) + padStart('adj. p', 11) + '  notes').trimEnd()));
+  out.push(
+    paint.bold(
+      (padStart('#', 4) + '  ' + padEnd('passes', 8) + padEnd('pair', pairWidth) + padEnd('corrected V', 12) + padStart('leading p', 11) + padStart('adj. p', 11) + '  notes').trimEnd(),
+    ),
+  );
   for (const pair of report.pairs) {
     const name = foldLabel(`${pair.rows.name} × ${pair.cols.name}`, pairWidth - 2, Number.MAX_SAFE_INTEGER) ?? [`${pair.rows.name} × ${pair.cols.name}`];
     const v = pair.measures.biasCorrectedV;
@@ -88,8 +95,9 @@ export function renderScanText(report: ScanReport, paint: ChalkInstance, options
       '  ' +
       padEnd(pair.passes ? 'yes' : '—', 8) +
       padEnd(name[0], pairWidth) +
-      strengthBar(v, 10) +
+      strengthBar(v, 6) +
       padStart(formatMeasure(v), 6) +
+      padStart(formatP(pair.verdict.pValue), 11) +
       padStart(formatP(pair.pAdjusted), 11) +
       '  ' +
       (inline ? notes : '');
@@ -106,7 +114,7 @@ export function renderScanText(report: ScanReport, paint: ChalkInstance, options
     ? "The leading p-value is the design-based F test's (Rao–Scott, second order), for every pair."
     : 'The leading p-value is the chi-square one, or the exact or simulated one where expected counts are small (simulated ones drawn until the decision is clear).';
   const legend =
-    `"passes": the adjusted leading p-value is at most ${glued('α', String(report.alpha))}. ${leading}` +
+    `"passes": the adjusted leading p-value ("adj. p") is at most ${glued('α', String(report.alpha))}. ${leading} "corrected V": the bias-corrected Cramér's V.` +
     (used.length > 0 ? ' Notes: ' + used.map((f) => `${f} = ${FLAG_LEGEND[f]}`).join('; ') + '.' : '');
   out.push(...wrapText(legend, width).map((l) => paint.dim(l)));
   if (report.skipped.length > 0) {

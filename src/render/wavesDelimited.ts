@@ -4,7 +4,7 @@ import { md } from './pairDelimited.js';
 import { exactNumber } from './scanTable.js';
 import { spreadsheetField } from '../escape/spreadsheet.js';
 import { CAUTION, testName } from './words.js';
-import { acrossTests, latestHeadline, patternHeadline, setupWords, slopeWords, vWithInterval, wavesStatementWords, weightingWords } from './wavesWords.js';
+import { acrossTests, latestHeadline, levelsWords, patternHeadline, setupWords, slopeWords, vWithInterval, wavesStatementWords, weightingWords } from './wavesWords.js';
 
 /**
  * Stable column names of `waves --format csv|tsv`: one line per wave, in
@@ -106,6 +106,8 @@ export function renderWavesMarkdown(report: WavesReport): string {
   for (const side of [report.rows, report.cols]) if (side.question) out.push('', `${md(side.name)}: ${md(side.question)}`);
   out.push('');
   out.push(md(setupWords(report)));
+  out.push('');
+  out.push(md(levelsWords(report)));
   out.push('');
   const weighting = weightingWords(report);
   if (weighting) {

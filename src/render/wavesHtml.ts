@@ -4,7 +4,7 @@ import { shiftWords } from './compareText.js';
 import { e, notes, page } from './html.js';
 import { testName } from './words.js';
 import { marginChart, oddsRatioChart, vSeriesChart } from './wavesSvg.js';
-import { acrossTests, latestHeadline, patternHeadline, setupWords, slopeWords, wavesStatementWords, weightingWords } from './wavesWords.js';
+import { acrossTests, latestHeadline, levelsWords, patternHeadline, setupWords, slopeWords, wavesStatementWords, weightingWords } from './wavesWords.js';
 
 /** The waves report as one self-contained page: the two answers, the charts, the series, the tests across waves. */
 export function renderWavesHtml(report: WavesReport): string {
@@ -44,7 +44,7 @@ export function renderWavesHtml(report: WavesReport): string {
   const margins = [marginChart(report, 'rows'), marginChart(report, 'cols')].filter((c) => c !== null).join('');
   const questions = [report.rows, report.cols].filter((s) => s.question).map((s) => `<p class="meta">${e(s.name)}: ${e(s.question as string)}</p>`).join('');
   const body = `<h1>${e(title)}</h1>${questions}
-<p class="meta">${e(setupWords(report))}</p>
+<p class="meta">${e(setupWords(report))}</p><p class="meta">${e(levelsWords(report))}</p>
 ${latestBox}
 ${overBox}
 ${figures}

@@ -5,7 +5,7 @@ import { shiftWords } from './compareText.js';
 import { displayWidth, glued, padEnd, padStart, shownLabel, wrapText } from './layout.js';
 import { cautionLines, heading } from './pairText.js';
 import { strengthBar } from './scanTable.js';
-import { acrossTests, dfWords, latestHeadline, patternHeadline, setupWords, slopeWords, wavesStatementWords, weightingWords } from './wavesWords.js';
+import { acrossTests, dfWords, latestHeadline, levelsWords, patternHeadline, setupWords, slopeWords, wavesStatementWords, weightingWords } from './wavesWords.js';
 
 const BAR = 10;
 /** A wave key longer than this is shown by its number, with a key below the series. */
@@ -138,6 +138,7 @@ export function renderWavesText(report: WavesReport, paint: ChalkInstance, optio
   out.push(...wrapText(`${report.rows.name} × ${report.cols.name}: ${K} waves, ${report.waves[0].key} to ${report.waves[K - 1].key}`, width).map((l) => paint.bold(l)));
   for (const side of [report.rows, report.cols]) if (side.question) out.push(...wrapText(`${side.name}: ${side.question}`, width));
   out.push(...wrapText(setupWords(report), width).map((l) => paint.dim(l)));
+  out.push(...wrapText(levelsWords(report), width).map((l) => paint.dim(l)));
   const weighting = weightingWords(report);
   if (weighting) out.push(...wrapText(weighting, width).map((l) => paint.dim(l)));
 

@@ -2,7 +2,7 @@ import type { WavesReport, WavesStatement } from '../analysis/waves.js';
 import { formatMeasure, formatP, formatRatio, formatSigned } from '../readableNumbers.js';
 import { changeTestName } from './compareText.js';
 import { GLUE, glued } from './layout.js';
-import { alphaPhrase, comparison, evidenceWords } from './words.js';
+import { alphaPhrase, comparison, evidenceWords, quoteLevel } from './words.js';
 
 /**
  * The words of the waves report, shared by every human-facing format: the
@@ -13,7 +13,7 @@ const KEY_NAMES: Record<string, string> = { date: 'date', week: 'ISO week', mont
 
 export function sameTestName(test: 'breslow-day-tarone' | 'no-three-way-interaction' | 'design-wald'): string {
   if (test === 'design-wald') return 'design-based Wald test of equal log odds ratios in every wave';
-  return test === 'breslow-day-tarone' ? 'Breslow–Day test of equal odds ratios with Tarone’s correction' : 'G² test of no three-way interaction';
+  return test === 'breslow-day-tarone' ? "Breslow–Day test of equal odds ratios with Tarone's correction" : 'G² test of no three-way interaction';
 }
 
 export function trendTestName(method: 'odds-ratio' | 'layer-effect', designed = false): string {
@@ -73,6 +73,17 @@ export function setupWords(report: WavesReport): string {
             : `Waves are the levels of ${s.period}, in natural order`;
   const spacing = s.scores.unit === 'year' ? `the trend is measured per year, each wave placed at its ${kind}` : 'the trend is measured per wave, the waves evenly spaced';
   return `${order}; ${spacing}.`;
+}
+
+/** The levels of the table, and for 2×2 which way the odds ratio reads: every format names them. */
+export function levelsWords(report: WavesReport): string {
+  const { rows, cols } = report;
+  const list = (levels: readonly string[]) => levels.map(quoteLevel).join(', ');
+  const table = `The table: ${rows.name} (${list(rows.levels)}) by ${cols.name} (${list(cols.levels)})`;
+  if (rows.levels.length !== 2 || cols.levels.length !== 2) return `${table}.`;
+  const [r1, r2] = rows.levels.map(quoteLevel);
+  const [c1, c2] = cols.levels.map(quoteLevel);
+  return `${table}; each odds ratio is the odds of ${cols.name} ${c1} (against ${c2}) with ${rows.name} ${r1}, over those with ${rows.name} ${r2}.`;
 }
 
 /** The across-wave decision in a few words. */

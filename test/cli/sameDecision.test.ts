@@ -12,7 +12,8 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { reference, ROOT } from '../helpers.js';
 import { expandTable, tempFile } from './cliHelpers.js';
-import { expectSamePairDecision } from './sameDecision.js';
+import { expectSameCompareDecision, expectSamePairDecision, expectSameScanDecision, expectSameWavesDecision } from './sameDecision.js';
+import { wavesReference } from '../stats/wavesReference.js';
 
 const ANES = join(ROOT, 'fixtures', 'anes96', 'anes96.csv');
 const CODEBOOK = join(ROOT, 'fixtures', 'anes96', 'codebook.json');
@@ -108,5 +109,116 @@ describe('pair: one decision in text, JSON, CSV, Markdown, HTML and --exit-statu
   it('a stratified design with its fpc (California API, stratified sample: school-wide target × awards)', async () => {
     const r = await expectSamePairDecision(['pair', join(SURVEY, 'apistrat.csv'), '--rows', 'sch.wide', '--cols', 'awards', '--weight', 'pw', '--strata', 'stype', '--fpc', 'fpc', '--alpha', '0.01']);
     expect(r.json.verdict.test).toBe('designF');
+  });
+});
+
+describe('scan: one decision per pair in text, JSON, CSV, Markdown, HTML and --exit-status', () => {
+  const columns = ['--columns', "'PID','vote','educ','TVnews','selfLR'"];
+  for (const adjust of ['bh', 'holm', 'bonferroni', 'none']) {
+    it(`--adjust ${adjust}: exact and simulated p-values lead where counts are sparse (ANES 1996, five questions)`, async () => {
+      const r = await expectSameScanDecision(['scan', ANES, '--codebook', CODEBOOK, ...columns, '--adjust', adjust]);
+      expect(r.json.adjustment).toBe(adjust);
+    });
+  }
+
+  it('α 0.10 and 0.01 (ANES 1996, five questions)', async () => {
+    for (const alpha of ['0.10', '0.01']) await expectSameScanDecision(['scan', ANES, '--codebook', CODEBOOK, ...columns, '--alpha', alpha]);
+  });
+
+  it('no pair passes: --exit-status 3 (ANES 1996: TV news, education and vote)', async () => {
+    const r = await expectSameScanDecision(['scan', ANES, '--columns', "'TVnews','educ','vote'", '--adjust', 'bonferroni']);
+    expect(r.json.pairsPassing).toBe(0);
+  });
+
+  it('--top and --by (ANES 1996, held fixed by vote)', async () => {
+    await expectSameScanDecision(['scan', ANES, '--codebook', CODEBOOK, '--columns', "'PID','educ','TVnews','selfLR'", '--by', "'vote'", '--top', '3']);
+  });
+
+  it('sampling weights without a design, and columns left out (California API, stratified sample, weight pw)', async () => {
+    const r = await expectSameScanDecision(['scan', join(SURVEY, 'apistrat.csv'), '--weight', 'pw']);
+    expect(r.json.weighting).toBe('weight');
+  });
+
+  it('a survey design with strata and clusters (NHANES, SDMVSTRA/SDMVPSU)', async () => {
+    const r = await expectSameScanDecision(['scan', join(SURVEY, 'nhanes.csv'), '--columns', 'HI_CHOL,race,agecat,RIAGENDR', '--weight', 'WTMEC2YR', '--strata', 'SDMVSTRA', '--cluster', 'SDMVPSU']);
+    expect(r.json.design).not.toBeNull();
+  });
+});
+
+describe('compare: one decision in text, JSON, CSV, Markdown, HTML and --exit-status', () => {
+  const departments = ['A', 'B', 'C', 'D', 'E', 'F'];
+  const lines = ['gender,decision,department,n'];
+  reference.stratified2x2.strata.forEach((t, k) => {
+    lines.push(`male,admitted,${departments[k]},${t[0][0]}`, `male,rejected,${departments[k]},${t[0][1]}`, `female,admitted,${departments[k]},${t[1][0]}`, `female,rejected,${departments[k]},${t[1][1]}`);
+  });
+  const admissions = tempFile('admissions-compare.csv', lines.join('\n'));
+  const departmentsAB = ['compare', admissions, '--period', 'department', '--levels', 'A,B', '--rows', 'gender', '--cols', 'decision', '--freq', 'n'];
+
+  it('no change at α 0.05, a change at α 0.10: Breslow–Day p 0.098 (Bickel, Hammel & O\'Connell 1975: departments A and B)', async () => {
+    const at05 = await expectSameCompareDecision(departmentsAB);
+    expect(at05.json.verdict).toMatchObject({ test: 'breslow-day', changed: false });
+    const at10 = await expectSameCompareDecision([...departmentsAB, '--alpha', '0.10']);
+    expect(at10.json.verdict).toMatchObject({ changed: true, alpha: 0.1 });
+  });
+
+  it('α 0.01 decides once (Bickel et al. 1975: departments A and C)', async () => {
+    await expectSameCompareDecision(['compare', admissions, '--period', 'department', '--levels', 'A,C', '--rows', 'gender', '--cols', 'decision', '--freq', 'n', '--alpha', '0.01']);
+  });
+
+  it('r×c with sparse cells, exact p-values within each period (ANES 1996: education × TV news, Clinton against Dole voters)', async () => {
+    await expectSameCompareDecision(['compare', ANES, '--codebook', CODEBOOK, '--period', "'vote'", '--rows', "'educ'", '--cols', "'selfLR'", '--simulations', '2000']);
+  });
+
+  it('sampling weights without a design; no change test where a cell is empty in both periods, and a warning says why (California API, stratified sample: school-wide target × awards, year-round against not)', async () => {
+    const r = await expectSameCompareDecision(['compare', join(SURVEY, 'apistrat.csv'), '--period', 'yr.rnd', '--rows', 'sch.wide', '--cols', 'awards', '--weight', 'pw']);
+    expect(r.json.weighted).toBe(true);
+    expect(r.json.verdict).toBeNull();
+    expect(r.json.warnings.map((w: any) => w.code)).toContain('change-untestable');
+  });
+
+  it('sampling weights without a design, a change test (California API, stratified sample: school type × awards, year-round against not)', async () => {
+    await expectSameCompareDecision(['compare', join(SURVEY, 'apistrat.csv'), '--period', 'yr.rnd', '--rows', 'meals3', '--cols', 'awards', '--weight', 'pw']);
+  });
+
+  it('a survey design with strata and clusters (NHANES: high cholesterol × age group, women against men)', async () => {
+    const r = await expectSameCompareDecision(['compare', join(SURVEY, 'nhanes.csv'), '--period', 'RIAGENDR', '--rows', 'agecat', '--cols', 'HI_CHOL', '--weight', 'WTMEC2YR', '--strata', 'SDMVSTRA', '--cluster', 'SDMVPSU']);
+    expect(r.json.designed).toBe(true);
+  });
+});
+
+describe('waves: one decision in text, JSON, CSV, Markdown, HTML and --exit-status', () => {
+  /** Counted cells of K waves as one CSV with a period column (read back with --freq count). */
+  function cellsWithPeriod(name: string, waves: string[], layers: number[][][], rows: string[], cols: string[]): string {
+    const lines = ['wave,r,c,count'];
+    layers.forEach((t, k) => t.forEach((row, i) => row.forEach((n, j) => lines.push(`${waves[k]},${rows[i]},${cols[j]},${n}`))));
+    return tempFile(name, lines.join('\n') + '\n');
+  }
+  const PAIR = ['--rows', 'r', '--cols', 'c', '--freq', 'count'];
+  const years = wavesReference.oddsRatioTrend[1].scores.map(String);
+
+  it(`a fading association, r×c: ${wavesReference.noThreeWay[0].name}`, async () => {
+    const file = cellsWithPeriod('vocab-same-decision.csv', years, wavesReference.noThreeWay[0].layers, ['<12', '12', '13-15', '16+'], ['0-4', '5-6', '7-10']);
+    const r = await expectSameWavesDecision(['waves', file, '--period', 'wave', ...PAIR]);
+    expect(r.json.verdict.moved).toBe(true);
+  });
+
+  it(`a fading odds ratio, 2×2, at α 0.01: ${wavesReference.oddsRatioTrend[1].name}`, async () => {
+    const item = wavesReference.oddsRatioTrend[1];
+    const file = cellsWithPeriod('college-same-decision.csv', item.scores.map(String), item.strata, ['yes', 'no'], ['yes', 'no']);
+    await expectSameWavesDecision(['waves', file, '--period', 'wave', ...PAIR, '--row-order', 'yes,no', '--col-order', 'yes,no', '--alpha', '0.01']);
+  });
+
+  it(`a stable association, 2×2, at α 0.10: ${wavesReference.equalOdds[0].name}`, async () => {
+    const item = wavesReference.equalOdds[0];
+    const levels = item.strata.map((_t, k) => String(k + 1));
+    const file = cellsWithPeriod('smoking-same-decision.csv', levels, item.strata, ['exposed', 'unexposed'], ['case', 'control']);
+    const r = await expectSameWavesDecision(['waves', file, '--period', 'wave', ...PAIR, '--row-order', 'exposed,unexposed', '--col-order', 'case,control', '--alpha', '0.10']);
+    expect(r.json.verdict.moved).toBe(false);
+  });
+
+  it(`sparse waves, exact p-values: ${wavesReference.noThreeWay[1].name}`, async () => {
+    const item = wavesReference.noThreeWay[1];
+    const file = cellsWithPeriod('esoph-same-decision.csv', item.layers.map((_t, k) => String(k + 1)), item.layers, item.layers[0].map((_r, i) => `row ${i + 1}`), item.layers[0][0].map((_c, j) => `col ${j + 1}`));
+    await expectSameWavesDecision(['waves', file, '--period', 'wave', ...PAIR]);
   });
 });

@@ -7,7 +7,10 @@
 import { parse } from 'csv-parse/sync';
 import { expect } from 'vitest';
 import { formatMeasure, formatP, formatStatistic } from '../../src/readableNumbers.js';
-import { CAUTION, comparison, headline, reasonSentence, statementWords, testName } from '../../src/render/words.js';
+import { changeLine, compareHeadline, compareWarnings, compareWeightingWords, shiftWords, sideBySide } from '../../src/render/compareText.js';
+import { acrossTests, latestHeadline, levelsWords, patternHeadline, setupWords, slopeWords, wavesStatementWords } from '../../src/render/wavesWords.js';
+import { FLAG_LEGEND, pairFlags, scanSummary } from '../../src/render/scanTable.js';
+import { CAUTION, comparison, excludedByWords, headline, reasonSentence, statementWords, testName } from '../../src/render/words.js';
 import { run } from './cliHelpers.js';
 
 export type HumanFormat = 'text' | 'markdown' | 'html';
@@ -149,5 +152,133 @@ export async function expectSamePairDecision(args: string[]): Promise<Renderings
     }
   }
   expect(r.exitStatus, '--exit-status').toBe(statusOf(record.verdict.passes));
+  return r;
+}
+
+/**
+ * `scan`: the setting and count of passing pairs, and for every pair shown its
+ * names, leading p-value and test, adjusted p-value, decision, strength and
+ * notes, in text, Markdown, HTML and CSV; --exit-status 0 exactly when a pair passes.
+ */
+export async function expectSameScanDecision(args: string[]): Promise<Renderings> {
+  const r = await renderEvery(args, ALL);
+  const report = r.json;
+  expectShown(r, scanSummary(report), HUMAN, 'the summary (adjustment, alpha, pairs passing)');
+  expectShown(r, CAUTION, HUMAN, 'the caution');
+  const csv = r.csv!;
+  expect(csv).toHaveLength(report.pairs.length);
+  for (const p of report.pairs) {
+    const what = `${p.rows.name} × ${p.cols.name}`;
+    for (const name of [p.rows.name, p.cols.name]) expectShown(r, name, ALL, `the column ${name}`);
+    expectShown(r, formatP(p.verdict.pValue), HUMAN, `the leading p of ${what}`);
+    expectShown(r, formatP(p.pAdjusted), HUMAN, `the adjusted p of ${what}`);
+    // the leading test by name (text: in the notes, exact-p or simulated-p, and the summary for a design or --by)
+    expectShown(r, testName(p.verdict.test, p), ['markdown', 'html'], `the leading test of ${what}`);
+    expectShown(r, formatMeasure(p.measures.biasCorrectedV), HUMAN, `the bias-corrected V of ${what}`);
+    for (const flag of pairFlags(p)) expectShown(r, `${flag} = ${FLAG_LEGEND[flag]}`, HUMAN, `the note ${flag} of ${what}`);
+    const line = csv.find((l) => l.rows === p.rows.name && l.cols === p.cols.name)!;
+    expect(Number(line.leading_p_value), `CSV leading p of ${what}`).toBe(p.verdict.pValue);
+    expect(line.leading_test, `CSV leading test of ${what}`).toBe(p.verdict.test);
+    expect(Number(line.p_adjusted), `CSV adjusted p of ${what}`).toBe(p.pAdjusted);
+    expect(line.passes, `CSV decision of ${what}`).toBe(String(p.passes));
+    expect(line.strength, `CSV strength of ${what}`).toBe(p.verdict.strength ?? '');
+    expect(p.passes, `${what}: passes is the verdict's`).toBe(p.verdict.passes);
+  }
+  // the decision of each pair, row by row: yes in text and Markdown, ✓ in HTML
+  const passing = report.pairs.filter((p: any) => p.passes).length;
+  expect((r.words.markdown!.match(/\| \d+ \| yes \|/g) ?? []).length, 'Markdown rows marked yes').toBe(passing);
+  expect((r.words.html!.match(/✓ passes/g) ?? []).length, 'HTML rows marked as passing').toBe(passing);
+  expect((r.words.text!.match(/ \d+ yes /g) ?? []).length, 'text rows marked yes').toBe(passing);
+  for (const s of report.skipped) expectShown(r, s.reason, HUMAN, `why ${s.column} was left out`);
+  for (const u of report.untestable) expectShown(r, u.reason, HUMAN, `why ${u.rows} × ${u.cols} was not tested`);
+  for (const d of report.derived ?? []) expectShown(r, d.reason, HUMAN, `why ${d.rows} × ${d.cols} was not ranked`);
+  for (const words of excludedByWords(report.excludedBy ?? [])) expectShown(r, words, HUMAN, 'the rows left out');
+  expect(r.exitStatus, '--exit-status').toBe(statusOf(report.pairsPassing > 0));
+  return r;
+}
+
+/**
+ * `compare`: the decision about the change, the change test, each margin's
+ * shift, the periods side by side (each period's own decision), every warning
+ * (the comparison's and each period's) and every level, in text, Markdown,
+ * HTML and CSV; --exit-status 0 exactly when the association changed.
+ */
+export async function expectSameCompareDecision(args: string[]): Promise<Renderings> {
+  const r = await renderEvery(args, ALL);
+  const report = r.json;
+  for (const phrase of [compareHeadline(report), changeLine(report) ?? '', shiftWords(report, 'rows'), shiftWords(report, 'cols'), compareWeightingWords(report) ?? '']) {
+    expectShown(r, phrase, ALL, 'the comparison in words');
+  }
+  for (const [label, a, b, change] of sideBySide(report)) {
+    expectShown(r, `${label.trim()}`, HUMAN, `the row "${label.trim()}" side by side`);
+    for (const x of [a, b, change]) if (x !== '') expectShown(r, x, HUMAN, `"${x}" of the row "${label.trim()}" side by side`);
+  }
+  for (const w of compareWarnings(report)) expectShown(r, w, HUMAN, 'a warning');
+  for (const w of report.warnings) expectShown(r, w.message, ['csv'], `the warning ${w.code}`);
+  for (const level of [...report.rows.levels, ...report.cols.levels]) expectLevelShown(r, level, ALL);
+  for (const period of [report.before, report.after]) {
+    expectShown(r, period.label, ALL, 'the period');
+    if (!period.testable) continue;
+    expectPairRecordShown(r, period, ['markdown', 'html', 'csv'].filter((f) => f !== 'html') as Format[]);
+    const v = period.verdict;
+    expectShown(r, `${headline(v)}: ${comparison(v.pValue, v.alpha, v.passes)}, ${testName(v.test, period)}`, ['markdown', 'html'], `the decision of ${period.label}`);
+    expectPairCsvDecision(r.csv!, period, period.label);
+  }
+  const v = report.verdict;
+  if (v) {
+    const changed = r.csv!.find((l) => l.section === 'verdict' && l.name === 'changed' && l.level === '')!;
+    expect(changed.value, 'CSV: changed').toBe(v.changed ? '1' : '0');
+    expect(Number(changed.p_value), 'CSV: the change p-value').toBe(v.pValue);
+    expect(Number(r.csv!.find((l) => l.section === 'verdict' && l.name === 'alpha' && l.level === '')!.value), 'CSV: alpha').toBe(v.alpha);
+  }
+  expectShown(r, CAUTION, HUMAN, 'the caution');
+  expect(r.exitStatus, '--exit-status').toBe(statusOf(v?.changed === true));
+  return r;
+}
+
+/**
+ * `waves`: the setting, the answer since the wave before and over all waves,
+ * every sentence and warning, each wave's leading p-value and decision, the
+ * tests across waves with their adjusted p-values, in text, Markdown, HTML and
+ * CSV; --exit-status 0 exactly when the association moved.
+ */
+export async function expectSameWavesDecision(args: string[]): Promise<Renderings> {
+  const r = await renderEvery(args, ALL);
+  const report = r.json;
+  expectShown(r, setupWords(report), HUMAN, 'the setting');
+  expectShown(r, latestHeadline(report), HUMAN, 'the answer since the wave before');
+  expectShown(r, patternHeadline(report), HUMAN, 'the answer over all waves');
+  for (const s of report.statements) if (s.kind !== 'latest') expectShown(r, wavesStatementWords(report, s), HUMAN, `the sentence (${s.kind})`);
+  for (const w of report.warnings) expectShown(r, w.message, HUMAN, `the warning ${w.code}`);
+  for (const t of acrossTests(report)) {
+    expectShown(r, t.name, HUMAN, `the test across waves: ${t.name}`);
+    expectShown(r, formatP(t.pValue), HUMAN, `the p-value of ${t.name}`);
+    if (t.adjustedPValue !== null) expectShown(r, formatP(t.adjustedPValue), HUMAN, `the adjusted p-value of ${t.name}`);
+  }
+  const slope = slopeWords(report);
+  if (slope) expectShown(r, slope, HUMAN, 'the slope of the trend');
+  for (const level of [...report.rows.levels, ...report.cols.levels]) expectLevelShown(r, level, HUMAN);
+  expectShown(r, levelsWords(report), HUMAN, 'the levels of the table');
+  expectShown(r, CAUTION, HUMAN, 'the caution');
+  const csv = r.csv!;
+  expect(csv).toHaveLength(report.waves.length);
+  report.waves.forEach((w: any, k: number) => {
+    expectShown(r, w.key, ALL, 'the wave');
+    const line = csv[k];
+    expect(line.wave, 'CSV wave order').toBe(w.key);
+    expect(line.moved, 'CSV: moved').toBe(String(report.verdict.moved));
+    expect(Number(line.alpha), 'CSV: alpha').toBe(report.verdict.alpha);
+    if (!w.testable) return;
+    expectShown(r, formatP(w.verdict.pValue), HUMAN, `the leading p of wave ${w.key}`);
+    expectShown(r, testName(w.verdict.test, w), ['markdown', 'html'], `the leading test of wave ${w.key}`);
+    expect(Number(line.leading_p_value), `CSV leading p of wave ${w.key}`).toBe(w.verdict.pValue);
+    expect(line.leading_test, `CSV leading test of wave ${w.key}`).toBe(w.verdict.test);
+    expect(line.passes, `CSV decision of wave ${w.key}`).toBe(String(w.verdict.passes));
+  });
+  // each wave's decision: ■/□ in text, yes/no in Markdown and HTML
+  const associated = report.waves.filter((w: any) => w.testable && w.verdict.passes).length;
+  const waveLines = r.words.text!.split(/ (?=\S+ [\d,]+ \S+ [*]? ?[■□] )/).slice(1);
+  expect(waveLines.filter((l) => /^\S+ [\d,]+ \S+ [*]? ?■ /.test(l)).length, 'text: the waves marked ■').toBe(associated);
+  expect(r.exitStatus, '--exit-status').toBe(statusOf(report.verdict.moved));
   return r;
 }
