@@ -81,7 +81,7 @@ export function inputSummary(
 
 export function addAnalysisOptions(command: Command): Command {
   return command
-    .option('--ordinal', 'both variables are ordered, in the level order in force: adds ordinal measures and the linear-by-linear test')
+    .option('--ordinal', 'both variables are ordered, in the level order in force: adds ordinal measures and the test of a linear trend across the ordered levels (Mantel 1963)')
     .addOption(new Option('--exact <when>', 'exact p-values: auto (when counts are small), always, never').choices(['auto', 'always', 'never']).default('auto'))
     .option('--simulations <n>', 'random tables for a simulated exact p-value (scan: at most this many, fewer once the decision is clear)', String(DEFAULT_ANALYSIS_OPTIONS.simulations))
     .option('--seed <n>', 'seed of the random tables, so runs repeat', String(DEFAULT_ANALYSIS_OPTIONS.seed))

@@ -6,7 +6,7 @@
  */
 import type { BannerAssociation, BannerBreakTests, BannerCell, BannerCellPart, BannerMeanCell, BannerReport } from '../analysis/banner.js';
 import { formatConfidence, formatCount, formatP, formatPercent, formatRatio, formatStatistic, UNDEFINED } from '../readableNumbers.js';
-import { ADJUSTMENT_NAMES, evidenceWords, testName } from './words.js';
+import { ADJUSTMENT_NAMES, comparison, evidenceWords, testName } from './words.js';
 
 /** Marks a base below the minimum in the human-facing formats. */
 export const SMALL_BASE_MARK = '!';
@@ -39,7 +39,10 @@ export function showsWeightedBase(report: BannerReport): boolean {
 export function associationWords(tests: BannerBreakTests, alpha: number): string {
   const a = tests.association;
   if (a === null) return `${tests.break}: no overall test (${tests.reason ?? 'not possible'})`;
-  return `${tests.break}: ${associationTest(a)}, ${formatStatistic(a.statistic)} on ${trimDf(a)} df, p ${formatP(a.pValue)} ${a.passes ? '≤' : '>'} α ${alpha}: ${a.passes ? evidenceWords(a.evidence) : 'not shown to differ'}`;
+  // An exact or simulated p-value has no statistic of its own: the chi-square beside it would not be the one that decides.
+  const exact = a.verdict !== null && (a.verdict.test === 'fisher' || a.verdict.test === 'monteCarlo');
+  const statistic = exact ? '' : `, ${formatStatistic(a.statistic)} on ${trimDf(a)} df`;
+  return `${tests.break}: ${associationTest(a)}${statistic}, ${comparison(a.pValue, alpha, a.passes)}: ${a.passes ? evidenceWords(a.evidence) : 'not shown to differ'}`;
 }
 
 function trimDf(a: BannerAssociation): string {

@@ -38,7 +38,7 @@ const RATIO = '0.00';
  * not turn it into one.
  */
 function text(value: string): string {
-  return neutraliseFormula(value);
+  return neutraliseFormula(value.replace(/\u00a0/g, ' '));
 }
 
 export interface WorkbookOptions {

@@ -12,7 +12,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { reference, ROOT } from '../helpers.js';
 import { expandTable, tempFile } from './cliHelpers.js';
-import { expectSameCompareDecision, expectSamePairDecision, expectSameScanDecision, expectSameWavesDecision } from './sameDecision.js';
+import { expectSameBannerDecision, expectSameCompareDecision, expectSamePairDecision, expectSameScanDecision, expectSameWavesDecision } from './sameDecision.js';
 import { wavesReference } from '../stats/wavesReference.js';
 
 const ANES = join(ROOT, 'fixtures', 'anes96', 'anes96.csv');
@@ -220,5 +220,20 @@ describe('waves: one decision in text, JSON, CSV, Markdown, HTML and --exit-stat
     const item = wavesReference.noThreeWay[1];
     const file = cellsWithPeriod('esoph-same-decision.csv', item.layers.map((_t, k) => String(k + 1)), item.layers, item.layers[0].map((_r, i) => `row ${i + 1}`), item.layers[0][0].map((_c, j) => `col ${j + 1}`));
     await expectSameWavesDecision(['waves', file, '--period', 'wave', ...PAIR]);
+  });
+});
+
+describe('banner: one decision per question × break variable in text, JSON, CSV, Markdown, HTML, xlsx and --exit-status', () => {
+  it('large counts and a simulated p-value that does not pass (ANES 1996: party identification and self-placement by vote and education)', async () => {
+    const r = await expectSameBannerDecision(['banner', ANES, '--codebook', CODEBOOK, '--break', "'vote','educ'", '--questions', "'PID','selfLR'", '--simulations', '2000'], tempFile('anes-banner.xlsx', ''));
+    expect(r.json.questions[0].tests.map((t: any) => t.association.verdict.test)).toEqual(['pearson', 'monteCarlo']);
+  });
+
+  it('α 0.01, no question passes: --exit-status 3 (ANES 1996: TV news by education)', async () => {
+    await expectSameBannerDecision(['banner', ANES, '--break', "'educ'", '--questions', "'TVnews'", '--alpha', '0.01'], tempFile('anes-banner-none.xlsx', ''));
+  });
+
+  it('sampling weights (California API, stratified sample: school-wide target and awards by school type, weight pw)', async () => {
+    await expectSameBannerDecision(['banner', join(SURVEY, 'apistrat.csv'), '--break', 'stype', '--questions', 'sch.wide,awards,meals3', '--weight', 'pw', '--alpha', '0.10'], tempFile('api-banner.xlsx', ''));
   });
 });

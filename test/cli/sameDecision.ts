@@ -5,8 +5,10 @@
 // --exit-status agrees. The words are those of src/render/words.ts, the one
 // place the formats take them from; a format that leaves one out fails here.
 import { parse } from 'csv-parse/sync';
+import ExcelJS from 'exceljs';
 import { expect } from 'vitest';
 import { formatMeasure, formatP, formatStatistic } from '../../src/readableNumbers.js';
+import { associationWords, methodNotes } from '../../src/render/bannerWords.js';
 import { changeLine, compareHeadline, compareWarnings, compareWeightingWords, shiftWords, sideBySide } from '../../src/render/compareText.js';
 import { acrossTests, latestHeadline, levelsWords, patternHeadline, setupWords, slopeWords, wavesStatementWords } from '../../src/render/wavesWords.js';
 import { FLAG_LEGEND, pairFlags, scanSummary } from '../../src/render/scanTable.js';
@@ -280,5 +282,58 @@ export async function expectSameWavesDecision(args: string[]): Promise<Rendering
   const waveLines = r.words.text!.split(/ (?=\S+ [\d,]+ \S+ [*]? ?[■□] )/).slice(1);
   expect(waveLines.filter((l) => /^\S+ [\d,]+ \S+ [*]? ?■ /.test(l)).length, 'text: the waves marked ■').toBe(associated);
   expect(r.exitStatus, '--exit-status').toBe(statusOf(report.verdict.moved));
+  return r;
+}
+
+/** Every text cell of a workbook's sheets, as plain words. */
+async function workbookWords(file: string): Promise<string> {
+  const workbook = new ExcelJS.Workbook();
+  await workbook.xlsx.readFile(file);
+  const texts: string[] = [];
+  workbook.eachSheet((sheet) => sheet.eachRow((row) => row.eachCell((cell) => texts.push(String(cell.text ?? '')))));
+  return plainWords('text', texts.join('\n'));
+}
+
+/**
+ * `banner`: each question × break variable's overall test in words (its
+ * leading p-value, test, alpha and decision), the notes on method, the
+ * warnings and columns left out, in text, Markdown, HTML and the spreadsheet;
+ * the CSV's test lines carry the same p-value and decision; --exit-status 0
+ * exactly when some question × break variable passes.
+ */
+export async function expectSameBannerDecision(args: string[], xlsxFile: string): Promise<Renderings> {
+  const r = await renderEvery(args, ALL);
+  const written = await run([...args, '--output', xlsxFile]);
+  expect(written.status, written.stderr).toBe(0);
+  const xlsx = await workbookWords(xlsxFile);
+  const inBook = (phrase: string, what: string) => expect.soft(xlsx.includes(plainWords('text', phrase).trim()), `xlsx shows ${what}: "${phrase}"`).toBe(true);
+  const report = r.json;
+  let passing = false;
+  for (const q of report.questions) {
+    expectShown(r, q.name, ALL, 'the question');
+    for (const t of q.tests) {
+      const words = associationWords(t, report.settings.alpha);
+      expectShown(r, words, HUMAN, `the overall test of ${q.name} × ${t.break}`);
+      inBook(words, `the overall test of ${q.name} × ${t.break}`);
+      const line = r.csv!.find((l) => l.question === q.name && l.row_kind === 'test' && l.break === t.break)!;
+      expect(line, `CSV test line of ${q.name} × ${t.break}`).toBeDefined();
+      if (t.association) {
+        passing ||= t.association.passes;
+        expect(Number(line.p_value), `CSV p of ${q.name} × ${t.break}`).toBe(t.association.pValue);
+        expect(line.passes, `CSV decision of ${q.name} × ${t.break}`).toBe(String(t.association.passes));
+        if (t.association.verdict) expect(line.test, `CSV test of ${q.name} × ${t.break}`).toBe(t.association.verdict.test);
+      }
+    }
+  }
+  for (const note of methodNotes(report)) {
+    expectShown(r, note, HUMAN, 'a note on method');
+    inBook(note, 'a note on method');
+  }
+  for (const w of report.warnings) {
+    expectShown(r, w.message, HUMAN, `the warning ${w.code}`);
+    inBook(w.message, `the warning ${w.code}`);
+  }
+  for (const s of report.skipped ?? []) expectShown(r, s.reason, HUMAN, `why ${s.column} was left out`);
+  expect(r.exitStatus, '--exit-status').toBe(statusOf(passing));
   return r;
 }
