@@ -11,7 +11,7 @@ import { toJson } from '../render/json.js';
 import { renderProfileMarkdown, renderProfileText } from '../render/profileText.js';
 import type { Codebook } from '../table/codebook.js';
 import { addReaderOptions, positiveInteger, RawReaderOptions, ReaderPlan, readerFor, readerPlan } from './options.js';
-import { CliIo, emit, noteWriter, outputGuard, painter } from './output.js';
+import { CliIo, emit, noteWriter, outputGuard, pageWidth, painter } from './output.js';
 import { DONE, Outcome } from './outcome.js';
 
 export const PROFILE_FORMATS = ['text', 'json', 'markdown', 'codebook', 'codebook-csv'] as const;
@@ -114,7 +114,7 @@ export async function runProfile(plan: ProfilePlan, io: CliIo): Promise<Outcome>
       text = codebookToCsv(starter);
       break;
     default:
-      text = renderProfileText(report, painter(io, plan.color, plan.output !== undefined));
+      text = renderProfileText(report, painter(io, plan.color, plan.output !== undefined), pageWidth(io, plan.output !== undefined));
   }
   if (plan.format !== 'text' && plan.format !== 'markdown') for (const note of report.notes) noteWriter(io)(note);
   await emit(io, text, plan.output);

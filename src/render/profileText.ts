@@ -2,6 +2,7 @@
 import type { ChalkInstance } from 'chalk';
 import type { ColumnProfile, ProfileReport } from '../analysis/profile.js';
 import { clip, formatCount } from './format.js';
+import { wrapText } from './layout.js';
 
 /**
  * The profile for people (text) and for reports (Markdown): one block per
@@ -64,15 +65,20 @@ function heading(report: ProfileReport): string {
   return `${report.input.file}: ${formatCount(report.rows)} rows, ${report.columns.length} columns${report.codebook !== null ? `, codebook ${report.codebook}` : ''}`;
 }
 
-export function renderProfileText(report: ProfileReport, paint: ChalkInstance): string {
-  const out: string[] = [paint.bold(terminalSafe(heading(report))), ''];
+/** The profile as text of at most `width` columns: long facts wrap under their label; a suggestion ("try") stays on one line, to be copied whole. */
+export function renderProfileText(report: ProfileReport, paint: ChalkInstance, width = 80): string {
+  const out: string[] = [...wrapText(terminalSafe(heading(report)), width).map((l) => paint.bold(l)), ''];
   for (const column of report.columns) {
-    out.push(`${paint.bold(terminalSafe(column.name))}  ${paint.cyan(KIND_WORDS[column.kind])} — ${terminalSafe(column.why)}`);
-    for (const [label, text] of columnFacts(column)) out.push(`  ${label.padEnd(9)}${terminalSafe(text)}`);
+    out.push(...wrapText(terminalSafe(column.why), width, `${paint.bold(terminalSafe(column.name))}  ${paint.cyan(KIND_WORDS[column.kind])} — `, '    '));
+    for (const [label, text] of columnFacts(column)) {
+      // a suggestion holds options to copy into a shell: kept on one line, never broken between an option and its value
+      if (label === 'try') out.push(`  ${label.padEnd(9)}${terminalSafe(text)}`);
+      else out.push(...wrapText(terminalSafe(text), width, `  ${label.padEnd(9)}`, ' '.repeat(11)));
+    }
     out.push('');
   }
-  for (const note of report.notes) out.push(paint.yellow(`note: ${terminalSafe(note)}`));
-  for (const warning of report.warnings) out.push(paint.yellow(`warning: ${terminalSafe(warning.message)}`));
+  for (const note of report.notes) out.push(...wrapText(`note: ${terminalSafe(note)}`, width, '', '  ').map((l) => paint.yellow(l)));
+  for (const warning of report.warnings) out.push(...wrapText(`warning: ${terminalSafe(warning.message)}`, width, '', '  ').map((l) => paint.yellow(l)));
   if (report.notes.length + report.warnings.length > 0) out.push('');
   return out.join('\n');
 }
