@@ -11,7 +11,7 @@ import { changeLine, compareHeadline, compareWarnings, compareWeightingWords, sh
 import { inputLine } from './pairText.js';
 import { pairFlags, scanSummary, FLAG_LEGEND, SCAN_LEFT_OUT_HEADING, SCAN_LEFT_OUT_NOTE } from './scanTable.js';
 import { escapeXml, mosaicPlot, residualHeatMap, strengthChart } from './svg.js';
-import { ADJUSTMENT_NAMES, CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, excludedByWords, headline, intervalWords, leftOutWords, markLegend, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
+import { ADJUSTMENT_NAMES, CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, excludedByWords, headline, intervalWords, leftOutWords, markLegend, reasonSentence, statementWords, strengthPhrase, testName, vIntervalWords } from './words.js';
 
 const STYLE = `
   :root { color-scheme: light; }
@@ -82,7 +82,7 @@ function recordSections(record: AnalysisRecord, by?: string): string {
   const compare = comparison(v.adjustment ? v.decidingPValue : v.pValue, v.alpha, v.passes, v.adjustment !== null);
   const answer = `<div class="answer${v.passes ? '' : ' fails'}"><p class="lead">${e(`${headline(v, by)}: ${compare}, ${testName(v.test, record)}`)}</p>
 <p>${e(reasonSentence(record, by))}</p>
-<p>Strength: ${e(record.measures.biasCorrectedV === null ? 'not defined for this table' : `${v.strength}, bias-corrected V ${formatMeasure(m.biasCorrectedV)}. ${vIntervalWords(record)}.`)}</p>${
+<p>Strength: ${e(strengthPhrase(record))}</p>${
     record.design
       ? `<p>Design: ${e(`${designEffectWords(record.design)}.`)}</p>`
       : record.weighted

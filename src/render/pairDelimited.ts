@@ -8,7 +8,7 @@ import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, for
 import { inputLine } from './pairText.js';
 import { exactNumber } from './scanTable.js';
 import { spreadsheetField } from '../escape/spreadsheet.js';
-import { CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, headline, intervalWords, markLegend, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
+import { CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, headline, intervalWords, markLegend, reasonSentence, statementWords, strengthPhrase, testName, vIntervalWords } from './words.js';
 import type { DesignShare } from '../analysis/design.js';
 
 /**
@@ -204,7 +204,7 @@ export function markdownRecord(record: AnalysisRecord, by?: string): string[] {
   out.push(`**${md(`${headline(v, by)}: ${compare}, ${testName(v.test, record)}`)}**`);
   out.push('');
   out.push(`- Why this test: ${md(reasonSentence(record, by))}`);
-  out.push(`- Strength: ${md(m.biasCorrectedV === null ? 'not defined for this table' : `${v.strength}, bias-corrected V ${formatMeasure(m.biasCorrectedV)}. ${vIntervalWords(record)}.`)}`);
+  out.push(`- Strength: ${md(strengthPhrase(record))}`);
   if (record.design) out.push(`- Design: ${md(`${designEffectWords(record.design)}.`)}`);
   else if (record.weighted) out.push(`- Weights: counts are sums of sampling weights; the tests use the effective sample of ${formatCount(Math.round(record.effectiveN * 10) / 10)}, which does not account for clustering or stratification.`);
   out.push('');

@@ -8,7 +8,7 @@ import type { PairReport } from '../analysis/report.js';
 import { formatCount, formatExpected, formatMeasure, formatP, formatPercent, formatRatio, formatSigned, formatStatistic, UNDEFINED } from '../readableNumbers.js';
 import { renderGrid } from './grid.js';
 import { displayWidth, glued, padEnd, padStart, wrapText } from './layout.js';
-import { CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, headline, intervalWords, leftOutWords, markLegend, quoteLevel, reasonSentence, statementWords, testName, vIntervalWords } from './words.js';
+import { CAUTION, comparison, designEffectWords, designIntervalWords, designVWords, designWords, headline, intervalWords, leftOutWords, markLegend, quoteLevel, reasonSentence, statementWords, strengthPhrase, testName, vIntervalWords } from './words.js';
 
 /** What the cells of the table show (--cells). */
 export type CellView = 'compact' | 'counts' | 'row' | 'col' | 'total' | 'expected' | 'residuals';
@@ -83,7 +83,7 @@ export function answerLines(record: AnalysisRecord, paint: ChalkInstance, width:
   const compare = comparison(v.adjustment ? v.decidingPValue : v.pValue, v.alpha, v.passes, v.adjustment !== null);
   out.push(...wrapText(`${mark} ${headline(v, by)}: ${compare}, ${testName(v.test, record)}`, width, '', '  ').map((l) => paint.bold(l)));
   out.push(...labelled('why this test', reasonSentence(record, by), width));
-  const strength = record.measures.biasCorrectedV === null ? 'not defined for this table' : `${record.verdict.strength}: bias-corrected V ${glued(formatMeasure(record.measures.biasCorrectedV))}. ${vIntervalWords(record)}.`;
+  const strength = strengthPhrase(record);
   out.push(...labelled('strength', strength, width));
   if (record.design) out.push(...labelled('design', `${designEffectWords(record.design)}.`, width));
   else if (record.weighted) out.push(...labelled('weights', `counts are sums of sampling weights; the tests use the effective sample of ${glued(formatCount(Math.round(record.effectiveN * 10) / 10))}, which does not account for clustering or stratification.`, width));

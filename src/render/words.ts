@@ -122,6 +122,14 @@ export function strengthWords(record: Pick<AnalysisRecord, 'verdict' | 'measures
   return `${word}: bias-corrected V ${formatMeasure(m.biasCorrectedV)}`;
 }
 
+/** The strength line of a report: "moderate: bias-corrected V 0.312. Cramér's V …"; with --by it is the pooled table's, and says so. */
+export function strengthPhrase(record: Pick<AnalysisRecord, 'verdict' | 'measures'>): string {
+  const m = record.measures;
+  if (m.biasCorrectedV === null) return 'not defined for this table';
+  const pooled = record.verdict.test === 'cmh' ? ' in the pooled table' : '';
+  return `${record.verdict.strength}: bias-corrected V ${glued(formatMeasure(m.biasCorrectedV))}${pooled}. ${vIntervalWords(record)}.`;
+}
+
 /** "Cramér's V 0.719; for the population 0.552, 95% interval 0.377 to 0.710." */
 export function vIntervalWords(record: Pick<AnalysisRecord, 'measures'>): string {
   const m = record.measures;
@@ -159,6 +167,8 @@ export function statementWords(record: Pick<AnalysisRecord, 'rows' | 'cols' | 'v
       const pair = (x: [string, string]) => `${quoteLevel(x[0])} with ${quoteLevel(x[1])}`;
       const corrected = s.corrected ? ', with 0.5 added to every cell' : '';
       if (s.earned) return `The ${s.which} diagonal dominates: ${pair(s.first)} and ${pair(s.second)} occur together more than independence predicts (Yule's Q ${glued(formatSigned(s.yulesQ))}${corrected}).`;
+      const held = heldFixedExplains(record);
+      if (held) return `In the pooled table the ${s.which} diagonal holds more than its share (${pair(s.first)}, ${pair(s.second)}; Yule's Q ${glued(formatSigned(s.yulesQ))}${corrected}), but holding ${held} fixed the data do not show it within its levels.`;
       return `In this sample the ${s.which} diagonal holds more than its share (${pair(s.first)}, ${pair(s.second)}; Yule's Q ${glued(formatSigned(s.yulesQ))}${corrected}), but the data do not show that this is more than chance.`;
     }
     case 'cell':
@@ -166,11 +176,21 @@ export function statementWords(record: Pick<AnalysisRecord, 'rows' | 'cols' | 'v
     case 'more-cells':
       return `And ${s.count} more ${s.count === 1 ? 'cell' : 'cells'} beyond ±${glued(trimZeros(record.findings.cellThreshold.adjusted.toFixed(2)))} (all are in --format json).`;
     case 'no-cell-stands-out':
-      if (s.because === 'not-significant') return 'No cell stands out reliably: without evidence of an association, the departures of single cells are what chance alone produces.';
+      if (s.because === 'not-significant') {
+        const held = heldFixedExplains(record);
+        if (held) return `No cell stands out reliably: the cells of the pooled table depart from independence, but holding ${held} fixed there is no evidence of an association within its levels.`;
+        return 'No cell stands out reliably: without evidence of an association, the departures of single cells are what chance alone produces.';
+      }
       return `No single cell passes ±${glued(trimZeros(s.critical.toFixed(2)))} (the critical value for ${record.findings.cellThreshold.cells} cells at ${alphaPhrase(alpha)}); the association is spread thinly over the table.`;
     case 'mirror-cells':
       return `With two ${rows.levels.length === 2 ? 'rows' : 'columns'}, each cell below expectation mirrors one above it; the ${s.removed} mirrored ${s.removed === 1 ? 'cell is' : 'cells are'} not repeated.`;
   }
+}
+
+/** With --by: the variable held fixed when the pooled table passes but the layered test does not (the layer accounts for the association), else null. */
+function heldFixedExplains(record: Pick<AnalysisRecord, 'findings'>): string | null {
+  const held = record.findings.statements.find((x): x is Extract<Statement, { kind: 'held-fixed' }> => x.kind === 'held-fixed');
+  return held && !held.passes && held.pooledPasses ? held.by : null;
 }
 
 export function trimZeros(text: string): string {

@@ -12,7 +12,7 @@ import { associationWords, methodNotes } from '../../src/render/bannerWords.js';
 import { changeLine, compareHeadline, compareWarnings, compareWeightingWords, shiftWords, sideBySide } from '../../src/render/compareText.js';
 import { acrossTests, latestHeadline, levelsWords, patternHeadline, setupWords, slopeWords, wavesStatementWords } from '../../src/render/wavesWords.js';
 import { FLAG_LEGEND, pairFlags, scanSummary } from '../../src/render/scanTable.js';
-import { CAUTION, comparison, excludedByWords, headline, reasonSentence, statementWords, testName } from '../../src/render/words.js';
+import { CAUTION, comparison, excludedByWords, headline, reasonSentence, statementWords, strengthPhrase, testName } from '../../src/render/words.js';
 import { run } from './cliHelpers.js';
 
 export type HumanFormat = 'text' | 'markdown' | 'html';
@@ -102,7 +102,7 @@ export function expectPairRecordShown(r: Renderings, record: any, formats: reado
   const decision = `${headline(v, by)}: ${comparison(v.adjustment ? v.decidingPValue : v.pValue, v.alpha, v.passes, v.adjustment !== null)}, ${testName(v.test, record)}`;
   expectShown(r, decision, human, 'the decision');
   expectShown(r, reasonSentence(record, by), human, 'why the test leads');
-  if (v.strength !== null) expectShown(r, `${v.strength}`, human, 'the strength word');
+  expectShown(r, strengthPhrase(record), human, 'the strength, its word and interval');
   for (const s of record.findings.statements) expectShown(r, statementWords(record, s), formats, `the sentence (${s.kind})`);
   for (const w of record.warnings) expectShown(r, w.message, formats, `the warning ${w.code}`);
   for (const level of [...record.rows.levels, ...record.cols.levels]) expectLevelShown(r, level, formats);
