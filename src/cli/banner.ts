@@ -174,7 +174,7 @@ Examples:
   tabsight banner survey.csv --break region --multi 'services:svc_*' --mark-levels 0.95,0.90 --weight w
   tabsight banner survey.csv --break age_band,region --weight w --strata stratum --cluster psu
 
-Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no association at --alpha (only with --exit-status).`,
+Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no association at --alpha (only with --exit-status; when no question ×\nbreak variable has a test of association: 1, saying why).`,
   );
   command.action((file: string | undefined, raw: RawBannerOptions) => accept(bannerPlan(file, raw)));
   return command;
@@ -239,5 +239,7 @@ export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
     await emit(io, text, plan.output);
   }
   const found = report.questions.some((q) => q.tests.some((t) => t.association?.passes === true));
-  return { found, exitStatusWanted: plan.exitStatus };
+  // No question × break variable with a test of association (means only, too few levels): nothing found, and nothing ruled out either.
+  const tested = report.questions.some((q) => q.tests.some((t) => t.association !== null));
+  return { found, exitStatusWanted: plan.exitStatus, undecided: tested ? null : 'no question × break variable has a test of association (each test in the report says why), so none was found or ruled out' };
 }

@@ -111,6 +111,9 @@ export function addVerdictCases({ dir, add }) {
   const untestable = file('untestable.csv', 'a,b\nx,\ny,\n,1\n,2\nx,\n,1\n');
   add({ name: 'verdicts: a scan in which no pair could be tested: --exit-status has no answer', args: ['scan', untestable, '--exit-status', '--format', 'json'], status: 1, stderr: /^tabsight: --exit-status has no answer: no pair could be tested \(1 untestable\), so none was found or ruled out$/, json: (out) => expect(out.pairsTested === 0 && out.untestable.length === 1, `tested ${out.pairsTested}`) });
 
+  const minutes = file('minutes.csv', 'member,minutes\nyes,10\nno,12\nyes,14\nno,9\nyes,11\nno,13\n');
+  add({ name: 'verdicts: a banner with no test of association (means only): --exit-status has no answer', args: ['banner', minutes, '--break', 'member', '--questions', 'minutes', '--means', 'minutes', '--exit-status', '--format', 'json'], status: 1, stderr: /^tabsight: --exit-status has no answer: no question × break variable has a test of association/, engine: false });
+
   // waves: a wave sharing no level with the others is left out of the tests across waves; with fewer than two left, no answer.
   const w1 = file('w1.csv', 'a,b\nx,1\nx,1\nx,2\ny,2\ny,2\ny,1\nx,1\ny,2\n');
   const w2 = file('w2.csv', 'a,b\np,1\np,1\np,2\nq,2\nq,2\nq,1\np,1\nq,1\n');
