@@ -152,7 +152,7 @@ export function bannerCommand(accept: (plan: BannerPlan) => void): Command {
     .option('--mark-levels <levels>', 'confidence levels of the column marks: one, or two (upper-case keys at the higher, lower-case at the lower)', '0.95')
     .addOption(new Option('--column-adjust <method>', "adjustment of the column tests over each row's comparisons").choices(['none', 'bonferroni', 'holm']).default('none'))
     .option('--min-base <n>', 'columns with fewer respondents than this (unweighted) are shown but not tested', '30')
-    .addOption(new Option('--multi-test <referral>', 'referral of the multiple-response test (Bilder & Loughin): first-order or second-order Rao–Scott-type').choices(['first-order', 'second-order']).default('second-order'))
+    .addOption(new Option('--multi-test <order>', 'Rao–Scott-type correction of the multiple-response test (Bilder & Loughin): first-order or second-order Rao–Scott-type').choices(['first-order', 'second-order']).default('second-order'))
     .option('--alpha <level>', 'significance level of the overall test of each question × break variable', '0.05')
     .addOption(new Option('--exact <when>', 'exact p-values of the overall tests: auto (when counts are small), always, never').choices(['auto', 'always', 'never']).default('auto'))
     .option('--simulations <n>', 'random tables for a simulated exact p-value', '10000')

@@ -53,7 +53,7 @@ function trimDf(a: BannerAssociation): string {
 
 /** The name of the test that leads an association. */
 export function associationTest(a: BannerAssociation): string {
-  if (a.kind === 'multiple-response') return `multiple-response test (Bilder & Loughin, ${a.multipleResponse!.referral} Rao–Scott referral)`;
+  if (a.kind === 'multiple-response') return `multiple-response test (Bilder & Loughin, ${a.multipleResponse!.referral} Rao–Scott correction)`;
   return testName(a.verdict!.test);
 }
 
@@ -89,7 +89,7 @@ export function methodNotes(report: BannerReport): string[] {
   notes.push(`Multiple comparisons: ${s.adjustment === 'none' ? 'no adjustment (common practice: every pair of columns is tested at the level shown)' : `${ADJUSTMENT_NAMES[s.adjustment]} over the comparisons within each row of a break variable`}.`);
   notes.push(`Bases: respondents who answered the question; columns with fewer than ${s.minimumBase} (unweighted) are marked ${SMALL_BASE_MARK}, shown and not tested. The Total is not tested against its own columns.`);
   if (report.design) notes.push(`Overall test per question and break variable: the record of tabsight pair with the same design (the design-based F, Rao–Scott second order) at α ${s.alpha}; multiple-response questions have no design-based overall test, only the design-based column tests of each answer.`);
-  else notes.push(`Overall test per question and break variable: the record of tabsight pair (chi-square, or an exact or simulated test for small counts) at α ${s.alpha}; for multiple-response questions Bilder & Loughin's test of multiple marginal independence with the ${s.multipleResponseReferral} Rao–Scott-type referral.`);
+  else notes.push(`Overall test per question and break variable: the record of tabsight pair (chi-square, or an exact or simulated test for small counts) at α ${s.alpha}; for multiple-response questions Bilder & Loughin's test of multiple marginal independence with the ${s.multipleResponseReferral} Rao–Scott-type correction.`);
   if (report.weighting === 'weight') notes.push('Counts and percentages are weighted (sums of the sampling weights); bases are shown unweighted and weighted.');
   if (report.weighting === 'freq') notes.push('Rows are weighted by their frequencies.');
   notes.push('Multiple-response questions: percentages of respondents (the base), so answers may add to more than 100%; a net counts each respondent once.');

@@ -172,7 +172,7 @@ function notesSheet(workbook: ExcelJS.Workbook, report: BannerReport, options: W
     ['multiple comparisons', s.adjustment === 'none' ? 'none' : `${s.adjustment} within each row of a break variable`],
     ['minimum base', s.minimumBase],
     ['overall test α', s.alpha],
-    ['multiple-response referral', s.multipleResponseReferral],
+    ['multiple-response correction', s.multipleResponseReferral],
   ];
   for (const [name, value] of rows) sheet.addRow([name, value]);
   sheet.addRow([]);

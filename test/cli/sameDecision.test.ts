@@ -28,19 +28,19 @@ function published(name: string, rowLevels: string[], colLevels: string[]): stri
 
 describe('pair: one decision in text, JSON, CSV, Markdown, HTML and --exit-status', () => {
   it('large counts, the chi-square test leads (ANES 1996: party identification × vote)', async () => {
-    const r = await expectSamePairDecision(anes('--rows', "'PID'", '--cols', "'vote'"));
+    const r = await expectSamePairDecision(anes('--rows', 'PID', '--cols', 'vote'));
     expect(r.json.verdict).toMatchObject({ test: 'pearson', passes: true });
   });
 
   it('a p-value between 0.01 and 0.10 judged at α 0.10 and 0.01 (ANES 1996: education × vote, Pearson p 0.080)', async () => {
-    const at10 = await expectSamePairDecision(anes('--rows', "'educ'", '--cols', "'vote'", '--alpha', '0.10'));
+    const at10 = await expectSamePairDecision(anes('--rows', 'educ', '--cols', 'vote', '--alpha', '0.10'));
     expect(at10.json.verdict).toMatchObject({ alpha: 0.1, passes: true });
-    const at01 = await expectSamePairDecision(anes('--rows', "'educ'", '--cols', "'vote'", '--alpha', '0.01'));
+    const at01 = await expectSamePairDecision(anes('--rows', 'educ', '--cols', 'vote', '--alpha', '0.01'));
     expect(at01.json.verdict).toMatchObject({ alpha: 0.01, passes: false });
   });
 
   it('the expected-count rule fails and a simulated p-value leads (ANES 1996: self-placement × income)', async () => {
-    const r = await expectSamePairDecision(anes('--rows', "'selfLR'", '--cols', "'DoleLR'", '--alpha', '0.01'));
+    const r = await expectSamePairDecision(anes('--rows', 'selfLR', '--cols', 'DoleLR', '--alpha', '0.01'));
     expect(r.json.verdict.test).toBe('monteCarlo');
   });
 
@@ -52,7 +52,7 @@ describe('pair: one decision in text, JSON, CSV, Markdown, HTML and --exit-statu
   });
 
   it('an ordinal pair in alphabetical order warns in every format (ANES 1996: education × vote, levels by code)', async () => {
-    await expectSamePairDecision(['pair', ANES, '--rows', "'educ'", '--cols', "'vote'", '--ordinal']);
+    await expectSamePairDecision(['pair', ANES, '--rows', 'educ', '--cols', 'vote', '--ordinal']);
   });
 
   it('2×2 with the odds ratio and relative risk (Physicians\' Health Study: aspirin and myocardial infarction)', async () => {
@@ -93,7 +93,7 @@ describe('pair: one decision in text, JSON, CSV, Markdown, HTML and --exit-statu
   });
 
   it('--by on survey answers (ANES 1996: party identification × vote within education)', async () => {
-    await expectSamePairDecision(anes('--rows', "'selfLR'", '--cols', "'vote'", '--by', "'educ'"));
+    await expectSamePairDecision(anes('--rows', 'selfLR', '--cols', 'vote', '--by', 'educ'));
   });
 
   it('sampling weights without a design (California API, stratified sample: school type × awards, weight pw)', async () => {
@@ -113,7 +113,7 @@ describe('pair: one decision in text, JSON, CSV, Markdown, HTML and --exit-statu
 });
 
 describe('scan: one decision per pair in text, JSON, CSV, Markdown, HTML and --exit-status', () => {
-  const columns = ['--columns', "'PID','vote','educ','TVnews','selfLR'"];
+  const columns = ['--columns', 'PID,vote,educ,TVnews,selfLR'];
   for (const adjust of ['bh', 'holm', 'bonferroni', 'none']) {
     it(`--adjust ${adjust}: exact and simulated p-values lead where counts are sparse (ANES 1996, five questions)`, async () => {
       const r = await expectSameScanDecision(['scan', ANES, '--codebook', CODEBOOK, ...columns, '--adjust', adjust]);
@@ -126,12 +126,12 @@ describe('scan: one decision per pair in text, JSON, CSV, Markdown, HTML and --e
   });
 
   it('no pair passes: --exit-status 3 (ANES 1996: TV news, education and vote)', async () => {
-    const r = await expectSameScanDecision(['scan', ANES, '--columns', "'TVnews','educ','vote'", '--adjust', 'bonferroni']);
+    const r = await expectSameScanDecision(['scan', ANES, '--columns', 'TVnews,educ,vote', '--adjust', 'bonferroni']);
     expect(r.json.pairsPassing).toBe(0);
   });
 
   it('--top and --by (ANES 1996, held fixed by vote)', async () => {
-    await expectSameScanDecision(['scan', ANES, '--codebook', CODEBOOK, '--columns', "'PID','educ','TVnews','selfLR'", '--by', "'vote'", '--top', '3']);
+    await expectSameScanDecision(['scan', ANES, '--codebook', CODEBOOK, '--columns', 'PID,educ,TVnews,selfLR', '--by', 'vote', '--top', '3']);
   });
 
   it('sampling weights without a design, and columns left out (California API, stratified sample, weight pw)', async () => {
@@ -166,7 +166,7 @@ describe('compare: one decision in text, JSON, CSV, Markdown, HTML and --exit-st
   });
 
   it('r×c with sparse cells, exact p-values within each period (ANES 1996: education × TV news, Clinton against Dole voters)', async () => {
-    await expectSameCompareDecision(['compare', ANES, '--codebook', CODEBOOK, '--period', "'vote'", '--rows', "'educ'", '--cols', "'selfLR'", '--simulations', '2000']);
+    await expectSameCompareDecision(['compare', ANES, '--codebook', CODEBOOK, '--period', 'vote', '--rows', 'educ', '--cols', 'selfLR', '--simulations', '2000']);
   });
 
   it('sampling weights without a design; no change test where a cell is empty in both periods, and a warning says why (California API, stratified sample: school-wide target × awards, year-round against not)', async () => {
@@ -225,12 +225,12 @@ describe('waves: one decision in text, JSON, CSV, Markdown, HTML and --exit-stat
 
 describe('banner: one decision per question × break variable in text, JSON, CSV, Markdown, HTML, xlsx and --exit-status', () => {
   it('large counts and a simulated p-value that does not pass (ANES 1996: party identification and self-placement by vote and education)', async () => {
-    const r = await expectSameBannerDecision(['banner', ANES, '--codebook', CODEBOOK, '--break', "'vote','educ'", '--questions', "'PID','selfLR'", '--simulations', '2000'], tempFile('anes-banner.xlsx', ''));
+    const r = await expectSameBannerDecision(['banner', ANES, '--codebook', CODEBOOK, '--break', 'vote,educ', '--questions', 'PID,selfLR', '--simulations', '2000'], tempFile('anes-banner.xlsx', ''));
     expect(r.json.questions[0].tests.map((t: any) => t.association.verdict.test)).toEqual(['pearson', 'monteCarlo']);
   });
 
   it('α 0.01, no question passes: --exit-status 3 (ANES 1996: TV news by education)', async () => {
-    await expectSameBannerDecision(['banner', ANES, '--break', "'educ'", '--questions', "'TVnews'", '--alpha', '0.01'], tempFile('anes-banner-none.xlsx', ''));
+    await expectSameBannerDecision(['banner', ANES, '--break', 'educ', '--questions', 'TVnews', '--alpha', '0.01'], tempFile('anes-banner-none.xlsx', ''));
   });
 
   it('sampling weights (California API, stratified sample: school-wide target and awards by school type, weight pw)', async () => {
