@@ -83,16 +83,20 @@ export function independentWaldTest(
   const solved = solveLinear(sum, d);
   if (solved === null) return null;
   const wald = d.reduce((s, x, i) => s + x * solved[i], 0);
-  const nu = a.estimate.degreesOfFreedom + b.estimate.degreesOfFreedom;
-  const denDf = nu - k + 1;
-  const statistic = denDf >= 1 ? ((nu - k + 1) / (nu * k)) * wald : null;
+  return adjustedWald(wald, k, a.estimate.degreesOfFreedom + b.estimate.degreesOfFreedom);
+}
+
+/** W on d df, with its F form (ν − d + 1)/(ν d) W on d and ν − d + 1 df (Korn & Graubard 1990). */
+export function adjustedWald(wald: number, d: number, nu: number): DesignWaldTest {
+  const denDf = nu - d + 1;
+  const statistic = denDf >= 1 ? ((nu - d + 1) / (nu * d)) * wald : null;
   return {
     statistic,
-    numDf: k,
+    numDf: d,
     denDf: statistic === null ? null : denDf,
-    pValue: statistic === null ? null : upperTailF(statistic, k, denDf),
+    pValue: statistic === null ? null : upperTailF(statistic, d, denDf),
     wald,
-    waldPValue: upperTailChiSquare(wald, k),
+    waldPValue: upperTailChiSquare(wald, d),
     designDegreesOfFreedom: nu,
   };
 }

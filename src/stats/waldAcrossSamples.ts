@@ -22,9 +22,10 @@
  * 270–276), which leads; it is null when ν − d + 1 < 1.
  */
 import { upperTailChiSquare } from './chiSquareDistribution.js';
-import { upperTailF, upperQuantileF } from './fDistribution.js';
+import { upperQuantileF } from './fDistribution.js';
 import { upperQuantileStudentT } from './studentTDistribution.js';
 import { solveLinear } from './stratified.js';
+import { adjustedWald, type DesignWaldTest } from './designWald.js';
 
 /** One sample's estimate of the q quantities, their design covariance (q × q) and its design degrees of freedom. */
 export interface SampleEstimate {
@@ -33,33 +34,9 @@ export interface SampleEstimate {
   degreesOfFreedom: number;
 }
 
-/** A Wald statistic W on d df with its F form. */
-export interface WaldAcross {
-  /** The F form (leads); null when ν − d + 1 < 1. */
-  statistic: number | null;
-  numDf: number;
-  denDf: number | null;
-  pValue: number | null;
-  wald: number;
-  waldPValue: number;
-  /** ν: the design df of the samples together. */
-  designDegreesOfFreedom: number;
-}
-
-/** W on d df, with its F form (ν − d + 1)/(ν d) W on d and ν − d + 1 df (Korn & Graubard 1990). */
-export function adjustedWald(wald: number, d: number, nu: number): WaldAcross {
-  const denDf = nu - d + 1;
-  const statistic = denDf >= 1 ? ((nu - d + 1) / (nu * d)) * wald : null;
-  return {
-    statistic,
-    numDf: d,
-    denDf: statistic === null ? null : denDf,
-    pValue: statistic === null ? null : upperTailF(statistic, d, denDf),
-    wald,
-    waldPValue: upperTailChiSquare(wald, d),
-    designDegreesOfFreedom: nu,
-  };
-}
+/** A Wald statistic W on d df with its F form (the same record as two samples' test in designWald.ts). */
+export type WaldAcross = DesignWaldTest;
+export { adjustedWald };
 
 function totalDf(samples: readonly SampleEstimate[]): number {
   return samples.reduce((s, x) => s + x.degreesOfFreedom, 0);
