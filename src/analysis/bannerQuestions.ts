@@ -11,6 +11,7 @@ import { Codes, EncodedColumn, recodeColumn, shapeColumn } from '../table/encode
 import { codebookFacts, LevelRules } from '../table/levelRules.js';
 import { compareNatural, isNumericLabel } from '../table/naturalOrder.js';
 import { orderColumn } from '../table/orderedColumn.js';
+import { resolveColumn } from '../table/columnNames.js';
 import type { Warning } from './analyzeTable.js';
 import type { BreakInput, NetInput, QuestionInput } from './banner.js';
 import { screenColumn, SkippedColumn } from './scan.js';
@@ -45,10 +46,7 @@ function globToRegExp(pattern: string): RegExp {
 /** Header columns matching a name or * pattern, in header order; a pattern matching nothing is an error. */
 export function matchColumns(pattern: string, header: readonly string[], option: string, label: string): string[] {
   if (!pattern.includes('*')) {
-    if (!header.includes(pattern)) {
-      const folded = header.find((h) => h.toLowerCase() === pattern.toLowerCase());
-      throw usageError(`${option} "${pattern}": no such column in ${label}${folded ? `; did you mean "${folded}"?` : ''}`);
-    }
+    resolveColumn(pattern, header, option, label);
     return [pattern];
   }
   const re = globToRegExp(pattern);

@@ -112,7 +112,7 @@ function period(label: string, counted: Pick<CountedInput, 'table' | 'weighting'
 
 /** The two periods of one file, told apart by a column: its two levels, or the two named by --levels. */
 async function periodsOfColumn(source: InputSource, plan: ComparePlan, column: string, levels: [string, string] | undefined, io: CliIo, guard: OutputGuard): Promise<[PeriodInput, PeriodInput, UnmatchedValue[], RawValues]> {
-  const counted = await countTable(source, readerFor(plan.reader, io, guard), { ...plan.table, by: column });
+  const counted = await countTable(source, readerFor(plan.reader, io, guard), { ...plan.table, by: column, byOption: '--period' });
   const strata = counted.strata ?? [];
   const available = strata.map((s) => s.level);
   let pick: string[];

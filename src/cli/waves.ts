@@ -164,7 +164,7 @@ async function wavesOfColumn(plan: WavesPlan, input: string, column: string, lis
   const source = inputSource(input, io.stdin);
   checkReadable(source);
   guard.checkInputs([input]);
-  const counted = await countTable(source, readerFor(plan.reader, io, guard), { ...plan.table, by: column });
+  const counted = await countTable(source, readerFor(plan.reader, io, guard), { ...plan.table, by: column, byOption: '--period' });
   const strata = counted.strata ?? [];
   const available = strata.map((s) => s.level);
   if (listed) {

@@ -4,44 +4,14 @@
  * columns a scan reads with their roles.
  */
 import { usageError, dataError } from '../errors.js';
+import { closestName, editDistance, resolveColumn } from '../table/columnNames.js';
+
+export { closestName, editDistance, resolveColumn };
 import type { WeightKind, WhereClause } from './rowRules.js';
 import type { Codebook } from '../table/codebook.js';
 import { checkCodebookColumns } from './codebookFile.js';
 import type { SurveyDesign } from '../table/surveyDesign.js';
 import { checkReplicateCount, resolveReplicateColumns } from './designRows.js';
-
-/** Levenshtein distance (Levenshtein 1966), for "did you mean" suggestions. */
-export function editDistance(a: string, b: string): number {
-  const previous = Array.from({ length: b.length + 1 }, (_, j) => j);
-  for (let i = 1; i <= a.length; i++) {
-    let diagonal = previous[0];
-    previous[0] = i;
-    for (let j = 1; j <= b.length; j++) {
-      const above = previous[j];
-      previous[j] = Math.min(previous[j] + 1, previous[j - 1] + 1, diagonal + (a[i - 1] === b[j - 1] ? 0 : 1));
-      diagonal = above;
-    }
-  }
-  return previous[b.length];
-}
-
-export function closestName(name: string, names: readonly string[]): string | null {
-  let best: string | null = null;
-  let bestDistance = Infinity;
-  for (const candidate of names) {
-    const d = editDistance(name.toLowerCase(), candidate.toLowerCase());
-    if (d < bestDistance) {
-      best = candidate;
-      bestDistance = d;
-    }
-  }
-  return best !== null && bestDistance <= Math.max(2, Math.floor(name.length / 2)) ? best : null;
-}
-
-function listNames(names: readonly string[]): string {
-  const shown = names.slice(0, 30).join(', ');
-  return names.length > 30 ? `${shown}, … (${names.length} in all)` : shown;
-}
 
 /**
  * Header names as the analyst types them. Some exports write every heading
@@ -69,15 +39,6 @@ export function validateHeader(names: readonly string[], label: string, line: nu
   });
 }
 
-/** Finds a requested column in the header, or fails with the list of columns and the closest match. */
-export function resolveColumn(name: string, header: readonly string[], option: string, label: string): number {
-  const index = header.indexOf(name);
-  if (index >= 0) return index;
-  const folded = header.findIndex((h) => h.toLowerCase() === name.toLowerCase());
-  const suggestion = folded >= 0 ? header[folded] : closestName(name, header);
-  const hint = suggestion !== null ? `did you mean "${suggestion}"? ` : '';
-  throw usageError(`${option} "${name}": no such column in ${label}; ${hint}columns: ${listNames(header)}`);
-}
 
 /** What a scan reads: the candidate columns, the roles of other columns, and the caps. */
 export interface ColumnsRequest {

@@ -42,6 +42,8 @@ export interface TableRequest {
   cols: string;
   /** A layer: one table per level of this column. */
   by?: string;
+  /** The option that named the layer, for messages: --by (pair, count), --period (compare, waves). */
+  byOption?: string;
   /** Sampling weights (any non-negative number) or frequencies (whole numbers). */
   weight?: { column: string; kind: 'weight' | 'freq' };
   decimalComma: boolean;
@@ -91,7 +93,7 @@ function relabelled(request: TableRequest, name: string): boolean {
 /** Usage errors of a request, before anything is read. */
 function checkRequest(request: TableRequest): void {
   if (request.rows === request.cols) throw usageError(`--rows and --cols both name "${request.rows}"; choose two different columns`);
-  if (request.by !== undefined && (request.by === request.rows || request.by === request.cols)) throw usageError(`--by "${request.by}" is already --rows or --cols; choose a third column`);
+  if (request.by !== undefined && (request.by === request.rows || request.by === request.cols)) throw usageError(`${request.byOption ?? '--by'} "${request.by}" is already --rows or --cols; choose a third column`);
   if (request.weight && [request.rows, request.cols, request.by].includes(request.weight.column)) {
     throw usageError(`${weightOption(request)} "${request.weight.column}" is also a variable of the table; choose a numeric column of its own`);
   }
@@ -135,7 +137,7 @@ class Slots {
   constructor(private readonly request: TableRequest) {
     this.row = this.slot(request.rows, '--rows');
     this.col = this.slot(request.cols, '--cols');
-    this.by = request.by !== undefined ? this.slot(request.by, '--by') : -1;
+    this.by = request.by !== undefined ? this.slot(request.by, request.byOption ?? '--by') : -1;
     this.weight = request.weight ? this.slot(request.weight.column, weightOption(request)) : -1;
     this.where = request.where.map((w) => this.slot(w.column, '--where'));
     this.sum = request.summedWeights ? this.slot(request.summedWeights.sum, '--summed-weights') : -1;
@@ -324,7 +326,7 @@ class LayeredCounter {
       const level = b < 0 ? '(beyond the level limit)' : this.label(this.slots.by, b);
       stratum = this.strata.get(level);
       if (stratum === undefined) {
-        if (this.strata.size >= this.request.maxLevels) throw dataError(`--by "${this.request.by}" has more than --max-levels ${this.request.maxLevels} levels; raise --max-levels or merge levels`);
+        if (this.strata.size >= this.request.maxLevels) throw dataError(`${this.request.byOption ?? '--by'} "${this.request.by}" has more than --max-levels ${this.request.maxLevels} levels; raise --max-levels or merge levels`);
         stratum = this.tableCounter();
         this.strata.set(level, stratum);
       }
