@@ -250,6 +250,12 @@ function sameAssociation(stack: number[][][], twoByTwo: boolean, confidence: num
 }
 
 /** The change over one average step between dated waves. */
+/** A trend's slope in the log strength with its interval, as a factor per unit of the scores and per average wave. */
+function slopeFields(scores: WaveScores, slope: number, lower: number | null, upper: number | null, confidence: number) {
+  const factorOf = (x: number | null) => (x === null ? null : Math.exp(x));
+  return { slope, lower, upper, confidence, factor: Math.exp(slope), factorLower: factorOf(lower), factorUpper: factorOf(upper), unit: scores.unit, perAverageWave: perAverageWave(scores, slope, lower, upper) };
+}
+
 function perAverageWave(scores: WaveScores, slope: number, lower: number | null, upper: number | null): WavesTrend['perAverageWave'] {
   if (scores.unit !== 'year' || scores.values.length < 2) return null;
   const spacing = (Math.max(...scores.values) - Math.min(...scores.values)) / (scores.values.length - 1);
@@ -272,15 +278,7 @@ function trendOf(stack: number[][][], scores: WaveScores, twoByTwo: boolean, con
       statistic: score.statistic,
       df: score.df,
       pValue: score.pValue,
-      slope,
-      lower: woolf.lower,
-      upper: woolf.upper,
-      confidence,
-      factor: Math.exp(slope),
-      factorLower: Math.exp(woolf.lower),
-      factorUpper: Math.exp(woolf.upper),
-      unit: scores.unit,
-      perAverageWave: perAverageWave(scores, slope, woolf.lower, woolf.upper),
+      ...slopeFields(scores, slope, woolf.lower, woolf.upper, confidence),
       direction,
       converged: true,
       fitted: scores.values.map((x) => Math.exp(woolf.intercept + slope * x)),
@@ -298,15 +296,7 @@ function trendOf(stack: number[][][], scores: WaveScores, twoByTwo: boolean, con
     statistic: test.statistic,
     df: test.df,
     pValue: test.pValue,
-    slope: fit.slope,
-    lower: fit.lower,
-    upper: fit.upper,
-    confidence,
-    factor: Math.exp(fit.slope),
-    factorLower: fit.lower === null ? null : Math.exp(fit.lower),
-    factorUpper: fit.upper === null ? null : Math.exp(fit.upper),
-    unit: scores.unit,
-    perAverageWave: perAverageWave(scores, fit.slope, fit.lower, fit.upper),
+    ...slopeFields(scores, fit.slope, fit.lower, fit.upper, confidence),
     direction: fit.slope > 0 ? 'grows' : fit.slope < 0 ? 'fades' : null,
     converged: fit.converged,
     fitted: fit.layerStrength,
@@ -369,15 +359,7 @@ function designTrendOf(across: DesignAcross, scores: WaveScores, keys: readonly 
       statistic: test.statistic,
       df: test.df,
       pValue: test.pValue,
-      slope: fit.slope,
-      lower: fit.lower,
-      upper: fit.upper,
-      confidence,
-      factor: Math.exp(fit.slope),
-      factorLower: Math.exp(fit.lower),
-      factorUpper: Math.exp(fit.upper),
-      unit: scores.unit,
-      perAverageWave: perAverageWave(scores, fit.slope, fit.lower, fit.upper),
+      ...slopeFields(scores, fit.slope, fit.lower, fit.upper, confidence),
       direction,
       converged: true,
       fitted: scores.values.map((x) => Math.exp(fit.intercept + fit.slope * x)),
@@ -390,21 +372,12 @@ function designTrendOf(across: DesignAcross, scores: WaveScores, keys: readonly 
   if (across.layerEffect) {
     const fit = across.layerEffect;
     const test = waveWaldOf(fit.test);
-    const at = (x: number | null) => (x === null ? null : Math.exp(x));
     return {
       method: 'layer-effect',
       statistic: test.statistic,
       df: test.df,
       pValue: test.pValue,
-      slope: fit.slope,
-      lower: fit.lower,
-      upper: fit.upper,
-      confidence,
-      factor: Math.exp(fit.slope),
-      factorLower: at(fit.lower),
-      factorUpper: at(fit.upper),
-      unit: scores.unit,
-      perAverageWave: perAverageWave(scores, fit.slope, fit.lower, fit.upper),
+      ...slopeFields(scores, fit.slope, fit.lower, fit.upper, confidence),
       direction: fit.slope > 0 ? 'grows' : fit.slope < 0 ? 'fades' : null,
       converged: true,
       fitted: scores.values.map((x) => Math.exp(fit.slope * (x - fit.scoreCentre))),

@@ -1,7 +1,7 @@
 import type { Codes } from './encodedColumn.js';
 import { addCompensated } from '../numerics/compensatedSum.js';
 import { PsuCellTotals, ReplicateCellTotals, SampleDesignIndex } from '../stats/designTally.js';
-import type { DesignCells, RowDesign } from './surveyDesign.js';
+import { gridDesignCells, type DesignCells, type RowDesign } from './surveyDesign.js';
 
 /**
  * Counting a banner: one question (a code per respondent, or an answer
@@ -220,13 +220,6 @@ export function countDesignCells(rowOf: (r: number) => number, rowLabels: readon
       t.counts = counts;
       t.cellCapacity = cells;
     }
-    return {
-      design: design.design,
-      weightColumn: design.weightColumn,
-      replicateColumns: design.replicateColumns,
-      totals: t,
-      cellLabels: (cell: number) => (cell < cells ? ([rowLabels[Math.floor(cell / width)], b.labels[cell % width]] as [string, string]) : null),
-      cellCount: cells,
-    };
+    return gridDesignCells(design, t, rowLabels, b.labels);
   });
 }

@@ -214,6 +214,13 @@ export function taylorCellsFromPlanes(
   }
   totals.counts = inner(paddedCounts, 0);
   totals.cellCapacity = cells;
+  return gridDesignCells(design, totals, rowLabels, colLabels);
+}
+
+/** The design cells of a row-major rows × columns grid: cell (i − 1)c + (j − 1) is labelled by row i and column j. */
+export function gridDesignCells(design: RowDesign, totals: PsuCellTotals | ReplicateCellTotals, rowLabels: readonly string[], colLabels: readonly string[]): DesignCells {
+  const width = colLabels.length;
+  const cells = rowLabels.length * width;
   return {
     design: design.design,
     weightColumn: design.weightColumn,
@@ -253,12 +260,5 @@ export function replicateCellsOfPair(rowLabels: readonly string[], colLabels: re
   totals.totals = sums;
   totals.counts = counts;
   totals.cellCapacity = cells;
-  return {
-    design: design.design,
-    weightColumn: design.weightColumn,
-    replicateColumns: design.replicateColumns,
-    totals,
-    cellLabels: (cell) => (cell < cells ? [rowLabels[Math.floor(cell / width)], colLabels[cell % width]] : null),
-    cellCount: cells,
-  };
+  return gridDesignCells(design, totals, rowLabels, colLabels);
 }
