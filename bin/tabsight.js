@@ -17,11 +17,29 @@ const { join } = require('node:path');
 const dist = join(__dirname, '..', 'dist');
 const bundle = join(dist, 'bundle');
 
-/** Loads the bundle's entry; `scripts` collects each part's compiled script (scripts/code-cache.cjs writes their cache). */
-function loadBundle(scripts) {
+/**
+ * A part's text. The bundle is written in ASCII (scripts/bundle.mjs), which
+ * is read as Latin-1, byte for byte: a copy, where decoding UTF-8 checks
+ * every byte (a visible part of a run on a small file).
+ */
+function sourceText(bytes) {
+  const { isAscii } = require('node:buffer');
+  return typeof isAscii === 'function' && isAscii(bytes) ? bytes.toString('latin1') : bytes.toString('utf8');
+}
+
+/** The commands with code caches of their own (scripts/code-cache.cjs). */
+const OWN_CACHES = new Set(['pair', 'scan']);
+
+/**
+ * Loads the bundle's entry; `scripts` collects each part's compiled script
+ * (scripts/code-cache.cjs writes their cache); `command` (the first
+ * argument) picks the command's own caches where it has them.
+ */
+function loadBundle(scripts, command) {
   const vm = require('node:vm');
   const { createRequire, wrap } = require('node:module');
-  const cacheDir = join(bundle, 'cache');
+  const cacheRoot = join(bundle, 'cache');
+  const cacheDirs = OWN_CACHES.has(command) ? [join(cacheRoot, command), cacheRoot] : [cacheRoot];
   const outside = createRequire(join(bundle, 'tabsight.cjs'));
   const loaded = new Map();
   const load = (name) => {
@@ -31,12 +49,15 @@ function loadBundle(scripts) {
     const module = { exports: {}, id: file, filename: file, loaded: false };
     loaded.set(name, module);
     let cachedData;
-    try {
-      cachedData = readFileSync(join(cacheDir, `${name}.cache`));
-    } catch {
-      // no cache for this part: compiled afresh
+    for (const dir of cacheDirs) {
+      try {
+        cachedData = readFileSync(join(dir, `${name}.cache`));
+        break;
+      } catch {
+        // no cache for this part here: the next place, else compiled afresh
+      }
     }
-    const script = new vm.Script(wrap(readFileSync(file, 'utf8')), { filename: file, cachedData, importModuleDynamically: vm.constants.USE_MAIN_CONTEXT_DEFAULT_LOADER });
+    const script = new vm.Script(wrap(sourceText(readFileSync(file))), { filename: file, cachedData, importModuleDynamically: vm.constants.USE_MAIN_CONTEXT_DEFAULT_LOADER });
     if (scripts) scripts.set(name, script);
     const required = (specifier) => (specifier.startsWith('./') ? load(specifier.slice(2)) : outside(specifier));
     required.resolve = outside.resolve;
@@ -54,7 +75,7 @@ function loadBundle(scripts) {
 async function program() {
   const time = (path) => statSync(path, { throwIfNoEntry: false })?.mtimeMs;
   const bundled = time(join(bundle, 'tabsight.cjs'));
-  if (bundled !== undefined && bundled >= (time(join(dist, 'cli', 'main.js')) ?? 0)) return loadBundle(null);
+  if (bundled !== undefined && bundled >= (time(join(dist, 'cli', 'main.js')) ?? 0)) return loadBundle(null, process.argv[2]);
   const { pathToFileURL } = require('node:url');
   return import(pathToFileURL(join(dist, 'cli', 'main.js')).href);
 }
@@ -67,7 +88,9 @@ if (require.main === module) {
         process.exitCode = status;
       },
       (error) => {
-        // Not a user-facing failure: a bug. Say so in one line, keep the detail for reports.
+        // Not a user-facing failure: a bug. Say so in one line, keep the detail for reports
+        // (standard error that cannot be written must not change the status).
+        process.stderr.on('error', () => undefined);
         process.stderr.write(`tabsight: internal error: ${error && error.message ? error.message : String(error)} (please report it; set TABSIGHT_DEBUG=1 for details)\n`);
         if (process.env.TABSIGHT_DEBUG) process.stderr.write(String(error && error.stack) + '\n');
         process.exitCode = 70;

@@ -47,17 +47,93 @@ const lazySegmenter = {
   },
 };
 
+/**
+ * The text width library also makes its patterns of Unicode properties when
+ * it is loaded, and V8 builds a pattern's character sets as the pattern is
+ * made: \p{RGI_Emoji} alone (every emoji sequence, from ICU's data) was
+ * about a fifth of the instructions of `pair` on a 10-row file. Each such
+ * pattern is made here on its first use: its name becomes a function that
+ * makes it once (the same pattern object every time, so its uses behave as
+ * before). A library whose text no longer has such lines is bundled as it is.
+ */
+const lazyPropertyPatterns = {
+  name: 'lazy-property-patterns',
+  transform(code, id) {
+    if (!/[\\/]node_modules[\\/]string-width[\\/]/.test(id)) return null;
+    const declared = /^const (\w+) = (\/.*\\p\{.*\/[a-z]*);$/gm;
+    const names = [...code.matchAll(declared)].map((m) => m[1]);
+    if (names.length === 0) return null;
+    let lazy = code.replace(declared, (_line, name, pattern) => `let made_${name};\nconst ${name}_ = () => (made_${name} ??= ${pattern});`);
+    for (const name of names) lazy = lazy.replace(new RegExp(`\\b${name}\\b(?!_)`, 'g'), `${name}_()`);
+    return lazy;
+  },
+};
+
+/**
+ * The argument parser loads node:child_process when it is loaded (for
+ * subcommands that are programs of their own, which tabsight has none of);
+ * that module brings the network and stream modules with it. Here it is
+ * loaded when the parser would start such a program.
+ */
+const lazyChildProcess = {
+  name: 'lazy-child-process',
+  transform(code, id) {
+    if (!/[\\/]node_modules[\\/]commander[\\/]lib[\\/]command\.js$/.test(id)) return null;
+    const made = /^const childProcess = require\('node:child_process'\);$/m;
+    if (!made.test(code)) return null;
+    return code.replace(made, "const childProcess = { spawn: (...args) => require('node:child_process').spawn(...args) };");
+  },
+};
+
+/**
+ * The colour library's detection of colour support asks node:tty whether
+ * each standard stream is a terminal when it is loaded, and node:tty loads
+ * the network and stream modules. tabsight never uses that detection (it
+ * chooses colour itself, src/cli/output.ts), but the library runs it; here
+ * the question goes to node:tty only for a character device other than
+ * /dev/null (a terminal is one; a file, a pipe or /dev/null never is), with
+ * the same answer.
+ */
+const lazyTerminalCheck = {
+  name: 'lazy-terminal-check',
+  transform(code, id) {
+    if (!/[\\/]node_modules[\\/]chalk[\\/]source[\\/]vendor[\\/]supports-color[\\/]index\.js$/.test(id)) return null;
+    const made = /^import tty from 'node:tty';$/m;
+    if (!made.test(code)) return null;
+    return code.replace(
+      made,
+      [
+        "import { fstatSync, readlinkSync } from 'node:fs';",
+        "import { createRequire } from 'node:module';",
+        'const tty = {',
+        '\tisatty(fd) {',
+        '\t\ttry {',
+        '\t\t\tif (!fstatSync(fd).isCharacterDevice()) return false;',
+        '\t\t} catch {',
+        '\t\t\treturn false;',
+        '\t\t}',
+        '\t\ttry {',
+        "\t\t\tif (readlinkSync(`/proc/self/fd/${fd}`) === '/dev/null') return false;",
+        '\t\t} catch {}',
+        "\t\treturn createRequire(import.meta.url)('node:tty').isatty(fd);",
+        '\t},',
+        '};',
+      ].join('\n'),
+    );
+  },
+};
+
 await rolldown.build({
   input: { tabsight: join(dist, 'cli', 'main.js'), rangeWorker: join(dist, 'io', 'rangeWorker.js') },
   platform: 'node',
   // The optional engine and the spreadsheet writer stay packages of their own, loaded when used.
   external: ['@duckdb/node-api', 'exceljs'],
   logLevel: 'warn',
-  plugins: [lazySegmenter],
+  plugins: [lazySegmenter, lazyPropertyPatterns, lazyChildProcess, lazyTerminalCheck],
   transform: { define: { TABSIGHT_PACKAGE_JSON: JSON.stringify(JSON.stringify({ version, optionalDependencies })) } },
   // CommonJS: bin/tabsight.js compiles each part with its code cache (vm.Script), and Node.js
   // loads built-in modules for CommonJS without the wrappers it makes for ES modules.
-  output: { dir: out, format: 'cjs', dynamicImportInCjs: false, entryFileNames: '[name].cjs', chunkFileNames: 'part-[name]-[hash].cjs', minify: false },
+  output: { dir: out, format: 'cjs', charset: 'ascii', comments: { jsdoc: false }, dynamicImportInCjs: false, entryFileNames: '[name].cjs', chunkFileNames: 'part-[name]-[hash].cjs', minify: false },
 });
 console.log(`bundle: ${readdirSync(out).length} files in dist/bundle`);
 // The code cache, made by running a few commands on the demo files (scripts/code-cache.cjs).

@@ -18,6 +18,7 @@ import { decideHeldFixed } from './report.js';
 import type { InputSummary } from './report.js';
 import { TOOL_VERSION } from '../version.js';
 import { TabsightError } from '../errors.js';
+import { formatCount } from '../readableNumbers.js';
 import type { DesignSummary } from './design.js';
 
 export interface ScanOptions {
@@ -120,12 +121,12 @@ const IDENTIFIER_SHARE = 0.9;
  */
 export function screenColumn(column: EncodedColumn, rows: number, options: Pick<ScanOptions, 'maxLevels'> & { other?: ScanOptions['other'] }): SkippedColumn | null {
   const present = rows - column.missing;
-  const distinct = column.distinctCapped ? `more than ${column.distinct.toLocaleString('en-US')}` : column.distinct.toLocaleString('en-US');
+  const distinct = column.distinctCapped ? `more than ${formatCount(column.distinct)}` : formatCount(column.distinct);
   if (present === 0) return { column: column.name, code: 'no-values', reason: 'every value is missing' };
   if (column.distinct === 1) return { column: column.name, code: 'single-level', reason: `a single level ("${column.labels[0]}")` };
   const looksLikeIdentifier = column.distinct >= IDENTIFIER_SHARE * present && column.distinct > 10 && (!column.numeric || column.integer);
   if (looksLikeIdentifier) {
-    return { column: column.name, code: 'identifier', reason: `an identifier: ${distinct} distinct values in ${present.toLocaleString('en-US')} rows` };
+    return { column: column.name, code: 'identifier', reason: `an identifier: ${distinct} distinct values in ${formatCount(present)} rows` };
   }
   if (column.codes === null) {
     if (column.numeric) {

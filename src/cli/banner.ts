@@ -184,7 +184,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no a
 /** Reads the columns once (built-in reader), builds the banner record and writes it; found = some overall test passes. */
 export async function runBanner(plan: BannerPlan, io: CliIo): Promise<Outcome> {
   if (plan.format === 'xlsx' && plan.output === undefined && io.stdout.isTTY === true) throw usageError('--format xlsx writes a binary file: give --output week.xlsx (or redirect standard output to a file)');
-  const source = inputSource(plan.input, io.stdin);
+  const source = inputSource(plan.input, io);
   const guard = outputGuard(io, { output: plan.output });
   guard.checkInputs([plan.input, ...sideInputFiles(plan.survey)]);
   const reader = readerFor(plan.reader, io, guard);

@@ -151,12 +151,12 @@ export async function runCompare(plan: ComparePlan, io: CliIo): Promise<Outcome>
   const guard = outputGuard(io, plan.report);
   guard.checkInputs([...(plan.periods.kind === 'column' ? [plan.periods.input] : [plan.periods.before, plan.periods.after]), ...sideInputFiles(plan.table)]);
   if (plan.periods.kind === 'column') {
-    const source = inputSource(plan.periods.input, io.stdin);
+    const source = inputSource(plan.periods.input, io);
     checkReadable(source);
     [before, after, unmatched, raw] = await periodsOfColumn(source, plan, plan.periods.column, plan.periods.levels, io, guard);
   } else {
     refuseStdinTwice([plan.periods.before, plan.periods.after]);
-    const sources = [inputSource(plan.periods.before, io.stdin), inputSource(plan.periods.after, io.stdin)];
+    const sources = [inputSource(plan.periods.before, io), inputSource(plan.periods.after, io)];
     const counted: CountedInput[] = [];
     for (const source of sources) counted.push(await countTable(source, readerFor(plan.reader, io, guard), plan.table));
     // A note said once when both files give it.

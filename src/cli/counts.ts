@@ -91,7 +91,7 @@ Examples:
 
 /** Counts the table (and its layers) and writes one line per combination that occurs. */
 export async function runCount(plan: CountPlan, io: CliIo): Promise<Outcome> {
-  const source = inputSource(plan.input, io.stdin);
+  const source = inputSource(plan.input, io);
   const guard = outputGuard(io, { output: plan.output });
   guard.checkInputs([plan.input, ...sideInputFiles(plan.table)]);
   checkReadable(source);
@@ -132,7 +132,7 @@ export async function runMerge(plan: MergePlan, io: CliIo): Promise<Outcome> {
   const totals = new Map<string, [string[], bigint]>();
   outputGuard(io, { output: plan.output }).checkInputs(files);
   for (const file of files) {
-    const source = inputSource(file, io.stdin);
+    const source = inputSource(file, io);
     let countIndex = -1;
     let width = 0;
     await readRecords(

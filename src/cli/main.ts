@@ -111,11 +111,6 @@ export async function run(args: readonly string[], io: CliIo): Promise<{ status:
 
 /** The program on the process's own streams (argv as process.argv gives it). */
 export async function main(argv: string[]): Promise<number> {
-  // Write errors reach each write's callback (src/output/standardOutput.ts),
-  // where they end the run with one line (a closed pipe: quietly); the
-  // streams' error events are then only echoes. Standard error that cannot
-  // be written (a closed pipe) must not change the status either.
-  process.stdout.on('error', () => undefined);
-  process.stderr.on('error', () => undefined);
+  // The streams' error events are ignored where each is made (nodeStream in src/output/standardOutput.ts).
   return (await run(argv.slice(2), processIo())).status;
 }

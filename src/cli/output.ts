@@ -8,7 +8,7 @@ import { Chalk, ChalkInstance } from 'chalk';
 import { messageLine } from '../escape/terminal.js';
 import { OutputGuard, OutputTarget } from '../output/guard.js';
 import { writeTarget, WriteHooks } from '../output/atomicWrite.js';
-import { OutputStream, processStandardOutput, writeStandardOutput } from '../output/standardOutput.js';
+import { OutputStream, processStandardError, processStandardOutput, writeStandardOutput } from '../output/standardOutput.js';
 
 export type { OutputStream };
 
@@ -20,9 +20,26 @@ export interface CliIo {
   env: Readonly<Record<string, string | undefined>>;
 }
 
-/** The process's own streams and environment (standard output with checked writes: src/output/standardOutput.ts). */
+/** The runs on the process's own streams (processIo), whose standard input is descriptor 0. */
+const processRuns = new WeakSet<CliIo>();
+
+/**
+ * The process's own streams and environment (standard output with checked
+ * writes: src/output/standardOutput.ts). Node makes its standard input and
+ * error streams when they are first asked for, and making them loads the
+ * stream modules: a run that reads a file and writes no note never does.
+ */
 export function processIo(): CliIo {
-  return { stdin: process.stdin, stdout: processStandardOutput(), stderr: process.stderr, env: process.env };
+  const io: CliIo = {
+    get stdin() {
+      return process.stdin;
+    },
+    stdout: processStandardOutput(),
+    stderr: processStandardError(),
+    env: process.env,
+  };
+  processRuns.add(io);
+  return io;
 }
 
 /** Colour only for a terminal, never when NO_COLOR is set, --no-color is given or output goes to a file. */
@@ -55,7 +72,7 @@ function writeHooks(io: CliIo): WriteHooks {
  */
 export function outputGuard(io: CliIo, targets: { output?: string; plot?: string }): OutputGuard {
   const named = [targets.output !== undefined ? { option: '--output', path: targets.output } : null, targets.plot !== undefined ? { option: '--plot', path: targets.plot } : null];
-  return new OutputGuard(named, io.stdin === process.stdin ? 0 : null);
+  return new OutputGuard(named, processRuns.has(io) ? 0 : null);
 }
 
 /** Writes a file beside the report (--plot). */

@@ -103,7 +103,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no a
 /** Counts the table, analyses it, writes the report; found = the record's verdict passes. */
 export async function runPair(plan: PairPlan, io: CliIo): Promise<Outcome> {
   if (plan.multiple) return runBanner(plan.multiple, io);
-  const source = inputSource(plan.input, io.stdin);
+  const source = inputSource(plan.input, io);
   const guard = outputGuard(io, plan.report);
   guard.checkInputs([plan.input, ...sideInputFiles(plan.table)]);
   checkReadable(source);

@@ -78,7 +78,7 @@ Exit status: 0 done, 1 the data cannot be read, 2 bad usage.`,
 
 /** Reads the file once, profiles every column, writes the profile or the starter codebook. */
 export async function runProfile(plan: ProfilePlan, io: CliIo): Promise<Outcome> {
-  const source = inputSource(plan.input, io.stdin);
+  const source = inputSource(plan.input, io);
   const guard = outputGuard(io, { output: plan.output });
   guard.checkInputs([plan.input, ...(plan.codebookFile ? [plan.codebookFile] : [])]);
   checkReadable(source);

@@ -133,7 +133,7 @@ Exit status: 0 done, 1 the data cannot be read or analysed, 2 bad usage,\n3 no p
 
 /** Encodes the columns in one read, scores every pair, writes the report; found = at least one pair passes. */
 export async function runScan(plan: ScanPlan, io: CliIo): Promise<Outcome> {
-  const source = inputSource(plan.input, io.stdin);
+  const source = inputSource(plan.input, io);
   const guard = outputGuard(io, plan.report);
   guard.checkInputs([plan.input, ...sideInputFiles(plan.survey)]);
   const reader = readerFor(plan.reader, io, guard);

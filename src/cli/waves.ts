@@ -144,7 +144,7 @@ async function wavesOfFiles(plan: WavesPlan, inputs: string[], mode: WaveOrderMo
   const ordered = orderOfFiles(files, mode);
   if (ordered.problem !== null) throw usageError(`cannot order the waves by their file names: ${ordered.problem}; name the files by date or ISO week (2026-01-05, 2026-W05), or pass --wave-order given`);
   guard.checkInputs(files);
-  const sources: InputSource[] = ordered.order.map((k) => inputSource(files[k], io.stdin));
+  const sources: InputSource[] = ordered.order.map((k) => inputSource(files[k], io));
   const counted = await countFiles(sources, readerFor(plan.reader, io, guard), plan.table);
   const keys = ordered.order.map((k) => ordered.keys[k]);
   const waves = sources.map((source, k) => waveInput(source.label, fileKey(source.path, keys[k]), counted[k], inputSummary(source.label, counted[k]), plan));
@@ -161,7 +161,7 @@ async function wavesOfFiles(plan: WavesPlan, inputs: string[], mode: WaveOrderMo
 }
 
 async function wavesOfColumn(plan: WavesPlan, input: string, column: string, listed: string[] | undefined, io: CliIo, guard: OutputGuard): Promise<{ waves: WaveInput[]; setup: WaveSetup; unmatched: UnmatchedValue[]; raw: RawValues }> {
-  const source = inputSource(input, io.stdin);
+  const source = inputSource(input, io);
   checkReadable(source);
   guard.checkInputs([input]);
   const counted = await countTable(source, readerFor(plan.reader, io, guard), { ...plan.table, by: column, byOption: '--period' });

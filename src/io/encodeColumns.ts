@@ -4,7 +4,7 @@
  * at most 255 levels, 2 up to 65,535), so that every pair's table is counted from the codes in
  * memory (table/countPair.ts) without reading again.
  */
-import { promises as fs } from 'node:fs';
+import { statSync } from 'node:fs';
 import { dataError } from '../errors.js';
 import { countPair } from '../table/countPair.js';
 import { Codes, codesFor, EncodedColumn, largestCode, remapCodes } from '../table/encodedColumn.js';
@@ -342,7 +342,7 @@ function compactCodes(codes: Codes, labels: readonly string[]): { codes: Codes; 
 async function plainFileSize(source: InputSource): Promise<number | null> {
   if (source.path === '-') return null;
   try {
-    const stat = await fs.stat(source.path);
+    const stat = statSync(source.path);
     return stat.isFile() && !(await isGzipFile(source.path)) ? stat.size : null;
   } catch {
     return null; // the reader names the problem

@@ -2,7 +2,7 @@
  * Where the input comes from (a file, plain or gzip, or standard input) and
  * its decoding to UTF-8, with one-line errors naming the byte and line.
  */
-import { createReadStream, existsSync, promises as fs, Stats } from 'node:fs';
+import { accessSync, closeSync, constants, createReadStream, existsSync, openSync, read, readSync, Stats, statSync } from 'node:fs';
 import { isUtf8 } from 'node:buffer';
 import { TextDecoder } from 'node:util';
 import { dataError, usageError } from '../errors.js';
@@ -16,8 +16,14 @@ export interface InputSource {
   stdin?: NodeJS.ReadableStream & { isTTY?: boolean };
 }
 
-export function inputSource(path: string | undefined, stdin?: NodeJS.ReadableStream & { isTTY?: boolean }): InputSource {
-  if (path === undefined || path === '-') return { path: '-', label: 'standard input', stdin };
+/**
+ * The source a path names. `streams` holds the run's standard input; it is
+ * asked for it only when the path is '-' (the process's standard input
+ * stream is made when first asked for, and a run that reads a file does not
+ * need it).
+ */
+export function inputSource(path: string | undefined, streams?: { readonly stdin: NodeJS.ReadableStream & { isTTY?: boolean } }): InputSource {
+  if (path === undefined || path === '-') return { path: '-', label: 'standard input', stdin: streams?.stdin };
   refuseRemote(path);
   return { path, label: path };
 }
@@ -65,9 +71,9 @@ export function describeOpenError(source: InputSource, error: NodeJS.ErrnoExcept
 /** A file that exists, is not a directory and can be read (its stats); otherwise the tool's one-line message. */
 export async function checkFile(source: InputSource): Promise<Stats> {
   try {
-    const stats = await fs.stat(source.path);
+    const stats = statSync(source.path);
     if (stats.isDirectory()) throw Object.assign(new Error('directory'), { code: 'EISDIR' });
-    await fs.access(source.path, fs.constants.R_OK);
+    accessSync(source.path, constants.R_OK);
     return stats;
   } catch (error) {
     throw describeOpenError(source, error as NodeJS.ErrnoException);
@@ -82,7 +88,7 @@ export async function checkFile(source: InputSource): Promise<Stats> {
 export async function isStreamPath(path: string): Promise<boolean> {
   if (path === '-') return true;
   try {
-    return !(await fs.stat(path)).isFile();
+    return !statSync(path).isFile();
   } catch {
     return false;
   }
@@ -116,26 +122,53 @@ const FIRST_BLOCK = 1 << 16;
  * (a fresh buffer per block cost a page fault per 4 KiB; see README, Speed):
  * the next block is read in the thread pool while the caller works on the
  * current one, so a chunk is valid only until the caller asks for the next,
- * and a caller that keeps bytes longer copies them.
+ * and a caller that keeps bytes longer copies them. The first read, and a
+ * read after a short one (the file's end is near: for a small file, the
+ * read that finds the end), are made at once in this thread: the file's
+ * metadata calls are synchronous too, so a run on a small file never starts
+ * the thread pool (README, Speed).
  */
 async function* fileBlocks(path: string): AsyncGenerator<Buffer> {
-  const handle = await fs.open(path, 'r');
+  const fd = openSync(path, 'r');
   const blocks = [Buffer.allocUnsafe(READ_BLOCK), Buffer.allocUnsafe(READ_BLOCK)];
   // The first read is short: it holds the header (all that a reader of the
   // header wants) and, for a small file, the whole file.
-  let next = handle.read(blocks[0], 0, FIRST_BLOCK, null);
+  let next = readNow(fd, blocks[0], FIRST_BLOCK);
+  let asked = FIRST_BLOCK;
   try {
     for (let k = 1; ; k ^= 1) {
-      const { bytesRead, buffer } = await next;
+      const bytesRead = await next;
       if (bytesRead === 0) break;
-      next = handle.read(blocks[k], 0, READ_BLOCK, null);
-      yield buffer.subarray(0, bytesRead);
+      next = bytesRead < asked ? readNow(fd, blocks[k], READ_BLOCK) : readInPool(fd, blocks[k], READ_BLOCK);
+      asked = READ_BLOCK;
+      yield blocks[k ^ 1].subarray(0, bytesRead);
     }
   } finally {
     // A read still in flight finishes before the file is closed.
-    await next.catch(() => undefined);
-    await handle.close();
+    await Promise.resolve(next).catch(() => undefined);
+    closeSync(fd);
   }
+}
+
+/**
+ * Reads up to `length` bytes at the file's position into the start of
+ * `buffer` in this thread. A failure becomes a rejected promise, marked as
+ * handled: it is thrown where the read is awaited, as a failed read in the
+ * thread pool would be.
+ */
+function readNow(fd: number, buffer: Buffer, length: number): number | Promise<number> {
+  try {
+    return readSync(fd, buffer, 0, length, null);
+  } catch (error) {
+    const failed = Promise.reject(error as Error);
+    failed.catch(() => undefined);
+    return failed;
+  }
+}
+
+/** Reads up to `length` bytes at the file's position into the start of `buffer` in the thread pool. */
+function readInPool(fd: number, buffer: Buffer, length: number): Promise<number> {
+  return new Promise((resolve, reject) => read(fd, buffer, 0, length, null, (error, bytesRead) => (error ? reject(error) : resolve(bytesRead))));
 }
 
 /** True when bytes start with the gzip magic bytes 1f 8b (RFC 1952, §2.3.1). */
@@ -221,13 +254,12 @@ export async function* rawChunks(source: InputSource): AsyncGenerator<Buffer> {
 
 /** True when a regular file starts with the gzip magic bytes (for files only: it reads the start again). */
 export async function isGzipFile(path: string): Promise<boolean> {
-  const handle = await fs.open(path, 'r');
+  const fd = openSync(path, 'r');
   try {
     const head = Buffer.alloc(2);
-    const { bytesRead } = await handle.read(head, 0, 2, 0);
-    return bytesRead === 2 && gzipMagic(head);
+    return readSync(fd, head, 0, 2, 0) === 2 && gzipMagic(head);
   } finally {
-    await handle.close();
+    closeSync(fd);
   }
 }
 
