@@ -32,14 +32,15 @@ const OWN_CACHES = new Set(['pair', 'scan']);
 
 /**
  * Loads the bundle's entry; `scripts` collects each part's compiled script
- * (scripts/code-cache.cjs writes their cache); `command` (the first
- * argument) picks the command's own caches where it has them.
+ * (scripts/code-cache.cjs writes their cache, and compiles every part
+ * afresh: `fresh`); `command` (the first argument) picks the command's own
+ * caches where it has them.
  */
-function loadBundle(scripts, command) {
+function loadBundle(scripts, command, fresh = false) {
   const vm = require('node:vm');
   const { createRequire, wrap } = require('node:module');
   const cacheRoot = join(bundle, 'cache');
-  const cacheDirs = OWN_CACHES.has(command) ? [join(cacheRoot, command), cacheRoot] : [cacheRoot];
+  const cacheDirs = fresh ? [] : OWN_CACHES.has(command) ? [join(cacheRoot, command), cacheRoot] : [cacheRoot];
   const outside = createRequire(join(bundle, 'tabsight.cjs'));
   const loaded = new Map();
   const load = (name) => {
