@@ -133,7 +133,7 @@ await rolldown.build({
   transform: { define: { TABSIGHT_PACKAGE_JSON: JSON.stringify(JSON.stringify({ version, optionalDependencies })) } },
   // CommonJS: bin/tabsight.js compiles each part with its code cache (vm.Script), and Node.js
   // loads built-in modules for CommonJS without the wrappers it makes for ES modules.
-  output: { dir: out, format: 'cjs', charset: 'ascii', comments: { jsdoc: false }, dynamicImportInCjs: false, entryFileNames: '[name].cjs', chunkFileNames: 'part-[name]-[hash].cjs', minify: false },
+  output: { dir: out, format: 'cjs', charset: 'ascii', comments: { jsdoc: false }, dynamicImportInCjs: false, entryFileNames: '[name].cjs', chunkFileNames: 'part-[name]-[hash].cjs', minify: { compress: false, mangle: false, codegen: { removeWhitespace: true } } },
 });
 console.log(`bundle: ${readdirSync(out).length} files in dist/bundle`);
 // The code cache, made by running a few commands on the demo files (scripts/code-cache.cjs).
