@@ -56,7 +56,7 @@ export function addReaderOptions(command: Command): Command {
         .choices(['auto', 'builtin', 'duckdb'])
         .default('auto'),
     )
-    .option('--threads <n>', 'threads that read a large plain file: auto (every core, for files of 96 MB or more), or a number (1: one thread)', 'auto');
+    .option('--threads <n>', 'threads that read a large plain file: auto (every core, for files of 96 MB or more; scan: 16 MB), or a number (1: one thread)', 'auto');
 }
 
 /** The input section of a report, from what the counting step read. */

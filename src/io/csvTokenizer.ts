@@ -132,6 +132,11 @@ export class CsvTokenizer {
     this.parse(true);
   }
 
+  /** The physical line the next record starts on (1: the first line pushed). */
+  get nextLine(): number {
+    return this.line;
+  }
+
   /** Bytes pushed and parsed so far: the offset, from the first byte pushed, where the next record starts. */
   get position(): number {
     return this.base + this.start;

@@ -7,58 +7,27 @@
 import { statSync } from 'node:fs';
 import { dataError } from '../errors.js';
 import { countPair } from '../table/countPair.js';
-import { Codes, codesFor, EncodedColumn, largestCode, remapCodes } from '../table/encodedColumn.js';
+import { Codes, GrowingCodes } from '../table/codes.js';
+import { EncodedColumn, remapCodes } from '../table/encodedColumn.js';
 import { isMissingLooking, numericIgnoringTokens } from '../table/missingLooking.js';
 import { isNumericLabel } from '../table/naturalOrder.js';
 import { ColumnsRequest, DISTINCT_TRACKING_LIMIT, RECODED_READING_CAP, scanSelection } from './columns.js';
 import type { EncodedInput } from './counting.js';
 import { MISSING_ID } from './fieldInterner.js';
-import { readRecords, ReaderOptions } from './readRecords.js';
+import { readRecords, ReaderOptions, RecordSplit, SplitUnsettled } from './readRecords.js';
+import { rangeCountableSize, RangeReaders, rangeReaders, SCAN_PARALLEL_MIN_BYTES, startsWithUtf8Mark, threadsFor } from './parallelCount.js';
 import { RecodedLabels, RowGate } from './rowRules.js';
 import { DesignRowRule } from './designRows.js';
 import { SampleDesignIndex } from '../stats/designTally.js';
 import type { RowDesign } from '../table/surveyDesign.js';
 import { InputSource, isGzipFile } from './source.js';
+import { countGridsOnTwoThreads } from './pairWorkers.js';
+import type { OrderedColumn } from '../table/orderedColumn.js';
 
 /** Rows read before the number of rows is estimated from the file's size (and the arrays sized for it). */
 const ESTIMATE_AT = 1 << 14;
 /** Growth of the arrays past the estimate (or without one: standard input, gzip). */
 const GROWTH = 1.25;
-
-/**
- * The codes of one column as rows arrive: one byte a row while the codes
- * fit in 255, widened once to two bytes (four past 65,535) when a larger
- * code arrives. Unwritten rows stay 0 (missing).
- */
-class GrowingCodes {
-  codes: Codes;
-  private capacity: number;
-  private largest: number;
-  constructor(capacity: number) {
-    this.codes = new Uint8Array(capacity);
-    this.capacity = capacity;
-    this.largest = 0xff;
-  }
-  set(row: number, code: number): void {
-    if (row >= this.capacity || code > this.largest) this.remake(Math.max(row + 1, row >= this.capacity ? Math.ceil(this.capacity * GROWTH) : this.capacity), code);
-    this.codes[row] = code;
-  }
-  /** Room for `rows` rows at once (the estimate). */
-  reserve(rows: number): void {
-    if (rows > this.capacity) this.remake(rows, 0);
-  }
-  private remake(capacity: number, code: number): void {
-    const next = codesFor(Math.max(code, this.largest), capacity);
-    next.set(this.codes);
-    this.codes = next;
-    this.capacity = capacity;
-    this.largest = largestCode(next);
-  }
-  take(rows: number): Codes {
-    this.reserve(rows);
-    return this.codes.subarray(0, rows);
-  }
-}
 
 /** Per-row numbers (`width` to a row: weights, a design's units or replicate weights), grown like the codes. */
 class GrowingWeights<T extends Float64Array | Int32Array = Float64Array> {
@@ -121,8 +90,43 @@ function stillNumeric(state: ColumnState, labels: readonly string[], id: number)
  * Reads the file once and dictionary-encodes every candidate column (and the
  * layer); the reader's ids are the codes: 0 missing, 1.. in order of first
  * appearance. Weights are kept per row for the pair counts.
+ *
+ * A large plain file is read in ranges on every core (io/readRecords.ts,
+ * RecordSplit): the same rows, ids and messages as one thread gives; when
+ * the ranges do not settle (an error of the file, a quote-state guess that
+ * failed), the file is read again by one thread.
  */
 export async function encodeWithReader(source: InputSource, reader: ReaderOptions, request: ColumnsRequest): Promise<EncodedInput> {
+  const split = await rangesOf(source, reader);
+  if (split !== null) {
+    try {
+      return await encodeOnce(source, reader, request, split);
+    } catch (error) {
+      if (!(error instanceof SplitUnsettled)) throw error;
+    } finally {
+      split.close();
+    }
+  }
+  return encodeOnce(source, reader, request, null);
+}
+
+type Ranges = Omit<RecordSplit, 'overflowSafe'> & Pick<RangeReaders, 'keep' | 'close'>;
+
+/** How a scan's file is cut into ranges (RecordSplit, without its overflow rule), or null for one thread: by size, under --threads auto. */
+async function rangesOf(source: InputSource, reader: ReaderOptions): Promise<Ranges | null> {
+  const given = reader.scanRanges;
+  const size = await rangeCountableSize(source, reader);
+  if (size === null) return null;
+  const ranges = given?.cuts ? given.cuts.length + 1 : await threadsFor(source, reader, SCAN_PARALLEL_MIN_BYTES);
+  if (ranges < 2) return null;
+  const bom = await startsWithUtf8Mark(source.path);
+  if (given?.read) return { size, bom, ranges, cuts: given.cuts, read: given.read, keep: () => null, close: () => undefined };
+  // The workers start now, while this thread reads the header.
+  const readers = await rangeReaders(ranges - 1);
+  return { size, bom, ranges, cuts: given?.cuts, read: readers.read, keep: readers.keep, close: readers.close };
+}
+
+async function encodeOnce(source: InputSource, reader: ReaderOptions, request: ColumnsRequest, ranges: Ranges | null): Promise<EncodedInput> {
   const states: ColumnState[] = [];
   const wide = request.maxLevels >= 65535;
   // Codes are kept while they fit their array; the level cap is applied
@@ -151,6 +155,16 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
   let replicateWeights: GrowingWeights | null = null;
   let replicateColumns: string[] = [];
   let designRule: DesignRowRule | null = null;
+  // Slots whose every id counts (filters, the layer, a design's units), and
+  // whether a candidate column's may count too (see overflowSafe below).
+  const exactSlots = new Set<number>();
+  let candidateCount = 0;
+  // A range refuses, past the distinct limit, values the ranges before it
+  // hold. In a candidate column that only matters where binning may keep a
+  // column past the cap while rows are left out: elsewhere the column is
+  // past the limit in the whole file, and its codes are dropped either way.
+  const split: RecordSplit | null =
+    ranges === null ? null : { ...ranges, overflowSafe: (slot) => slot < candidateCount && !exactSlots.has(slot) && !(request.keepNumeric && rowsMayBeLeftOut) };
   const summary = await readRecords(
     source,
     reader,
@@ -158,6 +172,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
       const selection = scanSelection(header, request, source.label);
       const chosen = selection.candidates;
       const slots = [...chosen];
+      candidateCount = chosen.length;
       const slotOf = (index: number) => {
         const at = slots.indexOf(index);
         if (at >= 0) return at;
@@ -179,11 +194,13 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
       if (selection.layer !== null) {
         const index = selection.layer;
         layerSlot = slotOf(index);
+        exactSlots.add(layerSlot);
         layerState = { name: header[index], codes: new GrowingCodes(ESTIMATE_AT), mayBeNumeric: false, checked: 0, missing: 0, cap: RECODED_READING_CAP, dropAbove: RECODED_READING_CAP };
       }
       if (selection.weight !== null) weightSlot = slotOf(selection.weight);
       const whereSlots = selection.where.map((index) => slotOf(index));
       whereSlotsRead = whereSlots;
+      for (const slot of whereSlots) exactSlots.add(slot);
       gate = new RowGate(
         (request.where ?? []).map((clause, k) => ({
           clause,
@@ -203,6 +220,7 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
           fpc: d.fpc !== null ? slotOf(d.fpc) : -1,
           replicates: d.replicates.map(slotOf),
         };
+        for (const slot of [designSlots.strata, designSlots.cluster]) if (slot >= 0) exactSlots.add(slot);
         if (designSlots.fpc >= 0) textSlots.add(designSlots.fpc);
         for (const slot of designSlots.replicates) textSlots.add(slot);
         replicateColumns = d.replicates.map((i) => header[i]);
@@ -260,6 +278,8 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
     },
     () => DISTINCT_TRACKING_LIMIT,
     textSlots,
+    undefined,
+    split ?? undefined,
   );
   if (rows === 0) throw dataError(`${source.label}: the header has no data rows under it`);
   // Values seen only in rows that were left out (--where, bad weights, bad
@@ -295,6 +315,8 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
     layer = { name: layerState.name, labels, codes: layerState.codes.take(rows), missing: layerState.missing, distinct: labels.length, distinctCapped: false, numeric: false, integer: false, missingLooking: [] };
   }
   const rowWeights = weights ? { values: weights.take(rows), kind: request.weight!.kind } : undefined;
+  // A thread that read a range stays to count half of the plain pairs (io/pairWorkers.ts).
+  let helper = ranges?.keep() ?? null;
   const whereValues = whereSlotsRead.map((slot) => (summary.interners[slot].overflowed > 0 ? null : summary.interners[slot].labels));
   const { interners: _interners, ...read } = summary;
   const rowDesign: RowDesign | null =
@@ -319,7 +341,19 @@ export async function encodeWithReader(source: InputSource, reader: ReaderOption
     summary: read,
     whereValues,
     weights: rowWeights,
-    countPairs: async () => (a, b, layerColumn) => countPair(a, b, { weights: rowWeights, strata: layerColumn ?? undefined, design: rowDesign ?? undefined }),
+    countPairs: async (ordered, layerColumn) => {
+      let grids: Map<OrderedColumn, Map<OrderedColumn, Uint32Array>> | null = null;
+      const thread = helper;
+      helper = null;
+      if (thread !== null) {
+        try {
+          if (rowWeights === undefined && rowDesign === null && layerColumn === null && ordered.length > 2) grids = await countGridsOnTwoThreads(ordered, thread);
+        } finally {
+          void thread.terminate();
+        }
+      }
+      return (a, b, layerColumn) => countPair(a, b, { weights: rowWeights, strata: layerColumn ?? undefined, design: rowDesign ?? undefined, grid: grids?.get(a)?.get(b) });
+    },
   };
 }
 

@@ -21,11 +21,17 @@ import { closeSync, openSync, promises as fs, readSync, statSync } from 'node:fs
 import { availableParallelism } from 'node:os';
 import { DEFAULT_DISTINCT_LIMIT, HeaderEnd, ReaderOptions, ReadSummary, readRecords, ColumnSelector } from './readRecords.js';
 import { FieldInterner } from './fieldInterner.js';
-import type { RangeJob, RangeTally } from './rangeCount.js';
+import type { EncodeJob, RangeCodes, RangeJob, RangeTally } from './rangeCount.js';
 import { InputSource } from './source.js';
 
 /** Under --threads auto, plain files from this size on are counted on every core (see README, Speed). */
 export const PARALLEL_MIN_BYTES = 96 * 1024 * 1024;
+/**
+ * Under --threads auto, plain files from this size on are read for a scan
+ * in ranges, one a core (io/readRecords.ts, RecordSplit): a worker's
+ * start-up (about 30-50 ms) is then a small part of what it saves.
+ */
+export const SCAN_PARALLEL_MIN_BYTES = 16 * 1024 * 1024;
 /** Threads used at most under --threads auto. */
 const AUTO_THREADS_MAX = 8;
 
@@ -76,13 +82,13 @@ export function poolThreads(reader: ReaderOptions, files: number): number {
   return Math.max(1, Math.min(threads, files));
 }
 
-/** How many threads count this source, or 1 when it is for the single reader. */
-export async function threadsFor(source: InputSource, reader: ReaderOptions): Promise<number> {
+/** How many threads count this source (or, given `minBytes`, read it for a scan), or 1 when it is for the single reader. */
+export async function threadsFor(source: InputSource, reader: ReaderOptions, minBytes = PARALLEL_MIN_BYTES): Promise<number> {
   const asked = reader.threads ?? 'auto';
   if (asked !== 'auto' && asked < 2) return 1;
   const size = await rangeCountableSize(source, reader);
   if (size === null) return 1;
-  if (asked === 'auto' && size < PARALLEL_MIN_BYTES) return 1;
+  if (asked === 'auto' && size < minBytes) return 1;
   return asked === 'auto' ? Math.min(availableParallelism(), AUTO_THREADS_MAX) : asked;
 }
 
@@ -182,7 +188,7 @@ export async function tallyInParallel(
   };
 }
 
-async function startsWithUtf8Mark(path: string): Promise<boolean> {
+export async function startsWithUtf8Mark(path: string): Promise<boolean> {
   const handle = await fs.open(path, 'r');
   try {
     const head = Buffer.alloc(3);
@@ -213,4 +219,65 @@ async function inWorker(job: RangeJob): Promise<RangeTally> {
       if (code !== 0) reject(new Error(`a counting thread stopped with status ${code}`));
     });
   });
+}
+
+/** A scan's range being read in a worker thread: its result, and a way to stop it when the result is no longer wanted. */
+export interface RangeReading {
+  result: Promise<RangeCodes>;
+  stop(): void;
+}
+
+/** Worker threads started ahead of a scan's ranges (each reads one range), and a way to stop them. */
+export interface RangeReaders {
+  read(job: EncodeJob): RangeReading;
+  /** The first thread that read a range, kept for the scan's pairs (io/pairWorkers.ts): close() no longer stops it, and it does not keep the process alive while idle. */
+  keep(): import('node:worker_threads').Worker | null;
+  close(): void;
+}
+
+/**
+ * Starts `count` worker threads for a scan's ranges at once, so that their
+ * start-up overlaps the reading of the header; each waits for its range.
+ */
+export async function rangeReaders(count: number): Promise<RangeReaders> {
+  const { Worker } = await import('node:worker_threads');
+  const idle = Array.from({ length: count }, () => new Worker(workerUrl(), { workerData: { encode: true } }));
+  const started: import('node:worker_threads').Worker[] = [];
+  return {
+    read(job) {
+      const worker = idle.shift();
+      if (worker === undefined) throw new Error('more ranges than reading threads');
+      started.push(worker);
+      let stopped = false;
+      let answered = false;
+      const result = new Promise<RangeCodes>((resolve, reject) => {
+        worker.once('message', (read: RangeCodes) => {
+          answered = true;
+          resolve(read);
+        });
+        worker.once('error', reject);
+        worker.once('exit', (code) => reject(new Error(stopped ? 'stopped' : `a reading thread stopped with status ${code}`)));
+      });
+      result.catch(() => undefined); // awaited by the reader, or no longer wanted
+      worker.postMessage(job);
+      return {
+        result,
+        // A thread whose range is read stays (for the pairs, see keep); close() ends it.
+        stop() {
+          if (answered) return;
+          stopped = true;
+          void worker.terminate();
+        },
+      };
+    },
+    keep() {
+      const worker = started.shift() ?? null;
+      worker?.unref();
+      return worker;
+    },
+    close() {
+      for (const worker of idle.splice(0)) void worker.terminate();
+      for (const worker of started.splice(0)) void worker.terminate();
+    },
+  };
 }

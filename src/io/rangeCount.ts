@@ -11,8 +11,9 @@
 import { isUtf8 } from 'node:buffer';
 import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
 import { TabsightError } from '../errors.js';
+import { Codes, GrowingCodes } from '../table/codes.js';
 import { CsvTokenizer } from './csvTokenizer.js';
-import { FieldInterner } from './fieldInterner.js';
+import { FieldInterner, MISSING_ID, OVERFLOW_ID } from './fieldInterner.js';
 import { IdTally } from './idTally.js';
 import { completeUtf8Length } from './source.js';
 
@@ -137,22 +138,53 @@ export function firstRecordAfter(fd: number, at: number, size: number, delimiter
 
 /** Counts the records of one range of a plain UTF-8 file (see RangeJob); never throws for a fault of the file. */
 export function countRange(job: RangeJob): RangeTally {
+  return openRange(job, countOpenRange, (first) => unsettled(job, first));
+}
+
+/**
+ * Opens the range's file, finds its first record (unless the start is
+ * exact) and reads it with `read`; an error of the file, or anything the
+ * range cannot settle, gives `failed` instead.
+ */
+function openRange<J extends RangeJob, T>(job: J, read: (fd: number, job: J, first: number, fileSize: number) => T, failed: (first: number) => T): T {
   const fd = openSync(job.path, 'r');
   let first = job.start;
   try {
     const fileSize = fstatSync(fd).size;
     if (!job.exact) first = firstRecordAfter(fd, job.start, fileSize, job.delimiter);
-    return countOpenRange(fd, job, first, fileSize);
+    return read(fd, job, first, fileSize);
   } catch (error) {
-    if (error instanceof Unsettled || error instanceof TabsightError) return unsettled(job, first);
+    if (error instanceof Unsettled || error instanceof TabsightError) return failed(first);
     throw error;
   } finally {
     closeSync(fd);
   }
 }
 
+/**
+ * Feeds the range's bytes from `first` to the tokenizer, in blocks, up to
+ * the first record that starts at or past the range's end; bytes that are
+ * not UTF-8, or a NUL byte, end the range unsettled.
+ */
+function readRange(fd: number, job: RangeJob, first: number, fileSize: number, tokenizer: CsvTokenizer): void {
+  tokenizer.presetSlots(Int32Array.from(job.slots));
+  tokenizer.stopAt = job.end - first;
+  const block = (readBlock ??= Buffer.allocUnsafe(READ_BLOCK));
+  let position = first;
+  while (!tokenizer.stopped) {
+    const bytesRead = readSync(fd, block, 0, READ_BLOCK, position);
+    if (bytesRead === 0) break;
+    let bytes = block.subarray(0, bytesRead);
+    // An incomplete character at the end of the block is read again with the next one.
+    if (position + bytesRead < fileSize) bytes = bytes.subarray(0, completeUtf8Length(bytes));
+    if (bytes.length === 0 || bytes.indexOf(0) >= 0 || !isUtf8(bytes)) throw new Unsettled();
+    tokenizer.push(bytes);
+    position += bytes.length;
+  }
+  if (!tokenizer.stopped) tokenizer.finish();
+}
+
 function countOpenRange(fd: number, job: RangeJob, first: number, fileSize: number): RangeTally {
-  const size = job.end;
   const missing = new Set(job.missing.map((m) => m.trim()));
   const interners = Array.from({ length: job.wanted }, () => new FieldInterner(missing, RANGE_DISTINCT_LIMIT));
   const ids = new Int32Array(job.wanted);
@@ -181,21 +213,7 @@ function countOpenRange(fd: number, job: RangeJob, first: number, fileSize: numb
     },
     job.path,
   );
-  tokenizer.presetSlots(Int32Array.from(job.slots));
-  tokenizer.stopAt = size - first;
-  const block = (readBlock ??= Buffer.allocUnsafe(READ_BLOCK));
-  let position = first;
-  while (!tokenizer.stopped) {
-    const bytesRead = readSync(fd, block, 0, READ_BLOCK, position);
-    if (bytesRead === 0) break;
-    let bytes = block.subarray(0, bytesRead);
-    // An incomplete character at the end of the block is read again with the next one.
-    if (position + bytesRead < fileSize) bytes = bytes.subarray(0, completeUtf8Length(bytes));
-    if (bytes.length === 0 || bytes.indexOf(0) >= 0 || !isUtf8(bytes)) throw new Unsettled();
-    tokenizer.push(bytes);
-    position += bytes.length;
-  }
-  if (!tokenizer.stopped) tokenizer.finish();
+  readRange(fd, job, first, fileSize, tokenizer);
   for (const interner of interners) if (interner.overflowed > 0) throw new Unsettled();
   const { keys, counts } = tally.entries();
   return {
@@ -209,4 +227,139 @@ function countOpenRange(fd: number, job: RangeJob, first: number, fileSize: numb
     blankLines: tokenizer.blankLines,
     badRows,
   };
+}
+
+/**
+ * A range read for a scan (io/encodeColumns.ts): every record's value ids,
+ * as the single reader hands them to its rows, so that the reader can take
+ * them as if it had read the range itself (io/readRecords.ts).
+ */
+export interface EncodeJob extends RangeJob {
+  kind: 'encode';
+  /** Slots delivered as text (a weight, a design's numbers), as the single reader delivers them. */
+  textSlots: number[];
+  /** Per slot, the distinct values it keeps before new ones get the overflow id (the single reader's limits). */
+  distinctLimits: number[];
+}
+
+/** What a range read for a scan holds, record by record (records of the wrong length skipped, as with --skip-bad-rows). */
+export interface RangeCodes {
+  settled: boolean;
+  first: number;
+  stop: number;
+  /** Per slot, the labels of its ids 1, 2, … in order of first appearance in the range. */
+  labels: string[][];
+  /** Per slot, the occurrences of values refused past the distinct limit. */
+  overflowed: number[];
+  /** Per slot, each row's id (0 missing; a code past the labels: refused past the limit); empty for text slots. */
+  codes: Codes[];
+  /**
+   * Per slot, the rows' texts joined by NUL characters, which no value of a
+   * range holds (text slots only; empty for the others): one string, not a
+   * string a row, is what a large file's weights cost in memory.
+   */
+  texts: string[];
+  /** Each row's line, counted from 1 at the range's first line. */
+  lines: Int32Array;
+  /** The line the record after the range starts on, counted the same way. */
+  nextLine: number;
+  /** Rows delivered (records of the right length). */
+  rows: number;
+  records: number;
+  blankLines: number;
+  badRows: number;
+}
+
+/** Texts of a slot joined into one string at a time. */
+const TEXTS_JOINED = 4096;
+
+/** Rows read before the range's rows are estimated from its size (and the arrays sized for it). */
+const ESTIMATE_AT = 1 << 14;
+
+/** Reads one range of a plain UTF-8 file into ids per row (see EncodeJob); never throws for a fault of the file. */
+export function encodeRange(job: EncodeJob): RangeCodes {
+  return openRange(job, encodeOpenRange, (first) => ({ settled: false, first, stop: first, labels: [], overflowed: [], codes: [], texts: [], lines: new Int32Array(0), nextLine: 1, rows: 0, records: 0, blankLines: 0, badRows: 0 }));
+}
+
+function encodeOpenRange(fd: number, job: EncodeJob, first: number, fileSize: number): RangeCodes {
+  const missing = new Set(job.missing.map((m) => m.trim()));
+  const interners = Array.from({ length: job.wanted }, (_v, slot) => new FieldInterner(missing, job.distinctLimits[slot]));
+  const isText = new Uint8Array(job.wanted);
+  for (const slot of job.textSlots) isText[slot] = 1;
+  const ids = new Int32Array(job.wanted);
+  const rowTexts: string[] = new Array(job.wanted).fill('');
+  const codes = Array.from({ length: job.wanted }, (_v, slot) => (isText[slot] ? null : new GrowingCodes(ESTIMATE_AT)));
+  // Each text slot's values, joined a few thousand at a time.
+  const pending: string[][] = Array.from({ length: job.wanted }, () => []);
+  const joined: string[][] = Array.from({ length: job.wanted }, () => []);
+  let lines: Int32Array = new Int32Array(ESTIMATE_AT);
+  const width = job.slots.length;
+  let rows = 0;
+  let badRows = 0;
+  const tokenizer: CsvTokenizer = new CsvTokenizer(
+    job.delimiter,
+    {
+      header: () => new Int32Array(0),
+      fieldBytes: (slot, buf, view, begin, end) => {
+        if (isText[slot] === 1) rowTexts[slot] = view.toString('utf8', begin, end);
+        else ids[slot] = interners[slot].intern(buf, view, begin, end);
+      },
+      fieldText: (slot, value) => {
+        if (isText[slot] === 1) rowTexts[slot] = value;
+        else ids[slot] = interners[slot].internString(value);
+      },
+      record: (fieldCount, line) => {
+        if (fieldCount !== width) {
+          if (!job.skipBadRows) throw new Unsettled();
+          badRows++;
+          return;
+        }
+        const row = rows++;
+        if (row === ESTIMATE_AT) {
+          // Rows to come, from the bytes the first ones took (a little over, so that one size usually does).
+          const estimate = Math.ceil((row * (job.end - first) * 1.05) / Math.max(1, tokenizer.position)) + ESTIMATE_AT;
+          for (const c of codes) c?.reserve(estimate);
+          if (estimate > lines.length) lines = grown(lines, estimate);
+        }
+        if (row >= lines.length) lines = grown(lines, Math.ceil(lines.length * 1.25) + 1);
+        lines[row] = line;
+        for (let slot = 0; slot < ids.length; slot++) {
+          const column = codes[slot];
+          if (column === null) {
+            const values = pending[slot];
+            values.push(rowTexts[slot]);
+            if (values.length === TEXTS_JOINED) joined[slot].push(values.splice(0).join('\0'));
+          }
+          else {
+            const id = ids[slot];
+            // A refused value is kept as the code past the limit's labels (read back as the overflow id).
+            if (id !== MISSING_ID) column.set(row, id === OVERFLOW_ID ? job.distinctLimits[slot] + 1 : id);
+          }
+        }
+      },
+    },
+    job.path,
+  );
+  readRange(fd, job, first, fileSize, tokenizer);
+  return {
+    settled: true,
+    first,
+    stop: first + tokenizer.position,
+    labels: interners.map((i) => i.labels),
+    overflowed: interners.map((i) => i.overflowed),
+    codes: codes.map((c) => (c === null ? new Uint8Array(0) : c.take(rows))),
+    texts: joined.map((parts, slot) => (pending[slot].length > 0 ? [...parts, pending[slot].join('\0')] : parts).join('\0')),
+    lines: lines.subarray(0, rows),
+    nextLine: tokenizer.nextLine,
+    rows,
+    records: tokenizer.records,
+    blankLines: tokenizer.blankLines,
+    badRows,
+  };
+}
+
+function grown(lines: Int32Array, length: number): Int32Array {
+  const next = new Int32Array(length);
+  next.set(lines);
+  return next;
 }

@@ -7,8 +7,9 @@ import { dataError, usageError } from '../errors.js';
 import { bareHeaderNames, validateHeader } from './columns.js';
 import { CsvTokenizer, detectDelimiter } from './csvTokenizer.js';
 import { InputSource, utf8Chunks } from './source.js';
-import { FieldInterner } from './fieldInterner.js';
-import type { RangeJob, RangeTally } from './rangeCount.js';
+import { FieldInterner, OVERFLOW_ID } from './fieldInterner.js';
+import type { EncodeJob, RangeCodes, RangeJob, RangeTally } from './rangeCount.js';
+import type { RangeReading } from './parallelCount.js';
 
 export interface ReaderOptions {
   /** One character; detected from the header line when absent. */
@@ -36,6 +37,12 @@ export interface ReaderOptions {
    * file is counted there, whole or in ranges, instead of by threads of its own.
    */
   rangePool?: (job: RangeJob) => Promise<RangeTally>;
+  /**
+   * How a scan's large file is cut into ranges (io/encodeColumns.ts): by
+   * default the records' bytes in equal parts, each but the first read in a
+   * worker thread; tests give the cuts and read the ranges in this thread.
+   */
+  scanRanges?: { cuts?: number[]; read?: (job: EncodeJob) => RangeReading };
   /** Receives a one-line note the user should see (for example, that the engine fell back). */
   onNote?: (note: string) => void;
   /** Sees the files a pattern matched before any is read, so that an output that is one of them is refused (src/output/guard.ts). */
@@ -82,6 +89,43 @@ export const DEFAULT_DISTINCT_LIMIT = 1_000_000;
 const SAMPLE_LIMIT = 1 << 20;
 
 /**
+ * A plain file read in ranges (a scan's large file, io/encodeColumns.ts):
+ * this thread reads the header and the first range, worker threads the
+ * others (io/rangeCount.ts, encodeRange), each into its own ids in order of
+ * first appearance. The ranges' rows are then handed to onRow in file
+ * order, their ids renumbered by interning each range's labels, in that
+ * range's order, after every label of the ranges before it: the ids are the
+ * ones the single reader gives, and so is every row, line and count.
+ *
+ * A range starts at the first record boundary after its cut, from a guess
+ * of the quote state there (io/rangeCount.ts); a range that does not begin
+ * where the one before it ended, or that meets anything but plain valid
+ * records, makes the reader throw SplitUnsettled once the rows before it
+ * are handed over: the caller then reads the whole file with the single
+ * reader, whose messages the user gets.
+ */
+export interface RecordSplit {
+  /** The file's size in bytes, and whether it starts with a UTF-8 byte-order mark. */
+  size: number;
+  bom: boolean;
+  /** Ranges the records are cut into (this thread reads the first). */
+  ranges: number;
+  /** Offsets where the ranges are cut (tests); by default the records' bytes in equal parts. */
+  cuts?: number[];
+  /** Reads a range (by default in a worker thread of its own). */
+  read: (job: EncodeJob) => RangeReading;
+  /**
+   * Slots where a range's refusal of a value past the distinct limit cannot
+   * change what onRow makes of the rows (a range refuses values the ranges
+   * before it hold); past the limit in any other slot, SplitUnsettled.
+   */
+  overflowSafe: (slot: number) => boolean;
+}
+
+/** A file read in ranges that did not settle (see RecordSplit): read it with the single reader. */
+export class SplitUnsettled extends Error {}
+
+/**
  * The first line of the sample (its first SAMPLE_LIMIT bytes) that is not
  * blank, decoded; lines end at CR LF, LF or CR. Only the lines up to it are
  * decoded (decoding the whole sample was a fixed cost of every file read).
@@ -123,6 +167,8 @@ export async function readRecords(
   textSlots: ReadonlySet<number> | 'all' = new Set(),
   /** Sees each value a column's interner refuses past its distinct limit (a profile estimates the distinct count from them). */
   onOverflow?: (slot: number, label: string) => void,
+  /** Reads a plain file in ranges on several threads (not with onOverflow, nor without a header). */
+  split?: RecordSplit,
 ): Promise<ReadSummary & { delimiter: string; interners: FieldInterner[] }> {
   const allText = textSlots === 'all';
   const textSet: ReadonlySet<number> = textSlots === 'all' ? new Set() : textSlots;
@@ -142,6 +188,12 @@ export async function readRecords(
   const buffered: Uint8Array[] = [];
   const position = () => (tokenizer === null ? 0 : (tokenizer as CsvTokenizer).position);
   let bufferedLength = 0;
+  const splitting = split !== undefined && split.ranges > 1 && onOverflow === undefined && options.header ? split : null;
+  let others: { job: EncodeJob; reading: RangeReading }[] = [];
+  const stopOthers = () => {
+    for (const other of others) other.reading.stop();
+    others = [];
+  };
 
   const start = (sample: Uint8Array) => {
     if (delimiter === undefined) delimiter = detectDelimiter(firstNonBlankLine(sample));
@@ -164,6 +216,10 @@ export async function readRecords(
           textFlags = Uint8Array.from(selected, (_c, slot) => (isText(slot) ? 1 : 0));
           ids = new Int32Array(selected.length);
           texts = new Array(selected.length).fill(undefined);
+          if (splitting !== null) {
+            const base = { path: source.path, missing: [...options.missing], skipBadRows: options.skipBadRows, distinctLimits: selected.map((_c, slot) => distinctLimit(slot)) };
+            others = startRanges(splitting, reading, slots, delimiter as string, textFlags, base);
+          }
           if (!options.header) {
             // The first record is data: deliver it too.
             selected.forEach((column, slot) => {
@@ -204,34 +260,129 @@ export async function readRecords(
     );
   };
 
-  for await (const chunk of utf8Chunks(source, options.encoding)) {
-    if (tokenizer === null && bufferedLength === 0 && chunk.indexOf(0x0a) >= 0) {
-      // The usual start: the first block holds a line end (the tokenizer copies what it keeps).
-      start(chunk);
-      (tokenizer as unknown as CsvTokenizer).push(chunk);
-      continue;
-    }
-    if (tokenizer === null) {
-      // The chunk's buffer is reused for the next read: keep a copy.
-      buffered.push(Uint8Array.prototype.slice.call(chunk));
-      bufferedLength += chunk.length;
-      const joined = Buffer.concat(buffered);
-      if (joined.indexOf(0x0a) < 0 && bufferedLength < SAMPLE_LIMIT) continue;
-      start(joined);
-      (tokenizer as unknown as CsvTokenizer).push(joined);
-      continue;
-    }
-    (tokenizer as CsvTokenizer).push(chunk);
-  }
-  if (tokenizer === null) {
-    if (bufferedLength === 0) throw dataError(`${source.label}: the file is empty`);
-    const joined = Buffer.concat(buffered);
-    start(joined);
-    (tokenizer as unknown as CsvTokenizer).push(joined);
+  try {
+    await readChunks();
+  } catch (error) {
+    stopOthers();
+    throw error;
   }
   const t = tokenizer as unknown as CsvTokenizer;
-  t.finish();
   if (header.length === 0) throw dataError(`${source.label}: no header line (the file holds only blank lines)`);
-  const records = options.header ? t.records : t.records + 1;
-  return { header, delimiter: delimiter as string, records, blankLines: t.blankLines, badRows, engine: 'builtin', format: 'csv', files: 1, interners };
+  let records = options.header ? t.records : t.records + 1;
+  let blankLines = t.blankLines;
+  // The other ranges' rows, in file order, as if this thread had read them.
+  let stop = t.position + (splitting?.bom ? 3 : 0);
+  let line = t.nextLine;
+  try {
+    for (const { job, reading } of others) {
+      const read = await reading.result;
+      if (!read.settled || read.first !== stop) throw new SplitUnsettled(`the range from byte ${job.start} did not settle`);
+      handOver(read, line);
+      records += read.records;
+      blankLines += read.blankLines;
+      badRows += read.badRows;
+      stop = read.stop;
+      line += read.nextLine - 1;
+    }
+    if (others.length > 0 && stop !== (splitting as RecordSplit).size) throw new SplitUnsettled('the last range did not end the file');
+  } finally {
+    stopOthers();
+  }
+  return { header, delimiter: delimiter as string, records, blankLines, badRows, engine: 'builtin', format: 'csv', files: 1, interners };
+
+  /** A range's rows handed to onRow with this reader's ids (its labels interned after those of the ranges before it); `first` is the line it starts on. */
+  function handOver(read: RangeCodes, first: number): void {
+    const maps = read.labels.map((labels, slot) => {
+      if (read.overflowed[slot] > 0 && !(splitting as RecordSplit).overflowSafe(slot)) throw new SplitUnsettled(`a range has too many distinct values in slot ${slot}`);
+      interners[slot].overflowed += read.overflowed[slot];
+      const map = new Int32Array(labels.length + 1);
+      for (let k = 0; k < labels.length; k++) map[k + 1] = interners[slot].internString(labels[k]);
+      return map;
+    });
+    const width = ids.length;
+    // Where each text slot's next value starts in its joined texts.
+    const cursors = new Array<number>(width).fill(0);
+    for (let r = 0; r < read.rows; r++) {
+      for (let slot = 0; slot < width; slot++) {
+        if (textFlags[slot] === 1) {
+          const joined = read.texts[slot];
+          const from = cursors[slot];
+          const end = joined.indexOf('\0', from);
+          texts[slot] = joined.slice(from, end < 0 ? joined.length : end);
+          cursors[slot] = end < 0 ? joined.length : end + 1;
+        } else {
+          const code = read.codes[slot][r];
+          const map = maps[slot];
+          ids[slot] = code < map.length ? map[code] : OVERFLOW_ID;
+        }
+      }
+      onRow(ids, first + read.lines[r] - 1, texts, interners, position);
+    }
+  }
+
+  /** Feeds the source to the tokenizer; with ranges, up to the end of the first (the rest of the file is not even decoded here). */
+  async function readChunks(): Promise<void> {
+    const stopped = () => (tokenizer as CsvTokenizer | null)?.stopped === true;
+    for await (const chunk of utf8Chunks(source, options.encoding)) {
+      if (tokenizer === null && bufferedLength === 0 && chunk.indexOf(0x0a) >= 0) {
+        // The usual start: the first block holds a line end (the tokenizer copies what it keeps).
+        start(chunk);
+        (tokenizer as unknown as CsvTokenizer).push(chunk);
+      } else if (tokenizer === null) {
+        // The chunk's buffer is reused for the next read: keep a copy.
+        buffered.push(Uint8Array.prototype.slice.call(chunk));
+        bufferedLength += chunk.length;
+        const joined = Buffer.concat(buffered);
+        if (joined.indexOf(0x0a) < 0 && bufferedLength < SAMPLE_LIMIT) continue;
+        start(joined);
+        (tokenizer as unknown as CsvTokenizer).push(joined);
+      } else (tokenizer as CsvTokenizer).push(chunk);
+      if (stopped()) return;
+    }
+    if (tokenizer === null) {
+      if (bufferedLength === 0) throw dataError(`${source.label}: the file is empty`);
+      const joined = Buffer.concat(buffered);
+      start(joined);
+      (tokenizer as unknown as CsvTokenizer).push(joined);
+    }
+    (tokenizer as unknown as CsvTokenizer).finish();
+  }
+}
+
+/**
+ * Cuts the records after the header into ranges (see RecordSplit) and
+ * starts reading every range but the first; the tokenizer is told to stop
+ * where the first range ends.
+ */
+function startRanges(
+  split: RecordSplit,
+  tokenizer: CsvTokenizer,
+  slots: Int32Array,
+  delimiter: string,
+  textFlags: Uint8Array,
+  base: Pick<EncodeJob, 'path' | 'missing' | 'skipBadRows' | 'distinctLimits'>,
+): { job: EncodeJob; reading: RangeReading }[] {
+  const bom = split.bom ? 3 : 0;
+  const dataStart = tokenizer.position + bom;
+  const cuts = [...new Set(split.cuts ?? Array.from({ length: split.ranges - 1 }, (_v, k) => dataStart + Math.floor(((k + 1) * (split.size - dataStart)) / split.ranges)))]
+    .filter((cut) => cut > dataStart && cut < split.size)
+    .sort((a, b) => a - b);
+  if (cuts.length === 0) return [];
+  tokenizer.stopAt = cuts[0] - bom;
+  const textSlots: number[] = [];
+  textFlags.forEach((flag, slot) => flag === 1 && textSlots.push(slot));
+  return cuts.map((start, k) => {
+    const job: EncodeJob = {
+      ...base,
+      kind: 'encode',
+      start,
+      end: k + 1 < cuts.length ? cuts[k + 1] : split.size,
+      exact: false,
+      delimiter: delimiter.charCodeAt(0),
+      slots: [...slots],
+      wanted: textFlags.length,
+      textSlots,
+    };
+    return { job, reading: split.read(job) };
+  });
 }

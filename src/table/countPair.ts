@@ -8,6 +8,7 @@ import type { CountedTable } from './countedTable.js';
 import { compareNatural } from './naturalOrder.js';
 import type { OrderedColumn } from './orderedColumn.js';
 import { TwoWayTable } from './twoWayTable.js';
+import { countGrid } from './pairGrid.js';
 import { Weighting } from './weighting.js';
 import { replicateCellsOfPair, taylorCellsFromPlanes, type DesignCells, type RowDesign } from './surveyDesign.js';
 
@@ -23,6 +24,8 @@ export interface CountPairOptions {
   rowsPerEntry?: Float64Array;
   /** A survey design read with the rows (one unit or set of replicate weights per row): its totals are counted too. */
   design?: RowDesign;
+  /** The unweighted counts of the padded grid (table/pairGrid.ts), counted already; only without weights, layers, grouped entries or a design. */
+  grid?: Uint32Array;
 }
 
 /** Exact group sums from an engine, as hi + lo pairs: Σw in values/low, Σw² in squares/squaresLow. */
@@ -109,19 +112,8 @@ export function countPair(rowColumn: OrderedColumn, colColumn: OrderedColumn, op
   } else if (layerCodes) {
     for (let k = 0; k < rows; k++) counts[layerCodes[k] * plane + a[k] * width + b[k]]++;
   } else {
-    // Four interleaved grids, added up afterwards, so that runs of rows that
-    // hit the same cell do not wait on each other's increments.
-    const lanes = new Uint32Array(4 * plane);
-    const end = rows - 3;
-    let k = 0;
-    for (; k < end; k += 4) {
-      lanes[a[k] * width + b[k]]++;
-      lanes[plane + a[k + 1] * width + b[k + 1]]++;
-      lanes[2 * plane + a[k + 2] * width + b[k + 2]]++;
-      lanes[3 * plane + a[k + 3] * width + b[k + 3]]++;
-    }
-    for (; k < rows; k++) lanes[a[k] * width + b[k]]++;
-    for (let i = 0; i < plane; i++) counts[i] = lanes[i] + lanes[plane + i] + lanes[2 * plane + i] + lanes[3 * plane + i];
+    // Counted here, or already (by another thread: io/pairWorkers.ts).
+    (counts as Uint32Array).set(options.grid ?? countGrid(a, b, width, plane));
   }
   const firstLayer = layerCodes ? 1 : 0;
   // Pooled over the (non-missing) layers.

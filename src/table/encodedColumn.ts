@@ -8,18 +8,10 @@ import { EMPTY_REASON, indexCodebook, levelOrder, levelOutcome, LevelRules, miss
 import { isNumericLabel } from './naturalOrder.js';
 import { isMissingLooking, numericIgnoringTokens } from './missingLooking.js';
 
-/** A code per row: one byte while a column has at most 255 levels, two up to 65,535, else four. */
-export type Codes = Uint8Array | Uint16Array | Uint32Array;
+import { Codes, codesFor, largestCode } from './codes.js';
 
-/** The largest code each kind of array holds. */
-export function largestCode(codes: Codes): number {
-  return codes instanceof Uint8Array ? 0xff : codes instanceof Uint16Array ? 0xffff : 0xffffffff;
-}
-
-/** An array of `length` codes wide enough for codes up to `largest`. */
-export function codesFor(largest: number, length: number): Codes {
-  return largest <= 0xff ? new Uint8Array(length) : largest <= 0xffff ? new Uint16Array(length) : new Uint32Array(length);
-}
+export { codesFor, largestCode };
+export type { Codes };
 
 /**
  * Renumbers codes through `remap` (code k becomes remap[k]), in place when
