@@ -13,8 +13,9 @@
 // ends (bench/floor.mjs).
 //
 // Options: --runs N (default 5), --quick (3 runs; no 10-million-row files),
-// --only waves, --only banner, --only design or --only startup (a 10-row
-// file against node -e 0): that scenario alone.
+// --only waves, --only banner, --only design, --only pair10m (pair on the
+// 10-million-row file) or --only startup (a 10-row file against node -e 0):
+// that scenario alone.
 import { spawnSync } from 'node:child_process';
 import { existsSync, statSync, writeFileSync, readFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
@@ -192,6 +193,31 @@ async function benchStartup() {
   }
 }
 
+const pairArgs = (file, ...extra) => tabsight('pair', file, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', 'builtin', ...extra);
+const row = (name, r, goal, met) => report(`${name.padEnd(50)} ${s(r.mine).padStart(8)} ${s(r.reference).padStart(8)} ${r.ratio.toFixed(3).padStart(7)}   ${goal}${met === undefined ? '' : ` ${verdict(met)}`}`);
+
+/** pair on 10 million rows (420 MB): one thread and every core against the floor, every core against polars, and peak memory against 1M rows. */
+async function benchPair10m(polars, pair1m) {
+  const pair10m = await pairFile(10_000_000, 'pair-10m.csv');
+  const mb = statSync(pair10m).size / 1e6;
+  const floorRun = [node, [join(here, 'floor.mjs'), pair10m]];
+  const single = versus(pairArgs(pair10m, '--threads', '1'), floorRun);
+  const auto = versus(pairArgs(pair10m), floorRun);
+  row(`10M rows (${mb.toFixed(0)} MB), 1 thread vs the floor`, single, '');
+  row(`10M rows, auto (${cores} threads) vs the floor`, auto, '<= 1.5', auto.ratio <= 1.5);
+  report(`  10M rows, 1 thread: ${(mb / single.mine).toFixed(0)} MB/s whole process (goal >= 230 MB/s per core) ${verdict(mb / single.mine >= 230)}`);
+  report(`  10M rows, auto on ${cores} cores: ${(mb / auto.mine).toFixed(0)} MB/s whole process (goal about 350 MB/s with two) ${verdict(mb / auto.mine >= 350 * Math.min(cores, 2) / 2)}`);
+  if (polars) {
+    const p10p = versus(pairArgs(pair10m), [polars, [join(here, 'polars_route.py'), 'pair', pair10m, 'region', 'segment']]);
+    row(`10M rows, auto vs polars`, p10p, '<= 0.333', p10p.ratio <= 1 / 3);
+  }
+  if (hasTime) {
+    const small = median(Array.from({ length: 3 }, () => once(...pairArgs(pair1m, '--threads', '1')).peak));
+    const big = median(Array.from({ length: 3 }, () => once(...pairArgs(pair10m, '--threads', '1')).peak));
+    report(`  peak memory of pair: ${small.toFixed(0)} MB on 1M rows, ${big.toFixed(0)} MB on 10M rows, ratio ${(big / small).toFixed(2)} (goal <= 1.5) ${verdict(big / small <= 1.5)}`);
+  }
+}
+
 if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'startup') {
   report(`npm run bench --only startup on ${cores} cores (${new Date().toISOString().slice(0, 10)}); whole-process wall time, median of ${Math.max(runs, 7)} alternating runs`);
   await benchStartup();
@@ -213,14 +239,19 @@ if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'waves') {
   process.exit(0);
 }
 const polars = polarsPython();
+if (args.includes('--only') && args[args.indexOf('--only') + 1] === 'pair10m') {
+  report(`npm run bench --only pair10m on ${cores} cores (${new Date().toISOString().slice(0, 10)}); whole-process wall time, median of ${runs} alternating runs; ratio = tabsight / other route`);
+  report('\npair region x segment, 10M rows');
+  report('scenario                                           tabsight   other     ratio   goal');
+  await benchPair10m(polars, await pairFile());
+  process.exit(0);
+}
 report(`npm run bench on ${cores} cores (${new Date().toISOString().slice(0, 10)}); whole-process wall time, median of ${runs} alternating runs; ratio = tabsight / other route (below 1: tabsight faster)`);
 
 // --- pair -----------------------------------------------------------------
 const pair1m = await pairFile();
-const pairArgs = (file, ...extra) => tabsight('pair', file, '--rows', 'region', '--cols', 'segment', '--format', 'json', '--engine', 'builtin', ...extra);
 report('\npair region x segment');
 report('scenario                                           tabsight   other     ratio   goal');
-const row = (name, r, goal, met) => report(`${name.padEnd(50)} ${s(r.mine).padStart(8)} ${s(r.reference).padStart(8)} ${r.ratio.toFixed(3).padStart(7)}   ${goal}${met === undefined ? '' : ` ${verdict(met)}`}`);
 const mb1m = statSync(pair1m).size / 1e6;
 const p1 = versus(pairArgs(pair1m), [debianPython, [join(here, 'reference_route.py'), 'pair', pair1m, 'region', 'segment']]);
 row(`1M rows (${mb1m.toFixed(0)} MB) vs pandas`, p1, '<= 0.5', p1.ratio <= 0.5);
@@ -232,26 +263,7 @@ const p1t = versus(pairArgs(pair1m, '--threads', String(Math.max(2, cores))), pa
 row(`1M rows, ${Math.max(2, cores)} threads vs 1 thread`, p1t, 'auto uses 1 below 96 MB');
 report(`  1M rows, one thread: ${(mb1m / p1.mine).toFixed(0)} MB/s whole process`);
 
-if (!quick) {
-  const pair10m = await pairFile(10_000_000, 'pair-10m.csv');
-  const mb = statSync(pair10m).size / 1e6;
-  const floorRun = [node, [join(here, 'floor.mjs'), pair10m]];
-  const single = versus(pairArgs(pair10m, '--threads', '1'), floorRun);
-  const auto = versus(pairArgs(pair10m), floorRun);
-  row(`10M rows (${mb.toFixed(0)} MB), 1 thread vs the floor`, single, '');
-  row(`10M rows, auto (${cores} threads) vs the floor`, auto, '<= 1.5', auto.ratio <= 1.5);
-  report(`  10M rows, 1 thread: ${(mb / single.mine).toFixed(0)} MB/s whole process (goal >= 230 MB/s per core) ${verdict(mb / single.mine >= 230)}`);
-  report(`  10M rows, auto on ${cores} cores: ${(mb / auto.mine).toFixed(0)} MB/s whole process (goal about 350 MB/s with two) ${verdict(mb / auto.mine >= 350 * Math.min(cores, 2) / 2)}`);
-  if (polars) {
-    const p10p = versus(pairArgs(pair10m), [polars, [join(here, 'polars_route.py'), 'pair', pair10m, 'region', 'segment']]);
-    row(`10M rows, auto vs polars`, p10p, '<= 0.333', p10p.ratio <= 1 / 3);
-  }
-  if (hasTime) {
-    const small = median(Array.from({ length: 3 }, () => once(...pairArgs(pair1m, '--threads', '1')).peak));
-    const big = median(Array.from({ length: 3 }, () => once(...pairArgs(pair10m, '--threads', '1')).peak));
-    report(`  peak memory of pair: ${small.toFixed(0)} MB on 1M rows, ${big.toFixed(0)} MB on 10M rows, ratio ${(big / small).toFixed(2)} (goal <= 1.5) ${verdict(big / small <= 1.5)}`);
-  }
-}
+if (!quick) await benchPair10m(polars, pair1m);
 
 // --- scan -----------------------------------------------------------------
 const scanArgs = (file, ...extra) => tabsight('scan', file, '--format', 'csv', '--engine', 'builtin', ...extra);

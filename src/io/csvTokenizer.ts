@@ -40,6 +40,8 @@ export const RECORD_BYTE_LIMIT = 64 * 1024 * 1024;
 /** The most columns a header may have (README, "Failures and what the tool guarantees"). */
 export const COLUMN_LIMIT = 1_000_000;
 const QUOTE = 0x22;
+/** A pending record up to this length is completed before a chunk is parsed in place (a longer one waits for the whole chunk; see retryAt). */
+const PENDING_COMPLETED_FIRST = 1 << 16;
 const LF = 0x0a;
 const CR = 0x0d;
 
@@ -71,6 +73,10 @@ export class CsvTokenizer {
   records = 0;
 
   private readonly special = new Uint8Array(256);
+  /** Every byte above this is an ordinary one (the delimiter, CR, LF and the quote are not above it). */
+  private readonly ordinaryAbove: number;
+  /** The first quote at or after the parse position in the window (the window's end when none), found natively once per parse. */
+  private quoteAt = -1;
 
   constructor(
     private readonly delimiter: number,
@@ -78,12 +84,29 @@ export class CsvTokenizer {
     private readonly label: string,
   ) {
     for (const b of [delimiter, LF, CR, QUOTE]) this.special[b] = 1;
+    this.ordinaryAbove = Math.max(delimiter, LF, CR, QUOTE);
   }
 
   push(chunk: Uint8Array): void {
     if (this.end === this.start && chunk.length >= this.retryAt) {
       this.pushInPlace(chunk);
       return;
+    }
+    const pending = this.end - this.start;
+    if (pending <= PENDING_COMPLETED_FIRST && this.slots !== null && !this.stopped) {
+      // The record cut at the end of the last chunk is completed with the
+      // chunk's first line, and the rest is parsed where it lies (else every
+      // chunk would be copied into the window behind that record).
+      const lineEnd = chunk.indexOf(LF);
+      if (lineEnd >= 0 && lineEnd + 1 < chunk.length) {
+        this.append(chunk.subarray(0, lineEnd + 1));
+        this.parse(false);
+        if (this.end === this.start && !this.stopped) {
+          this.pushInPlace(chunk.subarray(lineEnd + 1));
+          return;
+        }
+        chunk = chunk.subarray(lineEnd + 1);
+      }
     }
     this.append(chunk);
     // A long partial record is only re-scanned once the window has grown
@@ -102,7 +125,8 @@ export class CsvTokenizer {
     const window = this.window;
     const view = this.view;
     const offset = this.base + this.start;
-    this.window = chunk;
+    // The window is always a plain Uint8Array (a Buffer too would make every byte access polymorphic).
+    this.window = chunk instanceof Buffer ? new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.length) : chunk;
     this.view = chunk instanceof Buffer ? chunk : Buffer.from(chunk.buffer, chunk.byteOffset, chunk.length);
     this.base = offset;
     this.start = 0;
@@ -196,6 +220,18 @@ export class CsvTokenizer {
    * (a quote, a lone CR, a record cut by the end of the window).
    */
   private parsePlain(p: number, end: number): number {
+    // Whole lines before the next quote are read by the quote-free path.
+    if (this.quoteAt < p) {
+      const at = this.view.indexOf(QUOTE, p);
+      this.quoteAt = at < 0 || at > end ? end : at;
+    }
+    if (this.quoteAt > p) {
+      const lineEnd = this.view.lastIndexOf(LF, this.quoteAt - 1);
+      if (lineEnd >= p) {
+        p = this.parseQuoteFree(p, lineEnd + 1);
+        if (this.stopped) return p;
+      }
+    }
     const buf = this.window;
     const view = this.view;
     const special = this.special;
@@ -282,6 +318,89 @@ export class CsvTokenizer {
     return p;
   }
 
+  /**
+   * The quote-free path: window[p, regionEnd) holds whole records and no
+   * quote (regionEnd is just past a line feed), so every delimiter separates
+   * fields and every LF, CRLF or lone CR ends a record, and nothing needs to
+   * be checked for later bytes. One test per byte for most bytes (above the
+   * delimiter and the line ends every byte is ordinary); past the last wanted
+   * field only the delimiters are counted. Returns where it stopped: at
+   * regionEnd, or at the first record starting at or past stopAt.
+   */
+  private parseQuoteFree(p: number, regionEnd: number): number {
+    const buf = this.window;
+    const view = this.view;
+    const special = this.special;
+    const above = this.ordinaryAbove;
+    const delimiter = this.delimiter;
+    const slots = this.slots as Int32Array;
+    const lastWanted = this.lastWanted;
+    const starts = this.fieldStarts;
+    const ends = this.fieldEnds;
+    const columnOfSlot = this.columnOfSlot;
+    const wanted = columnOfSlot.length;
+    const handlers = this.handlers;
+    const stop = this.stopAt - this.base;
+    while (p < regionEnd) {
+      if (p >= stop) {
+        this.stopped = true;
+        break;
+      }
+      const recordStart = p;
+      let q = p;
+      let field = 0;
+      let b = 0;
+      // The fields up to the last wanted one, their bounds noted.
+      for (;;) {
+        const s = q;
+        while ((b = buf[q]) > above || special[b] === 0) q++;
+        // (field ≤ lastWanted < width here.)
+        const slot = slots[field];
+        if (slot >= 0) {
+          starts[slot] = s;
+          ends[slot] = q;
+        }
+        field++;
+        if (b !== delimiter) break;
+        q++;
+        if (field > lastWanted) {
+          // Past the last wanted field: only the delimiters up to the line end are counted.
+          let more = 1;
+          for (;;) {
+            b = buf[q];
+            if (b > above) q++;
+            else if (b === delimiter) {
+              more++;
+              q++;
+            } else if (special[b] === 0) q++;
+            else break;
+          }
+          field += more;
+          break;
+        }
+      }
+      // b is LF or CR here, at q: a one-field record spans [recordStart, q).
+      const contentEnd = q;
+      q += b === CR && buf[q + 1] === LF ? 2 : 1;
+      const line = this.line;
+      this.line = line + 1;
+      p = q;
+      this.start = p;
+      if (field === 1 && onlyBlanks(buf, recordStart, contentEnd)) {
+        this.blankLines++;
+        continue;
+      }
+      for (let slot = 0; slot < wanted; slot++) {
+        const column = columnOfSlot[slot];
+        if (column >= 0 && column < field) handlers.fieldBytes(slot, buf, view, starts[slot], ends[slot]);
+      }
+      this.records++;
+      handlers.record(field, line);
+    }
+    this.retryAt = 0;
+    return p;
+  }
+
   private fail(message: string, line: number): never {
     throw dataError(`${this.label}, line ${line}: ${message}`);
   }
@@ -293,10 +412,7 @@ export class CsvTokenizer {
     const delimiter = this.delimiter;
     const special = this.special;
     const view = this.view;
-    // Positions of the next quote and carriage return in the window (−1: none
-    // ahead), found natively and reused, for the fast path below.
-    let quoteAt = -2;
-    let crAt = -2;
+    this.quoteAt = -1;
     let p = this.start;
     while (p < end) {
       if (this.base + p >= this.stopAt) {

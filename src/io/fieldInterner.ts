@@ -57,7 +57,11 @@ export class FieldInterner {
     return this.labelId(value);
   }
 
-  /** Id of the field bytes buf[start, end), decoded only when new. */
+  /**
+   * Id of the field bytes buf[start, end), decoded only when new. This part,
+   * small enough for the compiler to inline into the reader's loop, finds a
+   * value in the cache; the rest is in `lookUp`.
+   */
   intern(buf: Uint8Array, view: Buffer, start: number, end: number): number {
     while (start < end && (buf[start] === 0x20 || buf[start] === 0x09)) start++;
     while (end > start && (buf[end - 1] === 0x20 || buf[end - 1] === 0x09)) end--;
@@ -68,17 +72,18 @@ export class FieldInterner {
     const probe = (length * 0x9e5 + buf[start] * 0x3b + buf[end - 1]) & CACHE_MASK;
     const cached = this.cacheSlot[probe];
     if (cached >= 0 && this.slotLength[cached] === length) {
-      const at = this.slotStart[cached];
+      const at = this.slotStart[cached] - start;
       const keys = this.keys;
-      let same = true;
-      for (let i = 0; i < length; i++) {
-        if (keys[at + i] !== buf[start + i]) {
-          same = false;
-          break;
-        }
-      }
-      if (same) return this.slotId[cached];
+      let i = start;
+      while (i < end && keys[at + i] === buf[i]) i++;
+      if (i === end) return this.slotId[cached];
     }
+    return this.lookUp(buf, view, start, end, probe);
+  }
+
+  /** The trimmed, non-empty value buf[start, end) not found in the cache: hashed into the table, and decoded when new. */
+  private lookUp(buf: Uint8Array, view: Buffer, start: number, end: number, probe: number): number {
+    const length = end - start;
     let hash = 0x811c9dc5;
     for (let i = start; i < end; i++) hash = Math.imul(hash ^ buf[i], 0x01000193);
     let slot = hash & this.mask;

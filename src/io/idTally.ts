@@ -14,6 +14,15 @@ export class IdTally {
   /** Open addressing: entry index + 1, or 0 for an empty slot. */
   private table: Int32Array;
   private mask: number;
+  /**
+   * A combination whose ids are all below `1 << denseBits` (of one, two or
+   * three slots: the few levels of most tables) is found by its ids alone:
+   * dense[ids laid side by side as bits] is its entry index + 1 (0: none
+   * yet). Others are hashed into `table`. A combination always takes the
+   * same way, so no entry is held twice.
+   */
+  private readonly dense: Int32Array | null;
+  private readonly denseBits: number;
   /** Distinct combinations held. */
   size = 0;
 
@@ -22,11 +31,34 @@ export class IdTally {
     this.counts = new Float64Array(64);
     this.table = new Int32Array(256);
     this.mask = 255;
+    this.denseBits = width === 1 ? 12 : width === 2 ? 6 : width === 3 ? 5 : 0;
+    this.dense = this.denseBits > 0 ? new Int32Array(1 << (this.denseBits * width)) : null;
   }
 
   /** Adds `rows` rows of the combination ids[0, width). */
   add(ids: Int32Array, rows = 1): void {
     const width = this.width;
+    const dense = this.dense;
+    if (dense !== null) {
+      const bits = this.denseBits;
+      let key = 0;
+      let all = 0;
+      for (let k = 0; k < width; k++) {
+        const id = ids[k];
+        all |= id;
+        key = (key << bits) | id;
+      }
+      // A negative id (past an interner's limit) sets the sign bit of `all`.
+      if (all >>> 0 < 1 << bits) {
+        const at = dense[key];
+        if (at !== 0) {
+          this.counts[at - 1] += rows;
+          return;
+        }
+        dense[key] = this.append(ids, rows) + 1;
+        return;
+      }
+    }
     const keys = this.keys;
     let hash = 0x811c9dc5;
     for (let k = 0; k < width; k++) hash = Math.imul(hash ^ ids[k], 0x01000193);
@@ -52,7 +84,8 @@ export class IdTally {
     this.insert(slot, ids, rows);
   }
 
-  private insert(slot: number, ids: Int32Array, rows: number): void {
+  /** A new entry at the end (arrays grown as needed); returns its index. */
+  private append(ids: Int32Array, rows: number): number {
     const entry = this.size++;
     if (entry >= this.counts.length) {
       const keys = new Int32Array(this.keys.length * 2);
@@ -64,8 +97,20 @@ export class IdTally {
     }
     for (let k = 0; k < this.width; k++) this.keys[entry * this.width + k] = ids[k];
     this.counts[entry] = rows;
-    this.table[slot] = entry + 1;
+    return entry;
+  }
+
+  private insert(slot: number, ids: Int32Array, rows: number): void {
+    this.table[slot] = this.append(ids, rows) + 1;
     if (this.size * 2 > this.mask) this.rehash();
+  }
+
+  /** Whether entry e is found through the dense index. */
+  private isDense(e: number): boolean {
+    if (this.dense === null) return false;
+    let all = 0;
+    for (let k = 0; k < this.width; k++) all |= this.keys[e * this.width + k];
+    return all >>> 0 < 1 << this.denseBits;
   }
 
   private rehash(): void {
@@ -74,6 +119,7 @@ export class IdTally {
     this.mask = size - 1;
     const width = this.width;
     for (let e = 0; e < this.size; e++) {
+      if (this.isDense(e)) continue;
       let hash = 0x811c9dc5;
       for (let k = 0; k < width; k++) hash = Math.imul(hash ^ this.keys[e * width + k], 0x01000193);
       hash ^= hash >>> 15;
@@ -86,6 +132,7 @@ export class IdTally {
   /** Forgets every entry (the arrays are kept for reuse). */
   clear(): void {
     this.table.fill(0);
+    this.dense?.fill(0);
     this.size = 0;
   }
 

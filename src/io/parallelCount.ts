@@ -34,6 +34,14 @@ export const PARALLEL_MIN_BYTES = 96 * 1024 * 1024;
 export const SCAN_PARALLEL_MIN_BYTES = 16 * 1024 * 1024;
 /** Threads used at most under --threads auto. */
 const AUTO_THREADS_MAX = 8;
+/**
+ * Pieces per thread when worker threads share a file: the threads take the
+ * pieces in turn, so that one that starts later (a worker's start-up) or
+ * runs on a busier core takes fewer, and all end at about the same time.
+ */
+const PIECES_PER_THREAD = 12;
+/** The smallest piece (each starts with a read of the bytes after its cut). */
+const PIECE_MIN_BYTES = 4 * 1024 * 1024;
 
 /** A file counted in ranges: what was read, the labels of each slot, and the tally in those labels' ids. */
 export interface ParallelTally {
@@ -108,6 +116,23 @@ export async function tallyInParallel(
   threads: number,
   options: { cuts?: number[]; run?: RangeRunner } = {},
 ): Promise<ParallelTally | null> {
+  // The worker threads start before the header is read, so that their start-up overlaps it.
+  const team = options.run === undefined ? await startTeam(threads - 1) : null;
+  try {
+    return await tallyPieces(source, reader, select, threads, options, team);
+  } finally {
+    team?.release();
+  }
+}
+
+async function tallyPieces(
+  source: InputSource,
+  reader: ReaderOptions,
+  select: ColumnSelector,
+  threads: number,
+  options: { cuts?: number[]; run?: RangeRunner },
+  team: Team | null,
+): Promise<ParallelTally | null> {
   let found: { header: string[]; line: number; delimiter: string; selected: number[]; end: HeaderEnd } | null = null;
   try {
     await readRecords(source, reader, (header, line, delimiter, end) => {
@@ -124,7 +149,8 @@ export async function tallyInParallel(
   const dataStart = end.offset + (bom ? 3 : 0);
   const slots = new Array<number>(header.length).fill(-1);
   selected.forEach((column, slot) => (slots[column] = slot));
-  const cuts = (options.cuts ?? Array.from({ length: threads - 1 }, (_v, k) => dataStart + Math.floor(((k + 1) * (size - dataStart)) / threads)))
+  const pieces = team === null ? threads : Math.max(threads, Math.min(threads * PIECES_PER_THREAD, Math.floor((size - dataStart) / PIECE_MIN_BYTES)));
+  const cuts = (options.cuts ?? Array.from({ length: pieces - 1 }, (_v, k) => dataStart + Math.floor(((k + 1) * (size - dataStart)) / pieces)))
     .filter((cut) => cut > dataStart && cut < size)
     .sort((a, b) => a - b);
   const bounds = [dataStart, ...new Set(cuts), size];
@@ -139,11 +165,14 @@ export async function tallyInParallel(
     missing: [...reader.missing],
     skipBadRows: reader.skipBadRows,
   }));
-  const run = options.run ?? inWorker;
-  // The workers start first; this thread counts the first range meanwhile.
-  const others = jobs.slice(1).map((job) => run(job));
   const { countRange } = await import('./rangeCount.js');
-  const tallies = [options.run ? await options.run(jobs[0]) : countRange(jobs[0]), ...(await Promise.all(others))];
+  let tallies: RangeTally[];
+  if (team !== null) tallies = await team.count(jobs);
+  else {
+    const run = options.run as RangeRunner;
+    const others = jobs.slice(1).map((job) => run(job));
+    tallies = [await run(jobs[0]), ...(await Promise.all(others))];
+  }
 
   // Each range must begin where the one before it ended: a range whose
   // quote-state guess was wrong is counted again from there (exactly, in
@@ -207,18 +236,45 @@ export function workerUrl(): URL {
   return new URL(here.endsWith('.cjs') ? './rangeWorker.cjs' : './rangeWorker.js', here);
 }
 
-/** Counts a range in a worker thread. */
-async function inWorker(job: RangeJob): Promise<RangeTally> {
+/** Worker threads that count the pieces of one file with this thread. */
+interface Team {
+  /** Counts every piece, this thread and the workers taking them in turn; the tallies in the pieces' order. */
+  count(jobs: RangeJob[]): Promise<RangeTally[]>;
+  /** Stops the workers (those that never got their pieces, after an error). */
+  release(): void;
+}
+
+/** Starts `workers` worker threads that wait for the pieces of a file. */
+async function startTeam(workers: number): Promise<Team> {
   // Loaded only when a file is counted in ranges.
   const { Worker } = await import('node:worker_threads');
-  return new Promise((resolve, reject) => {
-    const worker = new Worker(workerUrl(), { workerData: job });
-    worker.once('message', (tally: RangeTally) => resolve(tally));
-    worker.once('error', reject);
-    worker.once('exit', (code) => {
-      if (code !== 0) reject(new Error(`a counting thread stopped with status ${code}`));
+  const started = Array.from({ length: workers }, () => {
+    const worker = new Worker(workerUrl(), { workerData: { queue: true } });
+    // Listened to from the start: a worker that fails before it is given its pieces must not go unheard.
+    const answer = new Promise<[number, RangeTally][]>((resolve, reject) => {
+      worker.once('message', resolve);
+      worker.once('error', reject);
+      // After an answer this changes nothing; before one, the worker stopped without it.
+      worker.once('exit', (code) => reject(new Error(`a counting thread stopped with status ${code}`)));
     });
+    answer.catch(() => undefined); // awaited in count(), or never when the file is not counted in pieces
+    return { worker, answer };
   });
+  return {
+    async count(jobs) {
+      const next = new Int32Array(new SharedArrayBuffer(4));
+      for (const { worker } of started) worker.postMessage({ jobs, next });
+      const tallies = new Array<RangeTally>(jobs.length);
+      // This thread takes pieces too, while the workers start and count.
+      const { countQueue } = await import('./rangeCount.js');
+      for (const [k, tally] of countQueue(jobs, next)) tallies[k] = tally;
+      for (const { answer } of started) for (const [k, tally] of await answer) tallies[k] = tally;
+      return tallies;
+    },
+    release() {
+      for (const { worker } of started) void worker.terminate();
+    },
+  };
 }
 
 /** A scan's range being read in a worker thread: its result, and a way to stop it when the result is no longer wanted. */

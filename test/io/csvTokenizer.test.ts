@@ -124,6 +124,72 @@ describe('CSV tokenizer', () => {
     );
   });
 
+  it('the quote-free path (whole lines before the next quote) equals csv-parse, with each record\'s line: documents with no quote or a few, LF, CRLF and lone CR, empty fields, blank and whitespace-only lines, ragged rows, chunk cuts, some columns wanted', () => {
+    const plainValue = fc.array(fc.constantFrom('a', 'b', 'Z', '1', ' ', '\t', 'é', '日', '😀', 'x y', '-', '.', '~'), { maxLength: 4 }).map((parts) => parts.join(''));
+    const lineArbitrary = fc.record({
+      values: fc.array(plainValue, { minLength: 1, maxLength: 6 }),
+      // now and then a quoted field (with the delimiter, a doubled quote and a line feed in it) among plain lines
+      quoted: fc.constantFrom(false, false, false, false, false, false, false, true),
+      eol: fc.constantFrom('\n', '\n', '\r\n', '\r'),
+      blankAfter: fc.constantFrom('', '', '', '', '', '\n', '  \n', '\t\r\n', '\r\n'),
+    });
+    fc.assert(
+      fc.property(
+        fc.constantFrom(',', ';', '\t', '|'),
+        fc.array(lineArbitrary, { minLength: 1, maxLength: 30 }),
+        fc.array(fc.integer({ min: 1, max: 40 }), { maxLength: 20 }),
+        fc.array(fc.boolean(), { minLength: 6, maxLength: 6 }),
+        fc.boolean(),
+        (delimiter, lines, cuts, wantedMask, finalEol) => {
+          // A header of 4 fields, then the lines (no delimiter inside a plain value: it would only split it).
+          const fieldOf = (v: string) => v.split(delimiter).join('');
+          let document = ['h0', 'h1', 'h2', 'h3'].join(delimiter) + '\n';
+          const starts: number[] = [];
+          lines.forEach((line, k) => {
+            const values = line.values.map(fieldOf);
+            if (line.quoted) values[values.length - 1] = `"q${delimiter}""x\ny"`;
+            // A record that is one blank field is a blank line: skipped, not a record.
+            if (values.length === 1 && /^[ \t]*$/.test(values[0])) values[0] = 'v';
+            starts.push(document.length);
+            document += values.join(delimiter) + (k < lines.length - 1 || finalEol ? line.eol : '');
+            // (With a tab delimiter a line of one tab is two empty fields, not a blank line.)
+            if (k < lines.length - 1) document += delimiter === '\t' ? line.blankAfter.replace('\t', ' ') : line.blankAfter;
+          });
+          const wanted = (i: number) => wantedMask[i] === true;
+          const out: (string | number | undefined)[][] = [];
+          let values: (string | undefined)[] = [];
+          const tokenizer = new CsvTokenizer(
+            delimiter.charCodeAt(0),
+            {
+              header: (fields) => Int32Array.from({ length: fields.length }, (_v, i) => (wanted(i) ? i : -1)),
+              fieldBytes: (slot, _buf, view, start, end) => {
+                values[slot] = view.toString('utf8', start, end);
+              },
+              fieldText: (slot, value) => {
+                values[slot] = value;
+              },
+              record: (fieldCount, line) => {
+                out.push([line, fieldCount, ...Array.from({ length: 4 }, (_v, i) => (wanted(i) && i < fieldCount ? values[i] : undefined))]);
+                values = [];
+              },
+            },
+            'test.csv',
+          );
+          feed(tokenizer, document, cuts);
+          const theirs = (parse(document, { delimiter, relax_column_count: true, skip_empty_lines: false, record_delimiter: ['\r\n', '\n', '\r'], relax_quotes: false }) as string[][]).slice(1);
+          const blank = (r: string[]) => r.length === 1 && /^[ \t]*$/.test(r[0]);
+          const records = theirs.filter((r) => !blank(r));
+          // The line of a record: 1 + the line ends before it (a line feed inside quotes counts, as in an editor).
+          const lineAt = (offset: number) => 1 + (document.slice(0, offset).match(/\r\n|\n|\r/g) ?? []).length;
+          const expected = records.map((r, k) => [lineAt(starts[k]), r.length, ...Array.from({ length: 4 }, (_v, i) => (wanted(i) && i < r.length ? r[i] : undefined))]);
+          expect(out).toEqual(expected);
+          expect(tokenizer.blankLines).toBe(theirs.length - records.length);
+        },
+      ),
+      { numRuns: 800 },
+    );
+  });
+
   it('reads a quoted field holding the delimiter, doubled quotes and a newline (RFC 4180 §2)', () => {
     expect(tokenize('a,b\n"x, ""y""\nz",2\n', ',')).toEqual([
       ['a', 'b'],

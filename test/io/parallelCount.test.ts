@@ -22,6 +22,18 @@ describe('counting a file in byte ranges (threads) equals the single reader', ()
     expect(outcomes.settled).toBeGreaterThan(0);
   });
 
+  it('with a worker thread and this one taking the pieces in turn from a shared queue, on random documents cut at many offsets', async () => {
+    const outcomes = { settled: 0, error: 0, fallback: 0 };
+    await fc.assert(
+      fc.asyncProperty(documentArbitrary(12), fc.array(fc.nat(), { minLength: 4, maxLength: 12 }), async ({ document, cutSeeds, insideSeeds }, more) => {
+        outcomes[await checkRanges(document, cutsFor(document, [...cutSeeds, ...more], insideSeeds), true)]++;
+      }),
+      { numRuns: 25 },
+    );
+    expect(outcomes.fallback).toBe(0);
+    expect(outcomes.settled).toBeGreaterThan(0);
+  });
+
   it('judges the quote state at a cut from the quotes after it (RFC 4180 §2: a closing quote is followed by a delimiter or line end)', () => {
     const bytes = (s: string) => Buffer.from(s);
     expect(insideQuotesAt(bytes('abc",x\n'), 0, 0x61, 44)).toBe(true); // "abc" closes after the cut

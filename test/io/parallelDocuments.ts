@@ -103,19 +103,20 @@ async function single(path: string, delimiter: string): Promise<Counted | Error>
 }
 
 /**
- * Counts the document in ranges cut at the given offsets (in this thread)
- * and checks it against the single reader: equal counts, or (only when the
+ * Counts the document in ranges cut at the given offsets (in this thread,
+ * or in this thread and a worker taking them in turn) and checks it against the single reader: equal counts, or (only when the
  * ranges did not settle) null. Says whether the ranges settled, and if not
  * whether the file has an error (which must never settle).
  */
-export async function checkRanges(document: Document, cuts: number[]): Promise<'settled' | 'error' | 'fallback'> {
+export async function checkRanges(document: Document, cuts: number[], inWorkers = false): Promise<'settled' | 'error' | 'fallback'> {
   const dir = mkdtempSync(join(tmpdir(), 'tabsight-ranges-'));
   const path = join(dir, 'doc.csv');
   writeFileSync(path, document.text);
   const expected = await single(path, document.delimiter);
   let result;
   try {
-    result = await tallyInParallel({ path, label: path }, options(document.delimiter), () => [1, 0], 2, { cuts, run: async (job) => countRange(job) });
+    // In worker threads, the pieces are taken in turn from the shared queue by this thread and one worker.
+    result = await tallyInParallel({ path, label: path }, options(document.delimiter), () => [1, 0], 2, inWorkers ? { cuts } : { cuts, run: async (job) => countRange(job) });
   } catch (error) {
     // Only an error of the header part (read by the single reader itself) may surface here.
     expect(expected).toBeInstanceOf(Error);
