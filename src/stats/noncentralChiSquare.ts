@@ -4,7 +4,7 @@
  */
 import { lowerTailChiSquare, upperTailChiSquare } from './chiSquareDistribution.js';
 import { poissonDensityRaw, regularizedGammaLower, regularizedGammaUpper } from './gamma.js';
-import { upperTailNormal } from './normalDistribution.js';
+import { normalQuantile, upperTailNormal } from './normalDistribution.js';
 
 /**
  * The Poisson weights that matter in the mixture below: the mode ± 12
@@ -47,9 +47,29 @@ export const EDGEWORTH_THRESHOLD = 1e6;
  * upperTailNoncentralChiSquare(25.01, 1, 10) // 0.0330
  */
 export function upperTailNoncentralChiSquare(x: number, df: number, lambda: number): number {
-  if (lambda === 0) return upperTailChiSquare(x, df);
-  if (x <= 0) return 1;
-  if (x > EDGEWORTH_THRESHOLD || lambda > EDGEWORTH_THRESHOLD) return edgeworthUpperTail(x, df, lambda);
+  return upperTailWithSlope(x, df, lambda).tail;
+}
+
+/**
+ * A tail of the noncentral chi-square and its slope in λ, from one pass over
+ * the mixture. Differentiating eq. 29.2 term by term, with
+ * d/dλ e^{−λ/2}(λ/2)^j/j! = ½(w_{j−1} − w_j), gives
+ *   ∂P(X ≥ x)/∂λ = ½ Σ_j w_j [Q(a + 1, y) − Q(a, y)] = ½ Σ_j w_j y^a e^{−y}/Γ(a + 1),
+ * a = k/2 + j: the noncentral density with k + 2 degrees of freedom at x,
+ * whose terms are the densities the recurrence already holds (the lower
+ * tail's slope is its negative). The slope is NaN where the Edgeworth series
+ * or the central tail stands in (the root finding then steps without it).
+ */
+interface TailWithSlope {
+  tail: number;
+  /** d tail / dλ: positive for the upper tail, negative for the lower; NaN when not computed. */
+  slope: number;
+}
+
+function upperTailWithSlope(x: number, df: number, lambda: number): TailWithSlope {
+  if (lambda === 0) return { tail: upperTailChiSquare(x, df), slope: Number.NaN };
+  if (x <= 0) return { tail: 1, slope: 0 };
+  if (x > EDGEWORTH_THRESHOLD || lambda > EDGEWORTH_THRESHOLD) return { tail: edgeworthUpperTail(x, df, lambda), slope: Number.NaN };
   const half = lambda / 2;
   const y = x / 2;
   const { first, last } = weightRange(half);
@@ -58,14 +78,16 @@ export function upperTailNoncentralChiSquare(x: number, df: number, lambda: numb
   let density = poissonDensityRaw(a, y); // y^a e^{−y} / Γ(a + 1)
   let weight = poissonWeight(first, half);
   let sum = 0;
+  let slope = 0;
   for (let j = first; j <= last; j++) {
     sum += weight * q;
+    slope += weight * density;
     q += density;
     a += 1;
     density *= y / a;
     weight *= half / (j + 1);
   }
-  return Math.min(1, sum);
+  return { tail: Math.min(1, sum), slope: slope / 2 };
 }
 
 /**
@@ -78,9 +100,14 @@ export function upperTailNoncentralChiSquare(x: number, df: number, lambda: numb
  * lowerTailNoncentralChiSquare(25.01, 1, 10) // 0.9670
  */
 export function lowerTailNoncentralChiSquare(x: number, df: number, lambda: number): number {
-  if (lambda === 0) return lowerTailChiSquare(x, df);
-  if (x <= 0) return 0;
-  if (x > EDGEWORTH_THRESHOLD || lambda > EDGEWORTH_THRESHOLD) return edgeworthLowerTail(x, df, lambda);
+  return lowerTailWithSlope(x, df, lambda).tail;
+}
+
+/** The lower tail and its slope in λ (−½ Σ_j w_j y^a e^{−y}/Γ(a + 1), see upperTailWithSlope). */
+function lowerTailWithSlope(x: number, df: number, lambda: number): TailWithSlope {
+  if (lambda === 0) return { tail: lowerTailChiSquare(x, df), slope: Number.NaN };
+  if (x <= 0) return { tail: 0, slope: 0 };
+  if (x > EDGEWORTH_THRESHOLD || lambda > EDGEWORTH_THRESHOLD) return { tail: edgeworthLowerTail(x, df, lambda), slope: Number.NaN };
   const half = lambda / 2;
   const y = x / 2;
   const { first, last } = weightRange(half);
@@ -89,8 +116,10 @@ export function lowerTailNoncentralChiSquare(x: number, df: number, lambda: numb
   let density = poissonDensityRaw(a, y); // y^a e^{−y} / Γ(a + 1)
   let weight = poissonWeight(last, half);
   let sum = 0;
+  let slope = 0;
   for (let j = last; j >= first; j--) {
     sum += weight * p;
+    slope += weight * density;
     // P(a − 1, y) = P(a, y) + y^{a−1} e^{−y} / Γ(a), and that density is the last one times a / y
     if (a - 1 <= 0) break;
     density *= a / y;
@@ -101,7 +130,7 @@ export function lowerTailNoncentralChiSquare(x: number, df: number, lambda: numb
     // underflowed to 0 far out in the tail cannot stay 0 (P only adds terms, so it does not drift).
     if ((last - j) % 64 === 63) density = poissonDensityRaw(a, y);
   }
-  return Math.min(1, sum);
+  return { tail: Math.min(1, sum), slope: -slope / 2 };
 }
 
 /**
@@ -156,68 +185,129 @@ export function edgeworthUpperTail(x: number, df: number, lambda: number): numbe
 const MAX_BRACKET_DOUBLINGS = 1100;
 const MAX_ROOT_ITERATIONS = 200;
 
+/** Relative accuracy of the noncentrality limits. */
+const ROOT_TOLERANCE = 1e-13;
+
+/**
+ * The root of an increasing function of λ ≥ 0 (0 when the function is not
+ * negative at 0), from `start`: Newton's steps on the slope each tail gives
+ * with its value, kept inside the bracket found so far; a step that would
+ * leave it, or a missing slope, gives way to a regula falsi step of the
+ * Illinois variant (Dowell & Jarratt 1971) once the bracket is closed, and
+ * to doubling λ before. It stops when a step is below ROOT_TOLERANCE (relative;
+ * absolute below 1), or when the error left after the step, the Newton
+ * bound |f''| / (2|f'|) · step² with f'' from the last two slopes, is ten
+ * times below it, or when the bracket is that narrow. `converged` is false
+ * when the bounds (1100 doublings, 200 steps) were reached.
+ */
+function increasingRoot(f: (lambda: number) => TailWithSlope, atZero: number, start: number): { root: number; converged: boolean } {
+  if (!(atZero < 0)) return { root: 0, converged: true };
+  let lo = 0;
+  let flo = atZero;
+  let hi = Infinity;
+  let fhi = Number.NaN;
+  let side = 0;
+  let doublings = 0;
+  let lambda = start > 0 && Number.isFinite(start) ? start : 1;
+  let previous: { lambda: number; slope: number } | null = null;
+  for (let i = 0; i < MAX_ROOT_ITERATIONS + MAX_BRACKET_DOUBLINGS; i++) {
+    const { tail: value, slope } = f(lambda);
+    if (value === 0) return { root: lambda, converged: true };
+    if (value < 0) {
+      lo = lambda;
+      flo = value;
+      if (side === -1) fhi /= 2;
+      side = -1;
+    } else if (value > 0) {
+      hi = lambda;
+      fhi = value;
+      if (side === 1) flo /= 2;
+      side = 1;
+    } else {
+      return { root: lambda, converged: false }; // not a number: no root to find
+    }
+    let next = Number.NaN;
+    if (slope > 0 && Number.isFinite(slope)) {
+      const step = value / slope;
+      const newton = lambda - step;
+      const scale = ROOT_TOLERANCE * Math.max(1, Math.abs(newton));
+      if (Math.abs(step) <= scale) return { root: newton, converged: true };
+      if (newton > lo && newton < hi) {
+        if (previous !== null) {
+          const curvature = Math.abs(slope - previous.slope) / Math.abs(lambda - previous.lambda);
+          if ((curvature / (2 * slope)) * step * step <= scale / 10) return { root: newton, converged: true };
+        }
+        next = newton;
+      }
+      previous = { lambda, slope };
+    }
+    if (Number.isNaN(next)) {
+      if (hi === Infinity) {
+        if (++doublings > MAX_BRACKET_DOUBLINGS) return { root: lambda, converged: false };
+        next = Math.max(1, lambda) * 2;
+      } else {
+        next = (lo * fhi - hi * flo) / (fhi - flo);
+        if (!(next > lo && next < hi)) next = (lo + hi) / 2;
+      }
+    }
+    if (hi !== Infinity && hi - lo <= ROOT_TOLERANCE * Math.max(1, hi)) return { root: next, converged: true };
+    lambda = next;
+  }
+  return { root: hi === Infinity ? lambda : (lo + hi) / 2, converged: false };
+}
+
+/**
+ * Where the normal approximation of X ~ χ²(k, λ), N(k + λ, 2(k + 2λ)), puts
+ * x at z standard deviations above the mean (z > 0: the lower limit, z < 0:
+ * the upper), solved for λ: with s = √(2k + 4λ), s² + 4zs − 4(x − k/2) = 0.
+ * The start of the root finding.
+ */
+function normalStart(x: number, df: number, z: number): number {
+  const s = 2 * (-z + Math.sqrt(Math.max(0, z * z + x - df / 2)));
+  return (s * s - 2 * df) / 4;
+}
+
 /**
  * Confidence limits for the noncentrality λ of the observed X², by inverting
  * the noncentral chi-square distribution (the pivot method of Smithson 2003,
  * Confidence Intervals, ch. 4): λ_L solves P(X ≥ x; λ_L) = α/2 and λ_U solves
- * P(X ≤ x; λ_U) = α/2; a limit is 0 when even λ = 0 cannot reach it. The
- * root finding is bounded (1100 doublings of the bracket, 200 steps);
- * `converged` is false when a bound was reached.
+ * P(X ≤ x; λ_U) = α/2; a limit is 0 when even λ = 0 cannot reach it. Each
+ * root is found by Newton's method from the normal approximation's limit,
+ * on the slope each tail gives with its value, inside a bracket
+ * (increasingRoot), to 1e-13 relative; `converged` is false when a bound was
+ * reached.
  *
  * @example
  * // X² = 25.01 on 1 df, the aspirin and myocardial infarction, Physicians' Health Study (Steering Committee 1989, N. Engl. J. Med. 321, 129–135)
  * noncentralityInterval(25.01, 1, 0.95) // { lower: 9.25, upper: 48.46, converged: true }
  */
 export function noncentralityInterval(x: number, df: number, confidence: number): { lower: number; upper: number; converged: boolean } {
+  const lower = lowerNoncentralityLimit(x, df, confidence);
   const alphaHalf = (1 - confidence) / 2;
-  let converged = true;
-  const solve = (f: (lambda: number) => number): number => {
-    // f increases with λ; find f(λ) = 0 by the Illinois variant of regula falsi
-    // (Dowell & Jarratt 1971), which keeps a bracket and converges superlinearly.
-    let lo = 0;
-    let flo = f(lo);
-    if (!(flo < 0)) return 0;
-    let hi = Math.max(1, x);
-    let fhi = f(hi);
-    // The root lies below x + 40√x + 100 for any α/2 above 1e-300; the
-    // doubling is bounded all the same.
-    for (let doublings = 0; fhi < 0 && doublings < MAX_BRACKET_DOUBLINGS; doublings++) {
-      lo = hi;
-      flo = fhi;
-      hi *= 2;
-      fhi = f(hi);
-    }
-    if (!(fhi >= 0)) {
-      converged = false;
-      return hi;
-    }
-    let side = 0;
-    let previous = Number.NaN;
-    for (let i = 0; i < MAX_ROOT_ITERATIONS; i++) {
-      let mid = (lo * fhi - hi * flo) / (fhi - flo);
-      if (!(mid > lo && mid < hi)) mid = (lo + hi) / 2;
-      const fmid = f(mid);
-      if (fmid === 0) return mid;
-      if (fmid < 0) {
-        lo = mid;
-        flo = fmid;
-        if (side === -1) fhi /= 2;
-        side = -1;
-      } else {
-        hi = mid;
-        fhi = fmid;
-        if (side === 1) flo /= 2;
-        side = 1;
-      }
-      if (Math.abs(mid - previous) <= 1e-13 * Math.max(1, mid) || hi - lo <= 1e-13 * Math.max(1, hi)) return mid;
-      previous = mid;
-    }
-    converged = false;
-    return (lo + hi) / 2;
-  };
-  const lower = solve((lambda) => upperTailNoncentralChiSquare(x, df, lambda) - alphaHalf);
-  const upper = solve((lambda) => alphaHalf - lowerTailNoncentralChiSquare(x, df, lambda));
-  return { lower, upper, converged };
+  const z = alphaHalf < 0.5 ? -normalQuantile(alphaHalf) : 0;
+  const upper = increasingRoot(
+    (lambda) => {
+      const { tail, slope } = lowerTailWithSlope(x, df, lambda);
+      return { tail: alphaHalf - tail, slope: -slope };
+    },
+    alphaHalf - lowerTailChiSquare(x, df),
+    normalStart(x, df, -z),
+  );
+  return { lower: lower.root, upper: upper.root, converged: lower.converged && upper.converged };
+}
+
+/** λ_L of noncentralityInterval alone: P(X ≥ x; λ_L) = α/2. */
+function lowerNoncentralityLimit(x: number, df: number, confidence: number): { root: number; converged: boolean } {
+  const alphaHalf = (1 - confidence) / 2;
+  const z = alphaHalf < 0.5 ? -normalQuantile(alphaHalf) : 0;
+  return increasingRoot(
+    (lambda) => {
+      const { tail, slope } = upperTailWithSlope(x, df, lambda);
+      return { tail: tail - alphaHalf, slope };
+    },
+    upperTailChiSquare(x, df) - alphaHalf,
+    normalStart(x, df, z),
+  );
 }
 
 /**
@@ -263,7 +353,8 @@ export function cramersVMedianEstimate(chiSquare: number, df: number, n: number,
   const m = Math.min(r, c);
   if (!(n > 0) || m < 2 || df < 1) return null;
   if (!Number.isFinite(chiSquare) || !Number.isFinite(n)) return null;
-  const { lower, converged } = noncentralityInterval(chiSquare, df, 0);
+  // Only λ̂, the lower limit at confidence 0, is needed.
+  const { root, converged } = lowerNoncentralityLimit(chiSquare, df, 0);
   if (!converged) return null;
-  return Math.min(1, Math.sqrt(lower / (n * (m - 1))));
+  return Math.min(1, Math.sqrt(root / (n * (m - 1))));
 }

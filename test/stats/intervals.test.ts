@@ -1,8 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { normalQuantile, upperTailNormal } from '../../src/stats/normalDistribution.js';
-import { cramersVInterval, EDGEWORTH_THRESHOLD, lowerTailNoncentralChiSquare, noncentralityInterval, upperTailNoncentralChiSquare } from '../../src/stats/noncentralChiSquare.js';
+import { cramersVInterval, cramersVMedianEstimate, EDGEWORTH_THRESHOLD, lowerTailNoncentralChiSquare, noncentralityInterval, upperTailNoncentralChiSquare } from '../../src/stats/noncentralChiSquare.js';
 import { oddsRatio, relativeRisk } from '../../src/stats/riskMeasures.js';
-import { edges, expectClose, reference } from '../helpers.js';
+import { edges, expectClose, readReferenceFixture, reference } from '../helpers.js';
+
+/** Limits recorded by scripts/record_noncentrality.py (scipy.optimize.brentq on scipy.stats.ncx2). */
+const noncentrality = readReferenceFixture<{ limits: { x: number; df: number; confidence: number; lower: number; upper: number; median: number }[] }>('noncentrality.json');
 
 describe('normal distribution', () => {
   for (const { p, z } of reference.normalQuantiles) {
@@ -55,6 +58,18 @@ describe('noncentral chi-square and the interval for Cramér’s V', () => {
       expect(converged).toBe(true);
       expectClose(lower, item.lower, 1e-10);
       expectClose(upper, item.upper, 1e-10);
+    });
+  }
+
+  for (const item of noncentrality.limits) {
+    it(`95% limits and median-unbiased λ at X² = ${item.x} on ${item.df} df (Poisson mixture) match Brent's method on scipy.stats.ncx2 to 1e-12 (scripts/record_noncentrality.py)`, () => {
+      const { lower, upper, converged } = noncentralityInterval(item.x, item.df, item.confidence);
+      expect(converged).toBe(true);
+      expectClose(lower, item.lower, 1e-12);
+      expectClose(upper, item.upper, 1e-12);
+      // V² · n (m − 1) with m = 2 is λ̂ itself; n large enough that V stays below its cap of 1.
+      const n = 100 * item.x;
+      expectClose(cramersVMedianEstimate(item.x, item.df, n, 2, 2)! ** 2 * n, item.median, 1e-12);
     });
   }
 
