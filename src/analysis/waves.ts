@@ -12,7 +12,7 @@ import { layerEffectTrend, LayerEffectTrend } from '../stats/layerEffectTrend.js
 import { DriftTest, marginDrift } from '../stats/marginDrift.js';
 import { holm } from '../stats/multipleTesting.js';
 import { breslowDayResiduals, breslowDayTarone, breslowDayTrend, CommonOddsRatio, mantelHaenszelOddsRatio } from '../stats/stratified.js';
-import { layerDepartures, noThreeWayInteraction } from '../stats/threeWay.js';
+import { layerDepartures, noThreeWayInteraction, NoThreeWayInteractionFit } from '../stats/threeWay.js';
 import { LogOddsRatioTrend, woolfTrend } from '../stats/woolfTrend.js';
 import { dataError } from '../errors.js';
 import { dropEmptyLevels, relabelTable } from '../table/twoWayTable.js';
@@ -233,8 +233,7 @@ function partial(levels: readonly string[], present: readonly (readonly string[]
   return out;
 }
 
-function sameAssociation(stack: number[][][], twoByTwo: boolean, confidence: number): SameAssociation | null {
-  const fit = noThreeWayInteraction(stack);
+function sameAssociation(stack: number[][][], fit: NoThreeWayInteractionFit | null, twoByTwo: boolean, confidence: number): SameAssociation | null {
   const interaction = fit
     ? { statistic: fit.statistic, df: fit.df, pValue: fit.pValue, pearson: fit.pearson, iterations: fit.iterations, converged: fit.converged, nominalDf: fit.nominalDf, dfAdjusted: fit.dfAdjusted, zeroFittedCells: fit.zeroFittedCells }
     : null;
@@ -307,14 +306,14 @@ function trendOf(stack: number[][][], scores: WaveScores, twoByTwo: boolean, con
   };
 }
 
-function departuresOf(stack: number[][][], keys: readonly string[], twoByTwo: boolean, alpha: number, commonOddsRatio: number | null): WaveDeparture[] | null {
+function departuresOf(stack: number[][][], fit: NoThreeWayInteractionFit | null, keys: readonly string[], twoByTwo: boolean, alpha: number, commonOddsRatio: number | null): WaveDeparture[] | null {
   if (stack.length < 3) return null;
   const raw: ({ z: number | null; statistic: number; df: number; pValue: number } | null)[] = [];
   if (twoByTwo) {
     if (commonOddsRatio === null) return null;
     for (const z of breslowDayResiduals(stack, commonOddsRatio)) raw.push(z === null ? null : { z, statistic: z * z, df: 1, pValue: upperTailChiSquare(z * z, 1) });
   } else {
-    const tests = layerDepartures(stack);
+    const tests = layerDepartures(stack, {}, fit);
     if (tests === null) return null;
     for (const t of tests) raw.push(t === null ? null : { z: null, statistic: t.statistic, df: t.df, pValue: t.pValue });
   }
@@ -481,10 +480,12 @@ export function analyzeWaves(inputs: readonly WaveInput[], setup: WaveSetup, opt
     marginDriftRecord = { rows: designDriftOf(across.drift.rows, shownRowMargins, alpha), cols: designDriftOf(across.drift.cols, shownColMargins, alpha) };
   } else {
     const keptStack = kept.map((w) => stack[w]);
-    same = compared ? sameAssociation(keptStack, twoByTwo, options.confidence) : null;
+    // The fit of no three-way interaction serves the same-association test and, r×c, each wave's departure from it.
+    const interactionFit = compared ? noThreeWayInteraction(keptStack) : null;
+    same = compared ? sameAssociation(keptStack, interactionFit, twoByTwo, options.confidence) : null;
     const common = same?.equalOdds?.commonOddsRatio.estimate ?? (twoByTwo && compared ? (mantelHaenszelOddsRatio(keptStack, options.confidence)?.estimate ?? null) : null);
     trend = compared ? trendOf(keptStack, { ...setup.scores, values: kept.map((w) => setup.scores.values[w]) }, twoByTwo, options.confidence, common === null ? null : Math.log(common)) : null;
-    departures = compared ? (departuresOf(keptStack, kept.map((w) => keys[w]), twoByTwo, alpha, common)?.map((d) => ({ ...d, wave: kept[d.wave] })) ?? null) : null;
+    departures = compared ? (departuresOf(keptStack, interactionFit, kept.map((w) => keys[w]), twoByTwo, alpha, common)?.map((d) => ({ ...d, wave: kept[d.wave] })) ?? null) : null;
     const drift = marginDrift(stack);
     marginDriftRecord = { rows: driftOf(drift.rows, shownRowMargins, alpha), cols: driftOf(drift.columns, shownColMargins, alpha) };
   }

@@ -21,6 +21,13 @@ export interface NoThreeWayOptions {
    * An observed count in such a cell is a caller's error and throws.
    */
   structuralZeros?: readonly (readonly (readonly boolean[])[])[];
+  /**
+   * Fitted counts to start from instead of ones, start[k][i][j]: a table
+   * without three-way interaction itself (the layers of another fit of this
+   * model, say), from which the sweeps reach the same fit in fewer steps;
+   * its zeros must be cells that are zero in the fit (see layerDepartures).
+   */
+  start?: LayerStack;
 }
 
 export interface NoThreeWayInteractionFit extends TestResult {
@@ -46,7 +53,7 @@ export interface NoThreeWayInteractionFit extends TestResult {
  * Discrete Multivariate Analysis, §3.5): the association of rows and columns
  * (every odds ratio) is the same in all K layers, log m_ijk = λ_ij + λ_ik + λ_jk.
  * Fitted by iterative proportional fitting (Deming & Stephan 1940): starting
- * from ones, the fitted table is scaled in turn to the observed n_ij+, n_i+k
+ * from ones (or from `start`), the fitted table is scaled in turn to the observed n_ij+, n_i+k
  * and n_+jk margins until no fitted cell moves by more than `tolerance`
  * (relative; absolute below 1), or `maxIterations` sweeps have been made
  * (then `converged` is false).
@@ -102,38 +109,24 @@ export function noThreeWayInteraction(
   const observedJK = new Float64Array(c * K);
   marginsInto(n, K, r, c, observedIJ, observedIK, observedJK);
 
-  // Start from ones (zeros at structural zeros); zero margins zero their cells at the first sweep.
+  // Start from ones (zeros at structural zeros), or from the table given; zero margins zero their cells at the first sweep.
   const m = new Float64Array(cells);
-  for (let x = 0; x < cells; x++) m[x] = structural[x] ? 0 : 1;
+  const start = options.start;
+  for (let k = 0; k < K; k++)
+    for (let i = 0; i < r; i++)
+      for (let j = 0; j < c; j++) {
+        const x = at(k, i, j);
+        m[x] = structural[x] ? 0 : start ? start[k][i][j] : 1;
+      }
   const previous = new Float64Array(cells);
   const fitIJ = new Float64Array(r * c);
   const fitIK = new Float64Array(r * K);
   const fitJK = new Float64Array(c * K);
   let iterations = 0;
   let converged = false;
-  // The sweep in flat index arithmetic (cell x = (k·r + i)·c + j), in the same order of additions as the margins' definitions.
   while (iterations < maxIterations) {
     iterations++;
-    previous.set(m);
-    // scale to n_ij+
-    fitIJ.fill(0);
-    for (let k = 0, x = 0; k < K; k++) for (let ij = 0; ij < r * c; ij++, x++) fitIJ[ij] += m[x];
-    for (let k = 0, x = 0; k < K; k++) for (let ij = 0; ij < r * c; ij++, x++) m[x] = scaled(m[x], observedIJ[ij], fitIJ[ij]);
-    // scale to n_i+k
-    fitIK.fill(0);
-    for (let k = 0, x = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++, x++) fitIK[i * K + k] += m[x];
-    for (let k = 0, x = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++, x++) m[x] = scaled(m[x], observedIK[i * K + k], fitIK[i * K + k]);
-    // scale to n_+jk
-    fitJK.fill(0);
-    for (let k = 0, x = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++, x++) fitJK[j * K + k] += m[x];
-    for (let k = 0, x = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++, x++) m[x] = scaled(m[x], observedJK[j * K + k], fitJK[j * K + k]);
-    let change = 0;
-    for (let x = 0; x < cells; x++) {
-      const size = Math.abs(m[x]);
-      const moved = Math.abs(m[x] - previous[x]) / (size > 1 ? size : 1);
-      // (a cell that is not a number never settles)
-      if (moved > change || Number.isNaN(moved)) change = Number.isNaN(moved) ? Infinity : moved;
-    }
+    const change = sweep(m, previous, K, r, c, observedIJ, observedIK, observedJK, fitIJ, fitIK, fitJK);
     if (change < tolerance) {
       converged = true;
       break;
@@ -188,6 +181,37 @@ export function noThreeWayInteraction(
     zeroFittedCells,
     dfAdjusted: df !== nominalDf,
   };
+}
+
+/**
+ * One sweep of IPF: the fitted table m scaled to n_ij+, then n_i+k, then
+ * n_+jk, in flat index arithmetic (cell x = (k·r + i)·c + j) and in the same
+ * order of additions as the margins' definitions; returns the largest move
+ * of a cell (relative, absolute below 1; Infinity for a cell that is not a
+ * number, which never settles). A function of its own, small enough that
+ * the engine compiles it to machine code after the first few sweeps.
+ */
+function sweep(m: Float64Array, previous: Float64Array, K: number, r: number, c: number, observedIJ: Float64Array, observedIK: Float64Array, observedJK: Float64Array, fitIJ: Float64Array, fitIK: Float64Array, fitJK: Float64Array): number {
+  previous.set(m);
+  // scale to n_ij+
+  fitIJ.fill(0);
+  for (let k = 0, x = 0; k < K; k++) for (let ij = 0; ij < r * c; ij++, x++) fitIJ[ij] += m[x];
+  for (let k = 0, x = 0; k < K; k++) for (let ij = 0; ij < r * c; ij++, x++) m[x] = scaled(m[x], observedIJ[ij], fitIJ[ij]);
+  // scale to n_i+k
+  fitIK.fill(0);
+  for (let k = 0, x = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++, x++) fitIK[i * K + k] += m[x];
+  for (let k = 0, x = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++, x++) m[x] = scaled(m[x], observedIK[i * K + k], fitIK[i * K + k]);
+  // scale to n_+jk
+  fitJK.fill(0);
+  for (let k = 0, x = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++, x++) fitJK[j * K + k] += m[x];
+  for (let k = 0, x = 0; k < K; k++) for (let i = 0; i < r; i++) for (let j = 0; j < c; j++, x++) m[x] = scaled(m[x], observedJK[j * K + k], fitJK[j * K + k]);
+  let change = 0;
+  for (let x = 0; x < m.length; x++) {
+    const size = Math.abs(m[x]);
+    const moved = Math.abs(m[x] - previous[x]) / (size > 1 ? size : 1);
+    if (moved > change || Number.isNaN(moved)) change = Number.isNaN(moved) ? Infinity : moved;
+  }
+  return change;
 }
 
 /** m · observed/fitted, with a zero observed or fitted margin giving zero. */
@@ -280,14 +304,22 @@ export interface LayerDeparture extends TestResult {
  * either fit is undefined (e.g. only two layers with information).
  * The K tests are K looks at the data: adjust them (e.g. Holm) before
  * naming a layer.
+ *
+ * `all` is the fit of all K layers when the caller has it already. Each fit
+ * of K − 1 layers starts from that fit's other layers: a table without
+ * three-way interaction, so IPF carries it to the same maximum-likelihood
+ * fit as from ones (Bishop, Fienberg & Holland 1975, §3.5: the sweeps keep
+ * the interaction structure of the start), in fewer sweeps; a cell it holds
+ * at zero has a zero margin (or is a structural zero) in every subset of
+ * layers too.
  */
-export function layerDepartures(layers: LayerStack, options: NoThreeWayOptions = {}): (LayerDeparture | null)[] | null {
-  const all = noThreeWayInteraction(layers, options);
+export function layerDepartures(layers: LayerStack, options: NoThreeWayOptions = {}, all: NoThreeWayInteractionFit | null = noThreeWayInteraction(layers, options)): (LayerDeparture | null)[] | null {
   if (all === null) return null;
   return layers.map((_layer, k) => {
     const others = layers.filter((_t, x) => x !== k);
     const structuralZeros = options.structuralZeros?.filter((_t, x) => x !== k);
-    const rest = others.length >= 2 ? noThreeWayInteraction(others, { ...options, structuralZeros }) : null;
+    const start = all.fitted.filter((_t, x) => x !== k);
+    const rest = others.length >= 2 ? noThreeWayInteraction(others, { ...options, structuralZeros, start }) : null;
     const restStatistic = rest?.statistic ?? 0;
     const restDf = rest?.df ?? 0;
     const df = all.df - restDf;
