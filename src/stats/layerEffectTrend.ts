@@ -117,9 +117,22 @@ export function layerEffectTrend(layers: LayerStack, scores: readonly number[], 
   const statistic = Math.max(0, homogeneous.deviance - best.deviance);
   const critical = normalQuantile(0.5 + confidence / 2) ** 2; // χ²₁ quantile = z²
   const excess = (b: number) => evaluate(b).deviance - best.deviance - critical;
+  // Near β̂ the profile deviance is about quadratic, G²(β) − G²(β̂) ≈ −S'(β̂)(β − β̂)² with S the
+  // profile score (−½ dG²/dβ), so each end lies about √(critical / −S'(β̂)) from β̂; S' from one
+  // more fit a small step away. That distance, when it is within the search range, brackets each end
+  // (checked by the fits at 0.8 and 1.25 times it); otherwise, or when it does not bracket, the
+  // search widens from there as from 0.05/span.
+  const probe = 5e-4 / span;
+  const curvature = (evaluate(slope + probe).score - best.score) / probe;
+  const halfWidth = curvature < 0 && Number.isFinite(curvature) ? Math.sqrt(critical / -curvature) : null;
   const end = (sign: 1 | -1): number | null => {
     let step = 0.05 / span;
     let near = slope;
+    if (halfWidth !== null && Math.abs(slope + sign * 1.25 * halfWidth) <= bound) {
+      step = 1.25 * halfWidth;
+      const inside = slope + sign * 0.8 * halfWidth;
+      if (excess(inside) < 0) near = inside;
+    }
     let far = slope + sign * step;
     while (excess(far) < 0) {
       near = far;
