@@ -3,5 +3,8 @@
  * cannot hold) written as null. The field-by-field contract is docs/json.md.
  */
 export function toJson(value: unknown): string {
-  return JSON.stringify(value, (_key, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2) + '\n';
+  // JSON.stringify itself writes a number that is not finite as null
+  // (ECMA-262, SerializeJSONProperty); without a replacer function it also
+  // keeps V8's fast serializer (half the time on the 950 kB of 52 waves).
+  return JSON.stringify(value, null, 2) + '\n';
 }
